@@ -1,0 +1,304 @@
+"""Series and parallel RLC resonance with lossy parts, source and load.
+
+The circuits (all resistances frequency-independent, evaluated at f0):
+
+* series: a source of resistance Rs, the coil L with its series loss rL, the capacitor C
+  with its ESR rC and the load RL, all in one loop. The response is the loop current.
+* parallel: two branches across one node, (L + rL) and (C + rC), the load RL across the
+  node, driven through Rs (a Norton current source when Rs is absent). The response is
+  the node voltage.
+
+Every function here takes numpy arrays as well as floats: the variation analysis re-runs
+the same code on perturbed inputs, one element per trial.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Literal
+
+import numpy as np
+
+Topology = Literal["series", "parallel"]
+
+# Search bracket for the response maximum and the half-power points, in ln(f/f0).
+_BRACKET_LN = math.log(50.0)
+_BISECTIONS = 64
+
+
+class NoResonanceError(ValueError):
+    """The response has no maximum or no half-power point in a decade and more around f0."""
+
+
+@dataclass(frozen=True)
+class Circuit:
+    """A tuned circuit in SI units. None: the source is ideal / there is no load."""
+
+    topology: Topology
+    inductance_h: float
+    inductor_resistance_ohm: float
+    capacitance_f: float
+    capacitor_esr_ohm: float
+    source_resistance_ohm: float | None = None
+    load_resistance_ohm: float | None = None
+
+
+@dataclass(frozen=True)
+class Resonance:
+    """What the response of a Circuit does around resonance (None where not applicable)."""
+
+    f0_hz: float
+    f_peak_hz: float
+    f_unity_pf_hz: float | None
+    reactance_ohm: float
+    q_inductor: float | None
+    q_capacitor: float | None
+    q_unloaded: float | None
+    q_loaded: float | None
+    bandwidth_hz: float | None
+    f_low_hz: float | None
+    f_high_hz: float | None
+    impedance_at_peak_ohm: float
+    dynamic_resistance_ohm: float | None
+
+
+@dataclass(frozen=True)
+class Sweep:
+    """The response over a frequency grid. Impedance is what the source terminals see."""
+
+    f_hz: np.ndarray
+    impedance_ohm: np.ndarray
+    phase_deg: np.ndarray
+    response_db: np.ndarray
+
+
+def resonant_frequency_hz(inductance_h, capacitance_f):
+    """f0 = 1 / (2π √(LC)), Thomson's formula."""
+    return 1.0 / (2.0 * np.pi * np.sqrt(inductance_h * capacitance_f))
+
+
+def reactance_ohm(inductance_h, f_hz):
+    """Inductive reactance X_L = 2π f L."""
+    return 2.0 * np.pi * f_hz * inductance_h
+
+
+def capacitance_for_f0(f0_hz, inductance_h):
+    """C = 1 / ((2π f0)² L), Thomson's formula solved for C."""
+    return 1.0 / ((2.0 * np.pi * f0_hz) ** 2 * inductance_h)
+
+
+def inductance_for_f0(f0_hz, capacitance_f):
+    """L = 1 / ((2π f0)² C), Thomson's formula solved for L."""
+    return 1.0 / ((2.0 * np.pi * f0_hz) ** 2 * capacitance_f)
+
+
+def series_half_power_hz(f0_hz, q):
+    """Half-power points of a series RLC, f1,2 = f0 (√(1 + 1/(4Q²)) ∓ 1/(2Q)).
+
+    The closed form of the exact response (e.g. Alexander & Sadiku, Fundamentals of
+    Electric Circuits, section 14.5); their difference is exactly f0/Q.
+    """
+    root = np.sqrt(1.0 + 1.0 / (4.0 * q * q))
+    return f0_hz * (root - 1.0 / (2.0 * q)), f0_hz * (root + 1.0 / (2.0 * q))
+
+
+def unity_power_factor_hz(inductance_h, capacitance_f, inductor_resistance_ohm,
+                          capacitor_esr_ohm):
+    """Frequency where a lossy two-branch tank is purely resistive (NaN where none).
+
+    Setting Im[1/(rL + jωL) + 1/(rC + 1/(jωC))] = 0 gives
+    ω = ω0 √((L/C − rL²)/(L/C − rC²)); with rC = 0 this is the textbook
+    f0 √(1 − rL² C/L) (e.g. Hughes, Electrical and Electronic Technology, ch. 15).
+    """
+    characteristic = inductance_h / capacitance_f
+    ratio = ((characteristic - inductor_resistance_ohm**2)
+             / (characteristic - capacitor_esr_ohm**2))
+    with np.errstate(invalid="ignore"):
+        return np.where(ratio > 0, resonant_frequency_hz(inductance_h, capacitance_f)
+                        * np.sqrt(np.abs(ratio)), np.nan)
+
+
+def terminal_impedance(circuit: Circuit, f_hz):
+    """Complex impedance the source terminals see (the source's own Rs excluded)."""
+    omega = 2.0 * np.pi * np.asarray(f_hz, dtype=float)
+    z_coil = circuit.inductor_resistance_ohm + 1j * omega * circuit.inductance_h
+    z_cap = circuit.capacitor_esr_ohm + 1.0 / (1j * omega * circuit.capacitance_f)
+    if circuit.topology == "series":
+        return z_coil + z_cap + _or_zero(circuit.load_resistance_ohm)
+    admittance = 1.0 / z_coil + 1.0 / z_cap + _conductance(circuit.load_resistance_ohm)
+    return 1.0 / admittance
+
+
+def _or_zero(resistance_ohm):
+    return 0.0 if resistance_ohm is None else resistance_ohm
+
+
+def _conductance(resistance_ohm):
+    return 0.0 if resistance_ohm is None else 1.0 / resistance_ohm
+
+
+def _response_denominator(circuit: Circuit, omega):
+    """D(ω) with response ∝ 1/D and dD/dω.
+
+    Series: D = Rs + RL + rL + rC + j(ωL − 1/(ωC)), the loop impedance.
+    Parallel: D = 1/(rL + jωL) + jωC/(1 + jωC·rC) + 1/RL + 1/Rs, the node admittance.
+    """
+    L, C = circuit.inductance_h, circuit.capacitance_f
+    r_l, r_c = circuit.inductor_resistance_ohm, circuit.capacitor_esr_ohm
+    if circuit.topology == "series":
+        resistance = (_or_zero(circuit.source_resistance_ohm)
+                      + _or_zero(circuit.load_resistance_ohm) + r_l + r_c)
+        d = resistance + 1j * (omega * L - 1.0 / (omega * C))
+        d_prime = 1j * (L + 1.0 / (omega * omega * C))
+        return d, d_prime
+    coil = r_l + 1j * omega * L
+    cap = 1.0 + 1j * omega * C * r_c
+    d = (1.0 / coil + 1j * omega * C / cap + _conductance(circuit.load_resistance_ohm)
+         + _conductance(circuit.source_resistance_ohm))
+    d_prime = -1j * L / coil**2 + 1j * C / cap**2
+    return d, d_prime
+
+
+def _bisect(function, low, high):
+    """Vectorised bisection for the sign change of `function` between arrays low and high."""
+    f_low = function(low)
+    for _ in range(_BISECTIONS):
+        middle = 0.5 * (low + high)
+        f_middle = function(middle)
+        same = np.sign(f_middle) == np.sign(f_low)
+        low = np.where(same, middle, low)
+        f_low = np.where(same, f_middle, f_low)
+        high = np.where(same, high, middle)
+    return 0.5 * (low + high)
+
+
+@dataclass(frozen=True)
+class ResponseFeatures:
+    """Peak and half-power frequencies of the response, arrays, NaN where absent."""
+
+    f0_hz: np.ndarray
+    f_peak_hz: np.ndarray
+    f_low_hz: np.ndarray
+    f_high_hz: np.ndarray
+
+
+def response_features(circuit: Circuit) -> ResponseFeatures:
+    """Maximum of |response| and its half-power points, from the exact complex response.
+
+    The maximum of 1/|D| is where d|D|²/dω = 2 Re(D* · dD/dω) changes sign; the half-power
+    points are where |D|² = 2 |D(ω_peak)|². Both are bracketed within ln(f/f0) = ±ln 50 and
+    found by bisection, element by element when the circuit's values are arrays.
+    """
+    f0 = np.asarray(resonant_frequency_hz(circuit.inductance_h, circuit.capacitance_f),
+                    dtype=float)
+    omega0 = 2.0 * np.pi * f0
+
+    def slope(u):
+        d, d_prime = _response_denominator(circuit, omega0 * np.exp(u))
+        return np.real(np.conj(d) * d_prime)
+
+    def magnitude2(u):
+        d, _ = _response_denominator(circuit, omega0 * np.exp(u))
+        return np.abs(d) ** 2
+
+    edge = np.full_like(f0, _BRACKET_LN)
+    has_peak = (slope(-edge) < 0) & (slope(edge) > 0)
+    u_peak = _bisect(slope, -edge, edge)
+    target = 2.0 * magnitude2(u_peak)
+
+    def excess(u):
+        return magnitude2(u) - target
+
+    has_low = excess(-edge) > 0
+    has_high = excess(edge) > 0
+    u_low = _bisect(excess, -edge, u_peak)
+    u_high = _bisect(excess, u_peak, edge)
+    nan = np.nan
+    return ResponseFeatures(
+        f0_hz=f0,
+        f_peak_hz=np.where(has_peak, f0 * np.exp(u_peak), nan),
+        f_low_hz=np.where(has_peak & has_low, f0 * np.exp(u_low), nan),
+        f_high_hz=np.where(has_peak & has_high, f0 * np.exp(u_high), nan),
+    )
+
+
+def unloaded_q(circuit: Circuit):
+    """Q of the tank's own losses, X0/(rL + rC) (reactance over resistance)."""
+    x0 = reactance_ohm(circuit.inductance_h,
+                       resonant_frequency_hz(circuit.inductance_h, circuit.capacitance_f))
+    return _ratio(x0, circuit.inductor_resistance_ohm + circuit.capacitor_esr_ohm)
+
+
+def _ratio(numerator, denominator):
+    with np.errstate(divide="ignore"):
+        return np.where(denominator > 0, numerator / np.where(denominator > 0, denominator, 1.0),
+                        np.inf)
+
+
+def analyse(circuit: Circuit) -> Resonance:
+    """Resonance of one circuit: frequencies, Q, bandwidth and impedance at the peak.
+
+    q_loaded is f0/bandwidth of the actual response (for a series circuit this equals
+    X0 divided by every resistance in the loop). Raises NoResonanceError when the
+    response has no maximum near f0.
+    """
+    features = response_features(circuit)
+    f0 = float(features.f0_hz)
+    f_peak = float(features.f_peak_hz)
+    if math.isnan(f_peak):
+        raise NoResonanceError(
+            "the response has no maximum within a factor of 50 of f0: the losses swamp "
+            "the resonance (raise Q or the load resistance)")
+    f_low, f_high = _float_or_none(features.f_low_hz), _float_or_none(features.f_high_hz)
+    bandwidth = None if f_low is None or f_high is None else f_high - f_low
+    x0 = float(reactance_ohm(circuit.inductance_h, f0))
+    r_l, r_c = circuit.inductor_resistance_ohm, circuit.capacitor_esr_ohm
+    parallel = circuit.topology == "parallel"
+    return Resonance(
+        f0_hz=f0,
+        f_peak_hz=f_peak,
+        f_unity_pf_hz=_float_or_none(unity_power_factor_hz(
+            circuit.inductance_h, circuit.capacitance_f, r_l, r_c)) if parallel else None,
+        reactance_ohm=x0,
+        q_inductor=_finite_or_none(_ratio(x0, r_l)),
+        q_capacitor=_finite_or_none(_ratio(x0, r_c)),
+        q_unloaded=_finite_or_none(unloaded_q(circuit)),
+        q_loaded=None if bandwidth is None else f0 / bandwidth,
+        bandwidth_hz=bandwidth,
+        f_low_hz=f_low,
+        f_high_hz=f_high,
+        impedance_at_peak_ohm=float(np.abs(terminal_impedance(circuit, f_peak))),
+        dynamic_resistance_ohm=(_finite_or_none(_ratio(x0 * x0, r_l + r_c))
+                                if parallel else None),
+    )
+
+
+def _float_or_none(value) -> float | None:
+    number = float(value)
+    return None if math.isnan(number) else number
+
+
+def _finite_or_none(value) -> float | None:
+    number = float(value)
+    return number if math.isfinite(number) else None
+
+
+def sweep(circuit: Circuit, f_hz: np.ndarray) -> Sweep:
+    """|Z|, phase and the response in dB relative to its maximum over f_hz."""
+    f_hz = np.asarray(f_hz, dtype=float)
+    impedance = terminal_impedance(circuit, f_hz)
+    d, _ = _response_denominator(circuit, 2.0 * np.pi * f_hz)
+    features = response_features(circuit)
+    d_peak, _ = _response_denominator(circuit, 2.0 * np.pi * float(features.f_peak_hz))
+    response_db = 20.0 * np.log10(np.abs(d_peak) / np.abs(d))
+    return Sweep(f_hz=f_hz, impedance_ohm=np.abs(impedance),
+                 phase_deg=np.degrees(np.angle(impedance)), response_db=response_db)
+
+
+def default_sweep_range_hz(resonance: Resonance) -> tuple[float, float]:
+    """A span that shows the skirts: ±4 bandwidths around f_peak, within f0/3 … 3·f0."""
+    half_span = 4.0 * (resonance.bandwidth_hz or resonance.f0_hz / 2.0)
+    low = max(resonance.f_peak_hz - half_span, resonance.f0_hz / 3.0)
+    high = min(resonance.f_peak_hz + half_span, resonance.f0_hz * 3.0)
+    return low, high

@@ -1,0 +1,113 @@
+"""Voltages, currents and powers on every part at the operating frequency.
+
+Phasor analysis of the circuits defined in resonance.py at one frequency (normally the
+response maximum): series, I = V / (Rs + Z); parallel, V = I_N / Y with the Norton
+current I_N = V/Rs (or the given current) and Y including 1/Rs. All figures are RMS
+unless named peak; peak = √2 · RMS for the sinusoidal drive.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Literal
+
+import numpy as np
+
+from .resonance import Circuit
+
+DriveKind = Literal["voltage", "current", "available_power"]
+SQRT2 = math.sqrt(2.0)
+
+
+@dataclass(frozen=True)
+class Drive:
+    """The source: open-circuit RMS voltage behind Rs, RMS current, or available power."""
+
+    kind: DriveKind
+    value: float  # V rms, A rms or W
+
+
+@dataclass(frozen=True)
+class Stress:
+    """RMS voltages and currents on each part, powers in each resistance, at f_hz."""
+
+    f_hz: float
+    drive_power_w: float
+    source_voltage_rms_v: float | None
+    capacitor_voltage_rms_v: float
+    capacitor_voltage_peak_v: float
+    capacitor_current_rms_a: float
+    inductor_voltage_rms_v: float
+    inductor_voltage_peak_v: float
+    inductor_current_rms_a: float
+    load_voltage_rms_v: float
+    load_power_w: float
+    inductor_loss_w: float
+    capacitor_loss_w: float
+    circulating_current_ratio: float
+
+
+class DriveError(ValueError):
+    """A drive that this circuit cannot take (e.g. available power with no source resistance)."""
+
+
+def open_circuit_voltage_rms(drive: Drive, source_resistance_ohm: float | None) -> float:
+    """EMF behind Rs; for available power P_av = V²/(4 Rs), V = 2√(P_av·Rs)."""
+    if drive.kind == "voltage":
+        return drive.value
+    if drive.kind == "available_power":
+        if not source_resistance_ohm:
+            raise DriveError("available power needs a source resistance (P = V²/4Rs)")
+        return 2.0 * math.sqrt(drive.value * source_resistance_ohm)
+    raise DriveError("a current drive has no open-circuit voltage")
+
+
+def part_stress(circuit: Circuit, drive: Drive, f_hz: float) -> Stress:
+    """Phasor currents and voltages of every part at f_hz for the given drive."""
+    omega = 2.0 * math.pi * f_hz
+    z_coil = complex(circuit.inductor_resistance_ohm, omega * circuit.inductance_h)
+    z_cap = complex(circuit.capacitor_esr_ohm, -1.0 / (omega * circuit.capacitance_f))
+    rs = circuit.source_resistance_ohm
+    rl = circuit.load_resistance_ohm
+    source_v = None if drive.kind == "current" else open_circuit_voltage_rms(drive, rs)
+    if circuit.topology == "series":
+        loop = z_coil + z_cap + (rl or 0.0)
+        current = drive.value if drive.kind == "current" else source_v / abs((rs or 0.0) + loop)
+        i_coil = i_cap = current
+        v_coil, v_cap = current * abs(z_coil), current * abs(z_cap)
+        v_load = current * (rl or 0.0)
+        line_current = current
+    else:
+        y_parts = 1.0 / z_coil + 1.0 / z_cap + (1.0 / rl if rl else 0.0)
+        if drive.kind == "current":
+            norton, y_total = drive.value, y_parts
+        else:
+            if not rs:
+                raise DriveError("a parallel tank driven by a voltage needs a source "
+                                 "resistance; give the drive as a current instead")
+            norton, y_total = source_v / rs, y_parts + 1.0 / rs
+        v_node = norton / abs(y_total)
+        v_coil = v_cap = v_load = v_node
+        i_coil, i_cap = v_node / abs(z_coil), v_node / abs(z_cap)
+        line_current = v_node * abs(y_parts)
+    inductor_loss = i_coil**2 * circuit.inductor_resistance_ohm
+    capacitor_loss = i_cap**2 * circuit.capacitor_esr_ohm
+    load_power = v_load**2 / rl if rl else 0.0
+    return Stress(
+        f_hz=f_hz,
+        drive_power_w=inductor_loss + capacitor_loss + load_power,
+        source_voltage_rms_v=source_v,
+        capacitor_voltage_rms_v=v_cap,
+        capacitor_voltage_peak_v=SQRT2 * v_cap,
+        capacitor_current_rms_a=i_cap,
+        inductor_voltage_rms_v=v_coil,
+        inductor_voltage_peak_v=SQRT2 * v_coil,
+        inductor_current_rms_a=i_coil,
+        load_voltage_rms_v=v_load,
+        load_power_w=load_power,
+        inductor_loss_w=inductor_loss,
+        capacitor_loss_w=capacitor_loss,
+        circulating_current_ratio=(max(i_coil, i_cap) / line_current
+                                   if line_current > 0 else float(np.inf)),
+    )
