@@ -1,0 +1,265 @@
+"""Read a YAML job file into a validated Job, or report every problem with its place.
+
+YAML is read with PyYAML's safe composer only; every node keeps its line and column, so
+each message reads `FILE:LINE:COLUMN field.path: what is wrong; what is expected`.
+"""
+
+from __future__ import annotations
+
+import difflib
+import os
+import types
+import typing
+from dataclasses import dataclass
+from pathlib import Path
+
+import yaml
+from pydantic import BaseModel, ValidationError
+
+from .model import Job
+
+MAX_JOB_BYTES = 1_000_000
+MAX_NODES = 100_000
+_PLAIN_TAGS = {
+    "tag:yaml.org,2002:" + name
+    for name in ("str", "int", "float", "bool", "null", "map", "seq", "timestamp")
+}
+
+
+@dataclass(frozen=True)
+class Problem:
+    """One thing wrong with a job file, at a 1-based line and column."""
+
+    path: str
+    line: int
+    column: int
+    field: str
+    message: str
+
+    def __str__(self) -> str:
+        where = f"{self.path}:{self.line}:{self.column}"
+        return f"{where} {self.field}: {self.message}" if self.field else f"{where} {self.message}"
+
+
+class JobFileError(Exception):
+    """A job file that cannot be used; `problems` lists everything found, in file order."""
+
+    def __init__(self, problems: list[Problem]):
+        self.problems = sorted(problems, key=lambda p: (p.line, p.column))
+        super().__init__("\n".join(str(p) for p in self.problems))
+
+
+@dataclass(frozen=True)
+class Located:
+    """Plain data from YAML with the mark of every mapping key and value, by field path."""
+
+    data: object
+    marks: dict[tuple, tuple[int, int]]
+    key_marks: dict[tuple, tuple[int, int]]
+
+
+def read_job_text(path: Path) -> str:
+    """The file's text, refusing what is not a readable, sane-sized UTF-8 file."""
+    shown = str(path)
+    if not path.exists():
+        raise JobFileError([Problem(shown, 1, 1, "", "no such file; expected a YAML job file "
+                                    "(see `sheetgen new parallel`)")])
+    if path.is_dir():
+        raise JobFileError([Problem(shown, 1, 1, "", "is a directory; expected a YAML job file")])
+    size = path.stat().st_size
+    if size > MAX_JOB_BYTES:
+        raise JobFileError([Problem(shown, 1, 1, "", f"is {size:,} bytes; a job file is at most "
+                                    f"{MAX_JOB_BYTES:,} bytes")])
+    try:
+        raw = path.read_bytes()
+    except OSError as error:
+        raise JobFileError([Problem(shown, 1, 1, "", f"cannot be read ({error.strerror})")]) from None
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as error:
+        line = raw.count(b"\n", 0, error.start) + 1
+        column = error.start - (raw.rfind(b"\n", 0, error.start) + 1) + 1
+        raise JobFileError([Problem(shown, line, column, "", f"byte 0x{raw[error.start]:02x} is "
+                                    "not UTF-8; save the job file as UTF-8 text")]) from None
+    return text.removeprefix("\ufeff")
+
+
+def compose_located(text: str, shown: str) -> Located:
+    """YAML text → plain data, with marks; only the plain YAML types, no duplicate keys."""
+    if not text.strip():
+        raise JobFileError([Problem(shown, 1, 1, "", "the file is empty; expected a mapping with "
+                                    "sheet, circuit, inductor, capacitor and source")])
+    loader = yaml.SafeLoader(text)
+    try:
+        node = loader.get_single_node()
+    except yaml.MarkedYAMLError as error:
+        mark = error.problem_mark or error.context_mark
+        what = error.problem or "not valid YAML"
+        line, column = (mark.line + 1, mark.column + 1) if mark else (1, 1)
+        raise JobFileError([Problem(shown, line, column, "",
+                                    f"YAML syntax: {what}; expected valid YAML")]) from None
+    except yaml.YAMLError as error:
+        raise JobFileError([Problem(shown, 1, 1, "", f"YAML syntax: {error}")]) from None
+    finally:
+        loader.dispose()
+    if node is None:
+        raise JobFileError([Problem(shown, 1, 1, "", "the file holds no YAML document; expected "
+                                    "a mapping with sheet, circuit, inductor, capacitor and source")])
+    problems: list[Problem] = []
+    marks: dict[tuple, tuple[int, int]] = {}
+    key_marks: dict[tuple, tuple[int, int]] = {}
+    count = [0]
+    constructor = yaml.constructor.SafeConstructor()
+
+    def at(n) -> tuple[int, int]:
+        return n.start_mark.line + 1, n.start_mark.column + 1
+
+    def build(n, path: tuple):
+        count[0] += 1
+        if count[0] > MAX_NODES:
+            raise JobFileError([Problem(shown, *at(n), _dotted(path),
+                                        f"more than {MAX_NODES:,} YAML nodes (aliases expanded); "
+                                        "a job file is far smaller")])
+        marks[path] = at(n)
+        if n.tag not in _PLAIN_TAGS:
+            problems.append(Problem(shown, *at(n), _dotted(path),
+                                    f"the tag {n.tag!r} is not allowed; expected plain YAML "
+                                    "values (text, numbers, lists, mappings)"))
+            return None
+        if isinstance(n, yaml.MappingNode):
+            result = {}
+            for key_node, value_node in n.value:
+                if (not isinstance(key_node, yaml.ScalarNode)
+                        or key_node.tag != "tag:yaml.org,2002:str"):
+                    problems.append(Problem(shown, *at(key_node), _dotted(path),
+                                            "a key must be plain text"))
+                    continue
+                key = key_node.value
+                if key in result:
+                    problems.append(Problem(shown, *at(key_node), _dotted(path + (key,)),
+                                            "appears twice; give each key once"))
+                    continue
+                key_marks[path + (key,)] = at(key_node)
+                result[key] = build(value_node, path + (key,))
+            return result
+        if isinstance(n, yaml.SequenceNode):
+            return [build(item, path + (index,)) for index, item in enumerate(n.value)]
+        return constructor.construct_object(n)
+
+    data = build(node, ())
+    if problems:
+        raise JobFileError(problems)
+    return Located(data, marks, key_marks)
+
+
+def _dotted(path: tuple) -> str:
+    text = ""
+    for part in path:
+        text += f"[{part}]" if isinstance(part, int) else (f".{part}" if text else str(part))
+    return text
+
+
+def load_job(path: str | os.PathLike) -> Job:
+    """Read and validate a job file. Raises JobFileError listing every problem found."""
+    path = Path(path)
+    shown = str(path)
+    located = compose_located(read_job_text(path), shown)
+    if not isinstance(located.data, dict):
+        raise JobFileError([Problem(shown, 1, 1, "", "expected a mapping with sheet, circuit, "
+                                    "inductor, capacitor and source at the top level")])
+    try:
+        return Job.model_validate(located.data)
+    except ValidationError as error:
+        raise JobFileError([_problem(shown, located, e) for e in error.errors()]) from None
+
+
+def _problem(shown: str, located: Located, error: dict) -> Problem:
+    """One pydantic error → a Problem at the right node, with a message a person can act on."""
+    path = _data_path(located.data, error["loc"])
+    kind = error["type"]
+    field = _dotted(path)
+    if kind == "extra_forbidden":
+        line, column = located.key_marks.get(path, located.marks.get(path, (1, 1)))
+        allowed = _allowed_keys(Job, path[:-1], located.data)
+        close = difflib.get_close_matches(str(path[-1]), allowed, n=1, cutoff=0.6)
+        hint = f"did you mean {close[0]!r}? " if close else ""
+        return Problem(shown, line, column, field,
+                       f"unknown key; {hint}expected one of: {', '.join(sorted(allowed))}")
+    if kind == "missing":
+        parent = path[:-1]
+        line, column = located.marks.get(parent, (1, 1))
+        return Problem(shown, line, column, field, "is missing; this field is required")
+    line, column = located.marks.get(path, located.marks.get(path[:-1], (1, 1)))
+    message = error["msg"]
+    if kind == "literal_error":
+        message = f"{_shown(error.get('input'))} is not allowed; {message.lower()}"
+    elif kind in ("model_type", "dict_type"):
+        message = f"expected a mapping of keys, got {_shown(error.get('input'))}"
+    elif kind in ("string_type", "int_type", "int_parsing", "int_from_float", "float_type"):
+        message = f"{_shown(error.get('input'))}: {message.lower()}"
+    return Problem(shown, line, column, field, message)
+
+
+def _shown(value: object) -> str:
+    if isinstance(value, str):
+        return f'"{value}"'
+    if isinstance(value, dict):
+        return "a mapping"
+    if isinstance(value, list):
+        return "a list"
+    return repr(value)
+
+
+def _data_path(data: object, loc: tuple) -> tuple:
+    """pydantic's loc without the union tags it inserts (kept only what exists in the data)."""
+    path: list = []
+    node = data
+    for part in loc:
+        if isinstance(node, dict) and part in node:
+            node = node[part]
+            path.append(part)
+        elif isinstance(node, list) and isinstance(part, int) and part < len(node):
+            node = node[part]
+            path.append(part)
+        elif isinstance(node, dict):
+            path.append(part)  # a missing or unknown key: the last element
+            node = None
+    return tuple(path)
+
+
+def _allowed_keys(model: type[BaseModel], path: tuple, data: object) -> list[str]:
+    """The field names allowed at `path` under `model` (unions chosen by the data's `form`)."""
+    current: object = model
+    node = data
+    for part in path:
+        node = node.get(part) if isinstance(node, dict) else None
+        current = _field_model(current, part, node)
+        if current is None:
+            return []
+    return list(current.model_fields) if isinstance(current, type) else []
+
+
+def _field_model(model, name, node):
+    if not (isinstance(model, type) and issubclass(model, BaseModel)):
+        return None
+    field = model.model_fields.get(name)
+    if field is None:
+        return None
+    return _pick_model(field.annotation, node)
+
+
+def _pick_model(annotation, node):
+    if isinstance(annotation, type) and issubclass(annotation, BaseModel):
+        return annotation
+    origin = typing.get_origin(annotation)
+    if origin is typing.Annotated:
+        return _pick_model(typing.get_args(annotation)[0], node)
+    if origin in (typing.Union, types.UnionType):
+        models = [m for m in (_pick_model(a, node) for a in typing.get_args(annotation)) if m]
+        for candidate in models:
+            form = candidate.model_fields.get("form")
+            wanted = node.get("form") if isinstance(node, dict) else None
+            if form is not None and wanted in typing.get_args(form.annotation):
+                return candidate
+        return models[0] if models else None
+    return None
