@@ -263,3 +263,12 @@ def _pick_model(annotation, node):
                 return candidate
         return models[0] if models else None
     return None
+
+
+def field_position(path: str | os.PathLike, field: str) -> tuple[int, int]:
+    """Line and column of a dotted field in a job file already known to load (1, 1 if absent)."""
+    located = compose_located(read_job_text(Path(path)), str(path))
+    parts = tuple(int(p) if p.isdigit() else p for p in field.split(".")) if field else ()
+    while parts and parts not in located.marks:
+        parts = parts[:-1]
+    return located.marks.get(parts, (1, 1))

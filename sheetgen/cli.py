@@ -1,0 +1,160 @@
+"""The command line: a thin shell over load_job → design → results / sheet.
+
+Exit codes: 0 all well; 1 the design fails a check; 2 bad input or usage. Problems are
+printed one a line, never as a traceback; an output file is written whole or not at all.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import os
+import sys
+import tempfile
+from pathlib import Path
+
+from . import __version__
+from .design import Design, DesignError, design
+from .jobfile import JobFileError, Problem, field_position, load_job
+from .summary import summary_text
+from .starters import TEMPLATE_NAMES, demo_job_path, template_text
+
+EXIT_OK, EXIT_CHECK_FAILED, EXIT_BAD_INPUT = 0, 1, 2
+
+
+class UsageError(Exception):
+    """Bad command-line usage (exit 2)."""
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message):  # argparse would exit 2 with its own text; keep ours uniform
+        raise UsageError(message)
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = _Parser(prog="sheetgen", description="Design, check and document a tuned LC "
+                     "circuit from one YAML job file.")
+    parser.add_argument("--version", action="version", version=f"sheetgen {__version__}")
+    commands = parser.add_subparsers(dest="command", required=True, parser_class=_Parser)
+
+    check = commands.add_parser("check", help="compute the design and print a summary")
+    check.add_argument("job", type=Path, help="YAML job file")
+    check.add_argument("--json", action="store_true", help="print the results as JSON")
+
+    build = commands.add_parser("build", help="write the PDF build-and-test sheet")
+    build.add_argument("job", type=Path, help="YAML job file")
+    build.add_argument("-o", "--output", type=Path, help="PDF to write (default: JOB.pdf)")
+    build.add_argument("--results", type=Path, help="also write the results JSON here")
+
+    demo = commands.add_parser("demo", help="build the bundled demo job's sheet")
+    demo.add_argument("-o", "--output", type=Path, default=Path("demo.pdf"),
+                      help="PDF to write (default: demo.pdf)")
+
+    new = commands.add_parser("new", help="print a starter job file")
+    new.add_argument("kind", choices=TEMPLATE_NAMES, help="which starter")
+
+    commands.add_parser("schema", help="print the JSON Schema of job files")
+    return parser
+
+
+def main(argv: list[str] | None = None) -> int:
+    try:
+        args = build_parser().parse_args(argv)
+    except UsageError as error:
+        print(f"sheetgen: {error} (see `sheetgen --help`)", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except SystemExit as done:  # --help and --version
+        return int(done.code or 0)
+    try:
+        return _run(args)
+    except JobFileError as error:
+        for problem in error.problems:
+            print(problem, file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except UsageError as error:
+        print(f"sheetgen: {error}", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except KeyboardInterrupt:
+        print("sheetgen: interrupted; nothing written", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except BrokenPipeError:
+        return EXIT_OK
+
+
+def _run(args) -> int:
+    if args.command == "new":
+        sys.stdout.write(template_text(args.kind))
+        return EXIT_OK
+    if args.command == "schema":
+        from .model import Job
+        schema = Job.model_json_schema()
+        schema["$schema"] = "https://json-schema.org/draft/2020-12/schema"
+        schema["title"] = "sheetgen job file"
+        print(json.dumps(schema, indent=2, ensure_ascii=False))
+        return EXIT_OK
+    job_path = demo_job_path() if args.command == "demo" else args.job
+    result = _design(job_path)
+    if args.command == "check":
+        if args.json:
+            from .results import results_json
+            sys.stdout.write(results_json(result))
+        else:
+            sys.stdout.write(summary_text(result))
+        return _exit_for(result)
+    output = args.output or job_path.with_suffix(".pdf")
+    _build(result, job_path, output, getattr(args, "results", None))
+    print(f"wrote {output}")
+    return _exit_for(result)
+
+
+def _design(job_path: Path) -> Design:
+    job = load_job(job_path)
+    try:
+        return design(job)
+    except DesignError as error:
+        line, column = field_position(job_path, error.field)
+        message = str(error).removeprefix(f"{error.field}: ") if error.field else str(error)
+        raise JobFileError([Problem(str(job_path), line, column, error.field, message)]) from None
+
+
+def _exit_for(result: Design) -> int:
+    """1 when the design fails one of its checks, else 0."""
+    return EXIT_CHECK_FAILED if failed_checks(result) else EXIT_OK
+
+
+def failed_checks(result: Design) -> list[str]:
+    """The checks this design fails, as sentences (empty when all pass)."""
+    return []
+
+
+def _build(result: Design, job_path: Path, output: Path, results_path: Path | None) -> None:
+    from .results import results_json
+    from .sheet import render_sheet
+    job_text = job_path.read_text(encoding="utf-8")
+    results_text = results_json(result)
+    pdf = render_sheet(result, job_text=job_text, results_text=results_text,
+                       job_dir=job_path.resolve().parent)
+    if results_path is not None:
+        write_atomically(results_path, results_text.encode("utf-8"))
+    write_atomically(output, pdf)
+
+
+def write_atomically(path: Path, data: bytes) -> None:
+    """Write to a temporary file beside `path`, then rename over it: whole or not at all."""
+    directory = path.resolve().parent
+    if not directory.is_dir():
+        raise UsageError(f"cannot write {path}: the folder {directory} does not exist")
+    handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=directory)
+    try:
+        with os.fdopen(handle, "wb") as stream:
+            stream.write(data)
+            stream.flush()
+            os.fsync(stream.fileno())
+        os.replace(temporary, path)
+    except BaseException:
+        Path(temporary).unlink(missing_ok=True)
+        raise
+
+
+if __name__ == "__main__":
+    sys.exit(main())

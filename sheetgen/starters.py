@@ -1,0 +1,25 @@
+"""The starter job files of templates/ and the bundled demo, read from package data."""
+
+from __future__ import annotations
+
+from importlib import resources
+from pathlib import Path
+
+TEMPLATE_NAMES = ("series", "parallel")
+DEMO_NAME = "demo"
+
+
+def _template_file(name: str):
+    return resources.files("sheetgen.templates").joinpath(f"{name}.yaml")
+
+
+def template_text(name: str) -> str:
+    """The text of the starter job `name` (one of TEMPLATE_NAMES)."""
+    if name not in TEMPLATE_NAMES and name != DEMO_NAME:
+        raise KeyError(name)
+    return _template_file(name).read_text(encoding="utf-8")
+
+
+def demo_job_path() -> Path:
+    """A filesystem path to the bundled demo job (package data is a real file when installed)."""
+    return Path(str(_template_file(DEMO_NAME)))

@@ -1,0 +1,27 @@
+"""The aligned plain-text summary that `sheetgen check` prints."""
+
+from __future__ import annotations
+
+from .design import Design
+from .tables import Row, component_rows, performance_rows, stress_rows
+
+
+def _block(title: str, rows: list[Row]) -> list[str]:
+    width = max(len(row.label) for row in rows)
+    value_width = max(len(row.value) for row in rows)
+    lines = [title, "-" * len(title)]
+    for row in rows:
+        remark = f"  {row.remark}" if row.remark else ""
+        lines.append(f"  {row.label:<{width}}  {row.value:>{value_width}}{remark}".rstrip())
+    return lines + [""]
+
+
+def summary_text(design: Design) -> str:
+    """Identity, components, expected performance and part stresses, aligned for a terminal."""
+    sheet = design.job.sheet
+    lines = [f"{sheet.id} rev {sheet.revision}: {sheet.title}",
+             f"designed by {sheet.designer}, {sheet.date}", ""]
+    lines += _block("Components", component_rows(design))
+    lines += _block("Expected performance", performance_rows(design))
+    lines += _block("Stress at the response maximum", stress_rows(design))
+    return "\n".join(lines)
