@@ -188,7 +188,10 @@ def _problem(shown: str, located: Located, error: dict) -> Problem:
     if kind == "missing":
         parent = path[:-1]
         line, column = located.marks.get(parent, (1, 1))
-        return Problem(shown, line, column, field, "is missing; this field is required")
+        model = _model_at(Job, parent, located.data)
+        described = model.model_fields[path[-1]].description if model else None
+        expected = f"expected {described}" if described else "this field is required"
+        return Problem(shown, line, column, field, f"is missing; {expected}")
     line, column = located.marks.get(path, located.marks.get(path[:-1], (1, 1)))
     message = error["msg"]
     if kind == "literal_error":
@@ -229,14 +232,20 @@ def _data_path(data: object, loc: tuple) -> tuple:
 
 def _allowed_keys(model: type[BaseModel], path: tuple, data: object) -> list[str]:
     """The field names allowed at `path` under `model` (unions chosen by the data's `form`)."""
+    found = _model_at(model, path, data)
+    return list(found.model_fields) if found else []
+
+
+def _model_at(model: type[BaseModel], path: tuple, data: object):
+    """The model class that validates the mapping at `path`, or None."""
     current: object = model
     node = data
     for part in path:
         node = node.get(part) if isinstance(node, dict) else None
         current = _field_model(current, part, node)
         if current is None:
-            return []
-    return list(current.model_fields) if isinstance(current, type) else []
+            return None
+    return current if isinstance(current, type) else None
 
 
 def _field_model(model, name, node):

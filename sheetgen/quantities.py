@@ -132,9 +132,10 @@ def parse_quantity(value: object, dimension: Dimension) -> float:
 
 
 def _example(match: re.Match, dimension: Dimension) -> str:
-    """The user's own number with the right unit, when their prefix makes sense."""
+    """The user's own number with the right unit where henries and farads were swapped."""
     number, unit = match.group(1), match.group(2)
-    if dimension.units and unit[:1] in SI_PREFIXES and len(unit) > 1:
+    swapped = {"F", "H"}
+    if dimension.si_unit in swapped and unit[:1] in SI_PREFIXES and unit[1:] in swapped:
         return f"{number} {unit[0]}{dimension.si_unit}"
     return dimension.example
 

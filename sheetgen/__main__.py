@@ -1,0 +1,7 @@
+"""`python -m sheetgen`: the same as the sheetgen command."""
+
+import sys
+
+from .cli import main
+
+sys.exit(main())
