@@ -24,7 +24,8 @@ Topology = Literal["series", "parallel"]
 
 # Search bracket for the response maximum and the half-power points, in ln(f/f0).
 _BRACKET_LN = math.log(50.0)
-_BISECTIONS = 64
+_MAX_ITERATIONS = 200
+_TOLERANCE_LN = 1e-14
 
 
 class NoResonanceError(ValueError):
@@ -139,7 +140,7 @@ def _conductance(resistance_ohm):
 
 
 def _response_denominator(circuit: Circuit, omega):
-    """D(ω) with response ∝ 1/D and dD/dω.
+    """D(ω) with response ∝ 1/D, and its first two derivatives in ω.
 
     Series: D = Rs + RL + rL + rC + j(ωL − 1/(ωC)), the loop impedance.
     Parallel: D = 1/(rL + jωL) + jωC/(1 + jωC·rC) + 1/RL + 1/Rs, the node admittance.
@@ -150,27 +151,39 @@ def _response_denominator(circuit: Circuit, omega):
         resistance = (_or_zero(circuit.source_resistance_ohm)
                       + _or_zero(circuit.load_resistance_ohm) + r_l + r_c)
         d = resistance + 1j * (omega * L - 1.0 / (omega * C))
-        d_prime = 1j * (L + 1.0 / (omega * omega * C))
-        return d, d_prime
+        d1 = 1j * (L + 1.0 / (omega * omega * C))
+        d2 = -2j / (omega**3 * C)
+        return d, d1, d2
     coil = r_l + 1j * omega * L
     cap = 1.0 + 1j * omega * C * r_c
     d = (1.0 / coil + 1j * omega * C / cap + _conductance(circuit.load_resistance_ohm)
          + _conductance(circuit.source_resistance_ohm))
-    d_prime = -1j * L / coil**2 + 1j * C / cap**2
-    return d, d_prime
+    d1 = -1j * L / coil**2 + 1j * C / cap**2
+    d2 = -2.0 * L * L / coil**3 + 2.0 * C * C * r_c / cap**3
+    return d, d1, d2
 
 
-def _bisect(function, low, high):
-    """Vectorised bisection for the sign change of `function` between arrays low and high."""
-    f_low = function(low)
-    for _ in range(_BISECTIONS):
-        middle = 0.5 * (low + high)
-        f_middle = function(middle)
-        same = np.sign(f_middle) == np.sign(f_low)
-        low = np.where(same, middle, low)
-        f_low = np.where(same, f_middle, f_low)
-        high = np.where(same, high, middle)
-    return 0.5 * (low + high)
+def _safe_newton(function, low, high, guess):
+    """Vectorised Newton's method kept inside a bracket, bisecting where Newton would leave it
+    (the 'rtsafe' scheme, Press et al., Numerical Recipes, 3rd ed., section 9.4).
+
+    `function(x)` returns (f, df/dx); f(low) and f(high) must differ in sign.
+    """
+    f_low, _ = function(low)
+    x = guess.copy()
+    for _ in range(_MAX_ITERATIONS):
+        f, df = function(x)
+        below = np.sign(f) == np.sign(f_low)
+        low, f_low = np.where(below, x, low), np.where(below, f, f_low)
+        high = np.where(below, high, x)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            newton = x - f / df
+        converged = np.abs(newton - x) <= _TOLERANCE_LN * (1.0 + np.abs(x))
+        inside = (newton > np.minimum(low, high)) & (newton < np.maximum(low, high))
+        x = np.where(inside | converged, newton, 0.5 * (low + high))
+        if np.all(converged):
+            break
+    return x
 
 
 @dataclass(frozen=True)
@@ -188,32 +201,41 @@ def response_features(circuit: Circuit) -> ResponseFeatures:
 
     The maximum of 1/|D| is where d|D|²/dω = 2 Re(D* · dD/dω) changes sign; the half-power
     points are where |D|² = 2 |D(ω_peak)|². Both are bracketed within ln(f/f0) = ±ln 50 and
-    found by bisection, element by element when the circuit's values are arrays.
+    found by safeguarded Newton iteration, element by element when the values are arrays.
     """
     f0 = np.asarray(resonant_frequency_hz(circuit.inductance_h, circuit.capacitance_f),
                     dtype=float)
     omega0 = 2.0 * np.pi * f0
 
     def slope(u):
-        d, d_prime = _response_denominator(circuit, omega0 * np.exp(u))
-        return np.real(np.conj(d) * d_prime)
-
-    def magnitude2(u):
-        d, _ = _response_denominator(circuit, omega0 * np.exp(u))
-        return np.abs(d) ** 2
+        """d|D|²/dω / 2 = Re(D* D'), and its derivative in u = ln(f/f0)."""
+        omega = omega0 * np.exp(u)
+        d, d1, d2 = _response_denominator(circuit, omega)
+        return np.real(np.conj(d) * d1), omega * (np.abs(d1) ** 2 + np.real(np.conj(d) * d2))
 
     edge = np.full_like(f0, _BRACKET_LN)
-    has_peak = (slope(-edge) < 0) & (slope(edge) > 0)
-    u_peak = _bisect(slope, -edge, edge)
-    target = 2.0 * magnitude2(u_peak)
+    has_peak = (slope(-edge)[0] < 0) & (slope(edge)[0] > 0)
+    u_peak = _safe_newton(slope, -edge, edge, np.zeros_like(f0))
+    omega_peak = omega0 * np.exp(u_peak)
+    d_peak, _, _ = _response_denominator(circuit, omega_peak)
+    target = 2.0 * np.abs(d_peak) ** 2
+    # Near the peak |D|² ≈ |D_p|² (1 + 4Q²(u − u_p)²): the curvature gives Q, and the
+    # half-power points start from u_p ± 1/(2Q).
+    curvature = 2.0 * omega_peak * slope(u_peak)[1]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        offset = np.sqrt(np.abs(target) / np.where(curvature > 0, curvature, np.inf))
+    offset = np.clip(np.nan_to_num(offset, nan=0.1), 1e-9, _BRACKET_LN)
 
     def excess(u):
-        return magnitude2(u) - target
+        """|D|² − 2|D_p|² and its derivative in u, 2ω·Re(D* D')."""
+        omega = omega0 * np.exp(u)
+        d, d1, _ = _response_denominator(circuit, omega)
+        return np.abs(d) ** 2 - target, 2.0 * omega * np.real(np.conj(d) * d1)
 
-    has_low = excess(-edge) > 0
-    has_high = excess(edge) > 0
-    u_low = _bisect(excess, -edge, u_peak)
-    u_high = _bisect(excess, u_peak, edge)
+    has_low = excess(-edge)[0] > 0
+    has_high = excess(edge)[0] > 0
+    u_low = _safe_newton(excess, -edge, u_peak, np.maximum(u_peak - offset, -edge * 0.999))
+    u_high = _safe_newton(excess, u_peak, edge, np.minimum(u_peak + offset, edge * 0.999))
     nan = np.nan
     return ResponseFeatures(
         f0_hz=f0,
@@ -288,9 +310,9 @@ def sweep(circuit: Circuit, f_hz: np.ndarray) -> Sweep:
     """|Z|, phase and the response in dB relative to its maximum over f_hz."""
     f_hz = np.asarray(f_hz, dtype=float)
     impedance = terminal_impedance(circuit, f_hz)
-    d, _ = _response_denominator(circuit, 2.0 * np.pi * f_hz)
+    d = _response_denominator(circuit, 2.0 * np.pi * f_hz)[0]
     features = response_features(circuit)
-    d_peak, _ = _response_denominator(circuit, 2.0 * np.pi * float(features.f_peak_hz))
+    d_peak = _response_denominator(circuit, 2.0 * np.pi * float(features.f_peak_hz))[0]
     response_db = 20.0 * np.log10(np.abs(d_peak) / np.abs(d))
     return Sweep(f_hz=f_hz, impedance_ohm=np.abs(impedance),
                  phase_deg=np.degrees(np.angle(impedance)), response_db=response_db)
