@@ -16,7 +16,9 @@ from pathlib import Path
 import yaml
 from pydantic import BaseModel, ValidationError
 
-from .model import Job
+from .model import BY_NAME, INLINE, Job
+
+UNION_TAGS = {BY_NAME, INLINE}
 
 MAX_JOB_BYTES = 1_000_000
 MAX_NODES = 100_000
@@ -161,37 +163,51 @@ def _dotted(path: tuple) -> str:
 
 def load_job(path: str | os.PathLike) -> Job:
     """Read and validate a job file. Raises JobFileError listing every problem found."""
+    return load_validated(path, Job, "a mapping with sheet, circuit, inductor, capacitor and "
+                          "source at the top level")
+
+
+def load_validated(path: str | os.PathLike, model: type[BaseModel], expected: str):
+    """Read a YAML file and validate it as `model`, every problem located in the file."""
     path = Path(path)
     shown = str(path)
     located = compose_located(read_job_text(path), shown)
     if not isinstance(located.data, dict):
-        raise JobFileError([Problem(shown, 1, 1, "", "expected a mapping with sheet, circuit, "
-                                    "inductor, capacitor and source at the top level")])
+        raise JobFileError([Problem(shown, 1, 1, "", f"expected {expected}")])
     try:
-        return Job.model_validate(located.data)
+        return model.model_validate(located.data)
     except ValidationError as error:
-        raise JobFileError([_problem(shown, located, e) for e in error.errors()]) from None
+        raise JobFileError([_problem(shown, located, e, model) for e in error.errors()]) from None
 
 
-def _problem(shown: str, located: Located, error: dict) -> Problem:
+def _problem(shown: str, located: Located, error: dict, root: type[BaseModel]) -> Problem:
     """One pydantic error → a Problem at the right node, with a message a person can act on."""
     path = _data_path(located.data, error["loc"])
     kind = error["type"]
     field = _dotted(path)
     if kind == "extra_forbidden":
         line, column = located.key_marks.get(path, located.marks.get(path, (1, 1)))
-        allowed = _allowed_keys(Job, path[:-1], located.data)
-        close = difflib.get_close_matches(str(path[-1]), allowed, n=1, cutoff=0.6)
+        allowed = _allowed_keys(root, path[:-1], located.data)
+        close = ([key for key in allowed if key.startswith(str(path[-1]))]
+                 or difflib.get_close_matches(str(path[-1]), allowed, n=1, cutoff=0.6))
         hint = f"did you mean {close[0]!r}? " if close else ""
         return Problem(shown, line, column, field,
                        f"unknown key; {hint}expected one of: {', '.join(sorted(allowed))}")
     if kind == "missing":
         parent = path[:-1]
         line, column = located.marks.get(parent, (1, 1))
-        model = _model_at(Job, parent, located.data)
+        model = _model_at(root, parent, located.data)
         described = model.model_fields[path[-1]].description if model else None
         expected = f"expected {described}" if described else "this field is required"
         return Problem(shown, line, column, field, f"is missing; {expected}")
+    if kind in ("union_tag_invalid", "union_tag_not_found"):
+        tags = error.get("ctx", {}).get("expected_tags") or _forms(root, path)
+        path = path + ("form",)
+        field = _dotted(path)
+        line, column = located.marks.get(path, located.marks.get(path[:-1], (1, 1)))
+        given = error.get("ctx", {}).get("tag")
+        what = f"{_shown(given)} is not a form" if given is not None else "is missing"
+        return Problem(shown, line, column, field, f"{what}; expected one of {tags}")
     line, column = located.marks.get(path, located.marks.get(path[:-1], (1, 1)))
     message = error["msg"]
     if kind == "literal_error":
@@ -217,16 +233,17 @@ def _data_path(data: object, loc: tuple) -> tuple:
     """pydantic's loc without the union tags it inserts (kept only what exists in the data)."""
     path: list = []
     node = data
-    for part in loc:
+    for index, part in enumerate(loc):
         if isinstance(node, dict) and part in node:
             node = node[part]
             path.append(part)
         elif isinstance(node, list) and isinstance(part, int) and part < len(node):
             node = node[part]
             path.append(part)
-        elif isinstance(node, dict):
-            path.append(part)  # a missing or unknown key: the last element
-            node = None
+        elif (isinstance(node, dict) and node.get("form") == part) or part in UNION_TAGS:
+            continue  # a union's tag (the inductor's form, name-or-inline): not in the data
+        elif index == len(loc) - 1 and isinstance(node, dict):
+            path.append(part)  # a missing or unknown key
     return tuple(path)
 
 
@@ -246,6 +263,22 @@ def _model_at(model: type[BaseModel], path: tuple, data: object):
         if current is None:
             return None
     return current if isinstance(current, type) else None
+
+
+def _forms(root: type[BaseModel], path: tuple) -> str:
+    """The allowed values of `form` for the union field at `path`, quoted and listed."""
+    parent = _model_at(root, path[:-1], None)
+    field = parent.model_fields.get(path[-1]) if parent else None
+    if field is None:
+        return "the documented forms"
+    forms = []
+    for member in typing.get_args(typing.get_args(field.annotation)[0]
+                                  if typing.get_origin(field.annotation) is typing.Annotated
+                                  else field.annotation):
+        form = getattr(member, "model_fields", {}).get("form")
+        if form is not None:
+            forms += [repr(value) for value in typing.get_args(form.annotation)]
+    return ", ".join(forms)
 
 
 def _field_model(model, name, node):

@@ -10,7 +10,8 @@ from __future__ import annotations
 import datetime as _dt
 from typing import Annotated, Literal
 
-from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, WithJsonSchema, model_validator
+from pydantic import (BaseModel, BeforeValidator, ConfigDict, Discriminator, Field, Tag,
+                      WithJsonSchema, model_validator)
 from pydantic_core import PydanticCustomError
 
 from . import quantities as qty
@@ -49,6 +50,13 @@ Current = _quantity(qty.CURRENT)
 Power = _quantity(qty.POWER)
 Fraction = _quantity(qty.FRACTION, minimum=0.0, inclusive=True)
 PositiveNumber = _quantity(qty.DIMENSIONLESS)
+Length = _quantity(qty.LENGTH)
+LeadLength = _quantity(qty.LENGTH, minimum=0.0, inclusive=True)
+FluxDensity = _quantity(qty.FLUX_DENSITY)
+InductanceFactor = _quantity(qty.INDUCTANCE_FACTOR)
+TemperatureCoefficient = _quantity(qty.TEMPERATURE_COEFFICIENT, minimum=None)
+Temperature = _quantity(qty.TEMPERATURE, minimum=-273.15)
+Name = Annotated[str, Field(min_length=1, max_length=200, pattern=r"^[A-Za-z0-9][A-Za-z0-9._-]*$")]
 
 
 def _text(value: object) -> object:
@@ -59,6 +67,20 @@ def _text(value: object) -> object:
 
 
 Text = Annotated[str, BeforeValidator(_text), Field(min_length=1, max_length=2000)]
+
+
+# Tags of the "a name, or the thing inline" unions; they appear in error locations only.
+BY_NAME, INLINE = "by-name", "inline"
+
+
+def _name_or_inline(value: object) -> str:
+    return BY_NAME if isinstance(value, str) else INLINE
+
+
+def name_or(model):
+    """A field that takes a parts-library name or the part's properties inline."""
+    return Annotated[Annotated[Name, Tag(BY_NAME)] | Annotated[model, Tag(INLINE)],
+                     Discriminator(_name_or_inline)]
 
 
 class Section(BaseModel):
@@ -131,6 +153,154 @@ class GivenInductor(Section):
         return self
 
 
+class LossPoint(Section):
+    """One row of a material's loss table: the loss at one frequency."""
+
+    f: Frequency = Field(description="frequency of this row")
+    loss_factor: PositiveNumber | None = Field(
+        None, description="relative loss factor tan δ / µi (IEC 60401-3), e.g. 50e-6")
+    q: PositiveNumber | None = Field(None, description="material Q of a coil on the core "
+                                     "(instead of loss_factor)")
+
+    @model_validator(mode="after")
+    def _one_value(self):
+        exactly_one(self, ("loss_factor", "q"), "this loss row")
+        return self
+
+
+class SteinmetzSpec(Section):
+    """Core loss per volume P_v = k · f^alpha · B^beta (W/m³, f in Hz, peak B in T)."""
+
+    k: PositiveNumber = Field(description="Steinmetz coefficient k, SI units")
+    alpha: PositiveNumber = Field(description="frequency exponent")
+    beta: PositiveNumber = Field(description="flux density exponent")
+
+
+class MaterialSpec(Section):
+    """A magnetic core material, described only by its physical properties."""
+
+    description: str | None = Field(None, max_length=500, description="what it is for")
+    mu_i: PositiveNumber = Field(description="initial permeability µi")
+    mu_i_tolerance: Fraction | None = Field(None, description="tolerance of µi (and of AL), e.g. 5 %")
+    mu_tc: TemperatureCoefficient | None = Field(
+        None, description="temperature coefficient of µi (and of AL), e.g. 150 ppm/K")
+    flux_density_max: FluxDensity = Field(
+        description="peak flux density the material may be used up to at RF")
+    loss: tuple[LossPoint, ...] = Field(min_length=1, description="loss against frequency, "
+                                        "rows in rising frequency, all loss_factor or all q")
+    steinmetz: SteinmetzSpec | None = Field(None, description="Steinmetz coefficients, if known")
+
+    @model_validator(mode="after")
+    def _loss_rows(self):
+        kinds = {row.loss_factor is None for row in self.loss}
+        if len(kinds) > 1:
+            raise PydanticCustomError("loss", "give every loss row as loss_factor or every "
+                                      "row as q, not a mix")
+        freqs = [row.f for row in self.loss]
+        if any(b <= a for a, b in zip(freqs, freqs[1:])):
+            raise PydanticCustomError("loss", "loss rows must be in rising frequency")
+        return self
+
+
+class CoreSpec(Section):
+    """A ring (toroidal) core: its size, its material and, where known, its AL."""
+
+    description: str | None = Field(None, max_length=500, description="what it is")
+    material: name_or(MaterialSpec) = Field(description="a material of the parts library by "
+                                          "name, or the material's properties inline")
+    outer_diameter: Length = Field(description="outer diameter OD")
+    inner_diameter: Length = Field(description="inner diameter ID (the hole)")
+    height: Length = Field(description="height (axial thickness)")
+    chamfer: LeadLength = Field(0.0, description="edge chamfer or radius (optional)")
+    al: InductanceFactor | None = Field(
+        None, description="inductance factor AL when the core's data gives one; in nH/turn², "
+        "µH/100 turns or mH/1000 turns. Without it AL follows from µi and the geometry "
+        "(IEC 60205)")
+    al_tolerance: Fraction | None = Field(None, description="tolerance of AL (default: µi's)")
+
+    @model_validator(mode="after")
+    def _geometry(self):
+        if not self.inner_diameter < self.outer_diameter:
+            raise PydanticCustomError("geometry", "inner_diameter must be below outer_diameter")
+        radial = (self.outer_diameter - self.inner_diameter) / 2
+        if not 2 * self.chamfer < min(radial, self.height):
+            raise PydanticCustomError("geometry", "chamfer must be under half the section's "
+                                      "width and height")
+        return self
+
+
+class PartsLibraryFile(Section):
+    """One file of the team's parts library: materials and/or cores by name."""
+
+    materials: dict[Name, MaterialSpec] = Field(default_factory=dict)
+    cores: dict[Name, CoreSpec] = Field(default_factory=dict)
+
+
+Wire = Annotated[str, Field(min_length=1, max_length=40, description='wire size: "AWG 24", '
+                            '"24 AWG" or a copper diameter "0.50 mm"')]
+
+
+class LinkWinding(Section):
+    """A coupling winding over the tank coil that matches a resistance to the tank."""
+
+    resistance: Resistance = Field(description="the resistance the link connects to, e.g. 50 Ω")
+    wire: Wire | None = Field(None, description="link wire (default: the tank's wire)")
+
+
+class ToroidInductor(Section):
+    """A coil that sheetgen designs on a ring core from the parts library (or given inline)."""
+
+    form: Literal["toroid"] = Field(description="toroid: wind a ring core")
+    inductance: Inductance | None = Field(
+        None, description="inductance wanted; omit to have it computed from targets.f0 and C")
+    core: name_or(CoreSpec) = Field(description="a core of the parts library by name, or inline")
+    wire: Wire
+    enamel_grade: Literal[1, 2] = Field(2, description="enamel build grade 1 (thin) or 2")
+    lead_length: LeadLength = Field(0.025, description="length of each lead beyond the core")
+    link: LinkWinding | None = Field(None, description="a link winding (optional)")
+    q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
+                                     "the estimate (optional)")
+
+
+class SolenoidInductor(Section):
+    """A single-layer air-core coil that sheetgen designs on a cylindrical former."""
+
+    form: Literal["solenoid"] = Field(description="solenoid: single-layer air-core coil")
+    inductance: Inductance | None = Field(
+        None, description="inductance wanted; omit to have it computed from targets.f0 and C")
+    former_diameter: Length = Field(description="outside diameter of the former (or mandrel)")
+    wire: Wire
+    enamel_grade: Literal[1, 2] = Field(2, description="enamel build grade 1 (thin) or 2")
+    pitch: Length | None = Field(None, description="turn-to-turn spacing (centre to centre)")
+    length: Length | None = Field(None, description="winding length (instead of pitch)")
+    former_length: Length | None = Field(None, description="usable length of the former")
+    lead_length: LeadLength = Field(0.025, description="length of each lead beyond the winding")
+    q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
+                                     "the estimate (optional)")
+
+    @model_validator(mode="after")
+    def _spacing(self):
+        exactly_one(self, ("pitch", "length"), "the winding's spacing")
+        return self
+
+
+Inductor = Annotated[GivenInductor | ToroidInductor | SolenoidInductor,
+                     Field(discriminator="form")]
+
+
+class Trimmer(Section):
+    """A variable capacitor across the fixed one, for tuning f0 on the bench."""
+
+    minimum: Capacitance = Field(description="capacitance at minimum mesh")
+    maximum: Capacitance = Field(description="capacitance at maximum mesh")
+
+    @model_validator(mode="after")
+    def _ordered(self):
+        if not self.maximum > self.minimum:
+            raise PydanticCustomError("order", "maximum must be above minimum")
+        return self
+
+
 class CapacitorSection(Section):
     """The tuning capacitor."""
 
@@ -141,6 +311,8 @@ class CapacitorSection(Section):
         None, description="dissipation factor tan δ at f0 (instead of esr), e.g. 0.1 %")
     preferred_series: Literal["E6", "E12", "E24", "E48", "E96", "E192"] = Field(
         "E12", description="IEC 60063 series that standard values are picked from")
+    trimmer: Trimmer | None = Field(None, description="a trimmer in parallel that re-centres "
+                                    "f0 (optional)")
 
     @model_validator(mode="after")
     def _one_loss(self):
@@ -193,9 +365,14 @@ class SweepSection(Section):
 class Job(Section):
     """One tuned circuit to design, build and test."""
 
+    library: str | None = Field(None, max_length=1000, description="folder of the parts "
+                                "library, relative to this file (default: the nearest "
+                                "shared/ folder above it, else the library shipped with "
+                                "sheetgen)")
+
     sheet: SheetIdentity
     circuit: CircuitSection
-    inductor: GivenInductor
+    inductor: Inductor
     capacitor: CapacitorSection
     source: SourceSection
     load: LoadSection | None = None

@@ -1,0 +1,79 @@
+"""The team's parts library: named core materials and ring cores, read from YAML files.
+
+Where it is found, first match wins: the folder given on the command line (--library);
+the job's own `library:` field (relative to the job file); the nearest folder named
+`shared/` above the job file that holds library files; the library shipped with sheetgen.
+Every *.yaml file of the folder is read; names must be unique across the files.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from importlib import resources
+from pathlib import Path
+
+from .jobfile import JobFileError, Problem, compose_located, load_validated
+from .model import CoreSpec, MaterialSpec, PartsLibraryFile
+
+LIBRARY_MARKERS = ("cores.yaml", "materials.yaml")
+
+
+@dataclass(frozen=True)
+class PartsLibrary:
+    """Materials and cores by name, and where each came from (for messages)."""
+
+    folder: str
+    materials: dict[str, MaterialSpec]
+    cores: dict[str, CoreSpec]
+    origin: dict[str, str]
+
+
+def bundled_library_folder() -> Path:
+    """The library that ships inside the sheetgen package (the repo's shared/ folder)."""
+    return Path(str(resources.files("sheetgen.library")))
+
+
+def find_library_folder(job_path: Path, named: str | None, cli_folder: Path | None) -> Path:
+    """The folder to read, by the order in the module docstring."""
+    if cli_folder is not None:
+        return cli_folder
+    if named is not None:
+        return (job_path.resolve().parent / named)
+    for folder in job_path.resolve().parents:
+        candidate = folder / "shared"
+        if any((candidate / marker).is_file() for marker in LIBRARY_MARKERS):
+            return candidate
+    return bundled_library_folder()
+
+
+def load_library(folder: Path) -> PartsLibrary:
+    """Read and validate every YAML file of `folder`; JobFileError lists all problems."""
+    if not folder.is_dir():
+        raise JobFileError([Problem(str(folder), 1, 1, "", "the parts library folder does not "
+                                    "exist; expected a folder of YAML files")])
+    materials: dict[str, MaterialSpec] = {}
+    cores: dict[str, CoreSpec] = {}
+    origin: dict[str, str] = {}
+    problems: list[Problem] = []
+    for path in sorted(folder.glob("*.yaml")):
+        try:
+            part = load_validated(path, PartsLibraryFile, "a mapping with materials and/or cores")
+        except JobFileError as error:
+            problems += error.problems
+            continue
+        located = compose_located(path.read_text(encoding="utf-8"), str(path))
+        for kind, found, store in (("materials", part.materials, materials),
+                                   ("cores", part.cores, cores)):
+            for name, spec in found.items():
+                key = f"{kind}.{name}"
+                if key in origin:
+                    line, column = located.key_marks.get((kind, name), (1, 1))
+                    problems.append(Problem(str(path), line, column, key,
+                                            f"is also defined in {origin[key]}; names must be "
+                                            "unique in a library"))
+                    continue
+                store[name] = spec
+                origin[key] = str(path)
+    if problems:
+        raise JobFileError(problems)
+    return PartsLibrary(str(folder), materials, cores, origin)
