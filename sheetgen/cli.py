@@ -14,8 +14,10 @@ import tempfile
 from pathlib import Path
 
 from . import __version__
-from .design import Design, DesignError, design
-from .jobfile import JobFileError, Problem, field_position, load_job
+from .checks import failed_checks
+from .design import Design
+from .jobfile import JobFileError
+from .pipeline import design_from_file
 from .summary import summary_text
 from .starters import TEMPLATE_NAMES, demo_job_path, template_text
 
@@ -40,11 +42,13 @@ def build_parser() -> argparse.ArgumentParser:
     check = commands.add_parser("check", help="compute the design and print a summary")
     check.add_argument("job", type=Path, help="YAML job file")
     check.add_argument("--json", action="store_true", help="print the results as JSON")
+    check.add_argument("--library", type=Path, help="parts library folder (default: see README)")
 
     build = commands.add_parser("build", help="write the PDF build-and-test sheet")
     build.add_argument("job", type=Path, help="YAML job file")
     build.add_argument("-o", "--output", type=Path, help="PDF to write (default: JOB.pdf)")
     build.add_argument("--results", type=Path, help="also write the results JSON here")
+    build.add_argument("--library", type=Path, help="parts library folder (default: see README)")
 
     demo = commands.add_parser("demo", help="build the bundled demo job's sheet")
     demo.add_argument("-o", "--output", type=Path, default=Path("demo.pdf"),
@@ -74,6 +78,9 @@ def main(argv: list[str] | None = None) -> int:
     except UsageError as error:
         print(f"sheetgen: {error}", file=sys.stderr)
         return EXIT_BAD_INPUT
+    except OSError as error:
+        print(f"sheetgen: {error.filename or ''}: {error.strerror or error}", file=sys.stderr)
+        return EXIT_BAD_INPUT
     except KeyboardInterrupt:
         print("sheetgen: interrupted; nothing written", file=sys.stderr)
         return EXIT_BAD_INPUT
@@ -93,7 +100,7 @@ def _run(args) -> int:
         print(json.dumps(schema, indent=2, ensure_ascii=False))
         return EXIT_OK
     job_path = demo_job_path() if args.command == "demo" else args.job
-    result = _design(job_path)
+    result = design_from_file(job_path, getattr(args, "library", None))
     if args.command == "check":
         if args.json:
             from .results import results_json
@@ -107,24 +114,12 @@ def _run(args) -> int:
     return _exit_for(result)
 
 
-def _design(job_path: Path) -> Design:
-    job = load_job(job_path)
-    try:
-        return design(job)
-    except DesignError as error:
-        line, column = field_position(job_path, error.field)
-        message = str(error).removeprefix(f"{error.field}: ") if error.field else str(error)
-        raise JobFileError([Problem(str(job_path), line, column, error.field, message)]) from None
-
-
 def _exit_for(result: Design) -> int:
-    """1 when the design fails one of its checks, else 0."""
-    return EXIT_CHECK_FAILED if failed_checks(result) else EXIT_OK
-
-
-def failed_checks(result: Design) -> list[str]:
-    """The checks this design fails, as sentences (empty when all pass)."""
-    return []
+    """1 when the design fails one of its checks (each printed to stderr), else 0."""
+    failures = failed_checks(result)
+    for failure in failures:
+        print(f"check failed: {failure.field}: {failure.text}", file=sys.stderr)
+    return EXIT_CHECK_FAILED if failures else EXIT_OK
 
 
 def _build(result: Design, job_path: Path, output: Path, results_path: Path | None) -> None:

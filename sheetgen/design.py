@@ -14,7 +14,11 @@ from scipy.optimize import brentq
 
 from .engine import resonance as rz
 from .engine.standard_values import StandardPair, best_parallel_pair, nearest_standard
+from .coil_parts import PartError, design_coil, resolve_toroid
+from .engine.coil import coil_q_sweep
+from .engine.magnetics import link_turns
 from .engine.stress import Drive, DriveError, Stress, part_stress
+from .library import PartsLibrary
 from .model import Job
 
 
@@ -28,12 +32,21 @@ class DesignError(ValueError):
 
 @dataclass(frozen=True)
 class CapacitorChoice:
-    """Standard parts for the capacitance the design needs (IEC 60063)."""
+    """Standard parts for the capacitance the design needs (IEC 60063), and what is fitted.
+
+    With a trimmer, the fixed part is picked for the required capacitance less the
+    trimmer's mid-range, and the trimmer is set to make up the rest.
+    """
 
     required_f: float
     series: str
     nearest_f: float
     pair: StandardPair
+    fixed_f: float
+    trimmer_setting_f: float | None
+    trimmer_in_range: bool | None
+    built_f: float
+    from_standard_parts: bool
 
 
 @dataclass(frozen=True)
@@ -44,6 +57,34 @@ class Derivation:
     value: float
     unit: str
     reason: str
+
+
+@dataclass(frozen=True)
+class CoilCurve:
+    """The designed coil's estimated Q against frequency."""
+
+    f_hz: np.ndarray
+    q: np.ndarray
+
+
+@dataclass(frozen=True)
+class CoilDesign:
+    """The coil sheetgen designed: the engine's result and what the design made of it."""
+
+    form: str
+    result: object  # engine.coil.ToroidCoil or SolenoidCoil
+    core_name: str | None
+    material_name: str | None
+    target_inductance_h: float
+    f0_with_whole_turns_hz: float | None  # before the capacitor re-centres it
+    link_turns: int | None
+    link_resistance_ohm: float | None
+    flux_density_max_t: float | None
+    inductance_tolerance: float | None  # ± fraction of the built inductance
+    lead_length_m: float
+    q_used: float
+    q_source: str  # "estimate" or "job"
+    q_curve: CoilCurve
 
 
 @dataclass(frozen=True)
@@ -58,21 +99,43 @@ class Design:
     sweep: rz.Sweep
     capacitor_choice: CapacitorChoice
     derived: tuple[Derivation, ...]
+    coil: CoilDesign | None = None
 
 
-def design(job: Job) -> Design:
-    """Compute the whole design of a job (pure: the same job always gives the same Design)."""
+WIRE_TEMPERATURE_C = 20.0  # copper resistivity reference of IEC 60028
+AIR_CORE_TOLERANCE = 0.05  # hand-wound single-layer coils, set by turn spacing (common practice)
+
+
+def design(job: Job, library: PartsLibrary | None = None) -> Design:
+    """Compute the whole design of a job (pure: the same job always gives the same Design).
+
+    `library` is the parts library that named cores and materials are looked up in.
+    """
     derived: list[Derivation] = []
-    inductance, capacitance = _reactive_parts(job, derived)
+    target_l, required_c = _reactive_parts(job, derived)
+    targets = job.circuit.targets
+    f0_target = targets.f0 if targets else None
+    f_design = f0_target or float(rz.resonant_frequency_hz(target_l, required_c))
+    coil = None
+    if job.inductor.form == "given":
+        inductance = target_l
+    else:
+        coil = _design_coil(job, library, target_l, f_design, None)
+        inductance = coil.inductance_built_h
+        if job.capacitor.capacitance is None:  # re-centre f0 on the whole-turn coil
+            required_c = float(rz.capacitance_for_f0(f0_target, inductance))
+            _replace_derivation(derived, "capacitor.capacitance", required_c,
+                                "for the f0 target with the whole-turn coil")
+    choice = _capacitor_choice(job, required_c)
+    capacitance = choice.built_f
     f0 = float(rz.resonant_frequency_hz(inductance, capacitance))
     x0 = float(rz.reactance_ohm(inductance, f0))
-    coil_r = job.inductor.resistance if job.inductor.resistance is not None else x0 / job.inductor.q
+    coil_r, q_used, q_source = _coil_loss(job, coil, x0, f0)
     esr = (job.capacitor.esr if job.capacitor.esr is not None
            else job.capacitor.dissipation_factor * x0)  # ESR = D / (ωC) and 1/(ω0 C) = X0
     load_r = job.load.resistance if job.load is not None else None
     circuit = rz.Circuit(job.circuit.topology, inductance, coil_r, capacitance, esr,
                          job.source.resistance, load_r)
-    targets = job.circuit.targets
     wanted_q = _wanted_loaded_q(targets, f0)
     if wanted_q is not None:
         if load_r is not None:
@@ -96,10 +159,98 @@ def design(job: Job) -> Design:
     if stop <= start:
         raise DesignError("sweep", f"start {start:.6g} Hz must be below stop {stop:.6g} Hz")
     response = rz.sweep(circuit, np.linspace(start, stop, job.sweep.points))
+    coil_design = None
+    if coil is not None:
+        loaded_coil = _design_coil(job, library, target_l, f_design,
+                                   stress.inductor_voltage_rms_v)
+        coil_design = _coil_design(job, library, loaded_coil, target_l, required_c, circuit,
+                                   q_used, q_source, f0)
+    return Design(job, circuit, drive, resonance, stress, response, choice, tuple(derived),
+                  coil_design)
+
+
+def _design_coil(job: Job, library, inductance_h: float, f_hz: float, voltage_rms_v):
+    try:
+        return design_coil(job.inductor, library, inductance_h, f_hz, voltage_rms_v,
+                           WIRE_TEMPERATURE_C)
+    except PartError as error:
+        raise DesignError(error.field, str(error)) from None
+
+
+def _replace_derivation(derived: list[Derivation], field: str, value: float, reason: str):
+    derived[:] = [d for d in derived if d.field != field]
+    derived.append(Derivation(field, value, "F", reason))
+
+
+def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]:
+    """The coil's series loss resistance at f0, its Q, and whether the job or the estimate
+    gave it (Q = X/r)."""
+    inductor = job.inductor
+    if inductor.form == "given":
+        if inductor.resistance is not None:
+            r = inductor.resistance
+            return r, (x0 / r if r > 0 else float("inf")), "job"
+        return x0 / inductor.q, inductor.q, "job"
+    if inductor.q is not None:
+        return x0 / inductor.q, inductor.q, "job"
+    q = float(coil_q_sweep(coil, f0))
+    return x0 / q, q, "estimate"
+
+
+def _coil_design(job: Job, library, coil, target_l: float, required_c: float,
+                 circuit: rz.Circuit, q_used: float, q_source: str, f0: float) -> CoilDesign:
+    inductor = job.inductor
+    core_name = material_name = flux_limit = None
+    tolerance = AIR_CORE_TOLERANCE
+    if inductor.form == "toroid":
+        parts = resolve_toroid(inductor, library)
+        core_name, material_name = parts.core_name, parts.material_name
+        flux_limit = parts.material.flux_density_max_t
+        tolerance = (parts.core_spec.al_tolerance if parts.core_spec.al_tolerance is not None
+                     else parts.material_spec.mu_i_tolerance)
+    link_turns_n = link_r = None
+    if inductor.form == "toroid" and inductor.link is not None:
+        if circuit.topology != "parallel" or circuit.load_resistance_ohm is None:
+            raise DesignError("inductor.link", "a link winding couples a load to a parallel "
+                              "tank: it needs topology parallel and a load resistance (given "
+                              "or computed from a bandwidth target)")
+        link_r = inductor.link.resistance
+        link_turns_n = link_turns(coil.turns, circuit.load_resistance_ohm, link_r)
+    f0_whole = None
+    if job.capacitor.capacitance is None:
+        f0_whole = float(rz.resonant_frequency_hz(
+            coil.inductance_built_h, rz.capacitance_for_f0(job.circuit.targets.f0, target_l)))
+    high = min(20.0 * f0, 0.98 * coil.srf_hz) if coil.srf_hz else 20.0 * f0
+    f_curve = np.geomspace(f0 / 20.0, high, 241)
+    return CoilDesign(inductor.form, coil, core_name, material_name, target_l, f0_whole,
+                      link_turns_n, link_r, flux_limit, tolerance, inductor.lead_length,
+                      q_used, q_source,
+                      CoilCurve(f_curve, np.asarray(coil_q_sweep(coil, f_curve))))
+
+
+def _capacitor_choice(job: Job, required_c: float) -> CapacitorChoice:
+    """What to fit: the given part, or standard parts (and a trimmer setting) for required_c."""
     series = job.capacitor.preferred_series
-    choice = CapacitorChoice(capacitance, series, nearest_standard(capacitance, series),
-                             best_parallel_pair(capacitance, series))
-    return Design(job, circuit, drive, resonance, stress, response, choice, tuple(derived))
+    trimmer = job.capacitor.trimmer
+    nearest = nearest_standard(required_c, series)
+    pair = best_parallel_pair(required_c, series)
+    if job.capacitor.capacitance is not None:
+        return CapacitorChoice(required_c, series, nearest, pair, required_c, None, None,
+                               required_c, False)
+    if trimmer is None:
+        return CapacitorChoice(required_c, series, nearest, pair, pair.total, None, None,
+                               pair.total, True)
+    middle = 0.5 * (trimmer.minimum + trimmer.maximum)
+    if required_c - middle <= 0:
+        raise DesignError("capacitor.trimmer", f"the trimmer's mid-range ({middle:.4g} F) "
+                          f"exceeds the whole capacitance needed ({required_c:.4g} F); "
+                          "choose a smaller trimmer")
+    fixed = best_parallel_pair(required_c - middle, series)
+    setting = required_c - fixed.total
+    in_range = trimmer.minimum <= setting <= trimmer.maximum
+    clamped = min(max(setting, trimmer.minimum), trimmer.maximum)
+    return CapacitorChoice(required_c, series, nearest, fixed, fixed.total, clamped, in_range,
+                           fixed.total + clamped, True)
 
 
 def _reactive_parts(job: Job, derived: list[Derivation]) -> tuple[float, float]:

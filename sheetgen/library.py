@@ -30,7 +30,7 @@ class PartsLibrary:
 
 def bundled_library_folder() -> Path:
     """The library that ships inside the sheetgen package (the repo's shared/ folder)."""
-    return Path(str(resources.files("sheetgen.library")))
+    return Path(str(resources.files("sheetgen.bundled_library")))
 
 
 def find_library_folder(job_path: Path, named: str | None, cli_folder: Path | None) -> Path:

@@ -12,6 +12,8 @@ import math
 
 from . import __version__
 from .design import Design
+from .checks import failed_checks
+from .winding import coil_check, winding_steps
 
 RESULTS_FORMAT = "sheetgen.results/1"
 
@@ -44,12 +46,18 @@ def results(design: Design) -> dict:
             "capacitor_esr_ohm": circuit.capacitor_esr_ohm,
             "source_resistance_ohm": circuit.source_resistance_ohm,
             "load_resistance_ohm": circuit.load_resistance_ohm,
-            "capacitor_standard": {
+            "capacitor_build": {
                 "series": choice.series,
+                "required_f": choice.required_f,
                 "nearest_f": choice.nearest_f,
-                "pair_f": [v for v in (choice.pair.first, choice.pair.second) if v is not None],
-                "pair_total_f": choice.pair.total,
-                "pair_error_rel": choice.pair.error_rel,
+                "from_standard_parts": choice.from_standard_parts,
+                "fixed_parts_f": ([v for v in (choice.pair.first, choice.pair.second)
+                                   if v is not None] if choice.from_standard_parts
+                                  else [choice.fixed_f]),
+                "fixed_total_f": choice.fixed_f,
+                "trimmer_setting_f": choice.trimmer_setting_f,
+                "trimmer_in_range": choice.trimmer_in_range,
+                "built_f": choice.built_f,
             },
             "derived": [{"field": d.field, "value": d.value, "unit": d.unit, "reason": d.reason}
                         for d in design.derived],
@@ -84,14 +92,68 @@ def results(design: Design) -> dict:
             "inductor_loss_w": stress.inductor_loss_w,
             "capacitor_loss_w": stress.capacitor_loss_w,
         },
-        "inductor": {"form": "given", "inductance_built_h": circuit.inductance_h,
-                     "q_estimated": None, "turns": None, "al_h_per_turn2": None, "wire": None,
-                     "wire_length_m": None, "dc_resistance_ohm": None, "ac_resistance_ohm": None,
-                     "srf_hz": None, "flux_density_peak_t": None, "winding_angle_deg": None,
-                     "fits": None},
+        "inductor": _inductor(design),
         "limits": None,
+        "checks": [{"code": c.code, "field": c.field, "text": c.text}
+                   for c in failed_checks(design)],
         "cautions": [],
     })
+
+
+def _inductor(design: Design) -> dict:
+    """The inductor section: the designed coil's figures, or the given coil's."""
+    coil = design.coil
+    if coil is None:
+        return {"form": "given", "turns": None, "al_h_per_turn2": None,
+                "inductance_built_h": design.circuit.inductance_h, "wire": None,
+                "wire_length_m": None, "dc_resistance_ohm": None, "ac_resistance_ohm": None,
+                "q_estimated": None, "srf_hz": None, "flux_density_peak_t": None,
+                "winding_angle_deg": None, "fits": None}
+    r = coil.result
+    toroid = coil.form == "toroid"
+    check = coil_check(design)
+    section = {
+        "form": coil.form,
+        "turns": r.turns,
+        "al_h_per_turn2": r.al_h_per_turn2 if toroid else None,
+        "al_from_geometry": r.al_from_geometry if toroid else None,
+        "inductance_wanted_h": coil.target_inductance_h,
+        "inductance_built_h": r.inductance_built_h,
+        "inductance_tolerance": coil.inductance_tolerance,
+        "f0_with_whole_turns_hz": coil.f0_with_whole_turns_hz,
+        "core": coil.core_name,
+        "material": coil.material_name,
+        "wire": {"name": r.wire.name, "diameter_m": r.wire.diameter_m,
+                 "overall_diameter_m": r.wire.overall_diameter_m, "grade": r.wire.grade,
+                 "awg": r.wire.awg},
+        "wire_length_m": r.wire_length_m,
+        "lead_length_m": coil.lead_length_m,
+        "dc_resistance_ohm": r.dc_resistance_ohm,
+        "ac_resistance_ohm": r.ac_resistance_ohm,
+        "core_loss_resistance_ohm": r.core_loss_resistance_ohm if toroid else 0.0,
+        "q_estimated": r.q_estimated,
+        "q_used": coil.q_used,
+        "q_source": coil.q_source,
+        "self_capacitance_f": r.self_capacitance_f,
+        "srf_hz": r.srf_hz,
+        "flux_density_peak_t": r.flux_density_peak_t if toroid else None,
+        "flux_density_max_t": coil.flux_density_max_t,
+        "core_loss_w": r.core_loss_w if toroid else None,
+        "temperature_rise_k": r.temperature_rise_k if toroid else None,
+        "turns_per_layer": r.turns_per_layer if toroid else None,
+        "winding_angle_deg": r.winding_angle_deg if toroid else None,
+        "winding_length_m": None if toroid else r.length_m,
+        "pitch_m": None if toroid else r.pitch_m,
+        "nagaoka_coefficient": None if toroid else r.nagaoka,
+        "wheeler_inductance_h": None if toroid else r.wheeler_inductance_h,
+        "fits": r.fits,
+        "remedy": r.remedy if toroid else None,
+        "link_turns": coil.link_turns,
+        "check": {"inductance_h": check.inductance_h, "tolerance": check.tolerance,
+                  "measure_at_hz": check.measure_at_hz},
+        "winding_steps": [step.text for step in winding_steps(design)],
+    }
+    return section
 
 
 def results_json(design: Design) -> str:

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from .design import Design
-from .tables import Row, component_rows, performance_rows, stress_rows
+from .tables import Row, coil_rows, component_rows, performance_rows, stress_rows
 
 
 def _block(title: str, rows: list[Row]) -> list[str]:
@@ -22,6 +22,8 @@ def summary_text(design: Design) -> str:
     lines = [f"{sheet.id} rev {sheet.revision}: {sheet.title}",
              f"designed by {sheet.designer}, {sheet.date}", ""]
     lines += _block("Components", component_rows(design))
+    if design.coil is not None:
+        lines += _block("Coil", coil_rows(design))
     lines += _block("Expected performance", performance_rows(design))
     lines += _block("Stress at the response maximum", stress_rows(design))
     return "\n".join(lines)

@@ -27,27 +27,118 @@ def q(value_si, unit, digits=4):
 
 
 def component_rows(design: Design) -> list[Row]:
-    """The circuit's parts as analysed, with where each value came from."""
+    """The circuit's parts as analysed (as fitted), with where each value came from."""
     c = design.circuit
     derived = {d.field: d.reason for d in design.derived}
-    choice = design.capacitor_choice
-    pair = " + ".join(q(v, "F", 3) for v in (choice.pair.first, choice.pair.second) if v)
+    coil = design.coil
+    if coil is not None:
+        inductance_remark = (f"{coil.result.turns} turns, built"
+                             + (f" on {coil.core_name}" if coil.core_name else ""))
+        loss_remark = ("estimated at f0" if coil.q_source == "estimate"
+                       else "from the job's Q")
+    else:
+        inductance_remark = _origin(derived, "inductor.inductance")
+        loss_remark = "series, at f0"
     rows = [
         Row("Topology", c.topology),
-        Row("Inductance L", q(c.inductance_h, "H"), _origin(derived, "inductor.inductance")),
-        Row("Coil loss resistance rL", q(c.inductor_resistance_ohm, "Ω"), "series, at f0"),
-        Row("Capacitance C", q(c.capacitance_f, "F"), _origin(derived, "capacitor.capacitance")),
+        Row("Inductance L", q(c.inductance_h, "H"), inductance_remark),
+        Row("Coil loss resistance rL", q(c.inductor_resistance_ohm, "Ω"), loss_remark),
+        Row("Capacitance C", q(c.capacitance_f, "F"), "as fitted"),
+    ]
+    rows += capacitor_rows(design)
+    rows += [
         Row("Capacitor ESR rC", q(c.capacitor_esr_ohm, "Ω"), "at f0"),
-        Row(f"Nearest {choice.series} capacitor", q(choice.nearest_f, "F", 3),
-            f"{(choice.nearest_f / choice.required_f - 1) * 100:+.2f} %"),
-        Row(f"Best {choice.series} pair in parallel", pair,
-            f"{choice.pair.error_rel * 100:+.2f} %"),
         Row("Source resistance Rs", q(c.source_resistance_ohm, "Ω")
             if c.source_resistance_ohm is not None else "ideal source"),
         Row("Load resistance RL", q(c.load_resistance_ohm, "Ω")
             if c.load_resistance_ohm is not None else "none",
             _origin(derived, "load.resistance")),
     ]
+    return rows
+
+
+def capacitor_rows(design: Design) -> list[Row]:
+    """What capacitance the design needs and which standard parts make it up."""
+    choice = design.capacitor_choice
+    if not choice.from_standard_parts:
+        return [Row(f"Nearest {choice.series} value", q(choice.nearest_f, "F", 3),
+                    f"{(choice.nearest_f / choice.required_f - 1) * 100:+.2f} %")]
+    derived = {d.field: d.reason for d in design.derived}
+    parts = " + ".join(q(v, "F", 3) for v in (choice.pair.first, choice.pair.second) if v)
+    rows = [Row("Capacitance required", q(choice.required_f, "F"),
+                _origin(derived, "capacitor.capacitance"))]
+    if choice.trimmer_setting_f is None:
+        rows.append(Row(f"Fixed {choice.series} part(s) to fit", parts,
+                        f"{choice.pair.error_rel * 100:+.2f} % of required"))
+    else:
+        trimmer = design.job.capacitor.trimmer
+        rows.append(Row(f"Fixed {choice.series} part(s) to fit", parts, "with the trimmer"))
+        rows.append(Row("Trimmer setting", q(choice.trimmer_setting_f, "F"),
+                        f"range {q(trimmer.minimum, 'F', 3)} to {q(trimmer.maximum, 'F', 3)}"
+                        + ("" if choice.trimmer_in_range else "; OUT OF RANGE")))
+    return rows
+
+
+def coil_rows(design: Design) -> list[Row]:
+    """The designed coil: winding, wire, losses, Q, self-resonance and flux."""
+    coil = design.coil
+    if coil is None:
+        return []
+    r = coil.result
+    rows = [Row("Coil form", coil.form)]
+    if coil.form == "toroid":
+        rows += [
+            Row("Core", coil.core_name, f"material {coil.material_name}"),
+            Row("Inductance factor AL", q(r.al_h_per_turn2 * 1e9, "", 4).strip() + " nH/turn²",
+                "from µi and geometry (IEC 60205)" if r.al_from_geometry else "from the core's data"),
+        ]
+    rows += [
+        Row("Inductance wanted", q(coil.target_inductance_h, "H")),
+        Row("Turns N", str(r.turns), "each pass through the centre is one turn"
+            if coil.form == "toroid" else "whole turns"),
+        Row("Inductance built", q(r.inductance_built_h, "H")),
+    ]
+    if coil.f0_with_whole_turns_hz is not None:
+        rows.append(Row("f0 before re-centring", q(coil.f0_with_whole_turns_hz, "Hz"),
+                        "whole turns, capacitance for the wanted L"))
+    rows += [
+        Row("Wire", r.wire.name, f"grade {r.wire.grade} enamel, "
+            f"{q(r.wire.overall_diameter_m, 'm', 3)} over enamel"),
+        Row("Wire length to cut", q(r.wire_length_m, "m", 3), "winding and both leads"),
+        Row("DC resistance", q(r.dc_resistance_ohm, "Ω")),
+        Row("AC resistance of the wire", q(r.ac_resistance_ohm, "Ω"), "skin and proximity, at f0"),
+    ]
+    if coil.form == "toroid":
+        rows.append(Row("Core loss resistance", q(r.core_loss_resistance_ohm, "Ω"), "at f0"))
+    rows.append(Row("Coil Q", format_number(coil.q_used, 4),
+                    "estimated" if coil.q_source == "estimate" else "from the job"))
+    if coil.form == "solenoid":
+        rows += [
+            Row("Winding length", q(r.length_m, "m", 3), f"pitch {q(r.pitch_m, 'm', 3)}"),
+            Row("Coil diameter", q(r.diameter_m, "m", 3), "to the wire centres"),
+            Row("Nagaoka coefficient", format_number(r.nagaoka, 4)),
+            Row("Wheeler's formula gives", q(r.wheeler_inductance_h, "H"), "cross-check"),
+            Row("Self-capacitance", q(r.self_capacitance_f, "F", 3), "Medhurst (1947)"),
+        ]
+    rows.append(Row("Self-resonant frequency", q(r.srf_hz, "Hz") if r.srf_hz else "not estimated",
+                    "" if r.srf_hz else "no self-capacitance estimate for a toroid"))
+    if coil.form == "toroid":
+        rows += [
+            Row("Peak flux density", q(r.flux_density_peak_t, "T", 3),
+                f"{format_number(r.flux_density_peak_t * 1e4, 3)} G; limit "
+                f"{q(coil.flux_density_max_t, 'T', 3)}"),
+            Row("Core loss", q(r.core_loss_w, "W", 3) if r.core_loss_w is not None else "—",
+                "Steinmetz"),
+            Row("Temperature rise", (format_number(r.temperature_rise_k, 3) + " K")
+                if r.temperature_rise_k is not None else "—", "estimate (common practice)"),
+            Row("Turns per layer", str(r.turns_per_layer), "on the inner circumference"),
+            Row("Winding spread", format_number(r.winding_angle_deg, 3) + "°",
+                f"close-wound {format_number(r.close_wound_angle_deg, 3)}°"),
+        ]
+    rows.append(Row("Winding fits", "yes" if r.fits else "NO"))
+    if coil.link_turns is not None:
+        rows.append(Row("Link winding", f"{coil.link_turns} turns",
+                        f"to {q(coil.link_resistance_ohm, 'Ω')}, M = N√(R_link/R_tank)"))
     return rows
 
 

@@ -10,8 +10,7 @@ from pathlib import Path
 
 import pytest
 
-from sheetgen.design import design
-from sheetgen.jobfile import load_job
+from sheetgen.pipeline import design_from_file
 from sheetgen.results import results
 from tests import spice
 from tests.support import assert_close
@@ -31,7 +30,7 @@ def _measure(components: dict, topology: str) -> spice.ResonanceMeasurement:
 
 @pytest.mark.parametrize("name", JOBS)
 def test_job_agrees_with_ngspice(name):
-    got = results(design(load_job(TEMPLATES / name)))
+    got = results(design_from_file(TEMPLATES / name))
     measured = _measure(got["components"], got["topology"])
     where = f"{name} vs {spice.ngspice_version()}"
     res = got["resonance"]
@@ -68,11 +67,19 @@ def test_design_mode_hits_its_targets_in_ngspice(tmp_path, topology, f0, selecti
     job = tmp_path / "job.yaml"
     job.write_text(TARGET_JOB.format(topology=topology, f0=f0, selectivity=selectivity, L=L,
                                      q=q, rs=rs), encoding="utf-8")
-    got = results(design(load_job(job)))
+    got = results(design_from_file(job))
     measured = _measure(got["components"], topology)
     parts = got["components"]
-    thomson = 1 / (2 * math.pi * math.sqrt(parts["inductance_h"] * parts["capacitance_f"]))
-    assert_close(thomson, f0_hz, rel=1e-9, what="f0 of the computed C (Thomson's formula)")
+    build = parts["capacitor_build"]
+    thomson = 1 / (2 * math.pi * math.sqrt(parts["inductance_h"] * build["required_f"]))
+    assert_close(thomson, f0_hz, rel=1e-9, what="f0 of the required C (Thomson's formula)")
+    assert_close(parts["capacitance_f"], sum(build["fixed_parts_f"]), rel=1e-12,
+                 what="the analysed C is the standard parts fitted")
+    # With standard parts instead of the exact C, f0 moves as f ∝ C^-½ (Thomson's formula).
+    fitted = 1 / (2 * math.pi * math.sqrt(parts["inductance_h"] * parts["capacitance_f"]))
     if topology == "series":
-        assert_close(measured.f_peak_hz, f0_hz, rel=REL, what="series peak in ngspice")
+        assert_close(measured.f_peak_hz, fitted, rel=REL, what="series peak in ngspice")
+    assert_close(fitted, f0_hz * (build["built_f"] / build["required_f"]) ** -0.5, rel=1e-9,
+                 what="f0 with the fitted parts")
+    assert abs(fitted / f0_hz - 1) < 0.01, "standard parts within 1 % of the f0 target"
     assert_close(measured.bandwidth_hz, bandwidth_hz, rel=REL, what="bandwidth in ngspice")

@@ -1,0 +1,71 @@
+"""The design's pass/fail checks, worded: a failed one makes `sheetgen` exit with code 1.
+
+Each failure says which part, by how much, and what to change, from the Design's numbers.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .design import Design
+from .quantities import format_quantity
+
+
+@dataclass(frozen=True)
+class CheckFailure:
+    """One failed check: a short code of our own, the job field to change, the sentence."""
+
+    code: str
+    field: str
+    text: str
+
+
+def failed_checks(design: Design) -> list[CheckFailure]:
+    """Every check the design fails (empty when all pass)."""
+    failures = _coil_failures(design)
+    choice = design.capacitor_choice
+    if choice.trimmer_in_range is False:
+        trimmer = design.job.capacitor.trimmer
+        needed = choice.required_f - choice.fixed_f
+        failures.append(CheckFailure(
+            "trimmer-range", "capacitor.trimmer",
+            f"the trimmer must supply {format_quantity(needed, 'F', 3)} but its range is "
+            f"{format_quantity(trimmer.minimum, 'F', 3)} to "
+            f"{format_quantity(trimmer.maximum, 'F', 3)}; choose a trimmer whose range "
+            "includes it"))
+    return failures
+
+
+def _coil_failures(design: Design) -> list[CheckFailure]:
+    coil = design.coil
+    if coil is None:
+        return []
+    r = coil.result
+    failures = []
+    if not r.fits and coil.form == "toroid":
+        remedy = {
+            "thinner_wire": f"use {r.remedy_wire.name} wire, which fits in one layer"
+            if r.remedy_wire else "use a thinner wire",
+            "two_layers": "wind two layers (Q and self-capacitance suffer), or use a larger core",
+            "larger_core": "use a core with an inner diameter of at least "
+                           f"{format_quantity(r.remedy_inner_diameter_m, 'm', 3)}",
+        }[r.remedy]
+        failures.append(CheckFailure(
+            "winding-fit", "inductor.wire",
+            f"{r.turns} turns of {r.wire.name} need {r.close_wound_angle_deg:.0f}° of the "
+            f"core's inner circumference, more than one layer allows; {remedy}"))
+    if not r.fits and coil.form == "solenoid":
+        failures.append(CheckFailure(
+            "winding-fit", "inductor.pitch",
+            f"{r.turns} turns of {r.wire.name} at a pitch of {format_quantity(r.pitch_m, 'm', 3)} "
+            f"over {format_quantity(r.length_m, 'm', 3)} do not fit: the pitch must be at least "
+            f"the wire's overall diameter {format_quantity(r.wire.overall_diameter_m, 'm', 3)} "
+            "and the length within the former's; use a thinner wire or a longer former"))
+    if coil.form == "toroid" and r.flux_density_within_limit is False:
+        failures.append(CheckFailure(
+            "flux-density", "inductor.core",
+            f"the peak flux density {format_quantity(r.flux_density_peak_t, 'T', 3)} exceeds the "
+            f"material's limit {format_quantity(coil.flux_density_max_t, 'T', 3)} by "
+            f"{(r.flux_density_peak_t / coil.flux_density_max_t - 1) * 100:.0f} %; use a core "
+            "with a larger cross-section, more turns on a lower-AL core, or less drive"))
+    return failures

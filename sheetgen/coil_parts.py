@@ -1,0 +1,107 @@
+"""Job file coil sections + parts library → the engine's coil inputs, and the coil designed.
+
+Resolves a core or material named in the job against the parts library, turns the
+validated job values into the engine's frozen specs (engine/coil.py), and runs the
+designer. Pure: the library is passed in, already loaded.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .engine import coil as coil_engine
+from .engine.magnetics import CoreLossTable
+from .engine.wire import Wire, wire_from_designation
+from .library import PartsLibrary
+from .model import CoreSpec, MaterialSpec, SolenoidInductor, ToroidInductor
+
+
+class PartError(ValueError):
+    """A coil that cannot be designed as asked; `field` is the job field at fault."""
+
+    def __init__(self, field: str, message: str):
+        self.field = field
+        super().__init__(message)
+
+
+@dataclass(frozen=True)
+class ResolvedToroid:
+    """The toroid's core and material as the engine takes them, with their library names."""
+
+    core_name: str
+    material_name: str
+    core: coil_engine.ToroidCore
+    material: coil_engine.CoreMaterial
+    material_spec: MaterialSpec
+    core_spec: CoreSpec
+
+
+def resolve_toroid(inductor: ToroidInductor, library: PartsLibrary | None) -> ResolvedToroid:
+    """Look up the core (and its material) by name, or take them inline."""
+    if isinstance(inductor.core, str):
+        core_spec = _lookup(library, "cores", inductor.core, "inductor.core")
+        core_name = inductor.core
+    else:
+        core_spec, core_name = inductor.core, "inline core"
+    if isinstance(core_spec.material, str):
+        material_spec = _lookup(library, "materials", core_spec.material,
+                                "inductor.core" if core_name != "inline core"
+                                else "inductor.core.material")
+        material_name = core_spec.material
+    else:
+        material_spec, material_name = core_spec.material, "inline material"
+    rows = material_spec.loss
+    kind = "loss_factor" if rows[0].loss_factor is not None else "material_q"
+    table = CoreLossTable(tuple(r.f for r in rows),
+                          tuple(r.loss_factor if kind == "loss_factor" else r.q for r in rows),
+                          kind)
+    steinmetz = material_spec.steinmetz
+    material = coil_engine.CoreMaterial(
+        mu_i=material_spec.mu_i, loss_table=table,
+        flux_density_max_t=material_spec.flux_density_max,
+        steinmetz_k=steinmetz.k if steinmetz else None,
+        steinmetz_alpha=steinmetz.alpha if steinmetz else None,
+        steinmetz_beta=steinmetz.beta if steinmetz else None)
+    core = coil_engine.ToroidCore(core_spec.outer_diameter, core_spec.inner_diameter,
+                                  core_spec.height, core_spec.chamfer, core_spec.al)
+    return ResolvedToroid(core_name, material_name, core, material, material_spec, core_spec)
+
+
+def _lookup(library: PartsLibrary | None, kind: str, name: str, field: str):
+    table = getattr(library, kind) if library is not None else {}
+    if name in table:
+        return table[name]
+    where = f"the parts library in {library.folder}" if library is not None else "no library"
+    known = ", ".join(sorted(table)) or "none"
+    singular = kind[:-1]
+    raise PartError(field, f"no {singular} named {name!r} in {where}; known {kind}: {known}")
+
+
+def resolve_wire(text: str, grade: int, field: str) -> Wire:
+    """The wire of a designation such as "AWG 24" or "0.50 mm"."""
+    try:
+        return wire_from_designation(text, grade)
+    except ValueError as error:
+        raise PartError(field, str(error)) from None
+
+
+def design_coil(inductor: ToroidInductor | SolenoidInductor, library: PartsLibrary | None,
+                inductance_h: float, f_hz: float, voltage_rms_v: float | None,
+                temperature_c: float):
+    """The designed coil (engine result) for a toroid or solenoid inductor section."""
+    wire = resolve_wire(inductor.wire, inductor.enamel_grade, "inductor.wire")
+    try:
+        if inductor.form == "toroid":
+            parts = resolve_toroid(inductor, library)
+            return coil_engine.design_toroid(inductance_h, f_hz, parts.core, parts.material,
+                                             wire, inductor.lead_length, voltage_rms_v,
+                                             temperature_c)
+        former = coil_engine.SolenoidFormer(inductor.former_diameter, inductor.former_length)
+        return coil_engine.design_solenoid(inductance_h, f_hz, former, wire,
+                                           pitch_m=inductor.pitch, length_m=inductor.length,
+                                           lead_length_m=inductor.lead_length,
+                                           temperature_c=temperature_c)
+    except PartError:
+        raise
+    except ValueError as error:
+        raise PartError("inductor", str(error)) from None

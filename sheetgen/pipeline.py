@@ -1,0 +1,37 @@
+"""One call from a job file's path to its Design: load, find the parts library, design.
+
+Problems found after loading (a design that cannot be made as asked) are reported like
+load problems, at the job field they concern, so callers handle one error type.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from .design import Design, DesignError, design
+from .jobfile import JobFileError, Problem, field_position, load_job
+from .library import find_library_folder, load_library
+from .model import Job
+
+
+def needs_library(job: Job) -> bool:
+    """True when the job names a core or material that must come from the parts library."""
+    inductor = job.inductor
+    if inductor.form != "toroid":
+        return False
+    return isinstance(inductor.core, str) or isinstance(inductor.core.material, str)
+
+
+def design_from_file(job_path: Path, library_folder: Path | None = None) -> Design:
+    """The Design of the job file at job_path; JobFileError lists what is wrong with it."""
+    job_path = Path(job_path)
+    job = load_job(job_path)
+    library = None
+    if needs_library(job):
+        library = load_library(find_library_folder(job_path, job.library, library_folder))
+    try:
+        return design(job, library)
+    except DesignError as error:
+        line, column = field_position(job_path, error.field)
+        message = str(error).removeprefix(f"{error.field}: ") if error.field else str(error)
+        raise JobFileError([Problem(str(job_path), line, column, error.field, message)]) from None
