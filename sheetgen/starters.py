@@ -5,7 +5,7 @@ from __future__ import annotations
 from importlib import resources
 from pathlib import Path
 
-TEMPLATE_NAMES = ("series", "parallel")
+TEMPLATE_NAMES = ("series", "parallel", "toroid", "solenoid")
 DEMO_NAME = "demo"
 
 

@@ -145,6 +145,9 @@ def _gauge_from_token(token: str) -> int:
         return 1 - aughts
     if len(token) > 1 and set(token) == {"0"}:  # "00", "000", "0000"
         return 1 - len(token)
+    if token.startswith("-"):  # the aught sizes are written 00…0000 or 2/0…4/0, never negative
+        raise ValueError(f'AWG "{token}" is not a gauge: write the aught sizes as 00, 000, '
+                         f'0000 or 2/0 to 4/0; accepted is {_ACCEPTED}')
     return int(token)
 
 

@@ -1,0 +1,111 @@
+"""Coil jobs through the CLI: library look-up, bad coil input, windings that do not fit.
+
+The expectations are the error contract (exit 2 with FILE:LINE:COLUMN for bad input; exit 1
+with a remedy for a design that fails a check) and ASTM B258's gauge range (0000 to 56).
+"""
+
+import json
+import re
+import shutil
+from pathlib import Path
+
+import pytest
+
+from sheetgen.cli import main
+
+ROOT = Path(__file__).resolve().parent.parent
+TOROID = (ROOT / "templates" / "toroid.yaml").read_text(encoding="utf-8")
+
+
+def _job(tmp_path: Path, text: str) -> Path:
+    path = tmp_path / "job.yaml"
+    path.write_text(text, encoding="utf-8")
+    return path
+
+
+def _run(capsys, *args):
+    code = main([str(a) for a in args])
+    out = capsys.readouterr()
+    assert "Traceback" not in out.err
+    return code, out.out, out.err
+
+
+def test_unknown_core_names_the_known_ones(tmp_path, capsys):
+    job = _job(tmp_path, TOROID.replace("core: ring-18x9.5x6.5-irn10", "core: ring-99"))
+    code, _, err = _run(capsys, "check", job, "--library", ROOT / "shared")
+    assert code == 2
+    assert re.match(rf"^{re.escape(str(job))}:19:9 inductor.core: no core named 'ring-99'", err)
+    assert "ring-18x9.5x6.5-irn10" in err
+
+
+@pytest.mark.parametrize("size", ["AWG 99", "AWG -2", "banana", "-1 mm"])
+def test_wire_that_is_not_a_size(tmp_path, capsys, size):
+    job = _job(tmp_path, TOROID.replace("wire: AWG 24", f"wire: {size}"))
+    code, _, err = _run(capsys, "check", job, "--library", ROOT / "shared")
+    assert code == 2
+    assert err.startswith(f"{job}:20:9 inductor.wire: ") and "is not a" in err
+    assert "accepted is" in err
+
+
+def test_winding_that_does_not_fit_fails_with_a_remedy_that_fits(tmp_path, capsys):
+    crowded = (TOROID.replace("wire: AWG 24", "wire: AWG 16")
+               .replace("inductance: 4.2 uH", "inductance: 9 uH")
+               .replace("bandwidth: 60 kHz", "bandwidth: 120 kHz"))
+    code, out, err = _run(capsys, "check", _job(tmp_path, crowded), "--json",
+                          "--library", ROOT / "shared")
+    assert code == 1
+    got = json.loads(out)
+    assert got["inductor"]["fits"] is False and got["inductor"]["remedy"] == "thinner_wire"
+    suggested = re.search(r"use (AWG \d+) wire", err).group(1)
+    assert "check failed: inductor.wire:" in err
+    code, out, _ = _run(capsys, "check", _job(tmp_path, crowded.replace("AWG 16", suggested)),
+                        "--json", "--library", ROOT / "shared")
+    assert code == 0 and json.loads(out)["inductor"]["fits"] is True
+
+
+def test_library_found_by_walking_up_from_the_job(tmp_path, capsys):
+    """A team library in a shared/ folder above the job wins over the bundled one."""
+    team = tmp_path / "shared"
+    team.mkdir()
+    shutil.copy(ROOT / "shared" / "materials.yaml", team)
+    (team / "cores.yaml").write_text(
+        "cores:\n  team-ring:\n    material: iron-powder-mu10\n    outer_diameter: 20 mm\n"
+        "    inner_diameter: 11 mm\n    height: 7 mm\n", encoding="utf-8")
+    nested = tmp_path / "jobs" / "2026"
+    nested.mkdir(parents=True)
+    job = _job(nested, TOROID.replace("core: ring-18x9.5x6.5-irn10", "core: team-ring"))
+    code, out, _ = _run(capsys, "check", job, "--json")
+    assert code == 0 and json.loads(out)["inductor"]["core"] == "team-ring"
+
+
+def test_job_names_its_library_and_bad_library_files_are_located(tmp_path, capsys):
+    parts = tmp_path / "parts"
+    parts.mkdir()
+    (parts / "cores.yaml").write_text(
+        "cores:\n  r1:\n    material: {mu_i: 10, flux_density_max: 10 mT,\n"
+        "      loss: [{f: 1 MHz, q: 100}]}\n    outer_diameter: 9 mm\n"
+        "    inner_diameter: 12 mm\n    height: 4 mm\n", encoding="utf-8")
+    job = _job(tmp_path, "library: parts\n" + TOROID.replace("ring-18x9.5x6.5-irn10", "r1"))
+    code, _, err = _run(capsys, "check", job)
+    assert code == 2
+    assert err.startswith(f"{parts / 'cores.yaml'}:3:5 cores.r1: inner_diameter must be below")
+
+
+def test_inline_core_needs_no_library(tmp_path, capsys):
+    inline = TOROID.replace(
+        "core: ring-18x9.5x6.5-irn10",
+        "core:\n    material: {mu_i: 10, mu_i_tolerance: 5 %, flux_density_max: 10 mT,\n"
+        "               loss: [{f: 1 MHz, q: 150}, {f: 10 MHz, q: 230}]}\n"
+        "    outer_diameter: 18 mm\n    inner_diameter: 9.5 mm\n    height: 6.5 mm\n"
+        "    al: 82 µH/100 turns")
+    code, out, _ = _run(capsys, "check", _job(tmp_path, inline), "--json")
+    assert code == 0
+    got = json.loads(out)["inductor"]
+    assert got["al_h_per_turn2"] == pytest.approx(8.2e-9, rel=1e-12)  # 82 µH/100 t = 8.2 nH/t²
+    assert got["turns"] ** 2 * 8.2e-9 == pytest.approx(got["inductance_built_h"], rel=1e-12)
+
+
+@pytest.mark.parametrize("kind", ["toroid", "solenoid"])
+def test_new_offers_the_coil_starters(capsys, kind):
+    code, out, _ = _run(capsys, "new", kind)
+    assert code == 0 and f"form: {kind}" in out
