@@ -57,7 +57,9 @@ def build_parser() -> argparse.ArgumentParser:
     new = commands.add_parser("new", help="print a starter job file")
     new.add_argument("kind", choices=TEMPLATE_NAMES, help="which starter")
 
-    commands.add_parser("schema", help="print the JSON Schema of job files")
+    schema = commands.add_parser("schema", help="print the JSON Schema of job files")
+    schema.add_argument("--markdown", action="store_true",
+                        help="print the job file reference in Markdown instead")
     return parser
 
 
@@ -91,6 +93,10 @@ def main(argv: list[str] | None = None) -> int:
 def _run(args) -> int:
     if args.command == "new":
         sys.stdout.write(template_text(args.kind))
+        return EXIT_OK
+    if args.command == "schema" and args.markdown:
+        from .jobdoc import job_reference_markdown
+        sys.stdout.write(job_reference_markdown())
         return EXIT_OK
     if args.command == "schema":
         from .model import Job
