@@ -1,0 +1,75 @@
+"""The command line as a user meets it: summaries, JSON results, starters, the schema.
+
+Outside checks: the JSON Schema is read by the jsonschema library (Draft 2020-12), which
+must accept every starter and reject a job the loader rejects; JSON is parsed by the
+standard library.
+"""
+
+import json
+from pathlib import Path
+
+import jsonschema
+import pytest
+
+from sheetgen.cli import main
+from sheetgen.starters import TEMPLATE_NAMES, template_text
+
+ROOT = Path(__file__).resolve().parent.parent
+
+
+def _run(capsys, *args):
+    code = main([str(a) for a in args])
+    out = capsys.readouterr()
+    assert "Traceback" not in out.err
+    return code, out.out, out.err
+
+
+@pytest.mark.parametrize("name", TEMPLATE_NAMES)
+def test_new_prints_a_starter_that_checks_clean(tmp_path, capsys, name):
+    code, text, _ = _run(capsys, "new", name)
+    assert code == 0 and text == template_text(name)
+    job = tmp_path / f"{name}.yaml"
+    job.write_text(text, encoding="utf-8")
+    code, summary, err = _run(capsys, "check", job, "--library", ROOT / "shared")
+    assert code == 0, err
+    assert "Expected performance" in summary and "Bandwidth (−3 dB)" in summary
+
+
+def test_json_results_follow_the_contract(capsys):
+    code, out, _ = _run(capsys, "check", ROOT / "templates" / "toroid.yaml", "--json")
+    assert code == 0
+    got = json.loads(out)
+    assert got["format"] == "sheetgen.results/1"
+    assert set(got) >= {"tool_version", "sheet", "topology", "components", "resonance",
+                        "stress", "inductor", "limits", "cautions"}
+    assert set(got["resonance"]) >= {"f0_hz", "f_peak_hz", "f_unity_pf_hz", "reactance_ohm",
+                                     "q_unloaded", "q_loaded", "bandwidth_hz", "f_low_hz",
+                                     "f_high_hz", "impedance_at_peak_ohm"}
+    assert set(got["stress"]) >= {"drive_power_w", "capacitor_voltage_peak_v",
+                                  "capacitor_current_rms_a", "inductor_voltage_peak_v",
+                                  "inductor_current_rms_a"}
+    assert got["inductor"]["form"] == "toroid" and isinstance(got["inductor"]["turns"], int)
+
+
+def test_series_results_mark_what_does_not_apply(capsys):
+    code, out, _ = _run(capsys, "check", ROOT / "templates" / "series.yaml", "--json")
+    got = json.loads(out)
+    assert got["resonance"]["f_unity_pf_hz"] is None and got["inductor"]["turns"] is None
+
+
+def test_schema_is_valid_and_accepts_every_starter(capsys):
+    code, out, _ = _run(capsys, "schema")
+    schema = json.loads(out)
+    jsonschema.Draft202012Validator.check_schema(schema)
+    validator = jsonschema.Draft202012Validator(schema)
+    import yaml
+
+    def as_json(text):  # what an editor's YAML language server hands the schema
+        return json.loads(json.dumps(yaml.safe_load(text), default=str))
+
+    for name in TEMPLATE_NAMES + ("demo",):
+        errors = list(validator.iter_errors(as_json(template_text(name))))
+        assert not errors, (name, errors[0].message)
+    bad = as_json(template_text("series"))
+    bad["capacitor"]["colour"] = "blue"
+    assert list(validator.iter_errors(bad)), "an unknown key must fail the schema too"
