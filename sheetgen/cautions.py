@@ -1,0 +1,304 @@
+"""Safety cautions for the sheet, worded from the computed stresses.
+
+Each caution has a signal word (ISO 3864-2 and ANSI Z535.4: DANGER, WARNING, CAUTION;
+NOTICE for information), a short code of our own and a sentence or two that states the
+computed figure ("1.42 kV peak on C1"), the usual precautions, and defers to local codes
+and licensed practice. The level follows the computed figure through one table of
+thresholds, `THRESHOLDS`, each with its source.
+
+Voltages: the limits are rms values for a sinusoidal voltage; the RF on a part is
+sinusoidal, so rms = peak/√2 and both are stated. A capacitor disconnected at a crest
+keeps the peak as a DC voltage; that is compared with the DC limits.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Iterable, Literal, Mapping
+
+from .engine.ratings import discharge_time_s, stored_charge_c, stored_energy_j
+from .engine.resonance import Circuit
+from .engine.stress import Stress
+from .quantities import format_quantity
+
+Level = Literal["danger", "warning", "caution", "notice"]
+SEVERITY: Mapping[str, int] = {"notice": 0, "caution": 1, "warning": 2, "danger": 3}
+
+DEFERRAL = ("Follow local codes and licensed practice; this sheet does not replace a "
+            "qualified safety review.")
+
+
+@dataclass(frozen=True)
+class Threshold:
+    """A level that applies when `measure` is above `above` (strictly, in `unit`).
+
+    `meaning` words the limit; {limit} in it stands for the formatted value (and {peak}
+    for the peak of an rms voltage).
+    """
+
+    measure: Literal["voltage_rms_v", "held_voltage_v", "stored_charge_c", "stored_energy_j",
+                     "surface_temperature_c", "rf_power_w"]
+    above: float
+    unit: str
+    level: Level
+    meaning: str
+    source: str
+
+    def describe(self) -> str:
+        return self.meaning.format(limit=format_quantity(self.above, self.unit),
+                                   peak=format_quantity(self.above * math.sqrt(2.0), self.unit))
+
+
+THRESHOLDS: tuple[Threshold, ...] = (
+    Threshold("voltage_rms_v", 25.0, "V", "caution",
+              "{limit} rms ({peak} peak), up to which IEC 61140 and IEC 60364-4-41 need no "
+              "protection against direct contact in dry conditions",
+              "IEC 61140 extra-low voltage with IEC 60364-4-41 §414.4.5: 25 V a.c. rms or "
+              "60 V ripple-free d.c. in normal dry conditions; from memory"),
+    Threshold("voltage_rms_v", 50.0, "V", "warning",
+              "the {limit} rms ({peak} peak) extra-low-voltage limit of IEC 61140",
+              "IEC 61140: extra-low voltage up to 50 V a.c. rms or 120 V ripple-free d.c., "
+              "the same as IEC 60449 band I; from memory"),
+    Threshold("voltage_rms_v", 1000.0, "V", "danger",
+              "the {limit} rms upper limit of low voltage in IEC 61140",
+              "IEC 61140 and IEC 60449: low voltage up to 1000 V a.c. rms or 1500 V d.c.; "
+              "from memory"),
+    Threshold("held_voltage_v", 60.0, "V", "caution",
+              "the {limit} ripple-free DC limit of IEC 61140 for dry conditions",
+              "IEC 61140 with IEC 60364-4-41 §414.4.5; from memory"),
+    Threshold("stored_charge_c", 45e-6, "C", "warning",
+              "the {limit} of stored charge that IEC 61010-1 counts as hazardous",
+              "IEC 61010-1 §6.3: 45 µC at 60 V … 15 kV; from memory"),
+    Threshold("stored_energy_j", 0.35, "J", "warning",
+              "the {limit} of stored energy that IEC 61010-1 counts as hazardous",
+              "IEC 61010-1 §6.3: 350 mJ (given there above 15 kV, used here at any "
+              "voltage); from memory"),
+    Threshold("surface_temperature_c", 51.0, "°C", "caution",
+              "{limit}, where bare metal burns skin in a one-minute touch (ISO 13732-1)",
+              "ISO 13732-1 burn threshold, uncoated metal, 1 min contact; from memory"),
+    Threshold("surface_temperature_c", 65.0, "°C", "warning",
+              "{limit}, where bare metal burns skin in a one-second touch (ISO 13732-1)",
+              "ISO 13732-1 burn threshold, uncoated metal, 1 s contact; from memory"),
+    Threshold("rf_power_w", 0.02, "W", "notice",
+              "the {limit} low-power exclusion of IEC 62479",
+              "IEC 62479 low-power exclusion for the general public; from memory"),
+    Threshold("rf_power_w", 10.0, "W", "caution",
+              "{limit}, where the near field of an unscreened coil is strong",
+              "common practice"),
+)
+
+THRESHOLDS_BY_MEASURE: Mapping[str, Threshold] = {t.measure: t for t in reversed(THRESHOLDS)}
+"""The least severe threshold of each measure."""
+
+# Above about 100 kHz body current heats rather than stimulates nerves: a touch burns
+# before it is felt as a shock (ICNIRP 1998 uses 100 kHz as the boundary between its
+# stimulation and heating restrictions; from memory).
+RF_BURN_FROM_HZ = 100e3
+SAFE_HELD_VOLTAGE_V = 60.0  # a capacitor is taken as discharged below this (held_voltage_v)
+
+
+@dataclass(frozen=True)
+class Caution:
+    """One caution for the sheet: level (lower case), our code, and the text."""
+
+    level: Level
+    code: str
+    text: str
+
+    @property
+    def signal_word(self) -> str:
+        return self.level.upper()
+
+
+@dataclass(frozen=True)
+class PartHazard:
+    """What a part carries at the operating point (peak voltage, RMS current), and for a
+    capacitor its capacitance and any bleeder; temperature rise above ambient if known."""
+
+    designator: str
+    kind: Literal["capacitor", "inductor"]
+    voltage_peak_v: float
+    current_rms_a: float
+    capacitance_f: float | None = None
+    bleeder_resistance_ohm: float | None = None
+    temperature_rise_k: float | None = None
+
+
+def threshold_for(measure: str, value: float) -> Threshold | None:
+    """The most severe threshold of `measure` that `value` is above, or None."""
+    passed = [t for t in THRESHOLDS if t.measure == measure and value > t.above]
+    return max(passed, key=lambda t: SEVERITY[t.level], default=None)
+
+
+def level_for(measure: str, value: float) -> Level | None:
+    """The level `value` of `measure` calls for, or None below every threshold."""
+    threshold = threshold_for(measure, value)
+    return None if threshold is None else threshold.level
+
+
+def _most_severe(*levels: Level | None) -> Level | None:
+    present = [level for level in levels if level is not None]
+    return max(present, key=SEVERITY.__getitem__, default=None)
+
+
+def _text(*sentences: str) -> str:
+    return " ".join(sentences + (DEFERRAL,))
+
+
+def _volts(peak_v: float) -> str:
+    return (f"{format_quantity(peak_v, 'V')} peak "
+            f"({format_quantity(peak_v / math.sqrt(2.0), 'V')} rms)")
+
+
+def parts_from_stress(circuit: Circuit, stress: Stress, *, capacitor: str = "C1",
+                      inductor: str = "L1", bleeder_resistance_ohm: float | None = None,
+                      capacitor_rise_k: float | None = None,
+                      inductor_rise_k: float | None = None) -> tuple[PartHazard, ...]:
+    """The capacitor and the coil of one circuit, from its computed stresses."""
+    return (
+        PartHazard(capacitor, "capacitor", stress.capacitor_voltage_peak_v,
+                   stress.capacitor_current_rms_a, circuit.capacitance_f,
+                   bleeder_resistance_ohm, capacitor_rise_k),
+        PartHazard(inductor, "inductor", stress.inductor_voltage_peak_v,
+                   stress.inductor_current_rms_a, temperature_rise_k=inductor_rise_k),
+    )
+
+
+def _voltage_caution(part: PartHazard, f_hz: float) -> Caution | None:
+    threshold = threshold_for("voltage_rms_v", part.voltage_peak_v / math.sqrt(2.0))
+    if threshold is None:
+        return None
+    code = "hv-capacitor" if part.kind == "capacitor" else "hv-coil"
+    return Caution(threshold.level, code, _text(
+        f"{_volts(part.voltage_peak_v)} on {part.designator} at "
+        f"{format_quantity(f_hz, 'Hz')}, above {threshold.describe()}.",
+        f"Do not touch {part.designator} or its connections while the drive is on; "
+        f"use insulated tools and probes rated for the voltage."))
+
+
+def _stored_energy_caution(part: PartHazard) -> Caution | None:
+    if part.kind != "capacitor" or part.capacitance_f is None:
+        return None
+    held_v = part.voltage_peak_v
+    level = level_for("held_voltage_v", held_v)
+    if level is None:
+        return None
+    energy = stored_energy_j(part.capacitance_f, held_v)
+    charge = stored_charge_c(part.capacitance_f, held_v)
+    hazardous = (threshold_for("stored_charge_c", charge)
+                 or threshold_for("stored_energy_j", energy))
+    if hazardous is None:
+        # Below IEC 61010-1's charge and energy levels a touch gives a startling, not a
+        # harmful, shock: the reflex is the hazard, so CAUTION.
+        severity = (f"That is below {THRESHOLDS_BY_MEASURE['stored_charge_c'].describe()} and "
+                    f"{THRESHOLDS_BY_MEASURE['stored_energy_j'].describe()}, but the jolt it "
+                    f"gives can cause a fall or a slip of the hand.")
+    else:
+        level = _most_severe(level, hazardous.level)
+        severity = f"That is above {hazardous.describe()}."
+    name = part.designator
+    if part.bleeder_resistance_ohm:
+        time = discharge_time_s(part.capacitance_f, part.bleeder_resistance_ohm, held_v,
+                                SAFE_HELD_VOLTAGE_V)
+        discharge = (f"Through its {format_quantity(part.bleeder_resistance_ohm, 'Ω')} bleeder "
+                     f"it falls below {format_quantity(SAFE_HELD_VOLTAGE_V, 'V')} in "
+                     f"{format_quantity(time, 's')}; wait that long, then discharge it with an "
+                     f"insulated shorting tool and check with a meter before touching.")
+    else:
+        discharge = (f"No bleeder is given: discharge {name} with an insulated shorting tool "
+                     f"and check with a meter before touching.")
+    return Caution(level, "stored-energy", _text(
+        f"{name} can keep up to {format_quantity(held_v, 'V')} DC if the circuit is broken at "
+        f"a crest of the RF: {format_quantity(energy, 'J')} and "
+        f"{format_quantity(charge, 'C')} stored (½CV², Q = CV).", severity, discharge))
+
+
+def _rf_burn_caution(parts: Iterable[PartHazard], f_hz: float,
+                     level: Level | None) -> Caution | None:
+    if f_hz < RF_BURN_FROM_HZ or level is None:
+        return None
+    parts = tuple(parts)
+    highest = max(parts, key=lambda p: p.voltage_peak_v)
+    hottest = max(parts, key=lambda p: p.current_rms_a)
+    return Caution(_most_severe("caution", min(level, "warning", key=SEVERITY.__getitem__)),
+                   "rf-burn", _text(
+        f"Radio frequency at {format_quantity(f_hz, 'Hz')}: {_volts(highest.voltage_peak_v)} "
+        f"on {highest.designator} and {format_quantity(hottest.current_rms_a, 'A')} rms "
+        f"through {hottest.designator}.",
+        "RF current may not be felt as a shock yet burns deep under the skin, and it arcs "
+        "from high-voltage points; keep hands, rings and tools off live parts while driven."))
+
+
+def _hot_caution(part: PartHazard, ambient_max_c: float) -> Caution | None:
+    if part.temperature_rise_k is None:
+        return None
+    surface_c = ambient_max_c + part.temperature_rise_k
+    threshold = threshold_for("surface_temperature_c", surface_c)
+    if threshold is None:
+        return None
+    code = "hot-core" if part.kind == "inductor" else "hot-capacitor"
+    return Caution(threshold.level, code, _text(
+        f"{part.designator} runs {format_quantity(part.temperature_rise_k, 'K')} above ambient: "
+        f"up to {format_quantity(surface_c, '°C')} in a "
+        f"{format_quantity(ambient_max_c, '°C')} ambient, above {threshold.describe()}.",
+        f"Let {part.designator} cool before handling and keep cables and plastics clear of it."))
+
+
+def _exposure_caution(rf_power_w: float) -> Caution | None:
+    threshold = threshold_for("rf_power_w", rf_power_w)
+    if threshold is None:
+        return None
+    return Caution(threshold.level, "rf-exposure", _text(
+        f"{format_quantity(rf_power_w, 'W')} of RF in the circuit, above "
+        f"{threshold.describe()}.",
+        "Assess the fields near the coil against the applicable exposure limits, keep the "
+        "circuit screened while driven and keep people clear while testing."))
+
+
+def _enclosure_caution(parts: Iterable[PartHazard], level: Level | None) -> Caution | None:
+    if level is None or SEVERITY[level] < SEVERITY["warning"]:
+        return None
+    highest = max(parts, key=lambda p: p.voltage_peak_v)
+    return Caution(level, "covers-interlocks", _text(
+        f"Up to {_volts(highest.voltage_peak_v)} on {highest.designator}: test inside a "
+        f"screened enclosure with its covers fitted and its interlocks working, never defeat "
+        f"an interlock to tune, and switch the drive off and discharge before opening."))
+
+
+def _no_hazard_notice(parts: Iterable[PartHazard]) -> Caution:
+    highest = max(parts, key=lambda p: p.voltage_peak_v)
+    limit = THRESHOLDS[0]
+    return Caution("notice", "no-hazardous-voltage", _text(
+        f"No hazardous voltage was computed at the given drive: the highest is "
+        f"{_volts(highest.voltage_peak_v)} on {highest.designator}, within {limit.describe()}.",
+        "A higher drive, a fault or mistuning can give more; check before raising the drive."))
+
+
+_ORDER = ("covers-interlocks", "hv-capacitor", "hv-coil", "stored-energy", "rf-burn",
+          "hot-core", "hot-capacitor", "rf-exposure", "no-hazardous-voltage")
+
+
+def cautions(parts: Iterable[PartHazard], f_hz: float, rf_power_w: float, *,
+             ambient_max_c: float = 25.0) -> tuple[Caution, ...]:
+    """Every caution the computed stresses call for, most severe first.
+
+    parts: what each part carries at the operating frequency f_hz; rf_power_w: the RF
+    power the drive puts into the circuit; ambient_max_c: the highest ambient, to which a
+    part's temperature rise is added.
+    """
+    parts = tuple(parts)
+    if not parts:
+        raise ValueError("cautions need at least one part")
+    voltage_level = _most_severe(*(level_for("voltage_rms_v", p.voltage_peak_v / math.sqrt(2.0))
+                                   for p in parts))
+    found = [_voltage_caution(p, f_hz) for p in parts]
+    found += [_stored_energy_caution(p) for p in parts]
+    found.append(_rf_burn_caution(parts, f_hz, voltage_level))
+    found += [_hot_caution(p, ambient_max_c) for p in parts]
+    found.append(_exposure_caution(rf_power_w))
+    found.append(_enclosure_caution(parts, voltage_level))
+    if voltage_level is None:
+        found.append(_no_hazard_notice(parts))
+    kept = [caution for caution in found if caution is not None]
+    return tuple(sorted(kept, key=lambda c: (-SEVERITY[c.level], _ORDER.index(c.code))))

@@ -1,0 +1,166 @@
+"""Test limits for the work order, and the trimmer range, from a variation analysis.
+
+A window is the central interval of the Monte Carlo trials at the stated coverage (or
+the span of the worst-case corners), rounded outward to the resolution of the instrument
+the technician reads it with, so a good unit is never failed by rounding.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from .resonance import capacitance_for_f0
+from .variation import Method, VariationResult, central_interval
+
+DEFAULT_Q_RESOLUTION = 0.1  # loaded Q is read from f0/bandwidth; one decimal place (ours)
+
+
+def round_down(value: float, step: float) -> float:
+    """The largest multiple of `step` not above `value` (a multiple stays as it is)."""
+    return _multiple(value, step, math.floor)
+
+
+def round_up(value: float, step: float) -> float:
+    """The smallest multiple of `step` not below `value` (a multiple stays as it is)."""
+    return _multiple(value, step, math.ceil)
+
+
+def _multiple(value: float, step: float, direction) -> float:
+    if not step > 0.0:
+        raise ValueError("a resolution must be positive")
+    if not math.isfinite(value):
+        return value
+    count = value / step
+    nearest = round(count)
+    # A value that is a multiple but for floating-point error is taken as that multiple.
+    if math.isclose(count, nearest, rel_tol=1e-9, abs_tol=1e-9):
+        count = nearest
+    else:
+        count = direction(count)
+    return float(f"{count * step:.12g}")
+
+
+@dataclass(frozen=True)
+class TestLimits:
+    """Pass windows for the bench test, rounded outward (NaN where no trial gave a value).
+
+    f0 is Thomson's 1/(2π√(LC)) of the parts; f_peak is the maximum of the response,
+    which is what the bench finds (the two coincide for a series circuit).
+    coverage and seed are None for a worst case.
+    """
+
+    __test__ = False  # not a pytest test class
+
+    method: Method
+    coverage: float | None
+    trials: int
+    seed: int | None
+    nan_trials: int
+    resolution_hz: float
+    q_resolution: float
+    f0_min_hz: float
+    f0_max_hz: float
+    f_peak_min_hz: float
+    f_peak_max_hz: float
+    bandwidth_min_hz: float
+    bandwidth_max_hz: float
+    q_loaded_min: float
+    q_loaded_max: float
+
+
+def test_limits(variation: VariationResult, coverage: float | None = None,
+                resolution_hz: float = 1.0, *,
+                q_resolution: float = DEFAULT_Q_RESOLUTION) -> TestLimits:
+    """Windows of f0, f_peak, bandwidth and loaded Q at `coverage` (default: the
+    variation's own), each rounded outward to resolution_hz (q_resolution for Q).
+
+    For a worst case the windows span every corner and `coverage` is not used.
+    """
+    if variation.method == "worst-case":
+        coverage = None
+    elif coverage is None:
+        coverage = variation.coverage
+    if coverage is not None and not 0.0 < coverage < 1.0:
+        raise ValueError("coverage must lie strictly between 0 and 1")
+
+    def window(values, step):
+        interval = central_interval(values, coverage)
+        return round_down(interval.low, step), round_up(interval.high, step)
+
+    f0 = window(variation.f0_hz, resolution_hz)
+    f_peak = window(variation.f_peak_hz, resolution_hz)
+    bandwidth = window(variation.bandwidth_hz, resolution_hz)
+    q = window(variation.q_loaded, q_resolution)
+    return TestLimits(
+        method=variation.method, coverage=coverage, trials=variation.trials,
+        seed=variation.seed, nan_trials=variation.nan_trials, resolution_hz=resolution_hz,
+        q_resolution=q_resolution, f0_min_hz=f0[0], f0_max_hz=f0[1],
+        f_peak_min_hz=f_peak[0], f_peak_max_hz=f_peak[1],
+        bandwidth_min_hz=bandwidth[0], bandwidth_max_hz=bandwidth[1],
+        q_loaded_min=q[0], q_loaded_max=q[1])
+
+
+test_limits.__test__ = False  # not a pytest test function
+
+
+@dataclass(frozen=True)
+class TrimmerCheck:
+    """The trimmer capacitance the trials need to reach the target f0, and whether the
+    chosen trimmer spans it. Margins are positive when the trimmer has room to spare:
+    margin_low_f = needed_min_f − trimmer_min_f, margin_high_f = trimmer_max_f − needed_max_f.
+    needed_f holds every trial's value (read-only)."""
+
+    method: Method
+    coverage: float | None
+    target_f0_hz: float
+    fixed_capacitance_f: float
+    trimmer_min_f: float
+    trimmer_max_f: float
+    nominal_needed_f: float
+    needed_min_f: float
+    needed_max_f: float
+    covers: bool
+    margin_low_f: float
+    margin_high_f: float
+    fraction_tunable: float
+    needed_f: np.ndarray
+
+
+def trimmer_check(variation: VariationResult, target_f0_hz: float,
+                  fixed_capacitance_f: float, trimmer_min_f: float, trimmer_max_f: float,
+                  coverage: float | None = None) -> TrimmerCheck:
+    """C_needed = 1/(ω_target² L_trial) − C_fixed_trial for every trial (Thomson's
+    formula solved for C), its range at `coverage` (default: the variation's own; all
+    corners for a worst case), and whether [trimmer_min_f, trimmer_max_f] covers it.
+
+    The variation's capacitance factor (tolerance and temperature) applies to the fixed
+    capacitor; the trimmer is the part being set, so its own drift is not included.
+    """
+    if not (target_f0_hz > 0.0 and fixed_capacitance_f >= 0.0
+            and 0.0 <= trimmer_min_f < trimmer_max_f):
+        raise ValueError("need f0 > 0, fixed capacitance ≥ 0 and 0 ≤ trimmer min < max")
+    if variation.method == "worst-case":
+        coverage = None
+    elif coverage is None:
+        coverage = variation.coverage
+    parts = variation.parts
+    needed = (capacitance_for_f0(target_f0_hz, parts.inductance_h)
+              - fixed_capacitance_f * parts.capacitance_factor)
+    needed = np.ascontiguousarray(needed, dtype=float)
+    needed.setflags(write=False)
+    interval = central_interval(needed, coverage)
+    nominal = float(capacitance_for_f0(target_f0_hz, variation.nominal.inductance_h)
+                    - fixed_capacitance_f)
+    tunable = (needed >= trimmer_min_f) & (needed <= trimmer_max_f)
+    return TrimmerCheck(
+        method=variation.method, coverage=coverage, target_f0_hz=target_f0_hz,
+        fixed_capacitance_f=fixed_capacitance_f, trimmer_min_f=trimmer_min_f,
+        trimmer_max_f=trimmer_max_f, nominal_needed_f=nominal,
+        needed_min_f=interval.low, needed_max_f=interval.high,
+        covers=bool(trimmer_min_f <= interval.low and interval.high <= trimmer_max_f),
+        margin_low_f=interval.low - trimmer_min_f, margin_high_f=trimmer_max_f - interval.high,
+        fraction_tunable=float(tunable.mean()), needed_f=needed)
+

@@ -1,0 +1,289 @@
+"""Component ratings: each stress on a part against its rating, derated, with a remedy.
+
+A check passes when actual ≤ allowed = rating × derating. A failed check can be accepted
+by an explicit written reason; it then stays in the results, marked accepted. Every
+failed check carries a sentence saying which part, by how much, and what to change,
+computed from its numbers (`Remedy` keeps those numbers).
+
+Stresses scale with the drive: in a linear circuit every voltage and current goes with
+√P_drive, every power with P_drive, which is how the drive that would pass is found.
+Also here: the energy, charge and discharge time of a capacitor left charged.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Iterable, Literal
+
+from ..quantities import format_number, format_quantity
+from .wire import current_density_a_per_m2
+
+CheckQuantity = Literal["peak voltage", "RF current", "power in ESR", "current density",
+                        "flux density"]
+
+# Common practice: ceramic and mica capacitors run at no more than half their rated
+# voltage in high-reliability work (e.g. the derating tables of NASA EEE-INST-002 for
+# ceramic capacitors, from memory); the voltage rating is compared with the peak of the
+# RF voltage (plus any DC), as the trade reads a DC-rated part.
+DEFAULT_VOLTAGE_DERATING = 0.5
+# Common practice: RF current held to 80 % of the maker's RF current rating.
+DEFAULT_CURRENT_DERATING = 0.8
+# Common practice: 4 A/mm² for enamelled copper windings cooled by free air (figures of
+# 3 … 5 A/mm² are the usual range; the DC cross-section is used, skin effect aside).
+DEFAULT_CURRENT_DENSITY_LIMIT_A_PER_M2 = 4.0e6
+
+
+@dataclass(frozen=True)
+class Remedy:
+    """The numbers behind a failed check's advice (None where a remedy does not apply).
+
+    required_rating: the rating that would pass at the same derating (actual / derating);
+    parts_needed: that many of the present part in `arrangement` share the stress;
+    drive_power_max_w: the drive power at which the check just passes.
+    """
+
+    required_rating: float
+    parts_needed: int | None = None
+    arrangement: Literal["series", "parallel"] | None = None
+    drive_power_max_w: float | None = None
+    esr_max_ohm: float | None = None
+    wire_diameter_min_m: float | None = None
+    core_area_factor: float | None = None
+
+
+@dataclass(frozen=True)
+class RatingCheck:
+    """One stress on one part against its derated rating.
+
+    margin = (allowed − actual)/allowed: the share of the allowed value left unused,
+    negative when over. accepted is True for a failed check with a written reason.
+    """
+
+    part: str
+    quantity: CheckQuantity
+    unit: str
+    actual: float
+    rating: float
+    derating: float
+    allowed: float
+    margin: float
+    passed: bool
+    accepted: bool
+    acceptance_reason: str | None
+    advice: str | None
+    remedy: Remedy | None
+
+    @property
+    def status(self) -> Literal["pass", "accepted", "fail"]:
+        return "pass" if self.passed else ("accepted" if self.accepted else "fail")
+
+
+def failed_checks(checks: Iterable[RatingCheck]) -> tuple[RatingCheck, ...]:
+    """The checks that fail and are not accepted (the design fails when there is one)."""
+    return tuple(check for check in checks if check.status == "fail")
+
+
+def _validate(part: str, actual: float, rating: float, derating: float,
+              acceptance: str | None) -> None:
+    if not part.strip():
+        raise ValueError("a check needs a part designator such as C1 or L1")
+    if not (math.isfinite(actual) and actual >= 0.0):
+        raise ValueError(f"{part}: the stress must be a finite value ≥ 0, not {actual!r}")
+    if not (math.isfinite(rating) and rating > 0.0):
+        raise ValueError(f"{part}: a rating must be positive and finite, not {rating!r}")
+    if not 0.0 < derating <= 1.0:
+        raise ValueError(f"{part}: a derating factor must lie in (0, 1], not {derating!r}")
+    if acceptance is not None and not acceptance.strip():
+        raise ValueError(f"{part}: an acceptance needs a written reason")
+
+
+def _shown(value: float, unit: str) -> str:
+    """A stress in the trade's units: current density in A/mm², the rest in SI."""
+    if unit == "A/m²":
+        return format_quantity(value * 1e-6, "A/mm²")
+    return format_quantity(value, unit)
+
+
+def _percent(fraction: float) -> str:
+    return f"{format_number(100.0 * fraction, 3)} %"
+
+
+def _drive_scaled(drive_power_w: float | None, ratio: float, exponent: float) -> float | None:
+    """Drive power at which a stress ∝ P^(1/exponent) falls to the allowed value."""
+    if drive_power_w is None:
+        return None
+    return drive_power_w * ratio**exponent
+
+
+def _make(part: str, quantity: CheckQuantity, unit: str, actual: float, rating: float,
+          derating: float, acceptance: str | None, remedy_for, advice_for) -> RatingCheck:
+    _validate(part, actual, rating, derating, acceptance)
+    allowed = rating * derating
+    passed = actual <= allowed
+    remedy = advice = None
+    if not passed:
+        remedy = remedy_for(allowed)
+        over = actual / allowed - 1.0
+        derated = ("" if derating == 1.0 else
+                   f" ({_percent(derating)} of its {_shown(rating, unit)} rating)")
+        advice = (f"{part}: {quantity} {_shown(actual, unit)} is {_percent(over)} over "
+                  f"the allowed {_shown(allowed, unit)}{derated}. "
+                  f"{advice_for(remedy)}.")
+    reason = acceptance.strip() if acceptance is not None else None
+    return RatingCheck(part=part, quantity=quantity, unit=unit, actual=actual, rating=rating,
+                       derating=derating, allowed=allowed, margin=1.0 - actual / allowed,
+                       passed=passed, accepted=(not passed) and reason is not None,
+                       acceptance_reason=reason, advice=advice, remedy=remedy)
+
+
+def _or_drive(remedy: Remedy) -> str:
+    if remedy.drive_power_max_w is None:
+        return ""
+    return f", or lower the drive to at most {format_quantity(remedy.drive_power_max_w, 'W')}"
+
+
+def capacitor_voltage_check(part: str, peak_voltage_v: float, rated_voltage_v: float, *,
+                            derating: float = DEFAULT_VOLTAGE_DERATING,
+                            drive_power_w: float | None = None,
+                            acceptance: str | None = None) -> RatingCheck:
+    """Peak voltage on a capacitor against its rated voltage × derating.
+
+    Remedies: a part rated ≥ V̂/derating; n = ⌈V̂/allowed⌉ equal parts in series, each of n
+    times the capacitance (equal capacitors in series share the voltage equally); or the
+    drive P·(allowed/V̂)².
+    """
+    def remedy(allowed):
+        return Remedy(required_rating=peak_voltage_v / derating,
+                      parts_needed=math.ceil(peak_voltage_v / allowed), arrangement="series",
+                      drive_power_max_w=_drive_scaled(drive_power_w, allowed / peak_voltage_v,
+                                                      2.0))
+
+    def advice(r: Remedy):
+        return (f"Fit a capacitor rated at least {format_quantity(r.required_rating, 'V')}, "
+                f"or {r.parts_needed} of the present rating in series, each of "
+                f"{r.parts_needed}× the capacitance{_or_drive(r)}")
+
+    return _make(part, "peak voltage", "V", peak_voltage_v, rated_voltage_v, derating,
+                 acceptance, remedy, advice)
+
+
+def capacitor_current_check(part: str, current_rms_a: float, rated_current_rms_a: float, *,
+                            derating: float = DEFAULT_CURRENT_DERATING,
+                            drive_power_w: float | None = None,
+                            acceptance: str | None = None) -> RatingCheck:
+    """RF current through a capacitor against its RF current rating × derating.
+
+    Remedies: a part rated ≥ I/derating; n = ⌈I/allowed⌉ equal parts in parallel, each of
+    1/n of the capacitance; or the drive P·(allowed/I)².
+    """
+    def remedy(allowed):
+        return Remedy(required_rating=current_rms_a / derating,
+                      parts_needed=math.ceil(current_rms_a / allowed), arrangement="parallel",
+                      drive_power_max_w=_drive_scaled(drive_power_w, allowed / current_rms_a,
+                                                      2.0))
+
+    def advice(r: Remedy):
+        return (f"Fit a capacitor rated for at least {format_quantity(r.required_rating, 'A')}"
+                f" rms, or {r.parts_needed} in parallel, each of 1/{r.parts_needed} of the "
+                f"capacitance{_or_drive(r)}")
+
+    return _make(part, "RF current", "A", current_rms_a, rated_current_rms_a, derating,
+                 acceptance, remedy, advice)
+
+
+def esr_power_check(part: str, power_w: float, rated_power_w: float, *,
+                    esr_ohm: float | None = None, derating: float = 1.0,
+                    drive_power_w: float | None = None,
+                    acceptance: str | None = None) -> RatingCheck:
+    """Power dissipated in a capacitor's ESR (I²·ESR) against a power rating × derating.
+
+    Remedies: at the same current the power goes with the ESR, so an ESR ≤
+    ESR·allowed/P; a part rated ≥ P/derating; or the drive P_drive·allowed/P.
+    """
+    def remedy(allowed):
+        ratio = allowed / power_w
+        return Remedy(required_rating=power_w / derating,
+                      esr_max_ohm=None if esr_ohm is None else esr_ohm * ratio,
+                      drive_power_max_w=_drive_scaled(drive_power_w, ratio, 1.0))
+
+    def advice(r: Remedy):
+        esr = ("" if r.esr_max_ohm is None else
+               f"Fit a capacitor with an ESR of at most {format_quantity(r.esr_max_ohm, 'Ω')} "
+               f"at this frequency, or one ")
+        start = esr or "Fit a capacitor "
+        return (f"{start}rated to dissipate at least "
+                f"{format_quantity(r.required_rating, 'W')}{_or_drive(r)}")
+
+    return _make(part, "power in ESR", "W", power_w, rated_power_w, derating, acceptance,
+                 remedy, advice)
+
+
+def current_density_check(part: str, current_rms_a: float, diameter_m: float, *,
+                          limit_a_per_m2: float = DEFAULT_CURRENT_DENSITY_LIMIT_A_PER_M2,
+                          drive_power_w: float | None = None,
+                          acceptance: str | None = None) -> RatingCheck:
+    """Current density in the winding wire, J = I/(π d²/4), against a limit.
+
+    Remedies: a copper diameter d ≥ √(4 I/(π J_limit)); or the drive P·(J_limit/J)².
+    """
+    if not diameter_m > 0.0:
+        raise ValueError(f"{part}: the wire diameter must be positive")
+    density = float(current_density_a_per_m2(current_rms_a, diameter_m))
+
+    def remedy(allowed):
+        return Remedy(required_rating=density,
+                      wire_diameter_min_m=math.sqrt(4.0 * current_rms_a / (math.pi * allowed)),
+                      drive_power_max_w=_drive_scaled(drive_power_w, allowed / density, 2.0))
+
+    def advice(r: Remedy):
+        return (f"Wind it with wire of at least "
+                f"{format_quantity(r.wire_diameter_min_m, 'm')} copper diameter"
+                f"{_or_drive(r)}")
+
+    return _make(part, "current density", "A/m²", density, limit_a_per_m2, 1.0, acceptance,
+                 remedy, advice)
+
+
+def flux_density_check(part: str, flux_density_peak_t: float, limit_t: float, *,
+                       derating: float = 1.0, drive_power_w: float | None = None,
+                       acceptance: str | None = None) -> RatingCheck:
+    """Peak flux density in a core against the material's limit × derating.
+
+    B̂ = √2 V/(ω N Ae) (Faraday's law), so at the same voltage and turns a core of
+    B̂/allowed times the cross-section Ae passes; or the drive P·(allowed/B̂)².
+    """
+    def remedy(allowed):
+        return Remedy(required_rating=flux_density_peak_t / derating,
+                      core_area_factor=flux_density_peak_t / allowed,
+                      drive_power_max_w=_drive_scaled(drive_power_w,
+                                                      allowed / flux_density_peak_t, 2.0))
+
+    def advice(r: Remedy):
+        return (f"Use a core with at least {format_number(r.core_area_factor, 3)}× the "
+                f"cross-section Ae, or a material rated for at least "
+                f"{format_quantity(r.required_rating, 'T')}{_or_drive(r)}")
+
+    return _make(part, "flux density", "T", flux_density_peak_t, limit_t, derating,
+                 acceptance, remedy, advice)
+
+
+def stored_energy_j(capacitance_f: float, voltage_v: float) -> float:
+    """W = ½ C V², the energy in a capacitor charged to V."""
+    return 0.5 * capacitance_f * voltage_v * voltage_v
+
+
+def stored_charge_c(capacitance_f: float, voltage_v: float) -> float:
+    """Q = C V."""
+    return capacitance_f * voltage_v
+
+
+def discharge_time_s(capacitance_f: float, resistance_ohm: float, from_v: float,
+                     to_v: float) -> float:
+    """t = R C ln(V0/V1), the time an RC discharge V0·e^(−t/RC) takes to fall to V1
+    (0 when already there)."""
+    if not (capacitance_f > 0.0 and resistance_ohm > 0.0 and to_v > 0.0):
+        raise ValueError("discharge needs C > 0, R > 0 and a positive end voltage")
+    if from_v <= to_v:
+        return 0.0
+    return resistance_ohm * capacitance_f * math.log(from_v / to_v)

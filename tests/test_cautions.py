@@ -1,0 +1,164 @@
+"""sheetgen.cautions: levels at the thresholds of the standards, and the figures stated.
+
+Sources (see tests/reference/variation.md; all limit figures from memory):
+- IEC 61140 (protection against electric shock): extra-low voltage up to 50 V a.c. rms /
+  120 V ripple-free d.c.; low voltage up to 1000 V a.c. rms / 1500 V d.c.; with
+  IEC 60364-4-41 §414.4.5, no protection against direct contact is needed in normal dry
+  conditions up to 25 V a.c. rms / 60 V ripple-free d.c. The a.c. limits are rms; for the
+  sinusoidal RF on a part, peak = √2 · rms.
+- IEC 61010-1 §6.3: a stored charge above 45 µC (60 V … 15 kV) or energy above 350 mJ is
+  hazardous.
+- ISO 13732-1: burn thresholds of bare metal, 51 °C for 1 min and 65 °C for 1 s contact.
+- IEC 62479: the 20 mW low-power exclusion for RF exposure.
+- ISO 3864-2 / ANSI Z535.4 signal words DANGER, WARNING, CAUTION, NOTICE.
+- Series resonance: the capacitor carries Q times the source voltage, Q = √(L/C)/R
+  (Alexander & Sadiku, Fundamentals of Electric Circuits, 5th ed., §14.5).
+- RC discharge V0·e^(−t/RC): t = RC ln(V0/V1).
+"""
+
+import math
+
+import pytest
+
+from sheetgen import cautions as ca
+from sheetgen.engine.resonance import Circuit, analyse
+from sheetgen.engine.stress import Drive, part_stress
+
+BELOW, ABOVE = 1.0 - 1e-6, 1.0 + 1e-6
+SQRT2 = math.sqrt(2.0)
+
+
+def _capacitor(peak_v, capacitance_f=100e-12, bleeder_ohm=None, rise_k=None):
+    return ca.PartHazard("C1", "capacitor", peak_v, 0.5, capacitance_f, bleeder_ohm, rise_k)
+
+
+def _coil(peak_v, rise_k=None):
+    return ca.PartHazard("L1", "inductor", peak_v, 0.5, temperature_rise_k=rise_k)
+
+
+def _by_code(found):
+    return {caution.code: caution for caution in found}
+
+
+# (rms voltage on the parts, expected level of hv-capacitor; None → no hazard)
+VOLTAGE_BOUNDARIES = [
+    pytest.param(25.0 * BELOW, None, id="IEC61140-dry-25V-just-below"),
+    pytest.param(25.0 * ABOVE, "caution", id="IEC61140-dry-25V-just-above"),
+    pytest.param(50.0 * BELOW, "caution", id="IEC61140-ELV-50V-just-below"),
+    pytest.param(50.0 * ABOVE, "warning", id="IEC61140-ELV-50V-just-above"),
+    pytest.param(1000.0 * BELOW, "warning", id="IEC61140-LV-1000V-just-below"),
+    pytest.param(1000.0 * ABOVE, "danger", id="IEC61140-LV-1000V-just-above"),
+]
+
+
+@pytest.mark.parametrize("rms_v, level", VOLTAGE_BOUNDARIES)
+def test_voltage_levels_at_the_iec_61140_limits(rms_v, level):
+    peak_v = rms_v * SQRT2  # the limits are rms; RF on a part is sinusoidal
+    found = _by_code(ca.cautions([_capacitor(peak_v), _coil(peak_v)], 1e6, 0.001))
+    if level is None:
+        assert "hv-capacitor" not in found and "hv-coil" not in found
+        assert found["no-hazardous-voltage"].level == "notice"
+    else:
+        assert found["hv-capacitor"].level == level and found["hv-coil"].level == level
+        assert "no-hazardous-voltage" not in found
+    # covers and interlocks from the ELV limit up
+    assert ("covers-interlocks" in found) == (level in ("warning", "danger"))
+
+
+def test_hazardous_figures_are_stated_peak_and_rms():
+    found = _by_code(ca.cautions([_capacitor(1420.0), _coil(35.0)], 7.1e6, 0.001))
+    text = found["hv-capacitor"].text
+    assert "1.42 kV peak (1.00 kV rms) on C1 at 7.10 MHz" in text
+    assert found["hv-capacitor"].signal_word == "DANGER"  # 1004 V rms > 1000 V (IEC 61140)
+    assert "hv-coil" not in found  # 24.7 V rms on L1 is within the dry 25 V limit
+
+
+def test_every_caution_ends_by_deferring_to_local_codes():
+    parts = [_capacitor(5000.0, 1e-6, 1e6, rise_k=60.0), _coil(5000.0, rise_k=60.0)]
+    found = ca.cautions(parts, 13.56e6, 50.0, ambient_max_c=40.0)
+    assert {c.code for c in found} >= {"hv-capacitor", "hv-coil", "stored-energy", "rf-burn",
+                                       "hot-core", "hot-capacitor", "rf-exposure",
+                                       "covers-interlocks"}
+    for caution in found:
+        assert caution.text.endswith(ca.DEFERRAL), caution.code
+        assert "local codes and licensed practice" in caution.text
+    severities = [ca.SEVERITY[c.level] for c in found]
+    assert severities == sorted(severities, reverse=True)  # most severe first
+
+
+def test_a_low_level_design_still_carries_a_notice():
+    found = ca.cautions([_capacitor(3.0), _coil(3.0)], 10.7e6, 0.005)
+    assert [c.code for c in found] == ["no-hazardous-voltage"]
+    assert found[0].signal_word == "NOTICE"
+    assert found[0].text.startswith("No hazardous voltage was computed at the given drive")
+    assert "3.00 V peak (2.12 V rms) on C1" in found[0].text
+
+
+@pytest.mark.parametrize("capacitance_f, peak_v, level", [
+    pytest.param(100e-12, 60.0 * BELOW, None, id="IEC61140-60V-DC-just-below"),
+    pytest.param(100e-12, 60.0 * ABOVE, "caution", id="IEC61140-60V-DC-just-above"),
+    pytest.param(0.45e-6 * BELOW, 100.0, "caution", id="IEC61010-45uC-just-below"),
+    pytest.param(0.45e-6 * ABOVE, 100.0, "warning", id="IEC61010-45uC-just-above"),
+    # at 20 kV, 350 mJ is 35 µC: the energy limit binds before the charge limit
+    pytest.param(2 * 0.35 / 20e3**2 * BELOW, 20e3, "caution", id="IEC61010-350mJ-just-below"),
+    pytest.param(2 * 0.35 / 20e3**2 * ABOVE, 20e3, "warning", id="IEC61010-350mJ-just-above"),
+])
+def test_stored_energy_levels(capacitance_f, peak_v, level):
+    found = _by_code(ca.cautions([_capacitor(peak_v, capacitance_f)], 1e6, 0.001))
+    if level is None:
+        assert "stored-energy" not in found
+    else:
+        assert found["stored-energy"].level == level
+
+
+def test_stored_energy_states_energy_charge_and_bleeder_time():
+    # 1 µF at 100 V: ½CV² = 5.00 mJ, CV = 100 µC; 100 kΩ takes RC ln(100/60) = 51.1 ms
+    found = _by_code(ca.cautions([_capacitor(100.0, 1e-6, 100e3)], 1e6, 0.001))
+    text = found["stored-energy"].text
+    assert "5.00 mJ" in text and "100 µC" in text and "51.1 ms" in text
+    without = _by_code(ca.cautions([_capacitor(100.0, 1e-6)], 1e6, 0.001))
+    assert "insulated shorting tool" in without["stored-energy"].text
+
+
+@pytest.mark.parametrize("rise_k, level", [
+    pytest.param(11.0 * BELOW, None, id="ISO13732-51C-just-below"),
+    pytest.param(11.0 * ABOVE, "caution", id="ISO13732-51C-just-above"),
+    pytest.param(25.0 * BELOW, "caution", id="ISO13732-65C-just-below"),
+    pytest.param(25.0 * ABOVE, "warning", id="ISO13732-65C-just-above"),
+])
+def test_hot_core_levels_in_a_40_degree_ambient(rise_k, level):
+    found = _by_code(ca.cautions([_capacitor(3.0), _coil(3.0, rise_k)], 1e6, 0.001,
+                                 ambient_max_c=40.0))
+    if level is None:
+        assert "hot-core" not in found
+    else:
+        assert found["hot-core"].level == level
+        assert "in a 40.0 °C ambient" in found["hot-core"].text
+
+
+@pytest.mark.parametrize("power_w, level", [
+    pytest.param(0.02 * BELOW, None, id="IEC62479-20mW-just-below"),
+    pytest.param(0.02 * ABOVE, "notice", id="IEC62479-20mW-just-above"),
+    pytest.param(10.0 * BELOW, "notice", id="10W-common-practice-just-below"),
+    pytest.param(10.0 * ABOVE, "caution", id="10W-common-practice-just-above"),
+])
+def test_rf_exposure_levels(power_w, level):
+    found = _by_code(ca.cautions([_capacitor(3.0), _coil(3.0)], 1e6, power_w))
+    assert (found["rf-exposure"].level if "rf-exposure" in found else None) == level
+
+
+@pytest.mark.parametrize("f_hz, burns", [(99e3, False), (101e3, True)])
+def test_rf_burn_from_100_khz(f_hz, burns):
+    found = _by_code(ca.cautions([_capacitor(200.0), _coil(200.0)], f_hz, 0.001))
+    assert ("rf-burn" in found) == burns
+
+
+def test_series_circuit_capacitor_carries_q_times_the_source_voltage():
+    # L = 10 µH, C = 253.3 pF, R = 10 Ω in the loop: X0 = √(L/C) = 198.7 Ω, Q = 19.87;
+    # 10 V rms gives 198.7 V rms = 281 V peak on C1 (Alexander & Sadiku §14.5)
+    circuit = Circuit("series", 10e-6, 4.0, 253.3e-12, 0.0, 6.0, None)
+    stress = part_stress(circuit, Drive("voltage", 10.0), analyse(circuit).f_peak_hz)
+    parts = ca.parts_from_stress(circuit, stress)
+    found = _by_code(ca.cautions(parts, stress.f_hz, stress.drive_power_w))
+    assert "281 V peak (199 V rms) on C1" in found["hv-capacitor"].text
+    assert found["hv-capacitor"].level == "warning"  # 199 V rms > 50 V (IEC 61140)
