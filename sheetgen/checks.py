@@ -21,8 +21,23 @@ class CheckFailure:
 
 
 def failed_checks(design: Design) -> list[CheckFailure]:
-    """Every check the design fails (empty when all pass)."""
+    """Every check the design fails (empty when all pass); accepted ratings do not fail."""
     failures = _coil_failures(design)
+    for check in design.assessment.ratings:
+        if check.status == "fail":
+            failures.append(CheckFailure("rating", _rating_field(design, check), check.advice))
+    trim = design.assessment.trimmer
+    if trim is not None and not trim.covers and design.capacitor_choice.trimmer_in_range:
+        share = "all" if trim.coverage is None else f"{trim.coverage * 100:.2f} %"
+        failures.append(CheckFailure(
+            "trimmer-coverage", "capacitor.trimmer",
+            f"to tune {share} of builds to f0 the trimmer must span "
+            f"{format_quantity(trim.needed_min_f, 'F', 3)} to "
+            f"{format_quantity(trim.needed_max_f, 'F', 3)}, but it spans "
+            f"{format_quantity(trim.trimmer_min_f, 'F', 3)} to "
+            f"{format_quantity(trim.trimmer_max_f, 'F', 3)} (it tunes "
+            f"{trim.fraction_tunable * 100:.1f} % of builds); choose a wider trimmer or a "
+            "closer-tolerance capacitor and coil"))
     choice = design.capacitor_choice
     if choice.trimmer_in_range is False:
         trimmer = design.job.capacitor.trimmer
@@ -34,6 +49,13 @@ def failed_checks(design: Design) -> list[CheckFailure]:
             f"{format_quantity(trimmer.maximum, 'F', 3)}; choose a trimmer whose range "
             "includes it"))
     return failures
+
+
+def _rating_field(design: Design, check) -> str:
+    """The job field to change for a failed rating check."""
+    if check.quantity in ("flux density", "current density"):
+        return "inductor"
+    return "capacitor.trimmer" if check.part == design.designators.trimmer else "capacitor"
 
 
 def _coil_failures(design: Design) -> list[CheckFailure]:
@@ -61,11 +83,4 @@ def _coil_failures(design: Design) -> list[CheckFailure]:
             f"over {format_quantity(r.length_m, 'm', 3)} do not fit: the pitch must be at least "
             f"the wire's overall diameter {format_quantity(r.wire.overall_diameter_m, 'm', 3)} "
             "and the length within the former's; use a thinner wire or a longer former"))
-    if coil.form == "toroid" and r.flux_density_within_limit is False:
-        failures.append(CheckFailure(
-            "flux-density", "inductor.core",
-            f"the peak flux density {format_quantity(r.flux_density_peak_t, 'T', 3)} exceeds the "
-            f"material's limit {format_quantity(coil.flux_density_max_t, 'T', 3)} by "
-            f"{(r.flux_density_peak_t / coil.flux_density_max_t - 1) * 100:.0f} %; use a core "
-            "with a larger cross-section, more turns on a lower-AL core, or less drive"))
     return failures

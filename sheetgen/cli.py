@@ -50,6 +50,13 @@ def build_parser() -> argparse.ArgumentParser:
     build.add_argument("--results", type=Path, help="also write the results JSON here")
     build.add_argument("--library", type=Path, help="parts library folder (default: see README)")
 
+    limits = commands.add_parser("limits", help="write the test limits for a work order")
+    limits.add_argument("job", type=Path, help="YAML job file")
+    limits.add_argument("--format", choices=("csv", "json"), default="csv",
+                        help="csv (default) or json")
+    limits.add_argument("-o", "--output", type=Path, help="file to write (default: print)")
+    limits.add_argument("--library", type=Path, help="parts library folder (default: see README)")
+
     demo = commands.add_parser("demo", help="build the bundled demo job's sheet")
     demo.add_argument("-o", "--output", type=Path, default=Path("demo.pdf"),
                       help="PDF to write (default: demo.pdf)")
@@ -113,6 +120,15 @@ def _run(args) -> int:
             sys.stdout.write(results_json(result))
         else:
             sys.stdout.write(summary_text(result))
+        return _exit_for(result)
+    if args.command == "limits":
+        from .results import limits_csv, limits_json
+        text = limits_csv(result) if args.format == "csv" else limits_json(result)
+        if args.output is None:
+            sys.stdout.write(text)
+        else:
+            write_atomically(args.output, text.encode("utf-8"))
+            print(f"wrote {args.output}")
         return _exit_for(result)
     output = args.output or job_path.with_suffix(".pdf")
     _build(result, job_path, output, getattr(args, "results", None))

@@ -14,7 +14,9 @@ from scipy.optimize import brentq
 
 from .engine import resonance as rz
 from .engine.standard_values import StandardPair, best_parallel_pair, nearest_standard
+from .assessment import Assessment, assess
 from .coil_parts import PartError, design_coil, resolve_toroid
+from .designators import Designators, designators
 from .engine.coil import coil_q_sweep
 from .engine.magnetics import link_turns
 from .engine.stress import Drive, DriveError, Stress, part_stress
@@ -81,6 +83,7 @@ class CoilDesign:
     link_resistance_ohm: float | None
     flux_density_max_t: float | None
     inductance_tolerance: float | None  # ± fraction of the built inductance
+    inductance_tc: float | None  # 1/K
     lead_length_m: float
     q_used: float
     q_source: str  # "estimate" or "job"
@@ -99,7 +102,9 @@ class Design:
     sweep: rz.Sweep
     capacitor_choice: CapacitorChoice
     derived: tuple[Derivation, ...]
-    coil: CoilDesign | None = None
+    coil: CoilDesign | None
+    designators: Designators
+    assessment: Assessment
 
 
 WIRE_TEMPERATURE_C = 20.0  # copper resistivity reference of IEC 60028
@@ -165,8 +170,38 @@ def design(job: Job, library: PartsLibrary | None = None) -> Design:
                                    stress.inductor_voltage_rms_v)
         coil_design = _coil_design(job, library, loaded_coil, target_l, required_c, circuit,
                                    q_used, q_source, f0)
+    fixed = ((choice.pair.first,) + ((choice.pair.second,) if choice.pair.second else ())
+             if choice.from_standard_parts else (choice.fixed_f,))
+    names = designators(len(fixed), choice.trimmer_setting_f is not None,
+                        circuit.source_resistance_ohm is not None,
+                        circuit.load_resistance_ohm is not None
+                        or (coil_design is not None and coil_design.link_turns is not None),
+                        coil_design is not None and coil_design.link_turns is not None)
+    try:
+        assessment = _assess(job, circuit, resonance, stress, response, names, choice, fixed,
+                             coil_design, f0_target)
+    except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
+        raise DesignError("variation", str(error)) from None
     return Design(job, circuit, drive, resonance, stress, response, choice, tuple(derived),
-                  coil_design)
+                  coil_design, names, assessment)
+
+
+def _assess(job, circuit, resonance, stress, response, names, choice, fixed, coil, f0_target):
+    """The limits, checks and cautions, with the coil's tolerance and temperature data."""
+    if coil is None:
+        tolerance = job.inductor.tolerance
+        tc = job.inductor.temperature_coefficient
+        return assess(job, circuit, resonance, stress, response, names,
+                      f0_target_hz=f0_target, fixed_capacitance_f=choice.fixed_f,
+                      inductance_tolerance=tolerance, inductance_tc=tc, fixed_parts_f=fixed)
+    r = coil.result
+    return assess(job, circuit, resonance, stress, response, names, f0_target_hz=f0_target,
+                  fixed_capacitance_f=choice.fixed_f,
+                  inductance_tolerance=coil.inductance_tolerance,
+                  inductance_tc=coil.inductance_tc, coil=r,
+                  flux_limit_t=coil.flux_density_max_t, wire_diameter_m=r.wire.diameter_m,
+                  coil_temperature_rise_k=getattr(r, "temperature_rise_k", None),
+                  fixed_parts_f=fixed)
 
 
 def _design_coil(job: Job, library, inductance_h: float, f_hz: float, voltage_rms_v):
@@ -201,13 +236,19 @@ def _coil_design(job: Job, library, coil, target_l: float, required_c: float,
                  circuit: rz.Circuit, q_used: float, q_source: str, f0: float) -> CoilDesign:
     inductor = job.inductor
     core_name = material_name = flux_limit = None
-    tolerance = AIR_CORE_TOLERANCE
+    tolerance = inductor.tolerance
+    tc = inductor.temperature_coefficient
     if inductor.form == "toroid":
         parts = resolve_toroid(inductor, library)
         core_name, material_name = parts.core_name, parts.material_name
         flux_limit = parts.material.flux_density_max_t
-        tolerance = (parts.core_spec.al_tolerance if parts.core_spec.al_tolerance is not None
-                     else parts.material_spec.mu_i_tolerance)
+        if tolerance is None:
+            tolerance = (parts.core_spec.al_tolerance if parts.core_spec.al_tolerance is not None
+                         else parts.material_spec.mu_i_tolerance)
+        if tc is None:
+            tc = parts.material_spec.mu_tc  # AL ∝ µ, so L follows µ's coefficient
+    elif tolerance is None:
+        tolerance = AIR_CORE_TOLERANCE
     link_turns_n = link_r = None
     if inductor.form == "toroid" and inductor.link is not None:
         if circuit.topology != "parallel" or circuit.load_resistance_ohm is None:
@@ -223,7 +264,7 @@ def _coil_design(job: Job, library, coil, target_l: float, required_c: float,
     high = min(20.0 * f0, 0.98 * coil.srf_hz) if coil.srf_hz else 20.0 * f0
     f_curve = np.geomspace(f0 / 20.0, high, 241)
     return CoilDesign(inductor.form, coil, core_name, material_name, target_l, f0_whole,
-                      link_turns_n, link_r, flux_limit, tolerance, inductor.lead_length,
+                      link_turns_n, link_r, flux_limit, tolerance, tc, inductor.lead_length,
                       q_used, q_source,
                       CoilCurve(f_curve, np.asarray(coil_q_sweep(coil, f_curve))))
 

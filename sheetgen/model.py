@@ -146,6 +146,10 @@ class GivenInductor(Section):
     q: PositiveNumber | None = Field(None, description="the coil's unloaded Q at f0")
     resistance: LossResistance | None = Field(
         None, description="the coil's series loss resistance at f0 (instead of q)")
+    tolerance: Fraction | None = Field(None, description="± tolerance of the inductance, e.g. "
+                                       "5 % (omit: taken as exact)")
+    temperature_coefficient: TemperatureCoefficient | None = Field(
+        None, description="temperature coefficient of the inductance, e.g. 50 ppm/K")
 
     @model_validator(mode="after")
     def _one_loss(self):
@@ -260,6 +264,12 @@ class ToroidInductor(Section):
     link: LinkWinding | None = Field(None, description="a link winding (optional)")
     q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
                                      "the estimate (optional)")
+    tolerance: Fraction | None = Field(None, description="± tolerance of the wound inductance "
+                                       "(default: the core's AL tolerance, else its material's "
+                                       "µi tolerance)")
+    temperature_coefficient: TemperatureCoefficient | None = Field(
+        None, description="temperature coefficient of the inductance (default: the material's "
+        "µi coefficient)")
 
 
 class SolenoidInductor(Section):
@@ -277,6 +287,10 @@ class SolenoidInductor(Section):
     lead_length: LeadLength = Field(0.025, description="length of each lead beyond the winding")
     q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
                                      "the estimate (optional)")
+    tolerance: Fraction | None = Field(None, description="± tolerance of the wound inductance "
+                                       "(default 5 %, common practice for hand-wound coils)")
+    temperature_coefficient: TemperatureCoefficient | None = Field(
+        None, description="temperature coefficient of the inductance (omit: not varied)")
 
     @model_validator(mode="after")
     def _spacing(self):
@@ -293,6 +307,7 @@ class Trimmer(Section):
 
     minimum: Capacitance = Field(description="capacitance at minimum mesh")
     maximum: Capacitance = Field(description="capacitance at maximum mesh")
+    rated_voltage: Voltage | None = Field(None, description="the trimmer's rated (peak) voltage")
 
     @model_validator(mode="after")
     def _ordered(self):
@@ -313,10 +328,31 @@ class CapacitorSection(Section):
         "E12", description="IEC 60063 series that standard values are picked from")
     trimmer: Trimmer | None = Field(None, description="a trimmer in parallel that re-centres "
                                     "f0 (optional)")
+    tolerance: Fraction | None = Field(
+        None, description="± tolerance of the fixed part(s) (default: the one IEC 60063 pairs "
+        "with the preferred series: E6 20 %, E12 10 %, E24 5 %, E48 2 %, E96 1 %, E192 0.5 %)")
+    dielectric: Literal["C0G", "NP0", "X7R", "X5R", "Y5V"] | None = Field(
+        None, description="ceramic dielectric, which sets how C moves with temperature "
+        "(C0G/NP0 class 1: 0 ± 30 ppm/K; X7R, X5R, Y5V class 2)")
+    temperature_coefficient: TemperatureCoefficient | None = Field(
+        None, description="temperature coefficient of C for a class 1 part other than C0G "
+        "(e.g. -750 ppm/K); instead of dielectric")
+    rated_voltage: Voltage | None = Field(None, description="rated voltage of each fixed part "
+                                          "(peak; a DC rating), checked against the peak RF "
+                                          "voltage with derating")
+    rated_current: Current | None = Field(None, description="RF current rating of each fixed "
+                                          "part (RMS), checked with derating")
+    rated_power: Power | None = Field(None, description="power each fixed part may dissipate "
+                                      "in its ESR")
+    bleeder: Resistance | None = Field(None, description="bleeder resistor across the "
+                                       "capacitor, for the discharge time in the cautions")
 
     @model_validator(mode="after")
     def _one_loss(self):
         exactly_one(self, ("esr", "dissipation_factor"), "the capacitor's loss")
+        if self.dielectric is not None and self.temperature_coefficient is not None:
+            raise PydanticCustomError("exclusive", "give dielectric or temperature_coefficient, "
+                                      "not both")
         return self
 
 
@@ -346,6 +382,78 @@ class LoadSection(Section):
     resistance: Resistance | None = Field(
         None, description="load resistance; omit with circuit.targets.bandwidth or loaded_q to "
         "have it computed")
+    tolerance: Fraction | None = Field(None, description="± tolerance of the load resistance "
+                                       "(omit: exact)")
+
+
+class OperatingTemperature(Section):
+    """The ambient range the circuit must meet its limits over."""
+
+    minimum: Temperature = Field(15.0, description="lowest ambient temperature")
+    maximum: Temperature = Field(35.0, description="highest ambient temperature")
+
+    @model_validator(mode="after")
+    def _ordered(self):
+        if self.maximum < self.minimum:
+            raise PydanticCustomError("order", "maximum must not be below minimum")
+        return self
+
+
+class VariationSection(Section):
+    """How part tolerances and temperature turn into test limits."""
+
+    method: Literal["monte-carlo", "worst-case"] = Field(
+        "monte-carlo", description="monte-carlo: limits at a coverage of random builds; "
+        "worst-case: limits spanning every corner of the tolerance bands")
+    distribution: Literal["uniform", "normal"] = Field(
+        "uniform", description="how a tolerance band is read: uniform within the band, or "
+        "normal with the band at ±3σ")
+    trials: int = Field(100_000, ge=100, le=2_000_000, description="Monte Carlo trials")
+    seed: int = Field(1, ge=0, description="random seed; the same job and seed give the same "
+                      "limits")
+    coverage: Fraction = Field(0.9973, description="share of correctly built units the limits "
+                               "must pass, e.g. 99.73 %")
+    loss_tolerance: Fraction | None = Field(
+        None, description="± spread of the coil's loss resistance and the capacitor's ESR "
+        "(omit: exact)")
+    temperature: OperatingTemperature = Field(
+        OperatingTemperature(), description="operating ambient range (default 15 to 35 °C, a "
+        "bench and indoor range)")
+
+    @model_validator(mode="after")
+    def _coverage(self):
+        if not 0.5 <= self.coverage < 1.0:
+            raise PydanticCustomError("coverage", "coverage must be at least 50 % and below 100 %")
+        return self
+
+
+class TestSection(Section):
+    """The bench test: what the instruments resolve."""
+
+    __test__ = False  # not a pytest test class
+
+    frequency_resolution: Frequency | None = Field(
+        None, description="frequency resolution of the test set; limits are rounded outward "
+        "to it (default: a power of ten near bandwidth/50)")
+
+
+class Acceptance(Section):
+    """An explicit, reasoned acceptance of one failed rating check."""
+
+    check: str = Field(min_length=1, max_length=100, description='the check, as the sheet names '
+                       'it: part and quantity, e.g. "C1 peak voltage"')
+    reason: str = Field(min_length=10, max_length=2000, description="why it is acceptable, and "
+                        "who accepted it")
+
+
+class RatingsSection(Section):
+    """Derating and recorded acceptances for the component rating checks."""
+
+    voltage_derating: Fraction = Field(0.5, description="share of a capacitor's rated voltage "
+                                       "it may carry (default 50 %, common practice)")
+    current_derating: Fraction = Field(0.8, description="share of a rated current a part may "
+                                       "carry (default 80 %, common practice)")
+    accept: tuple[Acceptance, ...] = Field((), description="failed checks accepted on purpose")
 
 
 class SweepSection(Section):
@@ -377,3 +485,6 @@ class Job(Section):
     source: SourceSection
     load: LoadSection | None = None
     sweep: SweepSection = SweepSection()
+    variation: VariationSection = VariationSection()
+    test: TestSection = TestSection()
+    ratings: RatingsSection = RatingsSection()

@@ -93,10 +93,13 @@ def results(design: Design) -> dict:
             "capacitor_loss_w": stress.capacitor_loss_w,
         },
         "inductor": _inductor(design),
-        "limits": None,
+        "limits": limits_section(design),
+        "variation": _variation(design),
+        "ratings": [_rating(check) for check in design.assessment.ratings],
         "checks": [{"code": c.code, "field": c.field, "text": c.text}
                    for c in failed_checks(design)],
-        "cautions": [],
+        "cautions": [{"level": c.level, "code": c.code, "text": c.text}
+                     for c in design.assessment.cautions],
     })
 
 
@@ -154,6 +157,106 @@ def _inductor(design: Design) -> dict:
         "winding_steps": [step.text for step in winding_steps(design)],
     }
     return section
+
+
+def limits_section(design: Design) -> dict:
+    """The test limits for a work order: windows rounded outward, the trimmer range."""
+    a = design.assessment
+    lim, trim = a.limits, a.trimmer
+    return {
+        "method": lim.method,
+        "coverage": lim.coverage,
+        "trials": lim.trials,
+        "seed": lim.seed,
+        "distribution": design.job.variation.distribution,
+        "temperature_min_c": a.spec.temperature_min_c,
+        "temperature_max_c": a.spec.temperature_max_c,
+        "f0_for_tuned_unit": a.tuned,
+        "resolution_hz": lim.resolution_hz,
+        "f0_min_hz": lim.f0_min_hz, "f0_max_hz": lim.f0_max_hz,
+        "f_peak_min_hz": lim.f_peak_min_hz, "f_peak_max_hz": lim.f_peak_max_hz,
+        "bandwidth_min_hz": lim.bandwidth_min_hz, "bandwidth_max_hz": lim.bandwidth_max_hz,
+        "q_loaded_min": lim.q_loaded_min, "q_loaded_max": lim.q_loaded_max,
+        "trim_capacitance_min_f": trim.needed_min_f if trim else None,
+        "trim_capacitance_max_f": trim.needed_max_f if trim else None,
+        "trimmer_covers": trim.covers if trim else None,
+        "trimmer_fraction_tunable": trim.fraction_tunable if trim else None,
+        "nan_trials": lim.nan_trials,
+    }
+
+
+def _variation(design: Design) -> dict:
+    """Percentiles of each figure over the trials, and the spreads that produced them."""
+    a = design.assessment
+    summary = a.variation.summary
+
+    def stats(p):
+        return {"low": p.low, "median": p.median, "high": p.high, "mean": p.mean,
+                "std": p.std, "minimum": p.minimum, "maximum": p.maximum}
+
+    return {
+        "capacitance_tolerance": a.capacitor_tolerance,
+        "capacitance_tolerance_source": a.capacitor_tolerance_source,
+        "inductance_tolerance": a.inductance_tolerance,
+        "f0_hz": stats(summary.f0_hz), "f_peak_hz": stats(summary.f_peak_hz),
+        "bandwidth_hz": stats(summary.bandwidth_hz), "q_loaded": stats(summary.q_loaded),
+        "impedance_at_peak_ohm": stats(summary.impedance_at_peak_ohm),
+    }
+
+
+def _rating(check) -> dict:
+    return {"part": check.part, "quantity": check.quantity, "unit": check.unit,
+            "actual": check.actual, "rating": check.rating, "derating": check.derating,
+            "allowed": check.allowed, "margin": check.margin, "status": check.status,
+            "acceptance_reason": check.acceptance_reason, "advice": check.advice}
+
+
+LIMIT_ROWS = (  # CSV rows: quantity, unit, keys of the minimum and maximum
+    ("f0", "Hz", "f0_min_hz", "f0_max_hz"),
+    ("frequency of maximum response", "Hz", "f_peak_min_hz", "f_peak_max_hz"),
+    ("bandwidth (-3 dB)", "Hz", "bandwidth_min_hz", "bandwidth_max_hz"),
+    ("loaded Q", "", "q_loaded_min", "q_loaded_max"),
+    ("trimmer capacitance needed", "F", "trim_capacitance_min_f", "trim_capacitance_max_f"),
+)
+
+
+def limits_csv(design: Design) -> str:
+    """The limits as CSV for a work-order system: one row per tested quantity, SI units."""
+    import csv
+    import io
+    lim = limits_section(design)
+    nominal = {"f0_min_hz": design.resonance.f0_hz, "f_peak_min_hz": design.resonance.f_peak_hz,
+               "bandwidth_min_hz": design.resonance.bandwidth_hz,
+               "q_loaded_min": design.resonance.q_loaded,
+               "trim_capacitance_min_f": design.capacitor_choice.trimmer_setting_f}
+    out = io.StringIO()
+    writer = csv.writer(out, lineterminator="\n")
+    writer.writerow(["sheet_id", "revision", "quantity", "unit", "nominal", "minimum",
+                     "maximum", "method", "coverage", "seed"])
+    sheet = design.job.sheet
+    for quantity, unit, low, high in LIMIT_ROWS:
+        if lim[low] is None:
+            continue
+        writer.writerow([sheet.id, sheet.revision, quantity, unit,
+                         _csv_number(nominal.get(low)), _csv_number(lim[low]),
+                         _csv_number(lim[high]), lim["method"], _csv_number(lim["coverage"]),
+                         "" if lim["seed"] is None else lim["seed"]])
+    return out.getvalue()
+
+
+def _csv_number(value) -> str:
+    if value is None or (isinstance(value, float) and not math.isfinite(value)):
+        return ""
+    return repr(float(value))
+
+
+def limits_json(design: Design) -> str:
+    """The limits section alone, with the sheet's identity, as JSON."""
+    sheet = design.job.sheet
+    return json.dumps(_clean({"format": RESULTS_FORMAT, "tool_version": __version__,
+                              "sheet": {"id": sheet.id, "revision": sheet.revision},
+                              "limits": limits_section(design)}),
+                      indent=2, ensure_ascii=False) + "\n"
 
 
 def results_json(design: Design) -> str:

@@ -3,7 +3,9 @@
 from __future__ import annotations
 
 from .design import Design
-from .tables import Row, coil_rows, component_rows, performance_rows, stress_rows
+from .checks import failed_checks
+from .tables import (Row, coil_rows, component_rows, limits_rows, performance_rows, rating_rows,
+                     stress_rows)
 
 
 def _block(title: str, rows: list[Row]) -> list[str]:
@@ -26,4 +28,13 @@ def summary_text(design: Design) -> str:
         lines += _block("Coil", coil_rows(design))
     lines += _block("Expected performance", performance_rows(design))
     lines += _block("Stress at the response maximum", stress_rows(design))
+    lines += _block("Test limits", limits_rows(design))
+    ratings = rating_rows(design)
+    if ratings:
+        lines += _block("Ratings", ratings)
+    lines += ["Cautions", "--------"]
+    lines += [f"  {c.signal_word}: {c.text}" for c in design.assessment.cautions] + [""]
+    failures = failed_checks(design)
+    lines += ["Checks", "------"]
+    lines += ([f"  FAILED {f.field}: {f.text}" for f in failures] or ["  all pass"]) + [""]
     return "\n".join(lines)

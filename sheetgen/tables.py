@@ -196,3 +196,54 @@ def stress_rows(design: Design) -> list[Row]:
         Row("Power in the capacitor's ESR", q(s.capacitor_loss_w, "W")),
         Row("Power in the load", q(s.load_power_w, "W")),
     ]
+
+
+def limits_rows(design: Design) -> list[Row]:
+    """The test windows, each beside its nominal value, and how they were set."""
+    a = design.assessment
+    lim, r = a.limits, design.resonance
+    rows = [Row("Units tested", "trimmed to the f0 target at 25 °C")] if a.tuned else []
+    rows += [
+        Row("f0 window", f"{q(lim.f0_min_hz, 'Hz', 6)} to {q(lim.f0_max_hz, 'Hz', 6)}",
+            f"nominal {q(r.f0_hz, 'Hz', 6)}"),
+        Row("Peak frequency window",
+            f"{q(lim.f_peak_min_hz, 'Hz', 6)} to {q(lim.f_peak_max_hz, 'Hz', 6)}",
+            f"nominal {q(r.f_peak_hz, 'Hz', 6)}"),
+        Row("Bandwidth window", f"{q(lim.bandwidth_min_hz, 'Hz')} to "
+            f"{q(lim.bandwidth_max_hz, 'Hz')}", f"nominal {q(r.bandwidth_hz, 'Hz')}"),
+        Row("Loaded Q window", f"{format_number(lim.q_loaded_min, 4)} to "
+            f"{format_number(lim.q_loaded_max, 4)}", f"nominal {format_number(r.q_loaded, 4)}"),
+    ]
+    if a.trimmer is not None:
+        t = a.trimmer
+        rows.append(Row("Trimmer capacitance needed", f"{q(t.needed_min_f, 'F')} to "
+                        f"{q(t.needed_max_f, 'F')}", "covered" if t.covers else
+                        f"NOT COVERED: the trimmer tunes {t.fraction_tunable * 100:.1f} % of builds"))
+    method = (f"Monte Carlo, {lim.trials:,} trials, seed {lim.seed}, "
+              f"{lim.coverage * 100:.2f} % coverage" if lim.method == "monte-carlo"
+              else f"worst case over {lim.trials} corners")
+    spec = a.spec
+    rows += [
+        Row("Method", method, f"bands read as {design.job.variation.distribution}"),
+        Row("Temperature range", f"{spec.temperature_min_c:g} to {spec.temperature_max_c:g} °C"),
+        Row("Capacitor tolerance", f"± {format_number(a.capacitor_tolerance * 100, 3)} %",
+            f"from {a.capacitor_tolerance_source}"),
+        Row("Inductance tolerance", f"± {format_number(a.inductance_tolerance * 100, 3)} %"
+            if a.inductance_tolerance else "exact (none given)"),
+        Row("Windows rounded outward to", q(a.resolution_hz, "Hz", 3)),
+    ]
+    return rows
+
+
+def rating_rows(design: Design) -> list[Row]:
+    """Each rating check: the stress against the derated rating, and its status."""
+    rows = []
+    for check in design.assessment.ratings:
+        unit = check.unit
+        shown = (lambda v: format_number(v * 1e-6, 3) + " A/mm²") if unit == "A/m²" else (
+            lambda v: q(v, unit, 3))
+        status = {"pass": "pass", "fail": "FAIL", "accepted": "ACCEPTED"}[check.status]
+        rows.append(Row(f"{check.part} {check.quantity}", f"{shown(check.actual)} of "
+                        f"{shown(check.allowed)} allowed", f"{status}, margin "
+                        f"{check.margin * 100:+.0f} %"))
+    return rows

@@ -306,16 +306,22 @@ def _finite_or_none(value) -> float | None:
     return number if math.isfinite(number) else None
 
 
+def relative_response_db(circuit: Circuit, reference: Circuit, f_hz):
+    """Response of `circuit` over f_hz in dB relative to the maximum of `reference`'s
+    (the same drive): 20 log10(|D_ref(ω_peak)| / |D(ω)|). Broadcasts like numpy."""
+    f_peak = np.asarray(response_features(reference).f_peak_hz, dtype=float)
+    d_peak = _response_denominator(reference, 2.0 * np.pi * f_peak)[0]
+    d = _response_denominator(circuit, 2.0 * np.pi * np.asarray(f_hz, dtype=float))[0]
+    return 20.0 * np.log10(np.abs(d_peak) / np.abs(d))
+
+
 def sweep(circuit: Circuit, f_hz: np.ndarray) -> Sweep:
     """|Z|, phase and the response in dB relative to its maximum over f_hz."""
     f_hz = np.asarray(f_hz, dtype=float)
     impedance = terminal_impedance(circuit, f_hz)
-    d = _response_denominator(circuit, 2.0 * np.pi * f_hz)[0]
-    features = response_features(circuit)
-    d_peak = _response_denominator(circuit, 2.0 * np.pi * float(features.f_peak_hz))[0]
-    response_db = 20.0 * np.log10(np.abs(d_peak) / np.abs(d))
     return Sweep(f_hz=f_hz, impedance_ohm=np.abs(impedance),
-                 phase_deg=np.degrees(np.angle(impedance)), response_db=response_db)
+                 phase_deg=np.degrees(np.angle(impedance)),
+                 response_db=relative_response_db(circuit, circuit, f_hz))
 
 
 def default_sweep_range_hz(resonance: Resonance) -> tuple[float, float]:

@@ -25,7 +25,7 @@ from typing import Literal, Mapping
 
 import numpy as np
 
-from .resonance import Circuit, response_features, terminal_impedance
+from .resonance import capacitance_for_f0, Circuit, response_features, terminal_impedance
 
 Distribution = Literal["uniform", "normal"]
 Method = Literal["monte-carlo", "worst-case"]
@@ -191,6 +191,7 @@ class VariationSpec:
     trials: int = DEFAULT_TRIALS
     seed: int = DEFAULT_SEED
     coverage: float = DEFAULT_COVERAGE
+    tuned_f0_hz: float | None = None  # each build trimmed to this f0 at 25 °C (see _parts)
 
     def __post_init__(self):
         if not self.temperature_min_c <= self.temperature_max_c:
@@ -424,9 +425,18 @@ def _frozen(array: np.ndarray) -> np.ndarray:
 
 
 def _parts(circuit: Circuit, spec: VariationSpec, draws: _Draws) -> TrialParts:
+    """Each trial's parts. With spec.tuned_f0_hz the capacitance is the one a technician
+    trims to: C = 1/(ω_t² L_25) at 25 °C (Thomson's formula, L_25 the trial's coil before
+    temperature), so the capacitor's tolerance drops out and its temperature change stays."""
     t = draws.temperature_c
-    c_factor = (1.0 + draws.capacitance) * (1.0 + _capacitor_temperature_change(
-        spec.capacitor_temperature, draws.capacitor_temperature, t))
+    temperature_change = 1.0 + _capacitor_temperature_change(
+        spec.capacitor_temperature, draws.capacitor_temperature, t)
+    if spec.tuned_f0_hz is None:
+        c_factor = (1.0 + draws.capacitance) * temperature_change
+    else:
+        tuned = capacitance_for_f0(spec.tuned_f0_hz,
+                                   circuit.inductance_h * (1.0 + draws.inductance))
+        c_factor = tuned / circuit.capacitance_f * temperature_change
     l_factor = (1.0 + draws.inductance) * (1.0 + _linear_change(
         draws.inductance_temperature, t))
     load = circuit.load_resistance_ohm

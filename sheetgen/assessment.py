@@ -1,0 +1,222 @@
+"""Tolerances and temperature → test limits; stresses → rating checks and cautions.
+
+Runs after the nominal design: builds the variation spec from the job (each part's
+tolerance, temperature behaviour and the operating range), runs the seeded Monte Carlo or
+the worst-case corners, sets the test windows, checks the trimmer, the ratings and words
+the cautions. Pure: the same job and seed give the same Assessment.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, replace
+
+import numpy as np
+
+from . import cautions as caution_rules
+from .designators import Designators
+from .engine import ratings as rt
+from .engine import resonance as rz
+from .engine import variation as vr
+from .engine.limits import TestLimits, TrimmerCheck, test_limits, trimmer_check
+from .engine.stress import Stress
+from .model import Job
+
+# IEC 60063 pairs each series with a tolerance (from memory): the default for a fixed part.
+SERIES_TOLERANCE = {"E6": 0.20, "E12": 0.10, "E24": 0.05, "E48": 0.02, "E96": 0.01,
+                    "E192": 0.005}
+ENVELOPE_TRIALS = 2000  # trials drawn for the plotted Monte Carlo envelope of the response
+SRF_MARGIN = 3.0  # keep the coil's self-resonance at least this many times f0 (common practice)
+
+
+@dataclass(frozen=True)
+class Envelope:
+    """The response (dB, relative to the nominal maximum) that the coverage of builds stays
+    within, at each frequency of the sweep."""
+
+    f_hz: np.ndarray
+    low_db: np.ndarray
+    high_db: np.ndarray
+
+
+@dataclass(frozen=True)
+class Assessment:
+    """Limits, checks and cautions of one design."""
+
+    spec: vr.VariationSpec
+    variation: vr.VariationResult  # of the units as tested (trimmed, when there is a trimmer)
+    limits: TestLimits
+    tuned: bool  # the windows are for a unit trimmed to the target f0 at 25 °C
+    trimmer: TrimmerCheck | None
+    ratings: tuple[rt.RatingCheck, ...]
+    cautions: tuple[caution_rules.Caution, ...]
+    envelope: Envelope
+    capacitor_tolerance: float
+    capacitor_tolerance_source: str
+    inductance_tolerance: float | None
+    resolution_hz: float
+
+
+def variation_spec(job: Job, circuit: rz.Circuit, inductance_tolerance: float | None,
+                   inductance_tc: float | None) -> tuple[vr.VariationSpec, float, str]:
+    """The VariationSpec of a job; also the capacitor tolerance used and where it came from."""
+    var = job.variation
+    distribution = var.distribution
+    cap = job.capacitor
+    if cap.tolerance is not None:
+        c_tol, c_source = cap.tolerance, "the job"
+    else:
+        c_tol = SERIES_TOLERANCE[cap.preferred_series]
+        c_source = f"IEC 60063 {cap.preferred_series}"
+    c_temperature = None
+    if cap.dielectric is not None:
+        c_temperature = vr.dielectric(cap.dielectric).temperature
+        if isinstance(c_temperature, vr.TemperatureCoefficient):
+            c_temperature = replace(c_temperature, distribution=distribution)
+    elif cap.temperature_coefficient is not None:
+        c_temperature = vr.TemperatureCoefficient(cap.temperature_coefficient)
+    loss = (vr.Spread(var.loss_tolerance, distribution) if var.loss_tolerance else None)
+    load_tol = job.load.tolerance if job.load is not None else None
+    spec = vr.VariationSpec(
+        capacitance=vr.Spread(c_tol, distribution),
+        inductance=(vr.Spread(inductance_tolerance, distribution)
+                    if inductance_tolerance else None),
+        inductor_resistance=loss, capacitor_esr=loss if circuit.capacitor_esr_ohm > 0 else None,
+        load_resistance=(vr.Spread(load_tol, distribution)
+                         if load_tol and circuit.load_resistance_ohm is not None else None),
+        capacitor_temperature=c_temperature,
+        inductance_temperature=(vr.TemperatureCoefficient(inductance_tc)
+                                if inductance_tc else None),
+        temperature_min_c=var.temperature.minimum, temperature_max_c=var.temperature.maximum,
+        trials=var.trials, seed=var.seed, coverage=var.coverage)
+    return spec, c_tol, c_source
+
+
+def default_resolution_hz(bandwidth_hz: float | None, f0_hz: float) -> float:
+    """A power of ten near bandwidth/50 (our rule: the window edges then sit a few
+    percent of the bandwidth apart), or f0/10⁵ without a bandwidth."""
+    basis = bandwidth_hz / 50.0 if bandwidth_hz else f0_hz / 1e5
+    return 10.0 ** math.floor(math.log10(basis))
+
+
+def assess(job: Job, circuit: rz.Circuit, resonance: rz.Resonance, stress: Stress,
+           sweep: rz.Sweep, names: Designators, *, f0_target_hz: float | None,
+           fixed_capacitance_f: float, inductance_tolerance: float | None,
+           inductance_tc: float | None, coil=None, flux_limit_t: float | None = None,
+           wire_diameter_m: float | None = None, coil_temperature_rise_k: float | None = None,
+           fixed_parts_f: tuple[float, ...] = ()) -> Assessment:
+    """Limits, trimmer range, rating checks and cautions for the nominal design."""
+    spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc)
+    method = vr.monte_carlo if job.variation.method == "monte-carlo" else vr.worst_case
+    built = method(circuit, spec)
+    resolution = (job.test.frequency_resolution
+                  or default_resolution_hz(resonance.bandwidth_hz, resonance.f0_hz))
+    trimmer = job.capacitor.trimmer
+    tuned = trimmer is not None and f0_target_hz is not None
+    trim = None
+    variation = built
+    if tuned:  # the trimmer takes up the tolerances; what is tested is the trimmed unit
+        trim = trimmer_check(built, f0_target_hz, fixed_capacitance_f, trimmer.minimum,
+                             trimmer.maximum)
+        variation = method(circuit, replace(spec, tuned_f0_hz=f0_target_hz))
+    limits = test_limits(variation, resolution_hz=resolution)
+    checks = rating_checks(job, circuit, stress, names, fixed_parts_f or (circuit.capacitance_f,),
+                           flux=(coil.flux_density_peak_t if coil is not None
+                                 and getattr(coil, "flux_density_peak_t", None) is not None
+                                 else None),
+                           flux_limit_t=flux_limit_t, wire_diameter_m=wire_diameter_m)
+    found = caution_rules.cautions(
+        caution_rules.parts_from_stress(circuit, stress, capacitor=names.fixed_capacitors[0],
+                                        inductor=names.coil,
+                                        bleeder_resistance_ohm=job.capacitor.bleeder,
+                                        inductor_rise_k=coil_temperature_rise_k),
+        stress.f_hz, stress.drive_power_w, ambient_max_c=job.variation.temperature.maximum)
+    found += coil_cautions(coil, resonance.f0_hz, names.coil)
+    return Assessment(spec, variation, limits, tuned, trim, checks, found,
+                      envelope(circuit, variation, sweep, spec.coverage if
+                               job.variation.method == "monte-carlo" else None),
+                      c_tol, c_source, inductance_tolerance, resolution)
+
+
+def rating_checks(job: Job, circuit: rz.Circuit, stress: Stress, names: Designators,
+                  fixed_parts_f: tuple[float, ...], *, flux: float | None,
+                  flux_limit_t: float | None, wire_diameter_m: float | None
+                  ) -> tuple[rt.RatingCheck, ...]:
+    """Every rating the job gives, against the computed stress (parallel parts share the
+    capacitor current in proportion to their capacitance)."""
+    ratings = job.ratings
+    accepted = {a.check.strip().lower(): a.reason for a in ratings.accept}
+    power = stress.drive_power_w
+    cap = job.capacitor
+    checks = []
+
+    def acceptance(part, quantity):
+        return accepted.get(f"{part} {quantity}".lower())
+
+    total_c = circuit.capacitance_f
+    for part, c_part in zip(names.fixed_capacitors, fixed_parts_f):
+        share = c_part / total_c
+        if cap.rated_voltage is not None:
+            checks.append(rt.capacitor_voltage_check(
+                part, stress.capacitor_voltage_peak_v, cap.rated_voltage,
+                derating=ratings.voltage_derating, drive_power_w=power,
+                acceptance=acceptance(part, "peak voltage")))
+        if cap.rated_current is not None:
+            checks.append(rt.capacitor_current_check(
+                part, stress.capacitor_current_rms_a * share, cap.rated_current,
+                derating=ratings.current_derating, drive_power_w=power,
+                acceptance=acceptance(part, "RF current")))
+        if cap.rated_power is not None:
+            checks.append(rt.esr_power_check(
+                part, stress.capacitor_loss_w * share, cap.rated_power,
+                esr_ohm=circuit.capacitor_esr_ohm, drive_power_w=power,
+                acceptance=acceptance(part, "power in ESR")))
+    if names.trimmer and cap.trimmer is not None and cap.trimmer.rated_voltage is not None:
+        checks.append(rt.capacitor_voltage_check(
+            names.trimmer, stress.capacitor_voltage_peak_v, cap.trimmer.rated_voltage,
+            derating=ratings.voltage_derating, drive_power_w=power,
+            acceptance=acceptance(names.trimmer, "peak voltage")))
+    if wire_diameter_m is not None:
+        checks.append(rt.current_density_check(
+            names.coil, stress.inductor_current_rms_a, wire_diameter_m, drive_power_w=power,
+            acceptance=acceptance(names.coil, "current density")))
+    if flux is not None and flux_limit_t is not None:
+        checks.append(rt.flux_density_check(
+            names.coil, flux, flux_limit_t, drive_power_w=power,
+            acceptance=acceptance(names.coil, "flux density")))
+    return tuple(checks)
+
+
+def coil_cautions(coil, f0_hz: float, designator: str) -> tuple[caution_rules.Caution, ...]:
+    """A WARNING when the coil's self-resonance is not well above f0."""
+    srf = getattr(coil, "srf_hz", None) if coil is not None else None
+    if srf is None or srf >= SRF_MARGIN * f0_hz:
+        return ()
+    from .quantities import format_quantity
+    return (caution_rules.Caution(
+        "warning", "srf-near-f0",
+        f"{designator} self-resonates at {format_quantity(srf, 'Hz')}, only "
+        f"{srf / f0_hz:.1f} times f0 (keep it above {SRF_MARGIN:g}×, common practice): its "
+        "self-capacitance detunes the circuit and its Q falls. Use a longer winding pitch or "
+        "fewer turns on a larger former."),)
+
+
+def envelope(circuit: rz.Circuit, variation: vr.VariationResult, sweep: rz.Sweep,
+             coverage: float | None) -> Envelope:
+    """The response band of the first ENVELOPE_TRIALS builds (all corners for a worst case)
+    over the sweep, relative to the nominal maximum."""
+    parts = variation.parts
+    count = min(ENVELOPE_TRIALS, len(parts.inductance_h))
+    take = slice(0, count)
+    trial = rz.Circuit(
+        circuit.topology, parts.inductance_h[take, None], parts.inductor_resistance_ohm[take, None],
+        parts.capacitance_f[take, None], parts.capacitor_esr_ohm[take, None],
+        circuit.source_resistance_ohm,
+        None if parts.load_resistance_ohm is None else parts.load_resistance_ohm[take, None])
+    relative = rz.relative_response_db(trial, circuit, sweep.f_hz[None, :])
+    if coverage is None:
+        low, high = relative.min(axis=0), relative.max(axis=0)
+    else:
+        tail = 100.0 * (1.0 - coverage) / 2.0
+        low, high = np.percentile(relative, [tail, 100.0 - tail], axis=0)
+    return Envelope(sweep.f_hz, low, high)
