@@ -184,7 +184,22 @@ def rating_checks(job: Job, circuit: rz.Circuit, stress: Stress, names: Designat
         checks.append(rt.flux_density_check(
             names.coil, flux, flux_limit_t, drive_power_w=power,
             acceptance=acceptance(names.coil, "flux density")))
+    known = {f"{c.part} {c.quantity}".lower() for c in checks}
+    for index, accepted_check in enumerate(ratings.accept):
+        if accepted_check.check.strip().lower() not in known:
+            names = ", ".join(f"{c.part} {c.quantity}" for c in checks) or "none"
+            raise UnknownAcceptance(f"ratings.accept.{index}.check",
+                                    f"no rating check is called {accepted_check.check!r}; the "
+                                    f"checks of this design are: {names}")
     return tuple(checks)
+
+
+class UnknownAcceptance(ValueError):
+    """An acceptance that names no rating check of the design (a typo would hide a failure)."""
+
+    def __init__(self, field: str, message: str):
+        self.field = field
+        super().__init__(message)
 
 
 def coil_cautions(coil, f0_hz: float, designator: str) -> tuple[caution_rules.Caution, ...]:

@@ -14,7 +14,7 @@ from scipy.optimize import brentq
 
 from .engine import resonance as rz
 from .engine.standard_values import StandardPair, best_parallel_pair, nearest_standard
-from .assessment import Assessment, assess
+from .assessment import Assessment, UnknownAcceptance, assess
 from .coil_parts import PartError, design_coil, resolve_toroid
 from .designators import Designators, designators
 from .engine.coil import coil_q_sweep
@@ -180,6 +180,8 @@ def design(job: Job, library: PartsLibrary | None = None) -> Design:
     try:
         assessment = _assess(job, circuit, resonance, stress, response, names, choice, fixed,
                              coil_design, f0_target)
+    except UnknownAcceptance as error:
+        raise DesignError(error.field, str(error)) from None
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
         raise DesignError("variation", str(error)) from None
     return Design(job, circuit, drive, resonance, stress, response, choice, tuple(derived),

@@ -22,7 +22,7 @@ Quantities take units in engineering notation: `4.7 uH` or `4.7 µH`, `150pF`, `
 `340 µH/100 turns`, `30 dBm`. A plain number is taken in SI units (except AL, which needs
 its unit). `sheetgen schema` prints the same rules as JSON Schema for editors.
 
-Start from a starter job: `sheetgen new series|parallel|toroid|solenoid`.
+Start from a starter job: `sheetgen new series|parallel|toroid|solenoid|power-tank`.
 """
 
 

@@ -257,9 +257,23 @@ def _model_at(model: type[BaseModel], path: tuple, data: object):
     """The model class that validates the mapping at `path`, or None."""
     current: object = model
     node = data
+    skip = False  # the next part is a list index or a mapping's own key (a library name)
     for part in path:
-        node = node.get(part) if isinstance(node, dict) else None
-        current = _field_model(current, part, node)
+        if isinstance(node, dict):
+            node = node.get(part)
+        elif isinstance(node, list) and isinstance(part, int) and part < len(node):
+            node = node[part]
+        else:
+            node = None
+        if skip:
+            skip = False
+            continue
+        field = (current.model_fields.get(part)
+                 if isinstance(current, type) and issubclass(current, BaseModel) else None)
+        if field is None:
+            return None
+        skip = typing.get_origin(field.annotation) in (tuple, list, dict)
+        current = _pick_model(field.annotation, node)
         if current is None:
             return None
     return current if isinstance(current, type) else None
@@ -281,21 +295,16 @@ def _forms(root: type[BaseModel], path: tuple) -> str:
     return ", ".join(forms)
 
 
-def _field_model(model, name, node):
-    if not (isinstance(model, type) and issubclass(model, BaseModel)):
-        return None
-    field = model.model_fields.get(name)
-    if field is None:
-        return None
-    return _pick_model(field.annotation, node)
-
-
 def _pick_model(annotation, node):
     if isinstance(annotation, type) and issubclass(annotation, BaseModel):
         return annotation
     origin = typing.get_origin(annotation)
     if origin is typing.Annotated:
         return _pick_model(typing.get_args(annotation)[0], node)
+    if origin in (tuple, list):
+        return _pick_model(typing.get_args(annotation)[0], None)
+    if origin is dict:
+        return _pick_model(typing.get_args(annotation)[1], None)
     if origin in (typing.Union, types.UnionType):
         models = [m for m in (_pick_model(a, node) for a in typing.get_args(annotation)) if m]
         for candidate in models:

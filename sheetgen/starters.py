@@ -5,7 +5,7 @@ from __future__ import annotations
 from importlib import resources
 from pathlib import Path
 
-TEMPLATE_NAMES = ("series", "parallel", "toroid", "solenoid")
+TEMPLATE_NAMES = ("series", "parallel", "toroid", "solenoid", "power-tank")
 DEMO_NAME = "demo"
 
 

@@ -1,0 +1,132 @@
+"""Test limits, rating checks and cautions of whole jobs, through the CLI.
+
+Sources: Thomson's formula f0 = 1/(2π√(LC)) at the corners of the tolerance bands (the
+worst case is exact there); IEC 61140 / IEC 60364-4-41 extra-low-voltage limit of 50 V rms
+(AC, from memory) for the hazardous-voltage caution; the error contract (exit 1 for a
+failed rating, with the part and the figure).
+"""
+
+import csv
+import io
+import json
+import math
+from pathlib import Path
+
+from sheetgen.cli import main
+from sheetgen.quantities import format_quantity
+
+ROOT = Path(__file__).resolve().parent.parent
+TEMPLATES = ROOT / "templates"
+POWER = (TEMPLATES / "power-tank.yaml").read_text(encoding="utf-8")
+
+
+def _run(capsys, *args):
+    code = main([str(a) for a in args])
+    out = capsys.readouterr()
+    assert "Traceback" not in out.err
+    return code, out.out, out.err
+
+
+def _job(tmp_path, text, name="job.yaml"):
+    path = tmp_path / name
+    path.write_text(text, encoding="utf-8")
+    return path
+
+
+def test_limits_csv_is_reproducible_and_brackets_the_nominal(capsys):
+    first = _run(capsys, "limits", TEMPLATES / "parallel.yaml")
+    second = _run(capsys, "limits", TEMPLATES / "parallel.yaml")
+    assert first[0] == 0 and first[1] == second[1]
+    rows = {row["quantity"]: row for row in csv.DictReader(io.StringIO(first[1]))}
+    for quantity in ("f0", "bandwidth (-3 dB)", "loaded Q"):
+        row = rows[quantity]
+        assert float(row["minimum"]) < float(row["nominal"]) < float(row["maximum"]), row
+        assert row["method"] == "monte-carlo" and row["seed"] == "1"
+
+
+def test_another_seed_moves_the_limits_but_not_the_nominal(tmp_path, capsys):
+    text = (TEMPLATES / "series.yaml").read_text(encoding="utf-8")
+    seeded = text + "\nvariation: {seed: 7, trials: 2000}\ntest: {frequency_resolution: 1 Hz}\n"
+    base = text + "\nvariation: {seed: 1, trials: 2000}\ntest: {frequency_resolution: 1 Hz}\n"
+    a = json.loads(_run(capsys, "limits", _job(tmp_path, base, "a.yaml"), "--format", "json")[1])
+    b = json.loads(_run(capsys, "limits", _job(tmp_path, seeded, "b.yaml"), "--format", "json")[1])
+    assert a["limits"]["seed"] == 1 and b["limits"]["seed"] == 7
+    assert a["limits"]["f0_min_hz"] != b["limits"]["f0_min_hz"]
+
+
+def test_worst_case_window_holds_the_thomson_corners(tmp_path, capsys):
+    """With ±5 % on L and C and no temperature drift, the exact f0 extremes are at the
+    corners L(1±0.05)·C(1±0.05) (Thomson's formula)."""
+    text = ((TEMPLATES / "series.yaml").read_text(encoding="utf-8")
+            .replace("  inductance: 10 uH", "  inductance: 10 uH\n  tolerance: 5 %")
+            .replace("  esr: 0.05 ohm", "  esr: 0.05 ohm\n  tolerance: 5 %")
+            + "\nvariation: {method: worst-case, temperature: {minimum: 25 °C, maximum: 25 °C}}"
+              "\ntest: {frequency_resolution: 1 Hz}\n")
+    code, out, _ = _run(capsys, "check", _job(tmp_path, text), "--json")
+    got = json.loads(out)
+    L, C = got["components"]["inductance_h"], got["components"]["capacitance_f"]
+    low = 1 / (2 * math.pi * math.sqrt(L * 1.05 * C * 1.05))
+    high = 1 / (2 * math.pi * math.sqrt(L * 0.95 * C * 0.95))
+    lim = got["limits"]
+    assert lim["method"] == "worst-case" and lim["coverage"] is None
+    assert lim["f0_min_hz"] <= low < lim["f0_min_hz"] + 1.0
+    assert lim["f0_max_hz"] - 1.0 < high <= lim["f0_max_hz"]
+
+
+def test_overstressed_capacitor_fails_with_part_and_figures(tmp_path, capsys):
+    job = _job(tmp_path, POWER.replace("rated_voltage: 2 kV", "rated_voltage: 500 V"))
+    code, out, err = _run(capsys, "check", job, "--json")
+    assert code == 1
+    got = json.loads(out)
+    peak = got["stress"]["capacitor_voltage_peak_v"]
+    failed = [r for r in got["ratings"] if r["status"] == "fail"]
+    assert {r["part"] for r in failed} == {"C1", "C2"}
+    assert f"C1: peak voltage {format_quantity(peak, 'V')} is" in err
+    assert f"over the allowed {format_quantity(250.0, 'V')}" in err
+    assert f"rated at least {format_quantity(peak / 0.5, 'V')}" in err
+
+
+def test_recorded_acceptance_turns_a_failure_into_accepted(tmp_path, capsys):
+    text = POWER.replace("rated_voltage: 2 kV", "rated_voltage: 500 V") + (
+        "\nratings:\n  accept:\n"
+        "    - {check: C1 peak voltage, reason: 'pulse-rated part, 1 kV for 1 s; R. Example'}\n"
+        "    - {check: C2 peak voltage, reason: 'pulse-rated part, 1 kV for 1 s; R. Example'}\n")
+    code, out, err = _run(capsys, "check", _job(tmp_path, text), "--json")
+    assert code == 0, err
+    statuses = {(r["part"], r["quantity"]): r["status"] for r in json.loads(out)["ratings"]}
+    assert statuses[("C1", "peak voltage")] == "accepted"
+
+
+def test_high_voltage_tank_carries_cautions_with_the_computed_voltage(capsys):
+    code, out, _ = _run(capsys, "check", TEMPLATES / "power-tank.yaml", "--json")
+    got = json.loads(out)
+    peak = got["stress"]["capacitor_voltage_peak_v"]
+    assert peak / math.sqrt(2) > 50.0, "the starter must exceed ELV to exercise the caution"
+    hv = [c for c in got["cautions"] if c["code"] == "hv-capacitor"]
+    assert len(hv) == 1 and hv[0]["level"] in ("warning", "danger")
+    assert f"{format_quantity(peak, 'V')} peak" in hv[0]["text"]
+    assert all("local codes and licensed practice" in c["text"] for c in got["cautions"])
+
+
+def test_low_voltage_job_says_no_hazardous_voltage(capsys):
+    got = json.loads(_run(capsys, "check", TEMPLATES / "demo.yaml", "--json")[1])
+    assert [c["code"] for c in got["cautions"] if c["level"] != "notice"] == []
+    assert any(c["code"] == "no-hazardous-voltage" for c in got["cautions"])
+
+
+def test_trimmer_too_narrow_fails(tmp_path, capsys):
+    text = (TEMPLATES / "toroid.yaml").read_text(encoding="utf-8").replace(
+        "trimmer: {minimum: 10 pF, maximum: 100 pF}", "trimmer: {minimum: 40 pF, maximum: 70 pF}")
+    code, out, err = _run(capsys, "check", _job(tmp_path, text), "--json",
+                          "--library", ROOT / "shared")
+    assert code == 1 and "capacitor.trimmer" in err
+    assert json.loads(out)["limits"]["trimmer_covers"] is False
+
+
+def test_acceptance_of_a_check_that_does_not_exist_is_bad_input(tmp_path, capsys):
+    text = POWER + ("\nratings:\n  accept:\n"
+                    "    - {check: C9 peak voltage, reason: 'a typo must not hide a failure'}\n")
+    code, _, err = _run(capsys, "check", _job(tmp_path, text))
+    assert code == 2
+    assert "ratings.accept.0.check: no rating check is called 'C9 peak voltage'" in err
+    assert "C1 peak voltage" in err
