@@ -27,6 +27,7 @@ SERIES_TOLERANCE = {"E6": 0.20, "E12": 0.10, "E24": 0.05, "E48": 0.02, "E96": 0.
                     "E192": 0.005}
 ENVELOPE_TRIALS = 2000  # trials drawn for the plotted Monte Carlo envelope of the response
 SRF_MARGIN = 3.0  # keep the coil's self-resonance at least this many times f0 (common practice)
+FLUX_WARNING_SHARE = 0.8  # warn above this share of the material's flux limit (common practice)
 
 
 @dataclass(frozen=True)
@@ -131,7 +132,7 @@ def assess(job: Job, circuit: rz.Circuit, resonance: rz.Resonance, stress: Stres
                                         bleeder_resistance_ohm=job.capacitor.bleeder,
                                         inductor_rise_k=coil_temperature_rise_k),
         stress.f_hz, stress.drive_power_w, ambient_max_c=job.variation.temperature.maximum)
-    found += coil_cautions(coil, resonance.f0_hz, names.coil)
+    found += coil_cautions(coil, resonance.f0_hz, names.coil, flux_limit_t)
     return Assessment(spec, variation, limits, tuned, trim, checks, found,
                       envelope(circuit, variation, sweep, spec.coverage if
                                job.variation.method == "monte-carlo" else None),
@@ -202,18 +203,30 @@ class UnknownAcceptance(ValueError):
         super().__init__(message)
 
 
-def coil_cautions(coil, f0_hz: float, designator: str) -> tuple[caution_rules.Caution, ...]:
-    """A WARNING when the coil's self-resonance is not well above f0."""
-    srf = getattr(coil, "srf_hz", None) if coil is not None else None
-    if srf is None or srf >= SRF_MARGIN * f0_hz:
-        return ()
+def coil_cautions(coil, f0_hz: float, designator: str,
+                  flux_limit_t: float | None = None) -> tuple[caution_rules.Caution, ...]:
+    """WARNINGs for a coil whose self-resonance is not well above f0, or whose core runs
+    near its flux density limit (over the limit is a failed rating check instead)."""
     from .quantities import format_quantity
-    return (caution_rules.Caution(
-        "warning", "srf-near-f0",
-        f"{designator} self-resonates at {format_quantity(srf, 'Hz')}, only "
-        f"{srf / f0_hz:.1f} times f0 (keep it above {SRF_MARGIN:g}×, common practice): its "
-        "self-capacitance detunes the circuit and its Q falls. Use a longer winding pitch or "
-        "fewer turns on a larger former."),)
+    found = []
+    srf = getattr(coil, "srf_hz", None) if coil is not None else None
+    if srf is not None and srf < SRF_MARGIN * f0_hz:
+        found.append(caution_rules.Caution(
+            "warning", "srf-near-f0",
+            f"{designator} self-resonates at {format_quantity(srf, 'Hz')}, only "
+            f"{srf / f0_hz:.1f} times f0 (keep it above {SRF_MARGIN:g}×, common practice): its "
+            "self-capacitance detunes the circuit and its Q falls. Use a longer winding pitch "
+            "or fewer turns on a larger former. " + caution_rules.DEFERRAL))
+    flux = getattr(coil, "flux_density_peak_t", None) if coil is not None else None
+    if flux is not None and flux_limit_t and FLUX_WARNING_SHARE * flux_limit_t < flux <= flux_limit_t:
+        found.append(caution_rules.Caution(
+            "warning", "flux-near-limit",
+            f"The core of {designator} runs at {format_quantity(flux, 'T', 3)} peak, "
+            f"{flux / flux_limit_t * 100:.0f} % of its material's "
+            f"{format_quantity(flux_limit_t, 'T', 3)} limit: it heats and its Q falls as the "
+            "drive rises. Keep the drive at the design level or use a larger core. "
+            + caution_rules.DEFERRAL))
+    return tuple(found)
 
 
 def envelope(circuit: rz.Circuit, variation: vr.VariationResult, sweep: rz.Sweep,

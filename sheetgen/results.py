@@ -137,6 +137,8 @@ def _inductor(design: Design) -> dict:
         "q_estimated": r.q_estimated,
         "q_used": coil.q_used,
         "q_source": coil.q_source,
+        "effective_parameters": ({"le_m": r.effective.le_m, "ae_m2": r.effective.ae_m2,
+                                  "ve_m3": r.effective.ve_m3} if toroid else None),
         "self_capacitance_f": r.self_capacitance_f,
         "srf_hz": r.srf_hz,
         "flux_density_peak_t": r.flux_density_peak_t if toroid else None,

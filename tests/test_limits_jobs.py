@@ -130,3 +130,18 @@ def test_acceptance_of_a_check_that_does_not_exist_is_bad_input(tmp_path, capsys
     assert code == 2
     assert "ratings.accept.0.check: no rating check is called 'C9 peak voltage'" in err
     assert "C1 peak voltage" in err
+
+
+def test_coil_cautions_at_their_thresholds():
+    """SRF below 3·f0 and flux above 80 % of the limit warn (both common practice); at or
+    over the limit the flux rating check fails instead, so no second warning."""
+    from types import SimpleNamespace
+
+    from sheetgen.assessment import coil_cautions
+    f0 = 1e6
+    codes = lambda coil: [c.code for c in coil_cautions(coil, f0, "L1", 0.010)]  # noqa: E731
+    assert codes(SimpleNamespace(srf_hz=2.99e6, flux_density_peak_t=None)) == ["srf-near-f0"]
+    assert codes(SimpleNamespace(srf_hz=3.01e6, flux_density_peak_t=None)) == []
+    assert codes(SimpleNamespace(srf_hz=None, flux_density_peak_t=0.0081)) == ["flux-near-limit"]
+    assert codes(SimpleNamespace(srf_hz=None, flux_density_peak_t=0.0079)) == []
+    assert codes(SimpleNamespace(srf_hz=None, flux_density_peak_t=0.0101)) == []
