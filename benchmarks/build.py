@@ -1,0 +1,76 @@
+"""Cold `sheetgen build` against the bare import floor: wall time and peak memory, as ratios.
+
+The floor is a fresh interpreter importing what any build needs anyway:
+`python -c "import numpy, yaml, reportlab, matplotlib"`. Each command runs in a fresh
+process, several times; the median wall time and the peak resident set size (getrusage of
+the child, read by a small wrapper process so each figure is that command's own) are
+printed. Targets: within 1.5 × the floor's time and under 250 MB. Prints, never asserts.
+
+    python benchmarks/build.py [--runs N] [JOB.yaml]
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+REPO = Path(__file__).resolve().parents[1]
+FLOOR = [sys.executable, "-c", "import numpy, yaml, reportlab, matplotlib"]
+TARGET_TIME_RATIO = 1.5
+TARGET_RSS_MB = 250.0
+_WRAPPER = ("import json, resource, subprocess, sys, time; t = time.perf_counter(); "
+            "code = subprocess.run(sys.argv[1:], stdout=subprocess.DEVNULL).returncode; "
+            "wall = time.perf_counter() - t; "
+            "print(json.dumps({'code': code, 'wall_s': wall, "
+            "'rss_kb': resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss}))")
+
+
+def measure(command: list[str], runs: int) -> tuple[float, float, int]:
+    """Median wall time (s), largest peak RSS (MB) and the last exit code over `runs` runs."""
+    walls, rss = [], []
+    code = 0
+    for _ in range(runs):
+        done = subprocess.run([sys.executable, "-c", _WRAPPER, *command], capture_output=True,
+                              text=True, cwd=REPO, check=True)
+        figures = json.loads(done.stdout)
+        walls.append(figures["wall_s"])
+        rss.append(figures["rss_kb"] / 1024.0)
+        code = figures["code"]
+    return statistics.median(walls), max(rss), code
+
+
+def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("job", nargs="?", type=Path, default=REPO / "templates" / "demo.yaml")
+    parser.add_argument("--runs", type=int, default=5)
+    args = parser.parse_args()
+    with tempfile.TemporaryDirectory(prefix="sheetgen-bench-") as tmp:
+        out = Path(tmp) / "sheet.pdf"
+        build = [sys.executable, "-m", "sheetgen", "build", str(args.job.resolve()), "-o",
+                 str(out)]
+        started = time.perf_counter()
+        floor_s, floor_mb, _ = measure(FLOOR, args.runs)
+        build_s, build_mb, code = measure(build, args.runs)
+        size = out.stat().st_size if out.exists() else 0
+        total = time.perf_counter() - started
+    ratio = build_s / floor_s
+    print(f"job                 {args.job}")
+    print(f"runs                {args.runs} each (median wall time, peak RSS)")
+    print(f"import floor        {floor_s:7.3f} s  {floor_mb:7.1f} MB")
+    print(f"sheetgen build      {build_s:7.3f} s  {build_mb:7.1f} MB  (exit {code}, "
+          f"{size:,} bytes of PDF)")
+    print(f"time ratio          {ratio:7.2f} ×  (target ≤ {TARGET_TIME_RATIO} ×: "
+          f"{'met' if ratio <= TARGET_TIME_RATIO else 'NOT met'})")
+    print(f"memory ratio        {build_mb / floor_mb:7.2f} ×  ({build_mb:.0f} MB; target < "
+          f"{TARGET_RSS_MB:.0f} MB: {'met' if build_mb < TARGET_RSS_MB else 'NOT met'})")
+    print(f"benchmark took      {total:7.1f} s")
+
+
+if __name__ == "__main__":
+    main()

@@ -1,0 +1,372 @@
+"""The schematic of the circuit as built, as vector graphics (reportlab.graphics).
+
+`schematic_of(design)` says what to draw (parts, designators, values); `schematic_drawing`
+draws it. Symbols follow IEC 60617 shapes (rectangle resistor, looped inductor, two-plate
+capacitor, preset-adjustment bar for a trimmer, circle sources). A trimmer, a link winding
+and a tap on the coil are parameters of `Schematic`, drawn only when the design has them.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Literal
+
+from ..design import Design
+from ..tables import q
+from . import fonts
+
+PartKind = Literal["resistor", "inductor", "capacitor", "trimmer"]
+
+LABEL_SIZE = 8.0
+DESIGNATOR_SIZE = 8.5
+LINE_WIDTH = 1.0
+HEIGHT = 128.0
+_RESISTOR = (26.0, 9.0)      # body length and width of the IEC rectangle
+_LOOPS, _LOOP_R = 4, 4.5     # inductor: half-circle loops and their radius
+_CAP_GAP, _CAP_PLATE = 5.0, 18.0
+_SOURCE_R = 11.0
+_LENGTH = {"resistor": 44.0, "inductor": 54.0, "capacitor": 40.0, "trimmer": 40.0}
+
+
+@dataclass(frozen=True)
+class Part:
+    """One drawn part: designator (L1), symbol kind and its value as printed."""
+
+    designator: str
+    kind: PartKind
+    value: str
+
+
+@dataclass(frozen=True)
+class Schematic:
+    """What the schematic shows; the optional parts are drawn only when given.
+
+    `capacitors` are all in parallel (fixed parts, then a trimmer when there is one).
+    `link` is a coupling winding on L1's core; with a link the load sits across the link.
+    `tap_label` marks a tap on L1. `cored` draws the magnetic-core bars of IEC 60617.
+    """
+
+    topology: Literal["series", "parallel"]
+    source: Literal["voltage", "current"]
+    source_label: str
+    inductor: Part
+    capacitors: tuple[Part, ...]
+    source_resistor: Part | None = None
+    load: Part | None = None
+    link: Part | None = None
+    tap_label: str | None = None
+    cored: bool = False
+
+
+def schematic_of(design: Design) -> Schematic:
+    """The parts as fitted, named by design.designators: L1, C1 (C2 …), the trimmer, R1 = Rs,
+    R2 = the load, L2 = a link winding."""
+    c = design.circuit
+    names = design.designators
+    choice = design.capacitor_choice
+    if choice.from_standard_parts:
+        values = [v for v in (choice.pair.first, choice.pair.second) if v is not None]
+        capacitors = [Part(name, "capacitor", q(value, "F", 3))
+                      for name, value in zip(names.fixed_capacitors, values)]
+    else:
+        capacitors = [Part(names.fixed_capacitors[0], "capacitor", q(c.capacitance_f, "F"))]
+    trimmer = design.job.capacitor.trimmer
+    if names.trimmer is not None and trimmer is not None:
+        capacitors.append(Part(names.trimmer, "trimmer",
+                               f"{q(trimmer.minimum, 'F', 3)} to {q(trimmer.maximum, 'F', 3)}"))
+    source_resistor = (Part(names.source_resistor, "resistor", q(c.source_resistance_ohm, "Ω"))
+                       if names.source_resistor is not None else None)
+    coil = design.coil
+    link = load = None
+    if names.link is not None and coil is not None:
+        turns = f"{coil.link_turns} turn{'s' if coil.link_turns != 1 else ''}"
+        link = Part(names.link, "inductor", turns)
+        load = Part(names.load_resistor, "resistor", q(coil.link_resistance_ohm, "Ω"))
+    elif names.load_resistor is not None:
+        load = Part(names.load_resistor, "resistor", q(c.load_resistance_ohm, "Ω"))
+    drive = design.drive
+    label = {"voltage": q(drive.value, "V") + " rms", "current": q(drive.value, "A") + " rms",
+             "available_power": q(drive.value, "W") + " avail."}[drive.kind]
+    return Schematic(c.topology, "current" if drive.kind == "current" else "voltage", label,
+                     Part(names.coil, "inductor", q(c.inductance_h, "H")), tuple(capacitors),
+                     source_resistor, load, link,
+                     cored=coil is not None and coil.form == "toroid")
+
+
+# --- primitives ---------------------------------------------------------------------------
+
+def _line(group, x1, y1, x2, y2, width=LINE_WIDTH):
+    from reportlab.graphics.shapes import Line
+    group.add(Line(x1, y1, x2, y2, strokeWidth=width))
+
+
+def _text(group, x, y, text, size=LABEL_SIZE, anchor="start", bold=False):
+    from reportlab.graphics.shapes import String
+    group.add(String(x, y, text, fontName=fonts.BOLD if bold else fonts.REGULAR,
+                     fontSize=size, textAnchor=anchor))
+
+
+def _dot(group, x, y):
+    from reportlab.graphics.shapes import Circle
+    from reportlab.lib.colors import black
+    group.add(Circle(x, y, 1.8, fillColor=black, strokeColor=black, strokeWidth=0))
+
+
+def _symbol(kind: PartKind, length: float):
+    """A two-terminal symbol centred on a lead of `length` along +x (loops towards +y)."""
+    from reportlab.graphics.shapes import Group, Path, Rect
+    from reportlab.lib.colors import black, white
+
+    g = Group()
+    middle = length / 2.0
+    if kind == "resistor":
+        body, width = _RESISTOR
+        _line(g, 0, 0, middle - body / 2, 0)
+        _line(g, middle + body / 2, 0, length, 0)
+        g.add(Rect(middle - body / 2, -width / 2, body, width, strokeWidth=LINE_WIDTH,
+                   fillColor=white, strokeColor=black))
+    elif kind == "inductor":
+        body = 2 * _LOOP_R * _LOOPS
+        start = middle - body / 2
+        _line(g, 0, 0, start, 0)
+        _line(g, start + body, 0, length, 0)
+        path = Path(strokeWidth=LINE_WIDTH, fillColor=None, strokeColor=black)
+        path.moveTo(start, 0)
+        k = 0.5523 * _LOOP_R  # a quarter circle as one cubic Bézier
+        for loop in range(_LOOPS):
+            x0 = start + 2 * _LOOP_R * loop
+            path.curveTo(x0, k, x0 + _LOOP_R - k, _LOOP_R, x0 + _LOOP_R, _LOOP_R)
+            path.curveTo(x0 + _LOOP_R + k, _LOOP_R, x0 + 2 * _LOOP_R, k, x0 + 2 * _LOOP_R, 0)
+        g.add(path)
+    else:
+        _line(g, 0, 0, middle - _CAP_GAP / 2, 0)
+        _line(g, middle + _CAP_GAP / 2, 0, length, 0)
+        for x in (middle - _CAP_GAP / 2, middle + _CAP_GAP / 2):
+            _line(g, x, -_CAP_PLATE / 2, x, _CAP_PLATE / 2, width=1.8)
+        if kind == "trimmer":  # preset adjustment: a diagonal ending in a short bar
+            _line(g, middle - 9, -12, middle + 9, 12, width=0.8)
+            _line(g, middle + 5, 15, middle + 13, 9, width=0.8)
+    return g
+
+
+def _horizontal(group, kind: PartKind, x, y, length):
+    from reportlab.graphics.shapes import Group
+    group.add(Group(_symbol(kind, length), transform=(1, 0, 0, 1, x, y)))
+
+
+def _vertical(group, kind: PartKind, x, y, length, loops_right: bool = False):
+    """A symbol from (x, y) up to (x, y + length); an inductor's loops face left or right."""
+    from reportlab.graphics.shapes import Group
+    matrix = (0, 1, 1, 0, x, y) if loops_right else (0, 1, -1, 0, x, y)
+    group.add(Group(_symbol(kind, length), transform=matrix))
+
+
+def _label_width(part: Part) -> float:
+    """Width of a part's label (designator over value), in points."""
+    from reportlab.pdfbase.pdfmetrics import stringWidth
+    return max(stringWidth(part.designator, fonts.BOLD, DESIGNATOR_SIZE),
+               stringWidth(part.value, fonts.REGULAR, LABEL_SIZE))
+
+
+def _label_above(group, part: Part, x, y):
+    _text(group, x, y + 21, part.designator, DESIGNATOR_SIZE, "middle", True)
+    _text(group, x, y + 11, part.value, LABEL_SIZE, "middle")
+
+
+def _label_right(group, part: Part, x, y):
+    _text(group, x + 14, y + 2, part.designator, DESIGNATOR_SIZE, "start", True)
+    _text(group, x + 14, y - 8, part.value, LABEL_SIZE, "start")
+
+
+def _source(group, kind, x, y_bottom, y_top, label: str):
+    """A source between two rails: a circle with ~ (voltage) or an arrow (current)."""
+    from reportlab.graphics.shapes import Circle, Path, Polygon
+    from reportlab.lib.colors import black, white
+    middle = (y_bottom + y_top) / 2
+    _line(group, x, y_bottom, x, middle - _SOURCE_R)
+    _line(group, x, middle + _SOURCE_R, x, y_top)
+    group.add(Circle(x, middle, _SOURCE_R, strokeWidth=LINE_WIDTH, fillColor=white,
+                     strokeColor=black))
+    if kind == "voltage":
+        wave = Path(strokeWidth=LINE_WIDTH, fillColor=None, strokeColor=black)
+        wave.moveTo(x - 6, middle)
+        wave.curveTo(x - 4, middle + 6, x - 1, middle + 6, x, middle)
+        wave.curveTo(x + 1, middle - 6, x + 4, middle - 6, x + 6, middle)
+        group.add(wave)
+    else:
+        _line(group, x, middle - 6, x, middle + 3)
+        group.add(Polygon([x - 3, middle + 2, x + 3, middle + 2, x, middle + 7],
+                          fillColor=black, strokeColor=black, strokeWidth=0.5))
+    _text(group, x - _SOURCE_R - 5, middle + 2, "source", LABEL_SIZE, "end", True)
+    _text(group, x - _SOURCE_R - 5, middle - 8, label, LABEL_SIZE, "end")
+
+
+def _box(group, x, y, width, height, caption: str, top_left: bool = False):
+    """A dashed boundary round what the rest of the system (or the test set-up) provides."""
+    from reportlab.graphics.shapes import Rect
+    from reportlab.lib.colors import Color
+    group.add(Rect(x, y, width, height, strokeWidth=0.6, strokeDashArray=[3, 2],
+                   fillColor=None, strokeColor=Color(0.35, 0.35, 0.35)))
+    if caption and top_left:
+        _text(group, x + 3, y + height - 9, caption, 7.0, "start")
+    elif caption:  # bottom right, clear of the leads that cross the box's left half
+        _text(group, x + width - 3, y + 3, caption, 7.0, "end")
+
+
+# --- layouts ------------------------------------------------------------------------------
+
+def schematic_drawing(schematic: Schematic, width: float, height: float = HEIGHT):
+    """The schematic as a reportlab Drawing `width` points wide (scaled down to fit)."""
+    from reportlab.graphics.shapes import Drawing, Group
+    g = Group()
+    y_bottom, y_top = 14.0, height - 36.0
+    x_source = 84.0
+    _source(g, schematic.source, x_source, y_bottom, y_top, schematic.source_label)
+    if schematic.topology == "series":
+        _series(g, schematic, x_source, y_bottom, y_top, width)
+    else:
+        _parallel(g, schematic, x_source, y_bottom, y_top, width)
+    right = g.getBounds()[2] + 1.0
+    scale = min(1.0, width / right)
+    g.transform = (scale, 0, 0, scale, 0, 0)
+    drawing = Drawing(width, height * scale)
+    drawing.add(g)
+    return drawing
+
+
+def _source_box(g, s: Schematic, x_source, y_bottom, y_top, right):
+    _box(g, x_source - 82, y_bottom - 8, right - (x_source - 82), y_top - y_bottom + 40,
+         "source", top_left=True)
+
+
+def _series(g, s: Schematic, x_source, y_bottom, y_top, width):
+    """R1, L1 and C1 (‖ C2 …) along the top wire; the load R2 down the right side."""
+    x, gap = x_source, 22.0
+    if s.source_resistor is not None:
+        length = _LENGTH["resistor"]
+        _line(g, x, y_top, x + gap, y_top)
+        _horizontal(g, "resistor", x + gap, y_top, length)
+        _label_above(g, s.source_resistor, x + gap + length / 2, y_top)
+        x += gap + length
+        _source_box(g, s, x_source, y_bottom, y_top, x + 6)
+    length = _LENGTH["inductor"]
+    _line(g, x, y_top, x + gap, y_top)
+    _horizontal(g, "inductor", x + gap, y_top, length)
+    _label_above(g, s.inductor, x + gap + length / 2, y_top)
+    _tap(g, s, x + gap + length / 2, y_top, horizontal=True)
+    x += gap + length
+    _line(g, x, y_top, x + gap, y_top)
+    x += gap
+    x, labels_end = _capacitor_bank(g, s.capacitors, x, y_top)
+    x_right = max(x + gap, labels_end + 34.0)
+    _line(g, x, y_top, x_right, y_top)
+    if s.load is not None:
+        _vertical(g, "resistor", x_right, y_bottom, y_top - y_bottom)
+        _label_right(g, s.load, x_right, (y_top + y_bottom) / 2)
+        _box(g, x_right - 18, y_bottom + 8, 40 + _label_width(s.load), y_top - y_bottom - 16,
+             "load")
+    else:
+        _line(g, x_right, y_bottom, x_right, y_top)
+    _line(g, x_source, y_bottom, x_right, y_bottom)
+
+
+def _capacitor_bank(g, capacitors, x, y) -> tuple[float, float]:
+    """Capacitors in parallel on a horizontal wire, stacked downwards.
+
+    Returns where the wire leaves the bank and how far right the labels reach.
+    """
+    pitch, inner = 30.0, 40.0
+    ys = [y - pitch * i for i in range(len(capacitors))]
+    for index, (part, yy) in enumerate(zip(capacitors, ys)):
+        _horizontal(g, part.kind, x + 10, yy, inner)
+        if index == 0:
+            _label_above(g, part, x + 10 + inner / 2, yy)
+        else:
+            _text(g, x + 10 + inner + 6, yy + 2, part.designator, DESIGNATOR_SIZE, "start", True)
+            _text(g, x + 10 + inner + 6, yy - 8, part.value, LABEL_SIZE, "start")
+    _line(g, x, y, x + 10, y)
+    _line(g, x + 10 + inner, y, x + 20 + inner, y)
+    if len(capacitors) > 1:
+        for xx in (x + 10, x + 10 + inner):
+            _line(g, xx, ys[0], xx, ys[-1])
+            _dot(g, xx, y)
+    end = x + 20 + inner
+    labels = max((_label_width(p) for p in capacitors[1:]), default=0.0)
+    return end, max(end, x + 10 + inner + 6 + labels)
+
+
+def _parallel(g, s: Schematic, x_source, y_bottom, y_top, width):
+    """R1 along the top to the tank; C1, C2 …, L1 and the load R2 as branches across it."""
+    x = x_source
+    if s.source_resistor is not None:
+        length = _LENGTH["resistor"]
+        _line(g, x, y_top, x + 18, y_top)
+        _horizontal(g, "resistor", x + 18, y_top, length)
+        _label_above(g, s.source_resistor, x + 18 + length / 2, y_top)
+        x += 18 + length
+        _source_box(g, s, x_source, y_bottom, y_top, x + 6)
+    linked = s.link is not None
+    branches = [s.inductor, *s.capacitors] if not linked else [*s.capacitors, s.inductor]
+    if s.load is not None and not linked:
+        branches.append(s.load)
+    x_branch = x + 36.0
+    xs = []
+    span = y_top - y_bottom
+    for part in branches:
+        xs.append(x_branch)
+        if linked and part is s.inductor:
+            _vertical(g, "inductor", x_branch, y_bottom, span, loops_right=True)
+            _text(g, x_branch - 8, y_top + 12, part.designator, DESIGNATOR_SIZE, "end", True)
+            _text(g, x_branch - 8, y_top + 3, part.value, LABEL_SIZE, "end")
+        else:
+            _vertical(g, part.kind, x_branch, y_bottom, span)
+            _label_right(g, part, x_branch, (y_top + y_bottom) / 2)
+        if part is s.inductor:
+            _tap(g, s, x_branch, (y_top + y_bottom) / 2, horizontal=False)
+        if part is s.load:
+            _box(g, x_branch - 18, y_bottom + 8, 40 + _label_width(part), span - 16, "load")
+        # the next branch clears this one's label (drawn to its right) and its own loops
+        x_branch += max(60.0, 14 + _label_width(part) + 22) if not (
+            linked and part is s.inductor) else 0.0
+    _line(g, x, y_top, xs[-1], y_top)
+    _line(g, x_source, y_bottom, xs[-1], y_bottom)
+    for xx in xs[:-1]:
+        _dot(g, xx, y_top)
+        _dot(g, xx, y_bottom)
+    if linked:
+        _link(g, s, xs[-1], y_bottom, y_top)
+
+
+def _link(g, s: Schematic, x_coil, y_bottom, y_top):
+    """The link winding L2 beside L1 (core bars between when cored), the load across it."""
+    x_link = x_coil + 2 * _LOOP_R + 16
+    inner_bottom, inner_top = y_bottom + 14, y_top - 14
+    _vertical(g, "inductor", x_link, inner_bottom, inner_top - inner_bottom)
+    if s.cored:
+        for dx in (-2.0, 2.0):
+            middle = (x_coil + x_link) / 2 + dx
+            _line(g, middle, inner_bottom + 6, middle, inner_top - 6, width=0.9)
+    _text(g, x_link + 8, y_top + 12, s.link.designator, DESIGNATOR_SIZE, "start", True)
+    _text(g, x_link + 8, y_top + 3, s.link.value, LABEL_SIZE, "start")
+    x_load = x_link + 50
+    _line(g, x_link, inner_top, x_load, inner_top)
+    _line(g, x_link, inner_bottom, x_load, inner_bottom)
+    if s.load is not None:
+        _vertical(g, "resistor", x_load, inner_bottom, inner_top - inner_bottom)
+        _label_right(g, s.load, x_load, (inner_top + inner_bottom) / 2)
+        _box(g, x_load - 18, inner_bottom + 6, 40 + _label_width(s.load),
+             inner_top - inner_bottom - 12, "load")
+
+
+def _tap(g, s: Schematic, x, y, horizontal: bool):
+    """A tap lead from the middle of L1, labelled, when the schematic has one."""
+    if s.tap_label is None:
+        return
+    if horizontal:
+        _dot(g, x, y)
+        _line(g, x, y, x, y - 20)
+        _text(g, x + 4, y - 18, s.tap_label, LABEL_SIZE)
+    else:
+        _dot(g, x, y)
+        _line(g, x, y, x + 24, y)
+        _text(g, x + 26, y - 12, s.tap_label, LABEL_SIZE)

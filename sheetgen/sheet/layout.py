@@ -1,0 +1,295 @@
+"""The PDF build-and-test sheet: page frame, title block, story, attachments and metadata.
+
+reportlab platypus lays out the sections of sections.py in the house style's order. Every
+page carries the identity and signature block and "page x of y" (the total is a form
+XObject filled in when the document closes, so one pass suffices). The
+output is byte-identical for the same inputs: invariant mode, a content-derived /ID, and a
+creation date taken from the sheet's own date.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import hashlib
+import io
+from dataclasses import dataclass
+from pathlib import Path
+
+from reportlab.lib import colors
+from reportlab.lib.pagesizes import A4, letter
+from reportlab.lib.units import mm
+from reportlab.lib.utils import simpleSplit
+from reportlab.pdfgen.canvas import Canvas
+from reportlab.platypus import BaseDocTemplate, Frame, PageTemplate, Spacer
+
+from .. import __version__
+from ..design import Design
+from . import fonts
+from .rows import headline
+from .sections import SECTIONS, make_kit, para, with_heading
+from .style import HouseStyle, check_logo_inside, default_style
+
+PAGE_SIZES = {"A4": A4, "Letter": letter}
+MARGIN = 14 * mm
+HEADER_HEIGHT = 24.0
+BLOCK_HEIGHT = 80.0
+GAP = 8.0
+PAGE_TOTAL_FORM = "sheetgenPageTotal"
+ATTACHMENTS = (("job.yaml", "application/x-yaml", "the job file this sheet was made from"),
+               ("results.json", "application/json", "the computed results (sheetgen.results/1)"))
+
+
+# --- identity on every page ---------------------------------------------------------------
+
+def fit_text(text: str, font: str, width: float, sizes: tuple[float, ...],
+             max_lines: int) -> tuple[list[str], float]:
+    """Wrap `text` to `width`, trying each font size; the last size truncates with '…'.
+
+    A word wider than `width` is cut where it must be, so no line is ever wider.
+    """
+    from reportlab.pdfbase.pdfmetrics import stringWidth
+    words = text.split()
+
+    def lines_at(size: float) -> list[str]:
+        pieces = []
+        for word in words:
+            while stringWidth(word, font, size) > width and len(word) > 1:
+                cut = len(word) - 1
+                while cut > 1 and stringWidth(word[:cut], font, size) > width:
+                    cut -= 1
+                pieces.append(word[:cut])
+                word = word[cut:]
+            pieces.append(word)
+        return simpleSplit(" ".join(pieces), font, size, width) if pieces else [""]
+
+    for size in sizes:
+        lines = lines_at(size)
+        if len(lines) <= max_lines:
+            return lines, size
+    size = sizes[-1]
+    lines = lines_at(size)[:max_lines]
+    last = lines[-1]
+    while last and stringWidth(last + "…", font, size) > width:
+        last = last[:-1]
+    lines[-1] = last.rstrip() + "…"
+    return lines, size
+
+
+@dataclass(frozen=True)
+class _Identity:
+    organisation: str
+    sheet_id: str
+    title: str
+    revision: str
+    date: str
+    designer: str
+    checker: str
+    approver: str
+    note: str
+    logo: Path | None
+
+
+def _cell(canvas: Canvas, x, y, width, height, caption: str):
+    canvas.setStrokeColor(colors.black)
+    canvas.setLineWidth(0.6)
+    canvas.rect(x, y, width, height, stroke=1, fill=0)
+    canvas.setFont(fonts.REGULAR, 6.5)
+    canvas.setFillColor(colors.Color(0.25, 0.25, 0.25))
+    canvas.drawString(x + 3, y + height - 8, caption)
+    canvas.setFillColor(colors.black)
+
+
+def _draw_lines(canvas, lines, font, size, x, y_top):
+    canvas.setFont(font, size)
+    for index, line in enumerate(lines):
+        canvas.drawString(x, y_top - size * 1.18 * (index + 1) + 1, line)
+
+
+def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size) -> None:
+    """Header (organisation, logo) and the title block with signature lines."""
+    page_w, page_h = page_size
+    left, width = MARGIN, page_w - 2 * MARGIN
+    canvas.saveState()
+    top = page_h - MARGIN
+    x_text = left
+    if identity.logo is not None:
+        from reportlab.lib.utils import ImageReader
+        image = ImageReader(str(identity.logo))
+        w_px, h_px = image.getSize()
+        height = 18.0
+        w = min(height * w_px / h_px, 90.0)
+        canvas.drawImage(image, left, top - height, w, height, preserveAspectRatio=True,
+                         anchor="sw", mask="auto")
+        x_text = left + w + 6
+    org_lines, org_size = fit_text(identity.organisation, fonts.BOLD, width * 0.62 - x_text + left,
+                                   (10.5, 9.0, 8.0), 1)
+    _draw_lines(canvas, org_lines, fonts.BOLD, org_size, x_text, top - 1)
+    canvas.setFont(fonts.REGULAR, 8)
+    right_lines, right_size = fit_text(f"{identity.sheet_id} rev {identity.revision}",
+                                       fonts.REGULAR, width * 0.36, (8.0, 7.0), 1)
+    canvas.setFont(fonts.REGULAR, right_size)
+    canvas.drawRightString(left + width, top - 10, right_lines[0])
+    canvas.setFont(fonts.REGULAR, 7)
+    canvas.drawRightString(left + width, top - 19, "build-and-test sheet")
+    canvas.setStrokeColor(colors.black)
+    canvas.setLineWidth(0.8)
+    canvas.line(left, top - HEADER_HEIGHT + 2, left + width, top - HEADER_HEIGHT + 2)
+
+    # title block: row A identity, row B signatures, row C tool and note
+    y_c, h_c = MARGIN, 12.0
+    y_b, h_b = y_c + h_c, 36.0
+    y_a, h_a = y_b + h_b, BLOCK_HEIGHT - h_c - h_b
+    columns = ((0.47, "TITLE"), (0.17, "SHEET"), (0.08, "REV."), (0.15, "DATE"),
+               (0.13, "PAGE"))
+    x = left
+    for fraction, caption in columns:
+        w = width * fraction
+        _cell(canvas, x, y_a, w, h_a, caption)
+        inner = w - 6
+        if caption == "TITLE":
+            lines, size = fit_text(identity.title, fonts.BOLD, inner, (9.0, 8.0, 7.0), 2)
+            _draw_lines(canvas, lines, fonts.BOLD, size, x + 3, y_a + h_a - 8)
+        elif caption == "PAGE":
+            canvas.setFont(fonts.BOLD, 9)
+            text = f"{canvas.getPageNumber()} of "
+            baseline = y_a + h_a - 8 - 9 * 1.18 + 1
+            canvas.drawString(x + 3, baseline, text)
+            canvas.saveState()
+            canvas.translate(x + 3 + canvas.stringWidth(text, fonts.BOLD, 9), baseline)
+            canvas.doForm(PAGE_TOTAL_FORM)
+            canvas.restoreState()
+        else:
+            value = {"SHEET": identity.sheet_id, "REV.": identity.revision,
+                     "DATE": identity.date}[caption]
+            lines, size = fit_text(value, fonts.BOLD, inner, (9.0, 8.0, 7.0), 2)
+            _draw_lines(canvas, lines, fonts.BOLD, size, x + 3, y_a + h_a - 8)
+        x += w
+    third = width / 3
+    for index, (caption, name) in enumerate((("DESIGNED", identity.designer),
+                                             ("CHECKED", identity.checker),
+                                             ("APPROVED", identity.approver))):
+        x = left + third * index
+        _cell(canvas, x, y_b, third, h_b, caption)
+        lines, size = fit_text(name or " ", fonts.BOLD, third - 50, (8.5, 7.5), 1)
+        _draw_lines(canvas, lines, fonts.BOLD, size, x + 46, y_b + h_b - 1)
+        canvas.setFont(fonts.REGULAR, 6.5)
+        canvas.drawString(x + 3, y_b + 5, "signature")
+        canvas.drawString(x + third * 0.64, y_b + 5, "date")
+        canvas.setLineWidth(0.5)
+        canvas.line(x + 34, y_b + 4, x + third * 0.62, y_b + 4)
+        canvas.line(x + third * 0.64 + 16, y_b + 4, x + third - 4, y_b + 4)
+    canvas.setLineWidth(0.6)
+    canvas.rect(left, y_c, width, h_c, stroke=1, fill=0)
+    canvas.setFont(fonts.REGULAR, 6.5)
+    canvas.drawString(left + 3, y_c + 3.5, f"made by sheetgen {__version__} from the job file "
+                      "attached to this PDF (job.yaml, results.json)")
+    if identity.note:
+        note_lines, note_size = fit_text(identity.note, fonts.REGULAR, width * 0.45, (6.5,), 1)
+        canvas.setFont(fonts.REGULAR, note_size)
+        canvas.drawRightString(left + width - 3, y_c + 3.5, note_lines[0])
+    canvas.restoreState()
+
+
+def _canvas_class(attachments: list[tuple[str, bytes, str, str]], document_id: bytes,
+                  pdf_date: str):
+    """A Canvas that defines the page-total form, sets the /ID and embeds the files on save."""
+
+    class SheetCanvas(Canvas):
+        def __init__(self, *args, **kwargs):
+            super().__init__(*args, **kwargs)
+            self.setDateFormatter(lambda *_: pdf_date)
+
+        def save(self):
+            total = self.getPageNumber() - 1
+            self.beginForm(PAGE_TOTAL_FORM)
+            self.setFont(fonts.BOLD, 9)
+            self.drawString(0, 0, str(total))
+            self.endForm()
+            _embed_files(self._doc, attachments)
+            from reportlab.pdfbase.pdfdoc import DummyDoc, PDFText
+            hexed = PDFText(document_id, enc="raw").format(DummyDoc())
+            self._doc._ID = b"\n[" + hexed + hexed + b"]\n"
+            super().save()
+
+    return SheetCanvas
+
+
+def _embed_files(doc, attachments) -> None:
+    """Embedded files (PDF 1.7, 7.11.4) in the catalog's /Names /EmbeddedFiles tree."""
+    from reportlab.pdfbase.pdfdoc import PDFArray, PDFDictionary, PDFName, PDFStream, PDFString
+    names = []
+    for name, data, mime, description in sorted(attachments):
+        stream = PDFStream(PDFDictionary({
+            "Type": PDFName("EmbeddedFile"),
+            "Subtype": PDFName(mime.replace("/", "#2F")),
+            "Params": PDFDictionary({"Size": len(data),
+                                     "CheckSum": PDFString(hashlib.md5(data).digest(),
+                                                           enc="raw")}),
+        }), data)
+        spec = PDFDictionary({"Type": PDFName("Filespec"), "F": PDFString(name),
+                              "UF": PDFString(name), "Desc": PDFString(description),
+                              "EF": PDFDictionary({"F": doc.Reference(stream)})})
+        names += [PDFString(name), doc.Reference(spec)]
+    doc.Catalog.Names = PDFDictionary({"EmbeddedFiles": PDFDictionary({"Names": PDFArray(names)})})
+
+
+def _pdf_date(text: str) -> str:
+    """The sheet's date as a PDF date when it is an ISO date, else a fixed date."""
+    try:
+        day = _dt.date.fromisoformat(text.strip())
+    except ValueError:
+        day = _dt.date(2000, 1, 1)
+    return f"D:{day:%Y%m%d}000000Z"
+
+
+def render_sheet(design: Design, job_text: str, results_text: str, job_dir: Path | None = None,
+                 *, style: HouseStyle | None = None) -> bytes:
+    """The build-and-test sheet of `design` as PDF bytes (same inputs ⇒ same bytes).
+
+    `job_text` and `results_text` are embedded as job.yaml and results.json; `job_dir` is
+    the job's folder, inside which a style's logo must lie.
+    """
+    fonts.register_fonts()
+    style = style or default_style()
+    check_logo_inside(style, job_dir)
+    page_size = PAGE_SIZES[style.page_size]
+    sheet = design.job.sheet
+    identity = _Identity(style.organisation, sheet.id, sheet.title, sheet.revision, sheet.date,
+                         sheet.designer, sheet.checker or "", sheet.approver or "",
+                         style.page_note or "", style.logo_path)
+    page_w, page_h = page_size
+    frame_bottom = MARGIN + BLOCK_HEIGHT + GAP
+    frame_top = page_h - MARGIN - HEADER_HEIGHT - 2
+    frame = Frame(MARGIN, frame_bottom, page_w - 2 * MARGIN, frame_top - frame_bottom,
+                  leftPadding=0, rightPadding=0, topPadding=0, bottomPadding=0, id="body")
+    kit = make_kit(frame.width)
+    story: list = [para(sheet.title, kit.title), para(headline(design), kit.small), Spacer(1, 4)]
+    number = 0
+    for name in style.sections:
+        content = SECTIONS[name](design, kit)
+        if content is None:
+            continue
+        number += 1
+        heading = para(f"{number}  {content.title}", kit.heading)
+        story += with_heading(heading, content.flowables)
+    job_bytes, results_bytes = job_text.encode("utf-8"), results_text.encode("utf-8")
+    attachments = [(name, data, mime, description) for (name, mime, description), data
+                   in zip(ATTACHMENTS, (job_bytes, results_bytes))]
+    digest = hashlib.sha256()
+    for part in (__version__, repr(style), job_text, results_text):
+        digest.update(part.encode("utf-8") + b"\0")
+    buffer = io.BytesIO()
+    doc = BaseDocTemplate(
+        buffer, pagesize=page_size, invariant=1, pageCompression=1,
+        title=f"{sheet.id} rev {sheet.revision}: {sheet.title}", author=sheet.designer,
+        subject=f"Build-and-test sheet: {headline(design)}",
+        keywords=", ".join(["tuned circuit", design.circuit.topology, "build-and-test sheet",
+                            sheet.id, f"rev {sheet.revision}"]),
+        creator=f"sheetgen {__version__}", lang="en",
+        leftMargin=MARGIN, rightMargin=MARGIN, topMargin=MARGIN, bottomMargin=MARGIN)
+    doc.addPageTemplates([PageTemplate(
+        "sheet", [frame], pagesize=page_size,
+        onPage=lambda canvas, _doc: _draw_page_frame(canvas, identity, page_size))])
+    doc.build(story, canvasmaker=_canvas_class(attachments, digest.digest()[:16],
+                                               _pdf_date(sheet.date)))
+    return buffer.getvalue()

@@ -1,0 +1,364 @@
+"""The sheet's sections: one function per section, from the Design to its flowables.
+
+Each section function takes the Design and the Kit (frame width, paragraph styles) and
+returns its heading and flowables, or None when the design has nothing for it; SECTIONS
+maps the names a house style lists to these functions, so a new section slots in there.
+A list among the flowables is kept together on one page. Rows come from tables.py (and
+rows.py), so the sheet words and formats every value as the terminal summary does.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Callable
+from xml.sax.saxutils import escape
+
+from reportlab.lib import colors
+from reportlab.lib.enums import TA_LEFT
+from reportlab.lib.styles import ParagraphStyle
+from reportlab.platypus import (CondPageBreak, Flowable, KeepTogether, Paragraph, Spacer, Table,
+                                TableStyle)
+
+from ..design import Design
+from ..procedure import OVERALL_VERDICT, RECORD_TEXT_FIELDS, VERDICT_CHOICES, procedure
+from ..tables import (Row, coil_rows, component_rows, limits_rows, performance_rows,
+                      rating_rows, stress_rows)
+from ..winding import winding_steps
+from . import fonts
+from .drawings import schematic_drawing, schematic_of
+from .forms import CheckBox, TextField
+from .plots import coil_q_drawing, impedance_phase_drawing, response_drawing
+from .rows import PART_COLUMNS, PartRow, extra_coil_rows, extra_stress_rows, part_rows
+
+GREY_RULE = colors.Color(0.55, 0.55, 0.55)
+GREY_FILL = colors.Color(0.90, 0.90, 0.90)
+
+
+@dataclass(frozen=True)
+class Kit:
+    """What a section needs to lay itself out: frame width and paragraph styles."""
+
+    width: float
+    body: ParagraphStyle
+    small: ParagraphStyle
+    cell: ParagraphStyle
+    cell_bold: ParagraphStyle
+    heading: ParagraphStyle
+    subheading: ParagraphStyle
+    step: ParagraphStyle
+    title: ParagraphStyle
+    caption: ParagraphStyle
+
+
+@dataclass(frozen=True)
+class SectionContent:
+    """A section's heading text and its flowables (a list among them: keep together)."""
+
+    title: str
+    flowables: list
+
+
+def make_kit(width: float) -> Kit:
+    base = dict(fontName=fonts.REGULAR, textColor=colors.black, alignment=TA_LEFT)
+    return Kit(
+        width=width,
+        body=ParagraphStyle("body", fontSize=9, leading=12, spaceAfter=4, **base),
+        small=ParagraphStyle("small", fontSize=8, leading=10, **base),
+        cell=ParagraphStyle("cell", fontSize=8.5, leading=10.5, **base),
+        cell_bold=ParagraphStyle("cell_bold", fontSize=8.5, leading=10.5,
+                                 **{**base, "fontName": fonts.BOLD}),
+        heading=ParagraphStyle("heading", fontSize=11.5, leading=14, spaceBefore=10,
+                               spaceAfter=5, keepWithNext=1, **{**base, "fontName": fonts.BOLD}),
+        subheading=ParagraphStyle("subheading", fontSize=9.5, leading=12, spaceBefore=6,
+                                  spaceAfter=3, keepWithNext=1,
+                                  **{**base, "fontName": fonts.BOLD}),
+        step=ParagraphStyle("step", fontSize=9, leading=12, spaceAfter=4, leftIndent=18,
+                            bulletIndent=0, bulletFontName=fonts.BOLD, bulletFontSize=9,
+                            **base),
+        title=ParagraphStyle("title", fontSize=15, leading=19, spaceAfter=3,
+                             **{**base, "fontName": fonts.BOLD}),
+        caption=ParagraphStyle("caption", fontSize=7.5, leading=9.5, spaceBefore=2,
+                               spaceAfter=4, textColor=colors.Color(0.2, 0.2, 0.2),
+                               **{k: v for k, v in base.items() if k != "textColor"}),
+    )
+
+
+def para(text: str, style: ParagraphStyle) -> Paragraph:
+    return Paragraph(escape(text), style)
+
+
+def _grid_style(header: bool = True) -> list:
+    commands = [
+        ("GRID", (0, 0), (-1, -1), 0.4, GREY_RULE),
+        ("VALIGN", (0, 0), (-1, -1), "TOP"),
+        ("TOPPADDING", (0, 0), (-1, -1), 1.5),
+        ("BOTTOMPADDING", (0, 0), (-1, -1), 2.5),
+        ("LEFTPADDING", (0, 0), (-1, -1), 4),
+        ("RIGHTPADDING", (0, 0), (-1, -1), 4),
+    ]
+    if header:
+        commands.append(("BACKGROUND", (0, 0), (-1, 0), GREY_FILL))
+    return commands
+
+
+def rows_table(rows: list[Row], kit: Kit, heads=("Quantity", "Value", "Remark")) -> Table:
+    """Label, value and remark in three columns; the header row repeats on a new page."""
+    data = [[para(h, kit.cell_bold) for h in heads]]
+    data += [[para(r.label, kit.cell), para(r.value, kit.cell_bold), para(r.remark, kit.cell)]
+             for r in rows]
+    widths = [kit.width * 0.42, kit.width * 0.25, kit.width * 0.33]
+    table = Table(data, colWidths=widths, repeatRows=1)
+    table.setStyle(TableStyle(_grid_style()))
+    return table
+
+
+def parts_table(rows: list[PartRow], kit: Kit) -> Table:
+    """The parts list, one row a part; long notes wrap, many parts continue on a new page."""
+    fractions = (0.07, 0.12, 0.11, 0.11, 0.08, 0.13, 0.05, 0.33)
+    data = [[para(h, kit.cell_bold) for h in PART_COLUMNS]]
+    for row in rows:
+        data.append([para(row.designator, kit.cell_bold), para(row.part, kit.cell),
+                     para(row.value, kit.cell_bold), para(row.tolerance, kit.cell),
+                     para(row.rating, kit.cell), para(row.material, kit.cell),
+                     para(row.quantity, kit.cell), para(row.notes, kit.cell)])
+    table = Table(data, colWidths=[kit.width * f for f in fractions], repeatRows=1)
+    table.setStyle(TableStyle(_grid_style()))
+    return table
+
+
+# --- sections ----------------------------------------------------------------------------
+
+# Signal words (ISO 3864-2, ANSI Z535.4): the word itself carries the meaning; the panel
+# shading only orders them for the eye and stays legible in greyscale.
+SIGNAL_PANELS = {"danger": (colors.black, colors.white), "warning": (colors.Color(0.3, 0.3, 0.3),
+                 colors.white), "caution": (colors.Color(0.8, 0.8, 0.8), colors.black),
+                 "notice": (colors.white, colors.black)}
+
+
+def cautions_section(design: Design, kit: Kit) -> SectionContent | None:
+    cautions = design.assessment.cautions
+    if not cautions:
+        return None
+    data, commands = [], _grid_style(header=False)
+    for row, caution in enumerate(cautions):
+        fill, ink = SIGNAL_PANELS[caution.level]
+        word = ParagraphStyle("signal", parent=kit.cell_bold, textColor=ink, fontSize=9,
+                              leading=11)
+        alert = "" if caution.level == "notice" else "\u26a0 "  # safety alert symbol
+        data.append([para(alert + caution.signal_word, word), para(caution.text, kit.cell)])
+        commands += [("BACKGROUND", (0, row), (0, row), fill),
+                     ("VALIGN", (0, row), (0, row), "MIDDLE")]
+    table = Table(data, colWidths=[kit.width * 0.15, kit.width * 0.85])
+    table.setStyle(TableStyle(commands + [("LINEBELOW", (0, 0), (-1, -1), 0.8, colors.black)]))
+    return SectionContent("Safety", [table])
+
+
+def checks_section(design: Design, kit: Kit) -> SectionContent | None:
+    from ..checks import failed_checks
+    failures = failed_checks(design)
+    if not failures:
+        return None
+    data = [[para("Do not build until these are resolved: the design fails "
+                f"{len(failures)} check{'s' if len(failures) != 1 else ''}.", kit.cell_bold), ""]]
+    data += [[para(f.field or "design", kit.cell_bold), para(f.text, kit.cell)] for f in failures]
+    table = Table(data, colWidths=[kit.width * 0.22, kit.width * 0.78])
+    table.setStyle(TableStyle(_grid_style(header=False) + [
+        ("SPAN", (0, 0), (1, 0)), ("BOX", (0, 0), (-1, -1), 2.0, colors.black)]))
+    return SectionContent("Failed checks", [table])
+
+
+def limits_section(design: Design, kit: Kit) -> SectionContent:
+    return SectionContent("Test limits", [rows_table(limits_rows(design), kit)])
+
+
+def ratings_section(design: Design, kit: Kit) -> SectionContent | None:
+    rows = rating_rows(design)
+    if not rows:
+        return None
+    flowables: list = [rows_table(rows, kit, ("Part and stress", "Stress", "Verdict"))]
+    for check in design.assessment.ratings:
+        for label, text in (("accepted", check.acceptance_reason), ("advice", check.advice)):
+            if text:
+                flowables.append(para(f"{check.part} {check.quantity}, {label}: {text}",
+                                    kit.small))
+    return SectionContent("Ratings", flowables)
+
+
+def schematic_section(design: Design, kit: Kit) -> SectionContent:
+    drawing = schematic_drawing(schematic_of(design), kit.width)
+    caption = ("Source and load (dashed) are the rest of the system, not parts of the build; "
+               "the bench test stands in for them (procedure step 5).")
+    return SectionContent("Schematic", [[drawing, para(caption, kit.caption)]])
+
+
+def _coverage(design: Design) -> str:
+    limits = design.assessment.limits
+    return (f"{limits.coverage * 100:.2f} %" if limits.coverage is not None
+            else "all worst-case corners")
+
+
+def parts_section(design: Design, kit: Kit) -> SectionContent:
+    return SectionContent("Parts list", [parts_table(part_rows(design), kit)])
+
+
+def values_section(design: Design, kit: Kit) -> SectionContent:
+    return SectionContent("Circuit values as analysed",
+                          [rows_table(component_rows(design), kit)])
+
+
+def coil_section(design: Design, kit: Kit) -> SectionContent | None:
+    rows = coil_rows(design)
+    if not rows:
+        return None
+    rows += extra_coil_rows(design)
+    flowables: list = [rows_table(rows, kit)]
+    steps = winding_steps(design)
+    if steps:
+        flowables.append(para("Winding", kit.subheading))
+        flowables += [_numbered(step.number, "", step.text, kit) for step in steps]
+    drawing = coil_q_drawing(design, kit.width)
+    if drawing is not None:
+        flowables.append([
+            drawing, para("The coil's estimated Q against frequency (a logarithmic scale); "
+                        "dashed: f0.", kit.caption)])
+    return SectionContent("Coil", flowables)
+
+
+def performance_section(design: Design, kit: Kit) -> SectionContent:
+    return SectionContent("Expected performance", [rows_table(performance_rows(design), kit)])
+
+
+def stress_section(design: Design, kit: Kit) -> SectionContent:
+    rows = stress_rows(design) + extra_stress_rows(design)
+    return SectionContent("Stress at the response maximum", [rows_table(rows, kit)])
+
+
+def response_section(design: Design, kit: Kit) -> SectionContent:
+    first = [
+        response_drawing(design, kit.width),
+        para("Response (series: loop current; parallel: tank voltage) relative to its maximum. "
+           "Dashed: f0. Dotted: the half-power (−3 dB) level; circles: the half-power points. "
+           f"Grey band: where {_coverage(design)} of builds fall, from the parts' tolerances "
+           "(test limits section).", kit.caption)]
+    second = [
+        impedance_phase_drawing(design, kit.width),
+        para("Impedance the source terminals see (the source's own resistance excluded): "
+           "magnitude on a logarithmic scale, and phase.", kit.caption)]
+    return SectionContent("Response against frequency", [first, Spacer(1, 4), second])
+
+
+def _numbered(number: int, title: str, text: str, kit: Kit) -> Paragraph:
+    """A numbered step: bold number hanging in the margin, optional bold title."""
+    lead = f"<b>{escape(title)}.</b> " if title else ""
+    return Paragraph(lead + escape(text), kit.step, bulletText=f"{number}.")
+
+
+def procedure_section(design: Design, kit: Kit) -> SectionContent:
+    plan = procedure(design)
+    flowables: list = []
+    for step in plan.steps:
+        paragraph = _numbered(step.number, step.title, step.text, kit)
+        if not step.settings:
+            flowables.append(paragraph)
+            continue
+        data = [[para(label, kit.cell), para(value, kit.cell_bold)] for label, value in step.settings]
+        table = Table(data, colWidths=[kit.width * 0.42, kit.width * 0.30], hAlign="LEFT")
+        table.setStyle(TableStyle(_grid_style(header=False)))
+        flowables.append([paragraph, _Indent(table, 18), Spacer(1, 6)])
+    return SectionContent("Test procedure", flowables)
+
+
+def record_section(design: Design, kit: Kit) -> SectionContent:
+    rows = procedure(design).record
+    heads = ("Measurement", "Expected", "Pass window", "Measured (with unit)", "Verdict", "")
+    data = [[para(h, kit.cell_bold) for h in heads]]
+    for row in rows:
+        m = row.measurement
+        verdict = ([CheckBox(f"{m.verdict}.{c}", c, f"{m.label}: {c}") for c in VERDICT_CHOICES]
+                   if m.verdict else ["", ""])
+        data.append([para(m.label, kit.cell), para(row.expected, kit.cell_bold),
+                     para(row.limits, kit.cell), TextField(m.field, m.label), *verdict])
+    data.append([para("Overall", kit.cell_bold), para("every value in its window", kit.cell), "", "",
+                 *[CheckBox(f"{OVERALL_VERDICT}.{c}", c, f"overall: {c}")
+                   for c in VERDICT_CHOICES]])
+    widths = [kit.width * f for f in (0.25, 0.13, 0.20, 0.22, 0.10, 0.10)]
+    table = Table(data, colWidths=widths, repeatRows=1)
+    table.setStyle(TableStyle(_grid_style() + [("VALIGN", (0, 1), (-1, -1), "MIDDLE"),
+                                               ("SPAN", (4, 0), (5, 0))]))
+    labels = {"record.technician": "Technician", "record.date": "Date tested",
+              "record.instruments": "Instruments used (type, serial, calibration due)",
+              "record.remarks": "Remarks"}
+    people = [[para(labels[name], kit.cell_bold),
+               TextField(name, labels[name], height=34 if name == "record.remarks" else 15,
+                         multiline=name == "record.remarks", max_length=2000)]
+              for name in RECORD_TEXT_FIELDS]
+    signature = [[para("Technician's signature", kit.cell_bold), ""]]
+    sign = Table(people + signature, colWidths=[kit.width * 0.36, kit.width * 0.64],
+                 rowHeights=[None] * len(people) + [26])
+    sign.setStyle(TableStyle(_grid_style(header=False) + [("VALIGN", (0, 0), (-1, -1),
+                                                          "MIDDLE")]))
+    return SectionContent("Test record", [[table, Spacer(1, 8), sign]])
+
+
+def notes_section(design: Design, kit: Kit) -> SectionContent | None:
+    notes = design.job.sheet.notes
+    if not notes or not notes.strip():
+        return None
+    flowables = [Paragraph(escape(block.strip()).replace("\n", "<br/>"), kit.body)
+                 for block in notes.split("\n\n") if block.strip()]
+    return SectionContent("Notes", flowables)
+
+
+SECTIONS: dict[str, Callable[[Design, Kit], SectionContent | None]] = {
+    "checks": checks_section,
+    "cautions": cautions_section,
+    "schematic": schematic_section,
+    "parts": parts_section,
+    "values": values_section,
+    "coil": coil_section,
+    "performance": performance_section,
+    "limits": limits_section,
+    "stress": stress_section,
+    "ratings": ratings_section,
+    "response": response_section,
+    "procedure": procedure_section,
+    "record": record_section,
+    "notes": notes_section,
+}
+
+
+def with_heading(heading: Paragraph, items: list) -> list:
+    """Flowables of a section: a list item is kept together on one page, and the heading is
+    kept with the first item. Leading page-break conditions go before the heading.
+
+    (reportlab's KeepTogether does not nest well, so groups stay lists until here.)
+    """
+    lead = []
+    while items and isinstance(items[0], CondPageBreak):
+        lead.append(items[0])
+        items = items[1:]
+    if not items:
+        return lead + [heading]
+    if isinstance(items[0], Table):  # a table may split: keep only a few rows with the heading
+        out = lead + [CondPageBreak(110), heading, items[0]]
+    else:
+        first = items[0] if isinstance(items[0], list) else [items[0]]
+        out = lead + [KeepTogether([heading, *first])]
+    out += [KeepTogether(item) if isinstance(item, list) else item for item in items[1:]]
+    return out
+
+
+class _Indent(Flowable):
+    """A flowable shifted right by `indent` points."""
+
+    def __init__(self, inner: Flowable, indent: float):
+        super().__init__()
+        self.inner, self.indent = inner, indent
+
+    def wrap(self, available_width, available_height):
+        width, height = self.inner.wrap(available_width - self.indent, available_height)
+        self.width, self.height = width + self.indent, height
+        return self.width, self.height
+
+    def draw(self):
+        self.inner.drawOn(self.canv, self.indent, 0)

@@ -1,0 +1,176 @@
+"""House style of the sheet: organisation, optional logo, page size and which sections.
+
+A style is a small YAML file (templates/style-default.yaml is the default), read with the
+job file's own located reader so a bad style is reported as `FILE:LINE:COL field: message`.
+The logo is a PNG or JPEG named relative to the job's folder and must stay inside that
+folder tree: absolute paths, `..` and links that lead out are refused.
+"""
+
+from __future__ import annotations
+
+import difflib
+from dataclasses import dataclass
+from importlib import resources
+from pathlib import Path, PurePosixPath, PureWindowsPath
+
+from ..jobfile import JobFileError, Problem, compose_located
+
+PAGE_SIZES = ("A4", "Letter")
+# Every section the sheet can draw, in the default order. The identity (title block on
+# every page) is not a section: it is always there.
+SECTION_NAMES = ("checks", "cautions", "schematic", "parts", "values", "coil", "performance", "limits",
+                 "stress", "ratings", "response", "procedure", "record", "notes")
+DEFAULT_STYLE_NAME = "style-default"
+MAX_STYLE_BYTES = 100_000
+MAX_LOGO_BYTES = 5_000_000
+_KEYS = ("organisation", "logo", "page_size", "sections", "page_note")
+_LOGO_SIGNATURES = {b"\x89PNG\r\n\x1a\n": "PNG", b"\xff\xd8\xff": "JPEG"}
+
+
+@dataclass(frozen=True)
+class HouseStyle:
+    """A loaded, checked style; `logo_path` is resolved and inside the job's folder tree."""
+
+    organisation: str
+    page_size: str = "A4"
+    sections: tuple[str, ...] = SECTION_NAMES
+    logo_path: Path | None = None
+    page_note: str | None = None
+    source: str = "<default style>"
+    logo_mark: tuple[int, int] = (1, 1)
+
+
+def default_style() -> HouseStyle:
+    """The style shipped as templates/style-default.yaml (it has no logo)."""
+    file = resources.files("sheetgen.templates").joinpath(f"{DEFAULT_STYLE_NAME}.yaml")
+    return style_from_text(file.read_text(encoding="utf-8"), f"{DEFAULT_STYLE_NAME}.yaml", None)
+
+
+def load_style(path: str | Path, job_dir: str | Path | None = None) -> HouseStyle:
+    """Read a style file; its logo is looked up under `job_dir` (default: the style's folder)."""
+    path = Path(path)
+    shown = str(path)
+    if not path.is_file():
+        raise JobFileError([Problem(shown, 1, 1, "", "no such style file; expected a YAML "
+                                    "house style like templates/style-default.yaml")])
+    raw = path.read_bytes()
+    if len(raw) > MAX_STYLE_BYTES:
+        raise JobFileError([Problem(shown, 1, 1, "", f"is {len(raw):,} bytes; a style file is "
+                                    f"at most {MAX_STYLE_BYTES:,} bytes")])
+    try:
+        text = raw.decode("utf-8").removeprefix("\ufeff")
+    except UnicodeDecodeError:
+        raise JobFileError([Problem(shown, 1, 1, "", "is not UTF-8 text")]) from None
+    return style_from_text(text, shown, Path(job_dir) if job_dir is not None else path.parent)
+
+
+def style_from_text(text: str, shown: str, job_dir: Path | None) -> HouseStyle:
+    """Parse and check a style's YAML text; every problem is reported at once."""
+    located = compose_located(text, shown)
+    data = located.data
+    if not isinstance(data, dict):
+        raise JobFileError([Problem(shown, 1, 1, "", "expected a mapping with organisation, "
+                                    "page_size and sections")])
+    problems: list[Problem] = []
+
+    def problem(field: str, message: str, key: bool = False) -> None:
+        marks = located.key_marks if key else located.marks
+        line, column = marks.get((field,), located.marks.get((field,), (1, 1)))
+        problems.append(Problem(shown, line, column, field, message))
+
+    for key in data:
+        if key not in _KEYS:
+            close = difflib.get_close_matches(key, _KEYS, n=1, cutoff=0.6)
+            hint = f"did you mean {close[0]!r}? " if close else ""
+            problem(key, f"unknown key; {hint}expected one of: {', '.join(sorted(_KEYS))}", True)
+    organisation = data.get("organisation")
+    if not isinstance(organisation, str) or not organisation.strip():
+        if "organisation" in data:
+            problem("organisation", "expected the organisation's name as text")
+        else:
+            problems.append(Problem(shown, 1, 1, "organisation", "is missing; this field is "
+                                    "required"))
+    elif len(organisation) > 200:
+        problem("organisation", f"is {len(organisation)} characters; at most 200 fit the "
+                "title block")
+    page_size = data.get("page_size", "A4")
+    if page_size not in PAGE_SIZES:
+        problem("page_size", f"{page_size!r} is not a page size; expected A4 or Letter")
+    sections = data.get("sections", list(SECTION_NAMES))
+    if not isinstance(sections, list) or not sections:
+        problem("sections", "expected a list of section names, e.g. [schematic, parts]")
+        sections = []
+    seen: set = set()
+    for index, name in enumerate(sections):
+        line, column = located.marks.get(("sections", index), (1, 1))
+        if name not in SECTION_NAMES:
+            close = difflib.get_close_matches(str(name), SECTION_NAMES, n=1, cutoff=0.6)
+            hint = f"did you mean {close[0]!r}? " if close else ""
+            problems.append(Problem(shown, line, column, f"sections[{index}]",
+                                    f"{name!r} is not a section; {hint}expected one of: "
+                                    f"{', '.join(SECTION_NAMES)}"))
+        elif name in seen:
+            problems.append(Problem(shown, line, column, f"sections[{index}]",
+                                    f"{name!r} appears twice; list each section once"))
+        seen.add(name)
+    page_note = data.get("page_note")
+    if page_note is not None and (not isinstance(page_note, str) or len(page_note) > 200):
+        problem("page_note", "expected one line of text (at most 200 characters)")
+    logo = data.get("logo")
+    logo_path = None
+    if logo is not None:
+        logo_path = _logo(logo, job_dir, lambda message: problem("logo", message))
+    if problems:
+        raise JobFileError(problems)
+    return HouseStyle(organisation=organisation.strip(), page_size=page_size,
+                      sections=tuple(sections), logo_path=logo_path, page_note=page_note,
+                      source=shown, logo_mark=located.marks.get(("logo",), (1, 1)))
+
+
+def _logo(value: object, job_dir: Path | None, problem) -> Path | None:
+    """The logo's resolved path, or None after reporting why it cannot be used."""
+    if not isinstance(value, str) or not value.strip():
+        problem("expected a path to a PNG or JPEG file, relative to the job's folder")
+        return None
+    if (PurePosixPath(value).is_absolute() or PureWindowsPath(value).is_absolute()
+            or PureWindowsPath(value).drive or value.startswith(("/", "\\", "~"))):
+        problem(f'"{value}" is an absolute path; give the logo relative to the job\'s folder')
+        return None
+    if ".." in PurePosixPath(value.replace("\\", "/")).parts:
+        problem(f'"{value}" leads out of the job\'s folder with ".."; keep the logo in the '
+                "job's folder or below it")
+        return None
+    if job_dir is None:
+        problem("a logo needs the job's folder to be found in; this style has none")
+        return None
+    root = Path(job_dir).resolve()
+    target = (root / value).resolve()
+    if not target.is_relative_to(root):
+        problem(f'"{value}" resolves to {target}, outside the job\'s folder {root} (through a '
+                "link); keep the logo inside the job's folder tree")
+        return None
+    if not target.is_file():
+        problem(f'"{value}" does not exist in {root}; expected a PNG or JPEG file there')
+        return None
+    size = target.stat().st_size
+    if size > MAX_LOGO_BYTES:
+        problem(f'"{value}" is {size:,} bytes; a logo is at most {MAX_LOGO_BYTES:,} bytes')
+        return None
+    with target.open("rb") as stream:
+        head = stream.read(8)
+    if not any(head.startswith(signature) for signature in _LOGO_SIGNATURES):
+        problem(f'"{value}" is not a PNG or JPEG image')
+        return None
+    return target
+
+
+def check_logo_inside(style: HouseStyle, job_dir: Path | None) -> None:
+    """Refuse to draw a logo that is not inside `job_dir` (the job being rendered)."""
+    if style.logo_path is None or job_dir is None:
+        return
+    root = Path(job_dir).resolve()
+    if not style.logo_path.resolve().is_relative_to(root):
+        line, column = style.logo_mark
+        raise JobFileError([Problem(style.source, line, column, "logo",
+                                    f"{style.logo_path} is outside the job's folder {root}; "
+                                    "keep the logo inside the job's folder tree")])
