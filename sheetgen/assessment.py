@@ -26,6 +26,7 @@ from .model import Job
 SERIES_TOLERANCE = {"E6": 0.20, "E12": 0.10, "E24": 0.05, "E48": 0.02, "E96": 0.01,
                     "E192": 0.005}
 ENVELOPE_TRIALS = 2000  # trials drawn for the plotted Monte Carlo envelope of the response
+ENVELOPE_POINTS = 201  # frequencies of the envelope (a band on a plot needs no more)
 SRF_MARGIN = 3.0  # keep the coil's self-resonance at least this many times f0 (common practice)
 FLUX_WARNING_SHARE = 0.8  # warn above this share of the material's flux limit (common practice)
 
@@ -241,10 +242,11 @@ def envelope(circuit: rz.Circuit, variation: vr.VariationResult, sweep: rz.Sweep
         parts.capacitance_f[take, None], parts.capacitor_esr_ohm[take, None],
         circuit.source_resistance_ohm,
         None if parts.load_resistance_ohm is None else parts.load_resistance_ohm[take, None])
-    relative = rz.relative_response_db(trial, circuit, sweep.f_hz[None, :])
+    f_hz = sweep.f_hz[::max(1, (len(sweep.f_hz) - 1) // (ENVELOPE_POINTS - 1))]
+    relative = rz.relative_response_db(trial, circuit, f_hz[None, :])
     if coverage is None:
         low, high = relative.min(axis=0), relative.max(axis=0)
     else:
         tail = 100.0 * (1.0 - coverage) / 2.0
         low, high = np.percentile(relative, [tail, 100.0 - tail], axis=0)
-    return Envelope(sweep.f_hz, low, high)
+    return Envelope(f_hz, low, high)

@@ -10,15 +10,11 @@ import math
 from dataclasses import dataclass, replace
 
 import numpy as np
-from scipy.optimize import brentq
 
 from .engine import resonance as rz
 from .engine.standard_values import StandardPair, best_parallel_pair, nearest_standard
 from .assessment import Assessment, UnknownAcceptance, assess
-from .coil_parts import PartError, design_coil, resolve_toroid
 from .designators import Designators, designators
-from .engine.coil import coil_q_sweep
-from .engine.magnetics import link_turns
 from .engine.stress import Drive, DriveError, Stress, part_stress
 from .library import PartsLibrary
 from .model import Job
@@ -107,6 +103,8 @@ class Design:
     assessment: Assessment
 
 
+_LOAD_GRID_POINTS = 64  # RL grid per round when solving for a loaded-Q target
+_LOAD_GRID_ROUNDS = 8  # 27.6 (ln of 12 decades) / 63^8 < 1e-13
 WIRE_TEMPERATURE_C = 20.0  # copper resistivity reference of IEC 60028
 AIR_CORE_TOLERANCE = 0.05  # hand-wound single-layer coils, set by turn spacing (common practice)
 
@@ -207,6 +205,8 @@ def _assess(job, circuit, resonance, stress, response, names, choice, fixed, coi
 
 
 def _design_coil(job: Job, library, inductance_h: float, f_hz: float, voltage_rms_v):
+    # The coil modules (and scipy.special) are imported only for jobs that design a coil.
+    from .coil_parts import PartError, design_coil
     try:
         return design_coil(job.inductor, library, inductance_h, f_hz, voltage_rms_v,
                            WIRE_TEMPERATURE_C)
@@ -230,12 +230,16 @@ def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]
         return x0 / inductor.q, inductor.q, "job"
     if inductor.q is not None:
         return x0 / inductor.q, inductor.q, "job"
+    from .engine.coil import coil_q_sweep
     q = float(coil_q_sweep(coil, f0))
     return x0 / q, q, "estimate"
 
 
 def _coil_design(job: Job, library, coil, target_l: float, required_c: float,
                  circuit: rz.Circuit, q_used: float, q_source: str, f0: float) -> CoilDesign:
+    from .coil_parts import resolve_toroid
+    from .engine.coil import coil_q_sweep
+    from .engine.magnetics import link_turns
     inductor = job.inductor
     core_name = material_name = flux_limit = None
     tolerance = inductor.tolerance
@@ -331,31 +335,38 @@ def _wanted_loaded_q(targets, f0_hz: float) -> float | None:
     return None
 
 
+def _loaded_q(circuit: rz.Circuit, loads_ohm: np.ndarray) -> np.ndarray:
+    """f0/bandwidth of the circuit with each of the load resistances (0 where no −3 dB
+    points), all in one vectorised evaluation of the exact response."""
+    features = rz.response_features(replace(circuit, load_resistance_ohm=loads_ohm))
+    with np.errstate(invalid="ignore", divide="ignore"):
+        q = features.f0_hz / (features.f_high_hz - features.f_low_hz)
+    return np.nan_to_num(q, nan=0.0)
+
+
 def _with_load_for_q(circuit: rz.Circuit, wanted_q: float) -> rz.Circuit:
     """The circuit with the load resistance that gives loaded Q = f0/bandwidth = wanted_q.
 
-    Solved on the exact response (brentq over ln RL); the loaded Q moves monotonically with
-    RL, down as a series load grows and up as a parallel load grows.
+    Solved on the exact response: the loaded Q moves monotonically with RL (down as a
+    series load grows, up as a parallel load grows), so a grid of RL over twelve decades
+    brackets the answer and each finer grid inside the bracket narrows it 63-fold.
     """
-    def q_with(load_ohm: float) -> float:
-        try:
-            result = rz.analyse(replace(circuit, load_resistance_ohm=load_ohm))
-        except rz.NoResonanceError:
-            return 0.0
-        return result.q_loaded or 0.0
-
     x0 = float(rz.reactance_ohm(circuit.inductance_h,
                                 rz.resonant_frequency_hz(circuit.inductance_h, circuit.capacitance_f)))
-    low, high = x0 * 1e-6, x0 * 1e6
-    q_low, q_high = q_with(low), q_with(high)
-    reachable = (min(q_low, q_high), max(q_low, q_high))
-    if not reachable[0] < wanted_q < reachable[1]:
+    low_u, high_u = math.log(x0 * 1e-6), math.log(x0 * 1e6)
+    ends = _loaded_q(circuit, np.exp(np.array([low_u, high_u])))
+    if not min(ends) < wanted_q < max(ends):
         raise DesignError("circuit.targets", f"a loaded Q of {wanted_q:.4g} cannot be reached with "
-                          f"a load resistance: the losses and source allow {reachable[0]:.3g} to "
-                          f"{reachable[1]:.3g}")
-    load = math.exp(brentq(lambda u: q_with(math.exp(u)) - wanted_q, math.log(low),
-                           math.log(high), xtol=1e-12, rtol=1e-12))
-    return replace(circuit, load_resistance_ohm=load)
+                          f"a load resistance: the losses and source allow {min(ends):.3g} to "
+                          f"{max(ends):.3g}")
+    rising = ends[1] > ends[0]
+    for _ in range(_LOAD_GRID_ROUNDS):
+        grid = np.linspace(low_u, high_u, _LOAD_GRID_POINTS)
+        below = (_loaded_q(circuit, np.exp(grid)) < wanted_q) == rising
+        index = int(np.count_nonzero(below))  # grid[:index] lie on the low side
+        index = min(max(index, 1), _LOAD_GRID_POINTS - 1)
+        low_u, high_u = grid[index - 1], grid[index]
+    return replace(circuit, load_resistance_ohm=math.exp(0.5 * (low_u + high_u)))
 
 
 def _drive(job: Job) -> Drive:

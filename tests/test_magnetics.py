@@ -374,3 +374,12 @@ def test_steinmetz_and_temperature_rise():
 ])
 def test_link_turns(tank_turns, r_tank, r_link, expected):
     assert link_turns(tank_turns, r_tank, r_link) == expected
+
+
+def test_mu_0_is_codata_2022():
+    """The engine's µ0 against scipy.constants (CODATA 2022)."""
+    import scipy.constants
+
+    from sheetgen.engine.constants import MU_0_H_PER_M
+    # CODATA 2018 and 2022 differ by 7e-10 relative; either scipy passes at 1e-9.
+    assert_close(MU_0_H_PER_M, scipy.constants.mu_0, rel=1e-9, what="µ0")

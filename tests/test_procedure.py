@@ -15,8 +15,7 @@ from pathlib import Path
 
 import pytest
 
-from sheetgen.design import design
-from sheetgen.jobfile import load_job
+from sheetgen.pipeline import design_from_file
 from sheetgen.procedure import (FORM_FIELD_NAMES, HALF_POWER_DB, bench_drive, dbm_from_emf,
                                 detector, nice_at_least, nice_at_most, procedure,
                                 sweep_settings)
@@ -24,6 +23,7 @@ from sheetgen.results import results
 from tests.support import assert_close
 
 TEMPLATES = Path(__file__).resolve().parents[1] / "templates"
+SHARED = TEMPLATES.parent / "shared"  # the parts library the starters name
 
 
 def _design(tmp_path, name: str, edits: dict[str, str] | None = None):
@@ -33,7 +33,7 @@ def _design(tmp_path, name: str, edits: dict[str, str] | None = None):
         text = text.replace(old, new)
     path = tmp_path / f"{name}.yaml"
     path.write_text(text, encoding="utf-8")
-    d = design(load_job(path))
+    d = design_from_file(path, SHARED)
     return d, results(d)
 
 

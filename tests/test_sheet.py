@@ -21,7 +21,7 @@ from pypdf import PdfReader
 from sheetgen import __version__
 from sheetgen.quantities import format_number, format_quantity
 from tests.support import assert_close
-from tests.test_sheet_tools import (A4_PT, TEMPLATES, build, need, overlapping_words,
+from tests.test_sheet_tools import (A4_PT, SHARED, TEMPLATES, build, need, overlapping_words,
                                     page_count, page_text, page_words, words_outside)
 
 JOBS = ("series", "parallel", "demo", "toroid", "solenoid")
@@ -338,13 +338,12 @@ def test_schematic_designators(sheets):
 
 def test_rerender_in_one_process_is_byte_identical():
     """A second render after another job's (fonts and reportlab state shared) is the same."""
-    from sheetgen.design import design
-    from sheetgen.jobfile import load_job
+    from sheetgen.pipeline import design_from_file
     from sheetgen.results import results_json
     from sheetgen.sheet import render_sheet
 
     def render(name):
-        d = design(load_job(TEMPLATES / f"{name}.yaml"))
+        d = design_from_file(TEMPLATES / f"{name}.yaml", SHARED)
         return render_sheet(d, job_text=name, results_text=results_json(d), job_dir=None)
 
     first = render("demo")

@@ -11,14 +11,13 @@ import io
 import pytest
 from pypdf import PdfReader
 
-from sheetgen.design import design
-from sheetgen.jobfile import load_job
+from sheetgen.pipeline import design_from_file
 from sheetgen.results import results_json
 from sheetgen.sheet import layout, render_sheet, sections
 from sheetgen.sheet.rows import PartRow
 from sheetgen.sheet.style import style_from_text
 from tests.support import assert_close
-from tests.test_sheet_tools import (LETTER_PT, TEMPLATES, body_text, build, need,
+from tests.test_sheet_tools import (LETTER_PT, SHARED, TEMPLATES, body_text, build, need,
                                     overlapping_words, page_count, page_text, page_words,
                                     words_outside)
 
@@ -48,7 +47,7 @@ def _assert_clean(pdf_path):
 
 
 def _render(job_path, style_text: str | None = None, **replace_rows) -> bytes:
-    d = design(load_job(job_path))
+    d = design_from_file(job_path, SHARED)
     style = style_from_text(style_text, "style.yaml", job_path.parent) if style_text else None
     return render_sheet(d, job_text=job_path.read_text(encoding="utf-8"),
                         results_text=results_json(d), job_dir=job_path.parent, style=style)

@@ -12,12 +12,12 @@ import os
 import pytest
 from pypdf import PdfReader
 
-from sheetgen.design import design
-from sheetgen.jobfile import JobFileError, load_job
+from sheetgen.pipeline import design_from_file
+from sheetgen.jobfile import JobFileError
 from sheetgen.results import results_json
 from sheetgen.sheet import render_sheet
 from sheetgen.sheet.style import SECTION_NAMES, check_logo_inside, default_style, load_style
-from tests.test_sheet_tools import TEMPLATES
+from tests.test_sheet_tools import SHARED, TEMPLATES
 
 
 def _problems(tmp_path, text: str, job_dir=None) -> list[str]:
@@ -86,7 +86,7 @@ def test_logo_inside_the_job_folder_is_drawn(tmp_path):
     style = load_style(style_path, tmp_path)
     job = tmp_path / "job.yaml"
     job.write_text((TEMPLATES / "series.yaml").read_text(encoding="utf-8"), encoding="utf-8")
-    d = design(load_job(job))
+    d = design_from_file(job, SHARED)
     pdf = render_sheet(d, job_text=job.read_text(encoding="utf-8"), results_text=results_json(d),
                        job_dir=tmp_path, style=style)
     reader = PdfReader(io.BytesIO(pdf))

@@ -20,6 +20,7 @@ from sheetgen.cli import main
 
 REPO = Path(__file__).resolve().parents[1]
 TEMPLATES = REPO / "templates"
+SHARED = REPO / "shared"  # the parts library the starters name
 # ISO 216 A4 is 210 mm × 297 mm; ANSI Letter is 8.5 in × 11 in; 1 pt = 1/72 in (from memory).
 A4_PT = (210 / 25.4 * 72, 297 / 25.4 * 72)
 LETTER_PT = (8.5 * 72, 11 * 72)

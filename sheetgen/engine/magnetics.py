@@ -11,9 +11,7 @@ from dataclasses import dataclass
 from typing import Literal
 
 import numpy as np
-import scipy.special as sp
-from scipy.constants import mu_0
-from scipy.optimize import brentq
+from sheetgen.engine.constants import MU_0_H_PER_M as mu_0
 
 from sheetgen.engine.resonance import reactance_ohm, resonant_frequency_hz
 
@@ -215,6 +213,7 @@ def nagaoka_coefficient(diameter_m, length_m):
         raise ValueError("solenoid diameter and length must be positive")
     m = d**2 / (d**2 + l**2)
     k, kp = np.sqrt(m), np.sqrt(1.0 - m)
+    import scipy.special as sp  # imported on first use: a job without a coil never needs it
     big_k, big_e = sp.ellipk(m), sp.ellipe(m)
     value = 4.0 / (3.0 * math.pi * kp) * ((kp**2 / k**2) * (big_k - big_e) + big_e - k)
     return float(value) if np.ndim(value) == 0 else value
@@ -282,6 +281,7 @@ def solenoid_turns_for_inductance(inductance_h: float, diameter_m: float, *,
         high = 1.0
         while excess(high) < 0.0:
             high *= 2.0
+        from scipy.optimize import brentq  # imported on first use
         exact = brentq(excess, 1e-6, high, xtol=1e-9, rtol=1e-12)
         turns = max(1, round(exact))
         length, pitch = turns * pitch_m, pitch_m

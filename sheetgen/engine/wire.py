@@ -11,8 +11,7 @@ import re
 from dataclasses import dataclass
 
 import numpy as np
-import scipy.special as sp
-from scipy.constants import mu_0
+from sheetgen.engine.constants import MU_0_H_PER_M as mu_0
 
 # IEC 60028: annealed copper standard, 1/58 Ω·mm²/m at 20 °C, α20 = 0.00393 /K.
 COPPER_RESISTIVITY_20C_OHM_M = 1.0 / 58.0e6
@@ -221,6 +220,7 @@ def skin_ratio_from_x(x):
     mid = ~(small | large)
     ratio[small] = 1.0 + x[small] ** 4 / 192.0
     xm = x[mid]
+    import scipy.special as sp  # imported on first use: a job without a coil never needs it
     ber, bei, berp, beip = sp.ber(xm), sp.bei(xm), sp.berp(xm), sp.beip(xm)
     ratio[mid] = (xm / 2.0) * (ber * beip - bei * berp) / (berp**2 + beip**2)
     xl = x[large]
@@ -252,6 +252,7 @@ def transverse_field_loss_function(x):
     g[small] = x[small] ** 4 / 16.0
     z = x[mid] * np.exp(-0.25j * math.pi)
     # jve scales J0 and J1 by the same exp(-|Im z|), so the ratio cannot overflow.
+    import scipy.special as sp  # imported on first use
     g[mid] = np.real(1j * np.conj(z) * sp.jve(1, z) / sp.jve(0, z))
     xl = x[large]
     s2 = math.sqrt(2.0)
