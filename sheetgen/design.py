@@ -81,6 +81,9 @@ class CoilDesign:
     inductance_tolerance: float | None  # ± fraction of the built inductance
     inductance_tc: float | None  # 1/K
     lead_length_m: float
+    core_outer_diameter_m: float | None  # toroid only
+    core_inner_diameter_m: float | None
+    core_height_m: float | None
     q_used: float
     q_source: str  # "estimate" or "job"
     q_curve: CoilCurve
@@ -242,12 +245,15 @@ def _coil_design(job: Job, library, coil, target_l: float, required_c: float,
     from .engine.magnetics import link_turns
     inductor = job.inductor
     core_name = material_name = flux_limit = None
+    core_size = (None, None, None)
     tolerance = inductor.tolerance
     tc = inductor.temperature_coefficient
     if inductor.form == "toroid":
         parts = resolve_toroid(inductor, library)
         core_name, material_name = parts.core_name, parts.material_name
         flux_limit = parts.material.flux_density_max_t
+        core_size = (parts.core.outer_diameter_m, parts.core.inner_diameter_m,
+                     parts.core.height_m)
         if tolerance is None:
             tolerance = (parts.core_spec.al_tolerance if parts.core_spec.al_tolerance is not None
                          else parts.material_spec.mu_i_tolerance)
@@ -271,6 +277,7 @@ def _coil_design(job: Job, library, coil, target_l: float, required_c: float,
     f_curve = np.geomspace(f0 / 20.0, high, 241)
     return CoilDesign(inductor.form, coil, core_name, material_name, target_l, f0_whole,
                       link_turns_n, link_r, flux_limit, tolerance, tc, inductor.lead_length,
+                      *core_size,
                       q_used, q_source,
                       CoilCurve(f_curve, np.asarray(coil_q_sweep(coil, f_curve))))
 
