@@ -11,12 +11,14 @@ import json
 import os
 import sys
 import tempfile
+from importlib import resources
 from pathlib import Path
 
 from . import __version__
 from .checks import failed_checks
 from .design import Design
-from .jobfile import JobFileError
+from .jobfile import JobFileError, Problem, field_position
+from .library import find_library_folder
 from .pipeline import design_from_file
 from .summary import summary_text
 from .starters import TEMPLATE_NAMES, demo_job_path, template_text
@@ -49,6 +51,8 @@ def build_parser() -> argparse.ArgumentParser:
     build.add_argument("-o", "--output", type=Path, help="PDF to write (default: JOB.pdf)")
     build.add_argument("--results", type=Path, help="also write the results JSON here")
     build.add_argument("--library", type=Path, help="parts library folder (default: see README)")
+    build.add_argument("--style", type=Path, help="house style file (default: the job's "
+                       "sheet.style, else the default style)")
 
     limits = commands.add_parser("limits", help="write the test limits for a work order")
     limits.add_argument("job", type=Path, help="YAML job file")
@@ -131,7 +135,8 @@ def _run(args) -> int:
             print(f"wrote {args.output}")
         return _exit_for(result)
     output = args.output or job_path.with_suffix(".pdf")
-    _build(result, job_path, output, getattr(args, "results", None))
+    style = _style(job_path, result, getattr(args, "style", None), getattr(args, "library", None))
+    _build(result, job_path, output, getattr(args, "results", None), style)
     print(f"wrote {output}")
     return _exit_for(result)
 
@@ -144,13 +149,39 @@ def _exit_for(result: Design) -> int:
     return EXIT_CHECK_FAILED if failures else EXIT_OK
 
 
-def _build(result: Design, job_path: Path, output: Path, results_path: Path | None) -> None:
+def _style(job_path: Path, result: Design, cli_style: Path | None, library_folder: Path | None):
+    """The house style: --style, else the job's sheet.style (a path, or a name looked up as
+    style-NAME.yaml in the parts library folder and then in the shipped templates)."""
+    from .sheet.style import load_style
+    job_dir = job_path.resolve().parent
+    if cli_style is not None:
+        return load_style(cli_style, job_dir)
+    wanted = result.job.sheet.style
+    if wanted is None:
+        return None
+    if wanted.endswith((".yaml", ".yml")) or "/" in wanted or "\\" in wanted:
+        return load_style(job_dir / wanted, job_dir)
+    folders = [find_library_folder(job_path, result.job.library, library_folder),
+               Path(str(resources.files("sheetgen.templates")))]
+    for folder in folders:
+        candidate = folder / f"style-{wanted}.yaml"
+        if candidate.is_file():
+            return load_style(candidate, job_dir)
+    line, column = field_position(job_path, "sheet.style")
+    looked = " and ".join(str(f) for f in folders)
+    raise JobFileError([Problem(str(job_path), line, column, "sheet.style",
+                                f"no house style named {wanted!r} (style-{wanted}.yaml) in "
+                                f"{looked}; expected a style name or a path to a style file")])
+
+
+def _build(result: Design, job_path: Path, output: Path, results_path: Path | None,
+           style=None) -> None:
     from .results import results_json
     from .sheet import render_sheet
     job_text = job_path.read_text(encoding="utf-8")
     results_text = results_json(result)
     pdf = render_sheet(result, job_text=job_text, results_text=results_text,
-                       job_dir=job_path.resolve().parent)
+                       job_dir=job_path.resolve().parent, style=style)
     if results_path is not None:
         write_atomically(results_path, results_text.encode("utf-8"))
     write_atomically(output, pdf)

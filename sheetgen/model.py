@@ -109,6 +109,10 @@ class SheetIdentity(Section):
     checker: Text | None = Field(None, description="who checked the design (optional)")
     approver: Text | None = Field(None, description="who approved it for build (optional)")
     notes: str | None = Field(None, max_length=20000, description="free text for the sheet")
+    style: str | None = Field(None, min_length=1, max_length=1000, description="house style of "
+                              "the sheet: a name (style-NAME.yaml in the parts library folder, "
+                              "else in sheetgen's templates) or a path to a style file relative "
+                              "to this job file")
 
 
 class DesignTargets(Section):
