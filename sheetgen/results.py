@@ -179,6 +179,11 @@ def limits_section(design: Design) -> dict:
         "f_peak_min_hz": lim.f_peak_min_hz, "f_peak_max_hz": lim.f_peak_max_hz,
         "bandwidth_min_hz": lim.bandwidth_min_hz, "bandwidth_max_hz": lim.bandwidth_max_hz,
         "q_loaded_min": lim.q_loaded_min, "q_loaded_max": lim.q_loaded_max,
+        "f_low_min_hz": lim.f_low_min_hz, "f_low_max_hz": lim.f_low_max_hz,
+        "f_high_min_hz": lim.f_high_min_hz, "f_high_max_hz": lim.f_high_max_hz,
+        "q_unloaded_min": lim.q_unloaded_min, "q_unloaded_max": lim.q_unloaded_max,
+        "impedance_at_peak_min_ohm": lim.impedance_min_ohm,
+        "impedance_at_peak_max_ohm": lim.impedance_max_ohm,
         "trim_capacitance_min_f": trim.needed_min_f if trim else None,
         "trim_capacitance_max_f": trim.needed_max_f if trim else None,
         "trimmer_covers": trim.covers if trim else None,
@@ -218,6 +223,11 @@ LIMIT_ROWS = (  # CSV rows: quantity, unit, keys of the minimum and maximum
     ("frequency of maximum response", "Hz", "f_peak_min_hz", "f_peak_max_hz"),
     ("bandwidth (-3 dB)", "Hz", "bandwidth_min_hz", "bandwidth_max_hz"),
     ("loaded Q", "", "q_loaded_min", "q_loaded_max"),
+    ("lower half-power point", "Hz", "f_low_min_hz", "f_low_max_hz"),
+    ("upper half-power point", "Hz", "f_high_min_hz", "f_high_max_hz"),
+    ("unloaded Q", "", "q_unloaded_min", "q_unloaded_max"),
+    ("impedance at the response maximum", "ohm", "impedance_at_peak_min_ohm",
+     "impedance_at_peak_max_ohm"),
     ("trimmer capacitance needed", "F", "trim_capacitance_min_f", "trim_capacitance_max_f"),
 )
 
@@ -230,6 +240,10 @@ def limits_csv(design: Design) -> str:
     nominal = {"f0_min_hz": design.resonance.f0_hz, "f_peak_min_hz": design.resonance.f_peak_hz,
                "bandwidth_min_hz": design.resonance.bandwidth_hz,
                "q_loaded_min": design.resonance.q_loaded,
+               "f_low_min_hz": design.resonance.f_low_hz,
+               "f_high_min_hz": design.resonance.f_high_hz,
+               "q_unloaded_min": design.resonance.q_unloaded,
+               "impedance_at_peak_min_ohm": design.resonance.impedance_at_peak_ohm,
                "trim_capacitance_min_f": design.capacitor_choice.trimmer_setting_f}
     out = io.StringIO()
     writer = csv.writer(out, lineterminator="\n")

@@ -145,3 +145,19 @@ def test_coil_cautions_at_their_thresholds():
     assert codes(SimpleNamespace(srf_hz=None, flux_density_peak_t=0.0081)) == ["flux-near-limit"]
     assert codes(SimpleNamespace(srf_hz=None, flux_density_peak_t=0.0079)) == []
     assert codes(SimpleNamespace(srf_hz=None, flux_density_peak_t=0.0101)) == []
+
+
+def test_every_expected_value_has_a_window_around_it(capsys):
+    """f0, both half-power points, bandwidth, loaded and unloaded Q and |Z| at the peak:
+    each window holds its nominal value (a window that missed it would fail good units)."""
+    got = json.loads(_run(capsys, "check", TEMPLATES / "power-tank.yaml", "--json")[1])
+    res, lim = got["resonance"], got["limits"]
+    for nominal, low, high in [("f0_hz", "f0_min_hz", "f0_max_hz"),
+                               ("f_low_hz", "f_low_min_hz", "f_low_max_hz"),
+                               ("f_high_hz", "f_high_min_hz", "f_high_max_hz"),
+                               ("bandwidth_hz", "bandwidth_min_hz", "bandwidth_max_hz"),
+                               ("q_loaded", "q_loaded_min", "q_loaded_max"),
+                               ("q_unloaded", "q_unloaded_min", "q_unloaded_max"),
+                               ("impedance_at_peak_ohm", "impedance_at_peak_min_ohm",
+                                "impedance_at_peak_max_ohm")]:
+        assert lim[low] < res[nominal] < lim[high], (nominal, lim[low], res[nominal], lim[high])

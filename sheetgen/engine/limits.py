@@ -69,6 +69,33 @@ class TestLimits:
     bandwidth_max_hz: float
     q_loaded_min: float
     q_loaded_max: float
+    f_low_min_hz: float
+    f_low_max_hz: float
+    f_high_min_hz: float
+    f_high_max_hz: float
+    q_unloaded_min: float
+    q_unloaded_max: float
+    impedance_min_ohm: float
+    impedance_max_ohm: float
+
+
+IMPEDANCE_DIGITS = 3  # |Z| windows are rounded outward to 3 significant figures (ours)
+
+
+def round_outward_significant(low: float, high: float, digits: int) -> tuple[float, float]:
+    """[low, high] widened to the nearest `digits`-significant-figure values outside it."""
+    if not (math.isfinite(low) and math.isfinite(high)) or low <= 0.0:
+        return low, high
+    step = 10.0 ** (math.floor(math.log10(high)) - digits + 1)
+    return round_down(low, step), round_up(high, step)
+
+
+def unloaded_q_trials(variation: VariationResult) -> np.ndarray:
+    """X0/(rL + rC) of every trial, X0 = 2π f0 L (reactance over the tank's own loss)."""
+    parts = variation.parts
+    loss = parts.inductor_resistance_ohm + parts.capacitor_esr_ohm
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return 2.0 * np.pi * variation.f0_hz * parts.inductance_h / loss
 
 
 def test_limits(variation: VariationResult, coverage: float | None = None,
@@ -94,13 +121,21 @@ def test_limits(variation: VariationResult, coverage: float | None = None,
     f_peak = window(variation.f_peak_hz, resolution_hz)
     bandwidth = window(variation.bandwidth_hz, resolution_hz)
     q = window(variation.q_loaded, q_resolution)
+    f_low = window(variation.f_low_hz, resolution_hz)
+    f_high = window(variation.f_high_hz, resolution_hz)
+    q_unloaded = window(unloaded_q_trials(variation), q_resolution)
+    impedance = central_interval(variation.impedance_at_peak_ohm, coverage)
+    impedance = round_outward_significant(impedance.low, impedance.high, IMPEDANCE_DIGITS)
     return TestLimits(
         method=variation.method, coverage=coverage, trials=variation.trials,
         seed=variation.seed, nan_trials=variation.nan_trials, resolution_hz=resolution_hz,
         q_resolution=q_resolution, f0_min_hz=f0[0], f0_max_hz=f0[1],
         f_peak_min_hz=f_peak[0], f_peak_max_hz=f_peak[1],
         bandwidth_min_hz=bandwidth[0], bandwidth_max_hz=bandwidth[1],
-        q_loaded_min=q[0], q_loaded_max=q[1])
+        q_loaded_min=q[0], q_loaded_max=q[1], f_low_min_hz=f_low[0], f_low_max_hz=f_low[1],
+        f_high_min_hz=f_high[0], f_high_max_hz=f_high[1], q_unloaded_min=q_unloaded[0],
+        q_unloaded_max=q_unloaded[1], impedance_min_ohm=impedance[0],
+        impedance_max_ohm=impedance[1])
 
 
 test_limits.__test__ = False  # not a pytest test function
