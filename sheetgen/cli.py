@@ -11,7 +11,6 @@ import json
 import os
 import sys
 import tempfile
-from importlib import resources
 from pathlib import Path
 
 from . import __version__
@@ -19,6 +18,7 @@ from .checks import failed_checks
 from .design import Design
 from .jobfile import JobFileError, Problem, field_position
 from .library import find_library_folder
+from .package_data import templates_folder
 from .pipeline import design_from_file
 from .summary import summary_text
 from .starters import TEMPLATE_NAMES, demo_job_path, template_text
@@ -162,7 +162,7 @@ def _style(job_path: Path, result: Design, cli_style: Path | None, library_folde
     if wanted.endswith((".yaml", ".yml")) or "/" in wanted or "\\" in wanted:
         return load_style(job_dir / wanted, job_dir)
     folders = [find_library_folder(job_path, result.job.library, library_folder),
-               Path(str(resources.files("sheetgen.templates")))]
+               templates_folder()]
     for folder in folders:
         candidate = folder / f"style-{wanted}.yaml"
         if candidate.is_file():

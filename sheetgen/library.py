@@ -9,11 +9,11 @@ Every *.yaml file of the folder is read; names must be unique across the files.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from importlib import resources
 from pathlib import Path
 
 from .jobfile import JobFileError, Problem, compose_located, load_validated
 from .model import CoreSpec, MaterialSpec, PartsLibraryFile
+from .package_data import bundled_library_folder
 
 LIBRARY_MARKERS = ("cores.yaml", "materials.yaml")
 
@@ -26,11 +26,6 @@ class PartsLibrary:
     materials: dict[str, MaterialSpec]
     cores: dict[str, CoreSpec]
     origin: dict[str, str]
-
-
-def bundled_library_folder() -> Path:
-    """The library that ships inside the sheetgen package (the repo's shared/ folder)."""
-    return Path(str(resources.files("sheetgen.bundled_library")))
 
 
 def find_library_folder(job_path: Path, named: str | None, cli_folder: Path | None) -> Path:

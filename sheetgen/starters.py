@@ -2,15 +2,16 @@
 
 from __future__ import annotations
 
-from importlib import resources
 from pathlib import Path
+
+from .package_data import templates_folder
 
 TEMPLATE_NAMES = ("series", "parallel", "toroid", "solenoid", "power-tank")
 DEMO_NAME = "demo"
 
 
 def _template_file(name: str):
-    return resources.files("sheetgen.templates").joinpath(f"{name}.yaml")
+    return templates_folder() / f"{name}.yaml"
 
 
 def template_text(name: str) -> str:
@@ -22,4 +23,4 @@ def template_text(name: str) -> str:
 
 def demo_job_path() -> Path:
     """A filesystem path to the bundled demo job (package data is a real file when installed)."""
-    return Path(str(_template_file(DEMO_NAME)))
+    return _template_file(DEMO_NAME)

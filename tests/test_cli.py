@@ -73,3 +73,25 @@ def test_schema_is_valid_and_accepts_every_starter(capsys):
     bad = as_json(template_text("series"))
     bad["capacitor"]["colour"] = "blue"
     assert list(validator.iter_errors(bad)), "an unknown key must fail the schema too"
+
+
+def test_installed_command_runs_the_demo_from_any_folder(tmp_path):
+    """The installed console script (not this checkout) finds its package data: the demo,
+    the starters and the bundled parts library. Outside check: pypdf reads the PDF."""
+    import shutil
+    import subprocess
+
+    from pypdf import PdfReader
+    command = shutil.which("sheetgen")
+    assert command, "sheetgen is not installed; the README's test command installs it"
+    done = subprocess.run([command, "demo", "-o", "demo.pdf"], cwd=tmp_path, capture_output=True,
+                          text=True, timeout=300)
+    assert done.returncode == 0, done.stderr
+    assert len(PdfReader(tmp_path / "demo.pdf").pages) >= 2
+    starter = subprocess.run([command, "new", "toroid"], cwd=tmp_path, capture_output=True,
+                             text=True, timeout=60)
+    (tmp_path / "coil.yaml").write_text(starter.stdout, encoding="utf-8")
+    done = subprocess.run([command, "check", "coil.yaml", "--json"], cwd=tmp_path,
+                          capture_output=True, text=True, timeout=300)
+    assert done.returncode == 0, done.stderr
+    assert json.loads(done.stdout)["inductor"]["core"] == "ring-18x9.5x6.5-irn10"

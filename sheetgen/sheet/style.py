@@ -10,9 +10,9 @@ from __future__ import annotations
 
 import difflib
 from dataclasses import dataclass
-from importlib import resources
 from pathlib import Path, PurePosixPath, PureWindowsPath
 
+from ..package_data import templates_folder
 from ..jobfile import JobFileError, Problem, compose_located
 
 PAGE_SIZES = ("A4", "Letter")
@@ -42,7 +42,7 @@ class HouseStyle:
 
 def default_style() -> HouseStyle:
     """The style shipped as templates/style-default.yaml (it has no logo)."""
-    file = resources.files("sheetgen.templates").joinpath(f"{DEFAULT_STYLE_NAME}.yaml")
+    file = templates_folder() / f"{DEFAULT_STYLE_NAME}.yaml"
     return style_from_text(file.read_text(encoding="utf-8"), f"{DEFAULT_STYLE_NAME}.yaml", None)
 
 
