@@ -110,17 +110,18 @@ def assess(job: Job, circuit: rz.Circuit, resonance: rz.Resonance, stress: Stres
     """Limits, trimmer range, rating checks and cautions for the nominal design."""
     spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc)
     method = vr.monte_carlo if job.variation.method == "monte-carlo" else vr.worst_case
-    built = method(circuit, spec)
     resolution = (job.test.frequency_resolution
                   or default_resolution_hz(resonance.bandwidth_hz, resonance.f0_hz))
     trimmer = job.capacitor.trimmer
     tuned = trimmer is not None and f0_target_hz is not None
     trim = None
-    variation = built
     if tuned:  # the trimmer takes up the tolerances; what is tested is the trimmed unit
+        built = vr.sample_parts(circuit, spec, job.variation.method)
         trim = trimmer_check(built, f0_target_hz, fixed_capacitance_f, trimmer.minimum,
                              trimmer.maximum)
         variation = method(circuit, replace(spec, tuned_f0_hz=f0_target_hz))
+    else:
+        variation = method(circuit, spec)
     limits = test_limits(variation, resolution_hz=resolution)
     checks = rating_checks(job, circuit, stress, names, fixed_parts_f or (circuit.capacitance_f,),
                            flux=(coil.flux_density_peak_t if coil is not None

@@ -13,7 +13,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .resonance import capacitance_for_f0
-from .variation import Method, VariationResult, central_interval
+from .variation import Method, SampledParts, VariationResult, central_interval
 
 DEFAULT_Q_RESOLUTION = 0.1  # loaded Q is read from f0/bandwidth; one decimal place (ours)
 
@@ -164,7 +164,7 @@ class TrimmerCheck:
     needed_f: np.ndarray
 
 
-def trimmer_check(variation: VariationResult, target_f0_hz: float,
+def trimmer_check(variation: VariationResult | SampledParts, target_f0_hz: float,
                   fixed_capacitance_f: float, trimmer_min_f: float, trimmer_max_f: float,
                   coverage: float | None = None) -> TrimmerCheck:
     """C_needed = 1/(ω_target² L_trial) − C_fixed_trial for every trial (Thomson's

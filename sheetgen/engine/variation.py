@@ -506,3 +506,22 @@ def worst_case(circuit: Circuit, spec: VariationSpec) -> VariationResult:
     figures are taken at the same corners (the usual extreme-value method).
     """
     return _evaluate("worst-case", circuit, spec, _corner_draws(spec), None, None)
+
+
+@dataclass(frozen=True)
+class SampledParts:
+    """The part values of every trial without their responses (what a trimmer check needs);
+    the same draws as monte_carlo / worst_case give for the same spec."""
+
+    method: Method
+    coverage: float | None
+    nominal: Circuit
+    parts: TrialParts
+
+
+def sample_parts(circuit: Circuit, spec: VariationSpec, method: Method) -> SampledParts:
+    """Draw the trials' parts as `method` would, skipping the response evaluation."""
+    if method == "monte-carlo":
+        return SampledParts(method, spec.coverage, circuit,
+                            _parts(circuit, spec, _monte_carlo_draws(spec)))
+    return SampledParts(method, None, circuit, _parts(circuit, spec, _corner_draws(spec)))
