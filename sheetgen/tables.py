@@ -26,6 +26,16 @@ def q(value_si, unit, digits=4):
     return format_quantity(value_si, unit, digits)
 
 
+def signed(value: float, decimals: int) -> str:
+    """A number with its sign always shown, the minus as U+2212 (−) as typeset text wants."""
+    return f"{value:+.{decimals}f}".replace("-", "\u2212")
+
+
+def plural(count: int, word: str) -> str:
+    """'1 turn', '3 turns'."""
+    return f"{count} {word}{'' if count == 1 else 's'}"
+
+
 def component_rows(design: Design) -> list[Row]:
     """The circuit's parts as analysed (as fitted), with where each value came from."""
     c = design.circuit
@@ -62,14 +72,14 @@ def capacitor_rows(design: Design) -> list[Row]:
     choice = design.capacitor_choice
     if not choice.from_standard_parts:
         return [Row(f"Nearest {choice.series} value", q(choice.nearest_f, "F", 3),
-                    f"{(choice.nearest_f / choice.required_f - 1) * 100:+.2f} %")]
+                    f"{signed((choice.nearest_f / choice.required_f - 1) * 100, 2)} %")]
     derived = {d.field: d.reason for d in design.derived}
     parts = " + ".join(q(v, "F", 3) for v in (choice.pair.first, choice.pair.second) if v)
     rows = [Row("Capacitance required", q(choice.required_f, "F"),
                 _origin(derived, "capacitor.capacitance"))]
     if choice.trimmer_setting_f is None:
         rows.append(Row(f"Fixed {choice.series} part(s) to fit", parts,
-                        f"{choice.pair.error_rel * 100:+.2f} % of required"))
+                        f"{signed(choice.pair.error_rel * 100, 2)} % of required"))
     else:
         trimmer = design.job.capacitor.trimmer
         rows.append(Row(f"Fixed {choice.series} part(s) to fit", parts, "with the trimmer"))
@@ -91,6 +101,12 @@ def coil_rows(design: Design) -> list[Row]:
             Row("Core", coil.core_name, f"material {coil.material_name}"),
             Row("Inductance factor AL", q(r.al_h_per_turn2 * 1e9, "", 4).strip() + " nH/turn²",
                 "from µi and geometry (IEC 60205)" if r.al_from_geometry else "from the core's data"),
+            # areas and volumes in mm² and mm³: a prefix would scale the metre, not m²
+            Row("Effective magnetic path length le", q(r.effective.le_m, "m"), "IEC 60205"),
+            Row("Effective area Ae", format_number(r.effective.ae_m2 * 1e6, 4) + " mm²",
+                "IEC 60205"),
+            Row("Effective volume Ve", format_number(r.effective.ve_m3 * 1e9, 4) + " mm³",
+                "IEC 60205"),
         ]
     rows += [
         Row("Inductance wanted", q(coil.target_inductance_h, "H")),
@@ -137,8 +153,10 @@ def coil_rows(design: Design) -> list[Row]:
         ]
     rows.append(Row("Winding fits", "yes" if r.fits else "NO"))
     if coil.link_turns is not None:
-        rows.append(Row("Link winding", f"{coil.link_turns} turns",
-                        f"to {q(coil.link_resistance_ohm, 'Ω')}, M = N√(R_link/R_tank)"))
+        rows.append(Row(f"Link winding {design.designators.link or ''}".rstrip(),
+                        plural(coil.link_turns, "turn"),
+                        f"to {q(coil.link_resistance_ohm, 'Ω')}: N√(R_link/R_tank) rounded, "
+                        "at least 1"))
     return rows
 
 
@@ -195,6 +213,9 @@ def stress_rows(design: Design) -> list[Row]:
         Row("Power in the coil's loss", q(s.inductor_loss_w, "W")),
         Row("Power in the capacitor's ESR", q(s.capacitor_loss_w, "W")),
         Row("Power in the load", q(s.load_power_w, "W")),
+        Row("Load voltage", q(s.load_voltage_rms_v, "V") + " rms",
+            "across the tank; the link steps it down to its load"
+            if design.coil is not None and design.coil.link_turns is not None else ""),
     ]
 
 
@@ -213,6 +234,18 @@ def limits_rows(design: Design) -> list[Row]:
             f"{q(lim.bandwidth_max_hz, 'Hz')}", f"nominal {q(r.bandwidth_hz, 'Hz')}"),
         Row("Loaded Q window", f"{format_number(lim.q_loaded_min, 4)} to "
             f"{format_number(lim.q_loaded_max, 4)}", f"nominal {format_number(r.q_loaded, 4)}"),
+        Row("Lower half-power point window",
+            f"{q(lim.f_low_min_hz, 'Hz', 6)} to {q(lim.f_low_max_hz, 'Hz', 6)}",
+            f"nominal {q(r.f_low_hz, 'Hz', 6)}"),
+        Row("Upper half-power point window",
+            f"{q(lim.f_high_min_hz, 'Hz', 6)} to {q(lim.f_high_max_hz, 'Hz', 6)}",
+            f"nominal {q(r.f_high_hz, 'Hz', 6)}"),
+        Row("Unloaded Q window", f"{format_number(lim.q_unloaded_min, 4)} to "
+            f"{format_number(lim.q_unloaded_max, 4)}",
+            f"nominal {format_number(r.q_unloaded, 4)}; X0/(rL + rC)"),
+        Row("Impedance window", f"{q(lim.impedance_min_ohm, 'Ω', 3)} to "
+            f"{q(lim.impedance_max_ohm, 'Ω', 3)}", f"nominal {q(r.impedance_at_peak_ohm, 'Ω')}"
+            " at the response maximum, source resistance excluded"),
     ]
     if a.trimmer is not None:
         t = a.trimmer
@@ -245,5 +278,5 @@ def rating_rows(design: Design) -> list[Row]:
         status = {"pass": "pass", "fail": "FAIL", "accepted": "ACCEPTED"}[check.status]
         rows.append(Row(f"{check.part} {check.quantity}", f"{shown(check.actual)} of "
                         f"{shown(check.allowed)} allowed", f"{status}, margin "
-                        f"{check.margin * 100:+.0f} %"))
+                        f"{signed(check.margin * 100, 0)} %"))
     return rows

@@ -11,7 +11,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from .design import CoilDesign, Design
+from .designators import Designators
 from .quantities import format_number, format_quantity
+from .tables import plural
 
 LCR_TEST_FREQUENCIES_HZ = (100.0, 1e3, 10e3, 100e3, 1e6)  # usual bench meters (common practice)
 
@@ -55,7 +57,9 @@ def winding_steps(design: Design) -> list[Step]:
     coil = design.coil
     if coil is None:
         return []
-    texts = _toroid_texts(coil) if coil.form == "toroid" else _solenoid_texts(coil)
+    names = design.designators
+    texts = (_toroid_texts(coil, names) if coil.form == "toroid"
+             else _solenoid_texts(coil, names, design.job.inductor.former_length))
     check = coil_check(design)
     tolerance = (f" ± {format_number(check.tolerance * 100, 2)} %"
                  if check.tolerance is not None else "")
@@ -67,7 +71,7 @@ def winding_steps(design: Design) -> list[Step]:
     return [Step(i + 1, text) for i, text in enumerate(texts)]
 
 
-def _toroid_texts(coil: CoilDesign) -> list[str]:
+def _toroid_texts(coil: CoilDesign, names: Designators) -> list[str]:
     r = coil.result
     lead = format_quantity(coil.lead_length_m, "m", 3)
     texts = [
@@ -76,20 +80,24 @@ def _toroid_texts(coil: CoilDesign) -> list[str]:
         f"the enamel). This includes {lead} for each lead.",
         f"Hold {lead} of wire as the start lead and pass the wire through the centre of the "
         f"core ({coil.core_name}). Each pass through the centre counts as one turn.",
-        f"Wind {r.turns} turns in one layer, pulling each turn snug against the core without "
-        "nicking the enamel on its edges. Count the passes through the centre, not the turns "
-        "seen on the outside.",
-        f"Spread the {r.turns} turns evenly over {format_number(r.winding_angle_deg, 3)}° of "
-        f"the core (about {format_number(r.winding_angle_deg / r.turns, 3)}° per turn), "
+        f"Wind {plural(r.turns, 'turn')} of {names.coil} in one layer, pulling each turn snug "
+        "against the core without nicking the enamel on its edges. Count the passes through "
+        "the centre, not the turns seen on the outside.",
+        f"Spread the {plural(r.turns, 'turn')} evenly over {format_number(r.winding_angle_deg, 3)}"
+        f"° of the core (about {format_number(r.winding_angle_deg / r.turns, 3)}° per turn), "
         f"leaving a gap of about {format_number(360 - r.winding_angle_deg, 3)}° between the "
-        f"start and finish leads so that they do not touch.",
+        f"start and finish leads so that they do not touch." if r.fits else
+        f"STOP: close-wound, the {plural(r.turns, 'turn')} need "
+        f"{format_number(r.close_wound_angle_deg, 3)}° of the hole's circumference, more than "
+        "one layer with a lead gap allows. Do not wind this coil until the design is changed "
+        "(see the failed checks).",
     ]
     if coil.link_turns is not None:
         texts.append(
-            f"Wind the link: {coil.link_turns} turn{'s' if coil.link_turns != 1 else ''} of "
-            f"insulated wire over the tank winding, spread over the end of the winding at "
-            f"the cold (earthy) lead. The link's two ends go to the "
-            f"{format_quantity(coil.link_resistance_ohm, 'Ω', 3)} connection.")
+            f"Wind the link {names.link}: {plural(coil.link_turns, 'turn')} of insulated wire "
+            f"over the start end of {names.coil}; the start lead goes to the cold (earthy) "
+            f"side of the tank. The link's two ends go to {names.load_resistor} "
+            f"({format_quantity(coil.link_resistance_ohm, 'Ω', 3)}).")
     texts.append(
         f"Leave {lead} for the finish lead. Secure the turns with a low-loss RF coil varnish "
         "or wax (not a general-purpose glue) and let it cure before measuring.")
@@ -98,7 +106,8 @@ def _toroid_texts(coil: CoilDesign) -> list[str]:
     return texts
 
 
-def _solenoid_texts(coil: CoilDesign) -> list[str]:
+def _solenoid_texts(coil: CoilDesign, names: Designators,
+                    former_length_m: float | None) -> list[str]:
     r = coil.result
     lead = format_quantity(coil.lead_length_m, "m", 3)
     close = r.pitch_m <= r.wire.overall_diameter_m * 1.001
@@ -107,10 +116,20 @@ def _solenoid_texts(coil: CoilDesign) -> list[str]:
                f"(a gap of {format_quantity(r.pitch_m - r.wire.overall_diameter_m, 'm', 3)} "
                "between turns)")
     former = format_quantity(r.diameter_m - r.wire.overall_diameter_m, "m", 3)
-    return [
+    reasons = []
+    if r.pitch_m < r.wire.overall_diameter_m:
+        reasons.append("its pitch is below the wire's overall diameter")
+    if former_length_m is not None and r.length_m > former_length_m:
+        reasons.append(f"it is longer than the {format_quantity(former_length_m, 'm', 3)}"
+                       " former")
+    stop = [] if r.fits else [
+        f"STOP: as designed the winding does not fit ({' and '.join(reasons) or 'see below'}). "
+        "Do not wind this coil until the design is changed (see the failed checks)."]
+    return stop + [
         f"Cut {format_quantity(r.wire_length_m, 'm', 3)} of {r.wire.name} enamelled copper "
         f"wire (grade {r.wire.grade}). This includes {lead} for each lead.",
-        f"Wind {r.turns} turns in a single layer on the {former} diameter former, {spacing}, "
+        f"Wind {plural(r.turns, 'turn')} of {names.coil} in a single layer on the {former} "
+        f"diameter former, {spacing}, "
         f"over a winding length of {format_quantity(r.length_m, 'm', 3)}.",
         f"Leave {lead} for each lead. Secure the winding with low-loss RF coil varnish or "
         "wax, and strip and tin the last 5 mm of each lead.",

@@ -101,8 +101,8 @@ def shown(path: str, key: str, value, results: dict) -> str | None:
     rating = re.fullmatch(r"ratings\[(\d+)\]\.(actual|allowed|margin|status)", path)
     if rating:
         entry = results["ratings"][int(rating.group(1))]
-        if key == "margin":
-            return f"margin {value * 100:+.0f} %"
+        if key == "margin":  # signed, with the true minus sign U+2212 (Unicode)
+            return f"margin {value * 100:+.0f} %".replace("-", "\u2212")
         if key == "status":
             return {"pass": "pass", "fail": "FAIL", "accepted": "ACCEPTED"}[value]
         if entry["unit"] == "A/m²":
@@ -127,10 +127,14 @@ def shown(path: str, key: str, value, results: dict) -> str | None:
     if path == "limits.trimmer_fraction_tunable":
         return None if results["limits"]["trimmer_covers"] else f"{value * 100:.1f} %"
     if path in ("limits.f0_min_hz", "limits.f0_max_hz", "limits.f_peak_min_hz",
-                "limits.f_peak_max_hz"):
+                "limits.f_peak_max_hz", "limits.f_low_min_hz", "limits.f_low_max_hz",
+                "limits.f_high_min_hz", "limits.f_high_max_hz"):
         return format_quantity(value, "Hz", 6)
-    if path in ("limits.q_loaded_min", "limits.q_loaded_max"):
+    if path in ("limits.q_loaded_min", "limits.q_loaded_max", "limits.q_unloaded_min",
+                "limits.q_unloaded_max"):
         return format_number(value, 4)
+    if path in ("limits.impedance_at_peak_min_ohm", "limits.impedance_at_peak_max_ohm"):
+        return format_quantity(value, "Ω", 3)  # rounded outward to 3 figures (limits.py)
     if path == "limits.resolution_hz":
         return format_quantity(value, "Hz", 3)
     if path == "stress.drive.value":

@@ -354,8 +354,8 @@ def _link(g, s: Schematic, x_coil, y_bottom, y_top):
     if s.load is not None:
         _vertical(g, "resistor", x_load, inner_bottom, inner_top - inner_bottom)
         _label_right(g, s.load, x_load, (inner_top + inner_bottom) / 2)
-        _box(g, x_load - 18, inner_bottom + 6, 40 + _label_width(s.load),
-             inner_top - inner_bottom - 12, "load")
+        _box(g, x_load - 18, inner_bottom + 3, 40 + _label_width(s.load),
+             inner_top - inner_bottom - 6, "load")
 
 
 def _tap(g, s: Schematic, x, y, horizontal: bool):

@@ -147,7 +147,7 @@ def _frame(group, box: Box, x_axis: Axis, y_axis: Axis, y_side: str = "left",
                            strokeWidth=0.6))
             _string(group, box.x + box.width + 5, y - 2.6, label, anchor="start")
     if y_title_inside:  # a short unit label above the tick labels, clear of the plot area
-        _string(group, box.x - 5, box.y + box.height + 5, y_axis.title, TITLE_SIZE, "end")
+        _string(group, box.x - 5, box.y + box.height + 8, y_axis.title, TITLE_SIZE, "end")
     else:
         _string(group, box.x, box.y + box.height + 5, y_axis.title, TITLE_SIZE, "start")
 

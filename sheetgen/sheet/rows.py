@@ -1,4 +1,4 @@
-"""Rows the sheet shows beyond tables.py: the parts list and the values tables.py leaves out.
+"""Rows the sheet shows beyond tables.py: the parts list and the headline.
 
 Formatted with the same helpers as tables.py (tables.q, quantities.format_number), so a
 value reads the same on the sheet, in the terminal summary and in the tests. Nothing here
@@ -10,8 +10,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from ..design import Design
+from ..engine.variation import dielectric
 from ..quantities import format_number
-from ..tables import Row, q
+from ..tables import plural, q, signed
 
 NO_DATA = "—"
 
@@ -36,7 +37,7 @@ PART_COLUMNS = ("Ref.", "Part", "Value", "Tolerance", "Rating", "Dielectric or m
 
 def part_rows(design: Design) -> list[PartRow]:
     """The coil (and a link), the capacitor(s) as fitted, the source and load resistances,
-    named by design.designators."""
+    named by design.designators, with the ratings, dielectric and tolerances the job gives."""
     c = design.circuit
     names = design.designators
     derived = {d.field: d.reason for d in design.derived}
@@ -44,11 +45,12 @@ def part_rows(design: Design) -> list[PartRow]:
     rows = [_coil_row(design)]
     rows += _capacitor_rows(design)
     if names.link is not None and coil is not None:
-        rows.append(PartRow(names.link, "Link winding", f"{coil.link_turns} turn"
-                            + ("s" if coil.link_turns != 1 else ""),
-                            material=f"on {names.coil}'s core",
-                            notes=f"insulated wire over the cold (earthy) end of {names.coil}; "
-                                  f"its ends go to {names.load_resistor}"))
+        link = design.job.inductor.link
+        wire = link.wire if link is not None and link.wire else coil.result.wire.name
+        rows.append(PartRow(names.link, "Link winding", plural(coil.link_turns, "turn"),
+                            material=f"insulated {wire} wire, over {names.coil} on its core",
+                            notes=f"over the start (cold, earthy) end of {names.coil}; its ends "
+                                  f"go to {names.load_resistor}"))
     if names.source_resistor is not None:
         rows.append(PartRow(names.source_resistor, "Resistance of the source",
                             q(c.source_resistance_ohm, "Ω"), quantity=NO_DATA,
@@ -56,88 +58,111 @@ def part_rows(design: Design) -> list[PartRow]:
                                   "test makes it up (procedure step 5)"))
     origin = (f"computed: {derived['load.resistance']}" if "load.resistance" in derived
               else "as given")
+    load = design.job.load
+    load_tolerance = _tolerance(load.tolerance if load is not None else None)
     if names.load_resistor is not None and names.link is not None and coil is not None:
         rows.append(PartRow(names.load_resistor, "Load resistance",
-                            q(coil.link_resistance_ohm, "Ω"), quantity=NO_DATA,
+                            q(coil.link_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,
                             notes=f"across {names.link}; presents {q(c.load_resistance_ohm, 'Ω')}"
                                   f" across the tank ({origin}); fit this value for the bench "
                                   "test"))
     elif names.load_resistor is not None:
         rows.append(PartRow(names.load_resistor, "Load resistance",
-                            q(c.load_resistance_ohm, "Ω"), quantity=NO_DATA,
+                            q(c.load_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,
                             notes=f"{origin}; the stage the circuit feeds: fit this value for "
                                   "the bench test"))
     return rows
+
+
+def _tolerance(fraction: float | None, source: str | None = None) -> str:
+    """± x % (and where it came from), or NO_DATA when there is none."""
+    if not fraction:
+        return NO_DATA
+    shown = f"± {format_number(fraction * 100, 3)} %"
+    return f"{shown} ({source.removeprefix('the ')})" if source else shown
 
 
 def _coil_row(design: Design) -> PartRow:
     c, r = design.circuit, design.resonance
     coil = design.coil
     name = design.designators.coil
-    tolerance = design.assessment.inductance_tolerance
-    shown_tolerance = f"±{format_number(tolerance * 100, 3)} %" if tolerance else NO_DATA
+    tolerance = _tolerance(design.assessment.inductance_tolerance)
     if coil is None:
-        return PartRow(name, "Coil", q(c.inductance_h, "H"), tolerance=shown_tolerance,
+        return PartRow(name, "Coil", q(c.inductance_h, "H"), tolerance=tolerance,
                        notes=f"coil Q {format_number(r.q_inductor, 4)} at f0 "
                              f"(loss {q(c.inductor_resistance_ohm, 'Ω')} in series)")
     built = coil.result
-    where = f" on {coil.core_name}" if coil.core_name else " on its former (air core)"
+    wire = (f"{built.wire.name} ({q(built.wire.diameter_m, 'm', 3)} copper), grade "
+            f"{built.wire.grade} enamel")
+    if coil.form == "toroid":
+        material = f"{coil.material_name} core; {wire}"
+        rating = (f"core flux {q(coil.flux_density_max_t, 'T', 3)} peak"
+                  if coil.flux_density_max_t else NO_DATA)
+        where = f" on {coil.core_name}"
+    else:
+        material, rating, where = f"air core; {wire}", NO_DATA, " on its former (air core)"
     return PartRow(name, f"Coil, {coil.form}", q(built.inductance_built_h, "H"),
-                   tolerance=shown_tolerance,
-                   material=coil.material_name or ("air core" if coil.form == "solenoid"
-                                                   else NO_DATA),
-                   notes=f"{built.turns} turns of {built.wire.name} "
-                         f"({q(built.wire.diameter_m, 'm', 3)} copper){where}; coil Q "
+                   tolerance=tolerance, rating=rating, material=material,
+                   notes=f"{plural(built.turns, 'turn')}{where}; coil Q "
                          f"{format_number(coil.q_used, 4)} at f0 "
-                         f"({'estimated' if coil.q_source == 'estimate' else 'from the job'})")
+                         f"({'estimated' if coil.q_source == 'estimate' else 'from the job'}); "
+                         "wind it as the coil section shows")
+
+
+def _fixed_capacitor_rating(design: Design) -> str:
+    """What the job rates each fixed part for: peak voltage, RMS current, power in its ESR."""
+    cap = design.job.capacitor
+    ratings = []
+    if cap.rated_voltage is not None:
+        ratings.append(q(cap.rated_voltage, "V", 3) + " peak")
+    if cap.rated_current is not None:
+        ratings.append(q(cap.rated_current, "A", 3) + " rms")
+    if cap.rated_power is not None:
+        ratings.append(q(cap.rated_power, "W", 3) + " in its ESR")
+    return "; ".join(ratings) or NO_DATA
+
+
+def _dielectric(design: Design) -> str:
+    """The job's dielectric with its class (EIA-198 / IEC 60384-8, -9), or its temperature
+    coefficient."""
+    cap = design.job.capacitor
+    if cap.dielectric is not None:
+        return f"{cap.dielectric} (class {dielectric(cap.dielectric).dielectric_class})"
+    if cap.temperature_coefficient is not None:
+        return f"class 1, {signed(cap.temperature_coefficient * 1e6, 0)} ppm/K"
+    return NO_DATA
 
 
 def _capacitor_rows(design: Design) -> list[PartRow]:
     choice = design.capacitor_choice
     names = design.designators
     pair = choice.pair
-    tolerance = design.assessment.capacitor_tolerance
-    shown_tolerance = f"±{format_number(tolerance * 100, 3)} %" if tolerance else NO_DATA
+    a = design.assessment
+    fixed_part = dict(tolerance=_tolerance(a.capacitor_tolerance, a.capacitor_tolerance_source),
+                      rating=_fixed_capacitor_rating(design), material=_dielectric(design))
     fixed = names.fixed_capacitors
     if not choice.from_standard_parts:
-        rows = [PartRow(fixed[0], "Capacitor", q(choice.fixed_f, "F"), shown_tolerance,
+        rows = [PartRow(fixed[0], "Capacitor", q(choice.fixed_f, "F"), **fixed_part,
                         notes="as the job gives it")]
     elif pair.second is None:
-        rows = [PartRow(fixed[0], "Capacitor", q(pair.first, "F", 3), shown_tolerance,
+        rows = [PartRow(fixed[0], "Capacitor", q(pair.first, "F", 3), **fixed_part,
                         notes=f"{choice.series} value; {q(choice.required_f, 'F')} required")]
     else:
-        rows = [PartRow(fixed[0], "Capacitor", q(pair.first, "F", 3), shown_tolerance,
+        rows = [PartRow(fixed[0], "Capacitor", q(pair.first, "F", 3), **fixed_part,
                         notes=f"{choice.series}; with {fixed[1]} in parallel "
                               f"{q(pair.total, 'F')}, {q(choice.required_f, 'F')} required"),
-                PartRow(fixed[1], "Capacitor", q(pair.second, "F", 3), shown_tolerance,
+                PartRow(fixed[1], "Capacitor", q(pair.second, "F", 3), **fixed_part,
                         notes=f"{choice.series}; in parallel with {fixed[0]}")]
     trimmer = design.job.capacitor.trimmer
     if names.trimmer is not None and trimmer is not None:
         state = "" if choice.trimmer_in_range else "; OUT OF RANGE: choose another trimmer"
         rows.append(PartRow(names.trimmer, "Trimmer capacitor",
                             f"{q(trimmer.minimum, 'F', 3)} to {q(trimmer.maximum, 'F', 3)}",
+                            rating=(q(trimmer.rated_voltage, "V", 3) + " peak"
+                                    if trimmer.rated_voltage is not None else NO_DATA),
                             notes=f"in parallel; set to about {q(choice.trimmer_setting_f, 'F')}"
                                   f"{state}"))
     return rows
-
-
-def extra_coil_rows(design: Design) -> list[Row]:
-    """Coil values of the results that tables.coil_rows does not show: the core's effective
-    parameters (IEC 60205), areas and volumes in mm² and mm³ (µ would scale the metre)."""
-    coil = design.coil
-    effective = getattr(coil.result, "effective", None) if coil is not None else None
-    if effective is None:
-        return []
-    return [Row("Effective magnetic path length le", q(effective.le_m, "m"), "IEC 60205"),
-            Row("Effective area Ae", format_number(effective.ae_m2 * 1e6, 4) + " mm²",
-                "IEC 60205"),
-            Row("Effective volume Ve", format_number(effective.ve_m3 * 1e9, 4) + " mm³",
-                "IEC 60205")]
-
-
-def extra_stress_rows(design: Design) -> list[Row]:
-    """Stress values of the results that tables.stress_rows does not show."""
-    return [Row("Load voltage", q(design.stress.load_voltage_rms_v, "V") + " rms")]
 
 
 def headline(design: Design) -> str:

@@ -28,7 +28,8 @@ from . import fonts
 from .drawings import schematic_drawing, schematic_of
 from .forms import CheckBox, TextField
 from .plots import coil_q_drawing, impedance_phase_drawing, response_drawing
-from .rows import PART_COLUMNS, PartRow, extra_coil_rows, extra_stress_rows, part_rows
+from .rows import PART_COLUMNS, PartRow, part_rows
+from .winding_drawing import SolenoidView, winding_drawing, winding_view_of
 
 GREY_RULE = colors.Color(0.55, 0.55, 0.55)
 GREY_FILL = colors.Color(0.90, 0.90, 0.90)
@@ -106,7 +107,7 @@ def rows_table(rows: list[Row], kit: Kit, heads=("Quantity", "Value", "Remark"))
     data = [[para(h, kit.cell_bold) for h in heads]]
     data += [[para(r.label, kit.cell), para(r.value, kit.cell_bold), para(r.remark, kit.cell)]
              for r in rows]
-    widths = [kit.width * 0.42, kit.width * 0.25, kit.width * 0.33]
+    widths = [kit.width * 0.38, kit.width * 0.29, kit.width * 0.33]
     table = Table(data, colWidths=widths, repeatRows=1)
     table.setStyle(TableStyle(_grid_style()))
     return table
@@ -114,7 +115,7 @@ def rows_table(rows: list[Row], kit: Kit, heads=("Quantity", "Value", "Remark"))
 
 def parts_table(rows: list[PartRow], kit: Kit) -> Table:
     """The parts list, one row a part; long notes wrap, many parts continue on a new page."""
-    fractions = (0.07, 0.12, 0.11, 0.11, 0.08, 0.13, 0.05, 0.33)
+    fractions = (0.07, 0.11, 0.11, 0.11, 0.11, 0.18, 0.05, 0.26)
     data = [[para(h, kit.cell_bold) for h in PART_COLUMNS]]
     for row in rows:
         data.append([para(row.designator, kit.cell_bold), para(row.part, kit.cell),
@@ -198,7 +199,8 @@ def _coverage(design: Design) -> str:
 
 
 def parts_section(design: Design, kit: Kit) -> SectionContent:
-    return SectionContent("Parts list", [parts_table(part_rows(design), kit)])
+    # kept on one page with its heading when it fits on one (KeepTogether splits it if not)
+    return SectionContent("Parts list", [[parts_table(part_rows(design), kit)]])
 
 
 def values_section(design: Design, kit: Kit) -> SectionContent:
@@ -210,12 +212,15 @@ def coil_section(design: Design, kit: Kit) -> SectionContent | None:
     rows = coil_rows(design)
     if not rows:
         return None
-    rows += extra_coil_rows(design)
     flowables: list = [rows_table(rows, kit)]
     steps = winding_steps(design)
-    if steps:
+    view = winding_view_of(design)
+    if view is not None:
+        flowables.append([para("Winding", kit.subheading), winding_drawing(view, kit.width),
+                          para(_winding_caption(view), kit.caption)])
+    elif steps:
         flowables.append(para("Winding", kit.subheading))
-        flowables += [_numbered(step.number, "", step.text, kit) for step in steps]
+    flowables += [_numbered(step.number, "", step.text, kit) for step in steps]
     drawing = coil_q_drawing(design, kit.width)
     if drawing is not None:
         flowables.append([
@@ -224,13 +229,22 @@ def coil_section(design: Design, kit: Kit) -> SectionContent | None:
     return SectionContent("Coil", flowables)
 
 
+def _winding_caption(view) -> str:
+    if isinstance(view, SolenoidView):
+        return ("The coil seen from the side: the grey band is the former, each slanted stroke "
+                "the front half of one turn.")
+    return ("The core seen from above: the grey ring is the core, each radial stroke one turn "
+            "across its top face." + (" Long dashed strokes: the link winding."
+                                      if view.link_angles_deg else ""))
+
+
 def performance_section(design: Design, kit: Kit) -> SectionContent:
     return SectionContent("Expected performance", [rows_table(performance_rows(design), kit)])
 
 
 def stress_section(design: Design, kit: Kit) -> SectionContent:
-    rows = stress_rows(design) + extra_stress_rows(design)
-    return SectionContent("Stress at the response maximum", [rows_table(rows, kit)])
+    return SectionContent("Stress at the response maximum",
+                          [rows_table(stress_rows(design), kit)])
 
 
 def response_section(design: Design, kit: Kit) -> SectionContent:
@@ -255,7 +269,7 @@ def _numbered(number: int, title: str, text: str, kit: Kit) -> Paragraph:
 
 def procedure_section(design: Design, kit: Kit) -> SectionContent:
     plan = procedure(design)
-    flowables: list = []
+    flowables: list = [CondPageBreak(200)]  # start the steps where a few of them fit
     for step in plan.steps:
         paragraph = _numbered(step.number, step.title, step.text, kit)
         if not step.settings:
@@ -340,6 +354,7 @@ def with_heading(heading: Paragraph, items: list) -> list:
     if not items:
         return lead + [heading]
     if isinstance(items[0], Table):  # a table may split: keep only a few rows with the heading
+        heading.keepWithNext = 0  # (keepWithNext would move the heading and whole table on)
         out = lead + [CondPageBreak(110), heading, items[0]]
     else:
         first = items[0] if isinstance(items[0], list) else [items[0]]
