@@ -129,7 +129,7 @@ def assess(job: Job, circuit: rz.Circuit, resonance: rz.Resonance, stress: Stres
                                  else None),
                            flux_limit_t=flux_limit_t, wire_diameter_m=wire_diameter_m)
     found = caution_rules.cautions(
-        caution_rules.parts_from_stress(circuit, stress, capacitor=names.fixed_capacitors[0],
+        caution_rules.parts_from_stress(circuit, stress, capacitor=", ".join(names.capacitors),
                                         inductor=names.coil,
                                         bleeder_resistance_ohm=job.capacitor.bleeder,
                                         inductor_rise_k=coil_temperature_rise_k),
