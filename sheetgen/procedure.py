@@ -15,7 +15,7 @@ from typing import Literal
 
 from .design import Design
 from .quantities import format_number
-from .tables import q
+from .tables import q, signed
 from .winding import measuring_frequency_hz
 
 # Bench generators, analysers and their cables are 50 Ω systems (common practice).
@@ -131,8 +131,10 @@ MEASUREMENTS: tuple[Measurement, ...] = (
     Measurement("capacitance", "measured.capacitance_f", "verdict.capacitance",
                 "Capacitance of the fixed part(s)", "F"),
     Measurement("f0", "measured.f0_hz", "verdict.f0", "Frequency of the response maximum", "Hz"),
-    Measurement("f_low", "measured.f_low_hz", None, "Lower half-power (−3 dB) point", "Hz"),
-    Measurement("f_high", "measured.f_high_hz", None, "Upper half-power (−3 dB) point", "Hz"),
+    Measurement("f_low", "measured.f_low_hz", "verdict.f_low",
+                "Lower half-power (−3 dB) point", "Hz"),
+    Measurement("f_high", "measured.f_high_hz", "verdict.f_high",
+                "Upper half-power (−3 dB) point", "Hz"),
     Measurement("bandwidth", "measured.bandwidth_hz", "verdict.bandwidth",
                 "Bandwidth (−3 dB), upper − lower", "Hz"),
     Measurement("q_loaded", "measured.q_loaded", "verdict.q_loaded",
@@ -186,11 +188,6 @@ def sweep_settings(design: Design) -> SweepSettings:
     receiver = nice_at_most(bandwidth / RECEIVER_BANDWIDTHS_PER_BANDWIDTH if bandwidth else step,
                             (1.0, 3.0))
     return SweepSettings(start, stop, 0.5 * (start + stop), span, step, points, receiver)
-
-
-def signed(value: float, decimals: int) -> str:
-    """A number with its sign always shown, the minus as U+2212 (−) as typeset text wants."""
-    return f"{value:+.{decimals}f}".replace("-", "\u2212")
 
 
 def dbm_from_emf(emf_rms_v: float, resistance_ohm: float = GENERATOR_RESISTANCE_OHM) -> float:
@@ -298,6 +295,8 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
         "inductance": _tolerance(a.inductance_tolerance),
         "capacitance": _tolerance(a.capacitor_tolerance),
         "f0": f"{q(lim.f_peak_min_hz, 'Hz', 6)} to {q(lim.f_peak_max_hz, 'Hz', 6)}",
+        "f_low": f"{q(lim.f_low_min_hz, 'Hz', 6)} to {q(lim.f_low_max_hz, 'Hz', 6)}",
+        "f_high": f"{q(lim.f_high_min_hz, 'Hz', 6)} to {q(lim.f_high_max_hz, 'Hz', 6)}",
         "bandwidth": f"{q(lim.bandwidth_min_hz, 'Hz')} to {q(lim.bandwidth_max_hz, 'Hz')}",
         "q_loaded": f"{format_number(lim.q_loaded_min, 4)} to {format_number(lim.q_loaded_max, 4)}",
     }

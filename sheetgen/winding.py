@@ -61,7 +61,7 @@ def winding_steps(design: Design) -> list[Step]:
     texts = (_toroid_texts(coil, names) if coil.form == "toroid"
              else _solenoid_texts(coil, names, design.job.inductor.former_length))
     check = coil_check(design)
-    tolerance = (f" ± {format_number(check.tolerance * 100, 2)} %"
+    tolerance = (f" ± {format_number(check.tolerance * 100, 3)} %"
                  if check.tolerance is not None else "")
     texts.append(
         f"Check the wound coil before assembly: measure its inductance at "

@@ -174,7 +174,8 @@ def test_form_field_names_are_stable():
         "measured.inductance_h", "measured.capacitance_f", "measured.f0_hz",
         "measured.f_low_hz", "measured.f_high_hz", "measured.bandwidth_hz", "measured.q_loaded",
         "verdict.inductance.pass", "verdict.inductance.fail", "verdict.capacitance.pass",
-        "verdict.capacitance.fail", "verdict.f0.pass", "verdict.f0.fail",
+        "verdict.capacitance.fail", "verdict.f0.pass", "verdict.f0.fail", "verdict.f_low.pass",
+        "verdict.f_low.fail", "verdict.f_high.pass", "verdict.f_high.fail",
         "verdict.bandwidth.pass", "verdict.bandwidth.fail", "verdict.q_loaded.pass",
         "verdict.q_loaded.fail", "verdict.overall.pass", "verdict.overall.fail",
         "record.technician", "record.date", "record.instruments", "record.remarks")
