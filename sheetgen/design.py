@@ -77,6 +77,8 @@ class CoilDesign:
     f0_with_whole_turns_hz: float | None  # before the capacitor re-centres it
     link_turns: int | None
     link_resistance_ohm: float | None
+    tap_turns: int | None  # counted from the start (cold) end
+    tap_resistance_ohm: float | None
     flux_density_max_t: float | None
     inductance_tolerance: float | None  # ± fraction of the built inductance
     inductance_tc: float | None  # 1/K
@@ -261,14 +263,26 @@ def _coil_design(job: Job, library, coil, target_l: float, required_c: float,
             tc = parts.material_spec.mu_tc  # AL ∝ µ, so L follows µ's coefficient
     elif tolerance is None:
         tolerance = AIR_CORE_TOLERANCE
-    link_turns_n = link_r = None
-    if inductor.form == "toroid" and inductor.link is not None:
+    link_turns_n = link_r = tap_turns_n = tap_r = None
+    coupling = ("link", getattr(inductor, "link", None)) if getattr(inductor, "link", None) \
+        else ("tap", inductor.tap) if inductor.tap is not None else (None, None)
+    if coupling[1] is not None:
+        field = f"inductor.{coupling[0]}"
         if circuit.topology != "parallel" or circuit.load_resistance_ohm is None:
-            raise DesignError("inductor.link", "a link winding couples a load to a parallel "
-                              "tank: it needs topology parallel and a load resistance (given "
-                              "or computed from a bandwidth target)")
-        link_r = inductor.link.resistance
-        link_turns_n = link_turns(coil.turns, circuit.load_resistance_ohm, link_r)
+            raise DesignError(field, f"a {coupling[0]} couples a load to a parallel tank: it "
+                              "needs topology parallel and a load resistance (given or "
+                              "computed from a bandwidth target)")
+        # Ideal transformer: a resistance R at M of N turns looks like R·(N/M)² across the tank.
+        turns = link_turns(coil.turns, circuit.load_resistance_ohm, coupling[1].resistance)
+        if coupling[0] == "link":
+            link_turns_n, link_r = turns, coupling[1].resistance
+        else:
+            if turns >= coil.turns:
+                raise DesignError(field, f"a tap for {coupling[1].resistance:.4g} Ω would sit at "
+                                  f"or beyond the end of the {coil.turns}-turn winding: a tap "
+                                  "matches only a resistance below the tank's load resistance "
+                                  f"({circuit.load_resistance_ohm:.4g} Ω)")
+            tap_turns_n, tap_r = turns, coupling[1].resistance
     f0_whole = None
     if job.capacitor.capacitance is None:
         f0_whole = float(rz.resonant_frequency_hz(
@@ -276,7 +290,8 @@ def _coil_design(job: Job, library, coil, target_l: float, required_c: float,
     high = min(20.0 * f0, 0.98 * coil.srf_hz) if coil.srf_hz else 20.0 * f0
     f_curve = np.geomspace(f0 / 20.0, high, 241)
     return CoilDesign(inductor.form, coil, core_name, material_name, target_l, f0_whole,
-                      link_turns_n, link_r, flux_limit, tolerance, tc, inductor.lead_length,
+                      link_turns_n, link_r, tap_turns_n, tap_r, flux_limit, tolerance, tc,
+                      inductor.lead_length,
                       *core_size,
                       q_used, q_source,
                       CoilCurve(f_curve, np.asarray(coil_q_sweep(coil, f_curve))))

@@ -255,6 +255,14 @@ class LinkWinding(Section):
     wire: Wire | None = Field(None, description="link wire (default: the tank's wire)")
 
 
+class Tap(Section):
+    """A tap on the tank winding (an autotransformer) that matches a resistance to the tank."""
+
+    resistance: Resistance = Field(description="the resistance connected between the tap and "
+                                   "the cold (start) end, e.g. 50 Ω; it is matched to the "
+                                   "tank's load resistance")
+
+
 class ToroidInductor(Section):
     """A coil that sheetgen designs on a ring core from the parts library (or given inline)."""
 
@@ -266,11 +274,19 @@ class ToroidInductor(Section):
     enamel_grade: Literal[1, 2] = Field(2, description="enamel build grade 1 (thin) or 2")
     lead_length: LeadLength = Field(0.025, description="length of each lead beyond the core")
     link: LinkWinding | None = Field(None, description="a link winding (optional)")
+    tap: Tap | None = Field(None, description="a tap on the winding instead of a link "
+                            "(optional)")
     q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
                                      "the estimate (optional)")
     tolerance: Fraction | None = Field(None, description="± tolerance of the wound inductance "
                                        "(default: the core's AL tolerance, else its material's "
                                        "µi tolerance)")
+
+    @model_validator(mode="after")
+    def _one_coupling(self):
+        if self.link is not None and self.tap is not None:
+            raise PydanticCustomError("exclusive", "give a link or a tap, not both")
+        return self
     temperature_coefficient: TemperatureCoefficient | None = Field(
         None, description="temperature coefficient of the inductance (default: the material's "
         "µi coefficient)")
@@ -288,6 +304,7 @@ class SolenoidInductor(Section):
     pitch: Length | None = Field(None, description="turn-to-turn spacing (centre to centre)")
     length: Length | None = Field(None, description="winding length (instead of pitch)")
     former_length: Length | None = Field(None, description="usable length of the former")
+    tap: Tap | None = Field(None, description="a tap on the winding (optional)")
     lead_length: LeadLength = Field(0.025, description="length of each lead beyond the winding")
     q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
                                      "the estimate (optional)")

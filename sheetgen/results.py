@@ -154,6 +154,8 @@ def _inductor(design: Design) -> dict:
         "fits": r.fits,
         "remedy": r.remedy if toroid else None,
         "link_turns": coil.link_turns,
+        "tap_turns": coil.tap_turns,
+        "tap_resistance_ohm": coil.tap_resistance_ohm,
         "check": {"inductance_h": check.inductance_h, "tolerance": check.tolerance,
                   "measure_at_hz": check.measure_at_hz},
         "winding_steps": [step.text for step in winding_steps(design)],

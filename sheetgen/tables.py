@@ -157,6 +157,9 @@ def coil_rows(design: Design) -> list[Row]:
                         plural(coil.link_turns, "turn"),
                         f"to {q(coil.link_resistance_ohm, 'Ω')}: N√(R_link/R_tank) rounded, "
                         "at least 1"))
+    if coil.tap_turns is not None:
+        rows.append(Row("Tap", f"at turn {coil.tap_turns} from the start (cold) end",
+                        f"for {q(coil.tap_resistance_ohm, 'Ω')}: N√(R_tap/R_tank) rounded"))
     return rows
 
 
@@ -215,7 +218,9 @@ def stress_rows(design: Design) -> list[Row]:
         Row("Power in the load", q(s.load_power_w, "W")),
         Row("Load voltage", q(s.load_voltage_rms_v, "V") + " rms",
             "across the tank; the link steps it down to its load"
-            if design.coil is not None and design.coil.link_turns is not None else ""),
+            if design.coil is not None and design.coil.link_turns is not None else
+            "across the tank; the tap steps it down to its load"
+            if design.coil is not None and design.coil.tap_turns is not None else ""),
     ]
 
 

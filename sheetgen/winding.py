@@ -92,6 +92,8 @@ def _toroid_texts(coil: CoilDesign, names: Designators) -> list[str]:
         "one layer with a lead gap allows. Do not wind this coil until the design is changed "
         "(see the failed checks).",
     ]
+    if coil.tap_turns is not None:
+        texts.insert(2, _tap_text(coil, names))  # before "Wind N turns": made while winding
     if coil.link_turns is not None:
         texts.append(
             f"Wind the link {names.link}: {plural(coil.link_turns, 'turn')} of insulated wire "
@@ -104,6 +106,15 @@ def _toroid_texts(coil: CoilDesign, names: Designators) -> list[str]:
     texts.append("Strip the enamel from the last 5 mm of each lead (scrape or use a solder pot "
                  "hot enough to burn through it) and tin both ends.")
     return texts
+
+
+def _tap_text(coil: CoilDesign, names: Designators) -> str:
+    """Where and how to make the tap (a twisted loop of the winding wire itself)."""
+    return (f"Make the tap as you wind: after turn {coil.tap_turns}, counted from the start "
+            "lead, twist a loop of about 10 mm in the wire, then carry on winding. Scrape and "
+            f"tin the loop; {names.load_resistor} "
+            f"({format_quantity(coil.tap_resistance_ohm, 'Ω', 3)}) connects between the tap "
+            "and the start (cold, earthy) lead.")
 
 
 def _solenoid_texts(coil: CoilDesign, names: Designators,
@@ -131,6 +142,7 @@ def _solenoid_texts(coil: CoilDesign, names: Designators,
         f"Wind {plural(r.turns, 'turn')} of {names.coil} in a single layer on the {former} "
         f"diameter former, {spacing}, "
         f"over a winding length of {format_quantity(r.length_m, 'm', 3)}.",
+    ] + ([_tap_text(coil, names)] if coil.tap_turns is not None else []) + [
         f"Leave {lead} for each lead. Secure the winding with low-loss RF coil varnish or "
         "wax, and strip and tin the last 5 mm of each lead.",
         "If the inductance reads high, spread the turns slightly; if low, compress them. "

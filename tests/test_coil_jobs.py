@@ -109,3 +109,42 @@ def test_inline_core_needs_no_library(tmp_path, capsys):
 def test_new_offers_the_coil_starters(capsys, kind):
     code, out, _ = _run(capsys, "new", kind)
     assert code == 0 and f"form: {kind}" in out
+
+
+TAPPED = TOROID.replace("  link:\n    resistance: 50 ohm\n", "  tap:\n    resistance: 2 kohm\n")
+
+
+def test_tap_matches_its_resistance_to_the_tank(tmp_path, capsys):
+    """Ideal autotransformer: R at M of N turns looks like R·(N/M)² across the tank, so the
+    tap sits at M = N√(R_tap/R_tank) rounded to a whole turn (any textbook transformer
+    relation); the steps and the drawing's facts say where."""
+    assert "tap:" in TAPPED
+    code, out, _ = _run(capsys, "check", _job(tmp_path, TAPPED), "--json",
+                        "--library", ROOT / "shared")
+    assert code == 0
+    got = json.loads(out)
+    n, m = got["inductor"]["turns"], got["inductor"]["tap_turns"]
+    r_tank = got["components"]["load_resistance_ohm"]
+    exact = n * (2000.0 / r_tank) ** 0.5
+    assert m == round(exact) and abs(m - exact) <= 0.5
+    assert any(f"after turn {m}" in step for step in got["inductor"]["winding_steps"])
+
+
+def test_tap_above_the_tank_resistance_and_tap_with_link_are_refused(tmp_path, capsys):
+    high = TAPPED.replace("resistance: 2 kohm", "resistance: 100 kohm")
+    code, _, err = _run(capsys, "check", _job(tmp_path, high), "--library", ROOT / "shared")
+    assert code == 2 and "inductor.tap: a tap for 1e+05 Ω would sit at or beyond the end" in err
+    both = TAPPED.replace("  tap:\n", "  link:\n    resistance: 50 ohm\n  tap:\n")
+    code, _, err = _run(capsys, "check", _job(tmp_path, both), "--library", ROOT / "shared")
+    assert code == 2 and "give a link or a tap, not both" in err
+
+
+def test_tap_is_drawn_on_the_schematic_and_the_winding(tmp_path, capsys):
+    from pypdf import PdfReader
+    job, out = _job(tmp_path, TAPPED), tmp_path / "tap.pdf"
+    assert main(["build", str(job), "-o", str(out), "--library", str(ROOT / "shared")]) == 0
+    capsys.readouterr()
+    text = "\n".join(page.extract_text() for page in PdfReader(out).pages)
+    m = json.loads(_run(capsys, "check", job, "--json", "--library", ROOT / "shared")[1])[
+        "inductor"]["tap_turns"]
+    assert f"tap, turn {m}" in text and f"tap (turn {m})" in text

@@ -82,6 +82,8 @@ def schematic_of(design: Design) -> Schematic:
         turns = f"{coil.link_turns} turn{'s' if coil.link_turns != 1 else ''}"
         link = Part(names.link, "inductor", turns)
         load = Part(names.load_resistor, "resistor", q(coil.link_resistance_ohm, "Ω"))
+    elif coil is not None and coil.tap_turns is not None:
+        load = Part(names.load_resistor, "resistor", q(coil.tap_resistance_ohm, "Ω"))
     elif names.load_resistor is not None:
         load = Part(names.load_resistor, "resistor", q(c.load_resistance_ohm, "Ω"))
     drive = design.drive
@@ -90,6 +92,8 @@ def schematic_of(design: Design) -> Schematic:
     return Schematic(c.topology, "current" if drive.kind == "current" else "voltage", label,
                      Part(names.coil, "inductor", q(c.inductance_h, "H")), tuple(capacitors),
                      source_resistor, load, link,
+                     tap_label=(f"tap, turn {coil.tap_turns}: to {names.load_resistor}"
+                                if coil is not None and coil.tap_turns is not None else None),
                      cored=coil is not None and coil.form == "toroid")
 
 
@@ -306,28 +310,30 @@ def _parallel(g, s: Schematic, x_source, y_bottom, y_top, width):
         x += 18 + length
         _source_box(g, s, x_source, y_bottom, y_top, x + 6)
     linked = s.link is not None
-    branches = [s.inductor, *s.capacitors] if not linked else [*s.capacitors, s.inductor]
-    if s.load is not None and not linked:
+    tapped = s.tap_label is not None and s.load is not None and not linked
+    coupled = linked or tapped  # L1 goes last, its label on its left, the load beside it
+    branches = [s.inductor, *s.capacitors] if not coupled else [*s.capacitors, s.inductor]
+    if s.load is not None and not coupled:
         branches.append(s.load)
     x_branch = x + 36.0
     xs = []
     span = y_top - y_bottom
     for part in branches:
         xs.append(x_branch)
-        if linked and part is s.inductor:
+        if coupled and part is s.inductor:
             _vertical(g, "inductor", x_branch, y_bottom, span, loops_right=True)
             _text(g, x_branch - 8, y_top + 12, part.designator, DESIGNATOR_SIZE, "end", True)
             _text(g, x_branch - 8, y_top + 3, part.value, LABEL_SIZE, "end")
         else:
             _vertical(g, part.kind, x_branch, y_bottom, span)
             _label_right(g, part, x_branch, (y_top + y_bottom) / 2)
-        if part is s.inductor:
+        if part is s.inductor and not tapped:
             _tap(g, s, x_branch, (y_top + y_bottom) / 2, horizontal=False)
         if part is s.load:
             _box(g, x_branch - 18, y_bottom + 8, 40 + _label_width(part), span - 16, "load")
         # the next branch clears this one's label (drawn to its right) and its own loops
         x_branch += max(60.0, 14 + _label_width(part) + 22) if not (
-            linked and part is s.inductor) else 0.0
+            coupled and part is s.inductor) else 0.0
     _line(g, x, y_top, xs[-1], y_top)
     _line(g, x_source, y_bottom, xs[-1], y_bottom)
     for xx in xs[:-1]:
@@ -335,6 +341,23 @@ def _parallel(g, s: Schematic, x_source, y_bottom, y_top, width):
         _dot(g, xx, y_bottom)
     if linked:
         _link(g, s, xs[-1], y_bottom, y_top)
+    if tapped:
+        _tapped_load(g, s, xs[-1], y_bottom, y_top)
+
+
+def _tapped_load(g, s: Schematic, x_coil, y_bottom, y_top):
+    """The load from a tap on L1 (drawn half-way up; the cold end is at the bottom) to the
+    bottom rail, in its dashed load box."""
+    span = y_top - y_bottom
+    y_tap = y_bottom + span / 2.0
+    x_load = x_coil + 74.0
+    _dot(g, x_coil, y_tap)
+    _line(g, x_coil, y_tap, x_load, y_tap)
+    _text(g, x_coil + 6, y_tap + 3, s.tap_label.split(":")[0], LABEL_SIZE)
+    _vertical(g, "resistor", x_load, y_bottom, y_tap - y_bottom)
+    _label_right(g, s.load, x_load, y_bottom + (y_tap - y_bottom) / 2)
+    _line(g, x_coil, y_bottom, x_load, y_bottom)
+    _box(g, x_load - 16, y_bottom + 2, 36 + _label_width(s.load), span - 4, "load")
 
 
 def _link(g, s: Schematic, x_coil, y_bottom, y_top):

@@ -66,6 +66,12 @@ def part_rows(design: Design) -> list[PartRow]:
                             notes=f"across {names.link}; presents {q(c.load_resistance_ohm, 'Ω')}"
                                   f" across the tank ({origin}); fit this value for the bench "
                                   "test"))
+    elif names.load_resistor is not None and coil is not None and coil.tap_turns is not None:
+        rows.append(PartRow(names.load_resistor, "Load resistance",
+                            q(coil.tap_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,
+                            notes=f"from the tap at turn {coil.tap_turns} of {names.coil} to its "
+                                  f"cold end; presents {q(c.load_resistance_ohm, 'Ω')} across "
+                                  f"the tank ({origin}); fit this value for the bench test"))
     elif names.load_resistor is not None:
         rows.append(PartRow(names.load_resistor, "Load resistance",
                             q(c.load_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,

@@ -82,6 +82,7 @@ class ToroidView:
     link_angles_deg: tuple[float, ...]  # the link's turns, over the start end
     lead_length_m: float
     fits: bool  # in one layer within 360° less the lead gap
+    tap_turn: int | None = None  # a tap after this turn, counted from the start
 
 
 @dataclass(frozen=True)
@@ -142,7 +143,8 @@ def winding_view_of(design: Design) -> ToroidView | SolenoidView | None:
         return ToroidView(names.coil, coil.core_name, coil.core_outer_diameter_m,
                           coil.core_inner_diameter_m, coil.core_height_m, r.wire.name,
                           r.wire.overall_diameter_m, r.turns, r.winding_angle_deg, angles,
-                          names.link if link else None, link, coil.lead_length_m, r.fits)
+                          names.link if link else None, link, coil.lead_length_m, r.fits,
+                          coil.tap_turns)
     former_diameter = r.diameter_m - r.wire.overall_diameter_m
     given = design.job.inductor.former_length
     margin = max(0.15 * r.length_m, 2.0 * r.wire.overall_diameter_m, 0.003)
@@ -291,6 +293,16 @@ def _toroid_drawing(view: ToroidView, width: float):
         _text(link, x2 - 3, y1 + 1, view.link_designator, 9.0, "end", bold=True)
         _text(link, x2 - 3, y1 - 8, "link", LABEL_SIZE, "end")
     drawing.add(link, name="link_turns")
+    tap = Group()
+    if view.tap_turn is not None:  # a short lead from between turn M and M + 1
+        between = (angles[view.tap_turn - 1] + angles[min(view.tap_turn, len(angles) - 1)]) / 2
+        x1, y1 = _polar(cx, cy, r_out + wire_pt / 2 + 1.0, between)
+        x2, y2 = _polar(cx, cy, r_out + _LEAD_PT * 0.7, between)
+        _line(tap, x1, y1, x2, y2, width=max(wire_pt * 0.6, 0.9), cap=1)
+        anchor = "start" if x2 >= cx else "end"
+        _text(tap, x2 + (3 if anchor == "start" else -3), y2 - 3, f"tap (turn {view.tap_turn})",
+              LABEL_SIZE, anchor, bold=True)
+    drawing.add(tap, name="tap")
     facts = Group()
     x_facts = cx + r_out + _LEAD_PT + 34.0
     size = [f"OD {q(view.outer_diameter_m, 'm', 3)}", f"ID {q(view.inner_diameter_m, 'm', 3)}"]
@@ -309,6 +321,8 @@ def _toroid_drawing(view: ToroidView, width: float):
         lines.append((f"{view.link_designator} (long dashed strokes): "
                       f"{plural(len(view.link_angles_deg), 'turn')} of insulated wire over the "
                       "start end, which goes to the cold (earthy) side", True))
+    if view.tap_turn is not None:
+        lines.append((f"tap after turn {view.tap_turn}, counted from the start lead", True))
     core = f"Core {view.core_name}" if view.core_name else "Core"
     lines += [(f"{core}: {', '.join(size)}", False),
               (f"Seen from above, drawn to scale {scale.text} (the leads are not: cut each "
