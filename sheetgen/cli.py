@@ -187,6 +187,15 @@ def _build(result: Design, job_path: Path, output: Path, results_path: Path | No
     write_atomically(output, pdf)
 
 
+def _file_mode(path: Path) -> int:
+    """The mode of the file being replaced, else what a new file gets under the umask."""
+    if path.exists():
+        return path.stat().st_mode & 0o777
+    mask = os.umask(0)
+    os.umask(mask)
+    return 0o666 & ~mask
+
+
 def write_atomically(path: Path, data: bytes) -> None:
     """Write to a temporary file beside `path`, then rename over it: whole or not at all."""
     directory = path.resolve().parent
@@ -194,6 +203,7 @@ def write_atomically(path: Path, data: bytes) -> None:
         raise UsageError(f"cannot write {path}: the folder {directory} does not exist")
     handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=directory)
     try:
+        os.chmod(temporary, _file_mode(path))  # mkstemp makes 0600; a sheet is for sharing
         with os.fdopen(handle, "wb") as stream:
             stream.write(data)
             stream.flush()

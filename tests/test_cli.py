@@ -95,3 +95,18 @@ def test_installed_command_runs_the_demo_from_any_folder(tmp_path):
                           capture_output=True, text=True, timeout=300)
     assert done.returncode == 0, done.stderr
     assert json.loads(done.stdout)["inductor"]["core"] == "ring-18x9.5x6.5-irn10"
+
+
+def test_outputs_are_written_whole_with_ordinary_permissions(tmp_path, capsys):
+    """The temporary file is renamed into place (nothing .part is left) and the sheet gets
+    the mode a new file gets under the umask, not the temporary file's private 0600."""
+    import os
+    out = tmp_path / "sheet.pdf"
+    mask = os.umask(0o022)
+    try:
+        assert main(["build", str(ROOT / "templates" / "series.yaml"), "-o", str(out)]) == 0
+    finally:
+        os.umask(mask)
+    assert out.read_bytes().startswith(b"%PDF-")
+    assert out.stat().st_mode & 0o777 == 0o644
+    assert [p.name for p in tmp_path.iterdir()] == ["sheet.pdf"]
