@@ -268,9 +268,24 @@ def limits_rows(design: Design) -> list[Row]:
             f"from {a.capacitor_tolerance_source}"),
         Row("Inductance tolerance", f"± {format_number(a.inductance_tolerance * 100, 3)} %"
             if a.inductance_tolerance else "exact (none given)"),
+        _loss_spread_row(design),
         Row("Windows rounded outward to", q(a.resolution_hz, "Hz", 3)),
     ]
     return rows
+
+
+def _loss_spread_row(design: Design) -> Row:
+    """How the coil's and capacitor's losses were varied, and what that means for the
+    bandwidth window when the coil's Q is only an estimate."""
+    spread = design.job.variation.loss_tolerance
+    estimated = design.coil is not None and design.coil.q_source == "estimate"
+    if spread:
+        return Row("Loss resistance spread", f"± {format_number(spread * 100, 3)} %",
+                   "coil loss and capacitor ESR")
+    return Row("Loss resistance spread", "none given",
+               "the bandwidth and Q windows assume the estimated coil Q; give "
+               "variation.loss_tolerance to widen them" if estimated else
+               "coil loss and ESR taken as exact")
 
 
 def rating_rows(design: Design) -> list[Row]:
