@@ -7,10 +7,10 @@ designer. Pure: the library is passed in, already loaded.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from .engine import coil as coil_engine
-from .engine.magnetics import CoreLossTable
+from .engine.magnetics import CoreLossTable, self_resonant_frequency_hz
 from .engine.wire import Wire, wire_from_designation
 from .library import PartsLibrary
 from .model import CoreSpec, MaterialSpec, SolenoidInductor, ToroidInductor
@@ -85,6 +85,15 @@ def resolve_wire(text: str, grade: int, field: str) -> Wire:
         raise PartError(field, str(error)) from None
 
 
+def with_self_capacitance(coil, capacitance_f: float, f_hz: float):
+    """The coil with a known self-capacitance: its self-resonance 1/(2π√(L·C)) and its Q at
+    f_hz with that capacitance across it (engine.coil.coil_q_sweep)."""
+    model = replace(coil.loss_model, self_capacitance_f=capacitance_f)
+    return replace(coil, loss_model=model, self_capacitance_f=capacitance_f,
+                   srf_hz=float(self_resonant_frequency_hz(coil.inductance_built_h, capacitance_f)),
+                   srf_basis="job", q_estimated=float(coil_engine.coil_q_sweep(model, f_hz)))
+
+
 def design_coil(inductor: ToroidInductor | SolenoidInductor, library: PartsLibrary | None,
                 inductance_h: float, f_hz: float, voltage_rms_v: float | None,
                 temperature_c: float):
@@ -93,9 +102,12 @@ def design_coil(inductor: ToroidInductor | SolenoidInductor, library: PartsLibra
     try:
         if inductor.form == "toroid":
             parts = resolve_toroid(inductor, library)
-            return coil_engine.design_toroid(inductance_h, f_hz, parts.core, parts.material,
+            coil = coil_engine.design_toroid(inductance_h, f_hz, parts.core, parts.material,
                                              wire, inductor.lead_length, voltage_rms_v,
                                              temperature_c)
+            if inductor.self_capacitance is None:
+                return coil
+            return with_self_capacitance(coil, inductor.self_capacitance, f_hz)
         former = coil_engine.SolenoidFormer(inductor.former_diameter, inductor.former_length)
         return coil_engine.design_solenoid(inductance_h, f_hz, former, wire,
                                            pitch_m=inductor.pitch, length_m=inductor.length,

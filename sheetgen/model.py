@@ -276,6 +276,10 @@ class ToroidInductor(Section):
     link: LinkWinding | None = Field(None, description="a link winding (optional)")
     tap: Tap | None = Field(None, description="a tap on the winding instead of a link "
                             "(optional)")
+    self_capacitance: Capacitance | None = Field(
+        None, description="the wound coil's self-capacitance, measured or from a like coil "
+        "(optional; sheetgen makes no estimate for a ring core), for its self-resonance and "
+        "its Q near it")
     q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
                                      "the estimate (optional)")
     tolerance: Fraction | None = Field(None, description="± tolerance of the wound inductance "

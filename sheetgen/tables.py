@@ -136,8 +136,11 @@ def coil_rows(design: Design) -> list[Row]:
             Row("Wheeler's formula gives", q(r.wheeler_inductance_h, "H"), "cross-check"),
             Row("Self-capacitance", q(r.self_capacitance_f, "F", 3), "Medhurst (1947)"),
         ]
+    srf_remark = {"job": f"with the job's self-capacitance {q(r.self_capacitance_f, 'F', 3)}",
+                  "medhurst_1947": "Medhurst's self-capacitance"}.get(
+        r.srf_basis, "no estimate for a ring core; give inductor.self_capacitance")
     rows.append(Row("Self-resonant frequency", q(r.srf_hz, "Hz") if r.srf_hz else "not estimated",
-                    "" if r.srf_hz else "no self-capacitance estimate for a toroid"))
+                    srf_remark))
     if coil.form == "toroid":
         rows += [
             Row("Peak flux density", q(r.flux_density_peak_t, "T", 3),

@@ -148,3 +148,17 @@ def test_tap_is_drawn_on_the_schematic_and_the_winding(tmp_path, capsys):
     m = json.loads(_run(capsys, "check", job, "--json", "--library", ROOT / "shared")[1])[
         "inductor"]["tap_turns"]
     assert f"tap, turn {m}" in text and f"tap (turn {m})" in text
+
+
+def test_given_self_capacitance_sets_the_toroid_srf(tmp_path, capsys):
+    """SRF = 1/(2π√(L·C_self)) (Thomson's formula) with the job's self-capacitance, and the
+    coil's Q at f0 falls (the self-capacitance's (1 − ω²LC) factor, engine.coil_q_sweep)."""
+    import math
+    plain = json.loads(_run(capsys, "check", _job(tmp_path, TOROID), "--json",
+                            "--library", ROOT / "shared")[1])["inductor"]
+    text = TOROID.replace("  lead_length: 30 mm", "  lead_length: 30 mm\n  self_capacitance: 3 pF")
+    got = json.loads(_run(capsys, "check", _job(tmp_path, text), "--json",
+                          "--library", ROOT / "shared")[1])["inductor"]
+    srf = 1 / (2 * math.pi * math.sqrt(got["inductance_built_h"] * 3e-12))
+    assert plain["srf_hz"] is None and abs(got["srf_hz"] / srf - 1) < 1e-12
+    assert got["q_estimated"] < plain["q_estimated"]
