@@ -292,8 +292,8 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
         "q_loaded": format_number(r.q_loaded, 4),
     }
     limits = {
-        "inductance": _tolerance(a.inductance_tolerance),
-        "capacitance": _tolerance(a.capacitor_tolerance),
+        "inductance": _tolerance(c.inductance_h, a.inductance_tolerance, "H"),
+        "capacitance": _tolerance(design.capacitor_choice.fixed_f, a.capacitor_tolerance, "F"),
         "f0": f"{q(lim.f_peak_min_hz, 'Hz', 6)} to {q(lim.f_peak_max_hz, 'Hz', 6)}",
         "f_low": f"{q(lim.f_low_min_hz, 'Hz', 6)} to {q(lim.f_low_max_hz, 'Hz', 6)}",
         "f_high": f"{q(lim.f_high_min_hz, 'Hz', 6)} to {q(lim.f_high_max_hz, 'Hz', 6)}",
@@ -303,8 +303,12 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
     return tuple(RecordRow(m, expected[m.key], limits.get(m.key, "—")) for m in MEASUREMENTS)
 
 
-def _tolerance(fraction: float | None) -> str:
-    return f"± {format_number(fraction * 100, 3)} %" if fraction else "—"
+def _tolerance(nominal: float, fraction: float | None, unit: str) -> str:
+    """A part's window as the meter reads it: nominal ± tolerance, and the tolerance."""
+    if not fraction:
+        return "—"
+    return (f"{q(nominal * (1 - fraction), unit)} to {q(nominal * (1 + fraction), unit)} "
+            f"(± {format_number(fraction * 100, 3)} %)")
 
 
 def _hookup_text(design: Design, drive: BenchDrive) -> str:

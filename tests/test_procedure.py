@@ -180,3 +180,13 @@ def test_form_field_names_are_stable():
         "verdict.q_loaded.fail", "verdict.overall.pass", "verdict.overall.fail",
         "record.technician", "record.date", "record.instruments", "record.remarks")
     assert len(set(FORM_FIELD_NAMES)) == len(FORM_FIELD_NAMES)
+
+
+def test_part_windows_are_absolute_values_a_meter_reads():
+    """L and C windows are nominal × (1 ± tolerance), shown as values as well as percent."""
+    from sheetgen.quantities import format_quantity
+    d = design_from_file(TEMPLATES / "demo.yaml", SHARED)
+    rows = {row.measurement.key: row for row in procedure(d).record}
+    L, tol = d.circuit.inductance_h, d.assessment.inductance_tolerance
+    assert rows["inductance"].limits.startswith(
+        f"{format_quantity(L * (1 - tol), 'H', 4)} to {format_quantity(L * (1 + tol), 'H', 4)}")
