@@ -154,12 +154,13 @@ def _response_denominator(circuit: Circuit, omega):
         d1 = 1j * (L + 1.0 / (omega * omega * C))
         d2 = -2j / (omega**3 * C)
         return d, d1, d2
-    coil = r_l + 1j * omega * L
-    cap = 1.0 + 1j * omega * C * r_c
-    d = (1.0 / coil + 1j * omega * C / cap + _conductance(circuit.load_resistance_ohm)
+    inv_coil = 1.0 / (r_l + 1j * omega * L)  # one division each; the rest multiplies
+    inv_cap = 1.0 / (1.0 + 1j * omega * C * r_c)
+    d = (inv_coil + 1j * omega * C * inv_cap + _conductance(circuit.load_resistance_ohm)
          + _conductance(circuit.source_resistance_ohm))
-    d1 = -1j * L / coil**2 + 1j * C / cap**2
-    d2 = -2.0 * L * L / coil**3 + 2.0 * C * C * r_c / cap**3
+    inv_coil2, inv_cap2 = inv_coil * inv_coil, inv_cap * inv_cap
+    d1 = -1j * L * inv_coil2 + 1j * C * inv_cap2
+    d2 = -2.0 * L * L * inv_coil2 * inv_coil + 2.0 * C * C * r_c * inv_cap2 * inv_cap
     return d, d1, d2
 
 
