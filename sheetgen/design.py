@@ -46,6 +46,13 @@ class CapacitorChoice:
     built_f: float
     from_standard_parts: bool
 
+    @property
+    def fixed_parts_f(self) -> tuple[float, ...]:
+        """The fixed capacitors to fit: the standard part(s), or the job's own value."""
+        if not self.from_standard_parts:
+            return (self.fixed_f,)
+        return tuple(v for v in (self.pair.first, self.pair.second) if v is not None)
+
 
 @dataclass(frozen=True)
 class Derivation:
@@ -173,12 +180,10 @@ def design(job: Job, library: PartsLibrary | None = None) -> Design:
                                    stress.inductor_voltage_rms_v)
         coil_design = _coil_design(job, library, loaded_coil, target_l, required_c, circuit,
                                    q_used, q_source, f0)
-    fixed = ((choice.pair.first,) + ((choice.pair.second,) if choice.pair.second else ())
-             if choice.from_standard_parts else (choice.fixed_f,))
+    fixed = choice.fixed_parts_f
     names = designators(len(fixed), choice.trimmer_setting_f is not None,
                         circuit.source_resistance_ohm is not None,
-                        circuit.load_resistance_ohm is not None
-                        or (coil_design is not None and coil_design.link_turns is not None),
+                        circuit.load_resistance_ohm is not None,  # a link or tap needs one
                         coil_design is not None and coil_design.link_turns is not None)
     try:
         assessment = _assess(job, circuit, resonance, stress, response, names, choice, fixed,

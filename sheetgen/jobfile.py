@@ -17,6 +17,7 @@ import yaml
 from pydantic import BaseModel, ValidationError
 
 from .model import BY_NAME, INLINE, Job
+from .quantities import shown_input
 
 UNION_TAGS = {BY_NAME, INLINE}
 
@@ -60,18 +61,27 @@ class Located:
     key_marks: dict[tuple, tuple[int, int]]
 
 
+JOB_FILE_HINT = " (see `sheetgen new parallel`)"
+
+
 def read_job_text(path: Path) -> str:
-    """The file's text, refusing what is not a readable, sane-sized UTF-8 file."""
+    """A job file's text (see read_yaml_text)."""
+    return read_yaml_text(path, "job file", MAX_JOB_BYTES, JOB_FILE_HINT)
+
+
+def read_yaml_text(path: Path, kind: str, max_bytes: int, missing_hint: str = "") -> str:
+    """The file's text, refusing what is not a readable, sane-sized UTF-8 file; `kind`
+    ("job file", "style file" …) names it in the messages."""
     shown = str(path)
     if not path.exists():
-        raise JobFileError([Problem(shown, 1, 1, "", "no such file; expected a YAML job file "
-                                    "(see `sheetgen new parallel`)")])
+        raise JobFileError([Problem(shown, 1, 1, "", f"no such file; expected a YAML {kind}"
+                                    f"{missing_hint}")])
     if path.is_dir():
-        raise JobFileError([Problem(shown, 1, 1, "", "is a directory; expected a YAML job file")])
+        raise JobFileError([Problem(shown, 1, 1, "", f"is a directory; expected a YAML {kind}")])
     size = path.stat().st_size
-    if size > MAX_JOB_BYTES:
-        raise JobFileError([Problem(shown, 1, 1, "", f"is {size:,} bytes; a job file is at most "
-                                    f"{MAX_JOB_BYTES:,} bytes")])
+    if size > max_bytes:
+        raise JobFileError([Problem(shown, 1, 1, "", f"is {size:,} bytes; a {kind} is at most "
+                                    f"{max_bytes:,} bytes")])
     try:
         raw = path.read_bytes()
     except OSError as error:
@@ -82,7 +92,7 @@ def read_job_text(path: Path) -> str:
         line = raw.count(b"\n", 0, error.start) + 1
         column = error.start - (raw.rfind(b"\n", 0, error.start) + 1) + 1
         raise JobFileError([Problem(shown, line, column, "", f"byte 0x{raw[error.start]:02x} is "
-                                    "not UTF-8; save the job file as UTF-8 text")]) from None
+                                    f"not UTF-8; save the {kind} as UTF-8 text")]) from None
     return text.removeprefix("\ufeff")
 
 
@@ -164,14 +174,15 @@ def _dotted(path: tuple) -> str:
 def load_job(path: str | os.PathLike) -> Job:
     """Read and validate a job file. Raises JobFileError listing every problem found."""
     return load_validated(path, Job, "a mapping with sheet, circuit, inductor, capacitor and "
-                          "source at the top level")
+                          "source at the top level", "job file", JOB_FILE_HINT)
 
 
-def load_validated(path: str | os.PathLike, model: type[BaseModel], expected: str):
-    """Read a YAML file and validate it as `model`, every problem located in the file."""
+def load_validated(path: str | os.PathLike, model: type[BaseModel], expected: str,
+                   kind: str, missing_hint: str = ""):
+    """Read a YAML `kind` of file and validate it as `model`, every problem located in it."""
     path = Path(path)
     shown = str(path)
-    located = compose_located(read_job_text(path), shown)
+    located = compose_located(read_yaml_text(path, kind, MAX_JOB_BYTES, missing_hint), shown)
     if not isinstance(located.data, dict):
         raise JobFileError([Problem(shown, 1, 1, "", f"expected {expected}")])
     try:
@@ -220,13 +231,11 @@ def _problem(shown: str, located: Located, error: dict, root: type[BaseModel]) -
 
 
 def _shown(value: object) -> str:
-    if isinstance(value, str):
-        return f'"{value}"'
     if isinstance(value, dict):
         return "a mapping"
     if isinstance(value, list):
         return "a list"
-    return repr(value)
+    return shown_input(value)
 
 
 def _data_path(data: object, loc: tuple) -> tuple:

@@ -52,7 +52,8 @@ def load_library(folder: Path) -> PartsLibrary:
     problems: list[Problem] = []
     for path in sorted(folder.glob("*.yaml")):
         try:
-            part = load_validated(path, PartsLibraryFile, "a mapping with materials and/or cores")
+            part = load_validated(path, PartsLibraryFile, "a mapping with materials and/or cores",
+                                  kind="parts library file")
         except JobFileError as error:
             problems += error.problems
             continue

@@ -27,9 +27,9 @@ def _quantity(dimension: qty.Dimension, minimum: float | None = 0.0, inclusive: 
             raise PydanticCustomError("quantity", str(error)) from None
         if minimum is not None and (number < minimum or (number == minimum and not inclusive)):
             bound = "at least" if inclusive else "greater than"
-            shown = f'"{value}"' if isinstance(value, str) else repr(value)
             raise PydanticCustomError(
-                "quantity", f"{shown} must be {bound} {minimum:g} {dimension.si_unit}".rstrip())
+                "quantity", f"{qty.shown_input(value)} must be {bound} {minimum:g} "
+                f"{dimension.si_unit}".rstrip())
         return number
 
     schema = {

@@ -103,7 +103,7 @@ def parse_quantity(value: object, dimension: Dimension) -> float:
     or text: a number, optional space, optional SI prefix, unit ("150pF", "2.2 kΩ").
     """
     if isinstance(value, bool) or not isinstance(value, (int, float, str)):
-        raise QuantityError(f"{_shown(value)} is not a {dimension.name} "
+        raise QuantityError(f"{shown_input(value)} is not a {dimension.name} "
                             f"(expected {dimension.unit_name}, e.g. {dimension.example})")
     if isinstance(value, (int, float)):
         if not dimension.allow_bare_number:
@@ -112,14 +112,14 @@ def parse_quantity(value: object, dimension: Dimension) -> float:
         return _finite(float(value), value, dimension)
     match = _NUMBER.match(value.replace("\u03bc", "\u00b5").replace("\u2126", "\u03a9"))
     if not match:
-        raise QuantityError(f"{_shown(value)} is not a {dimension.name} "
+        raise QuantityError(f"{shown_input(value)} is not a {dimension.name} "
                             f"(expected {dimension.unit_name}, e.g. {dimension.example})")
     number, unit = float(match.group(1)), match.group(2)
     if unit in dimension.whole_units:
         return _finite(dimension.whole_units[unit](number), value, dimension)
     if unit == "":
         if not dimension.allow_bare_number:
-            raise QuantityError(f"{_shown(value)} has no unit (expected {dimension.unit_name}, "
+            raise QuantityError(f"{shown_input(value)} has no unit (expected {dimension.unit_name}, "
                                 f"e.g. {dimension.example})")
         return _finite(number, value, dimension)
     if unit in dimension.units:
@@ -127,7 +127,7 @@ def parse_quantity(value: object, dimension: Dimension) -> float:
     prefix, rest = unit[0], unit[1:]
     if prefix in SI_PREFIXES and rest in dimension.units:
         return _finite(number * SI_PREFIXES[prefix] * dimension.units[rest], value, dimension)
-    raise QuantityError(f"{_shown(value)} is not a {dimension.name} "
+    raise QuantityError(f"{shown_input(value)} is not a {dimension.name} "
                         f"(expected {dimension.unit_name}, e.g. {_example(match, dimension)})")
 
 
@@ -142,11 +142,12 @@ def _example(match: re.Match, dimension: Dimension) -> str:
 
 def _finite(si_value: float, written: object, dimension: Dimension) -> float:
     if not math.isfinite(si_value):
-        raise QuantityError(f"{_shown(written)} is not a finite {dimension.name}")
+        raise QuantityError(f"{shown_input(written)} is not a finite {dimension.name}")
     return si_value
 
 
-def _shown(value: object) -> str:
+def shown_input(value: object) -> str:
+    """What the user wrote, as a message quotes it: text in quotes, numbers as written."""
     return f'"{value}"' if isinstance(value, str) else repr(value)
 
 

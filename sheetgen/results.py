@@ -51,9 +51,7 @@ def results(design: Design) -> dict:
                 "required_f": choice.required_f,
                 "nearest_f": choice.nearest_f,
                 "from_standard_parts": choice.from_standard_parts,
-                "fixed_parts_f": ([v for v in (choice.pair.first, choice.pair.second)
-                                   if v is not None] if choice.from_standard_parts
-                                  else [choice.fixed_f]),
+                "fixed_parts_f": list(choice.fixed_parts_f),
                 "fixed_total_f": choice.fixed_f,
                 "trimmer_setting_f": choice.trimmer_setting_f,
                 "trimmer_in_range": choice.trimmer_in_range,

@@ -74,7 +74,7 @@ def capacitor_rows(design: Design) -> list[Row]:
         return [Row(f"Nearest {choice.series} value", q(choice.nearest_f, "F", 3),
                     f"{signed((choice.nearest_f / choice.required_f - 1) * 100, 2)} %")]
     derived = {d.field: d.reason for d in design.derived}
-    parts = " + ".join(q(v, "F", 3) for v in (choice.pair.first, choice.pair.second) if v)
+    parts = " + ".join(q(v, "F", 3) for v in choice.fixed_parts_f)
     rows = [Row("Capacitance required", q(choice.required_f, "F"),
                 _origin(derived, "capacitor.capacitance"))]
     if choice.trimmer_setting_f is None:

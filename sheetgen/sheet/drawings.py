@@ -65,9 +65,8 @@ def schematic_of(design: Design) -> Schematic:
     names = design.designators
     choice = design.capacitor_choice
     if choice.from_standard_parts:
-        values = [v for v in (choice.pair.first, choice.pair.second) if v is not None]
         capacitors = [Part(name, "capacitor", q(value, "F", 3))
-                      for name, value in zip(names.fixed_capacitors, values)]
+                      for name, value in zip(names.fixed_capacitors, choice.fixed_parts_f)]
     else:
         capacitors = [Part(names.fixed_capacitors[0], "capacitor", q(c.capacitance_f, "F"))]
     trimmer = design.job.capacitor.trimmer

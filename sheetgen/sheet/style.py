@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from pathlib import Path, PurePosixPath, PureWindowsPath
 
 from ..package_data import templates_folder
-from ..jobfile import JobFileError, Problem, compose_located
+from ..jobfile import JobFileError, Problem, compose_located, read_yaml_text
 
 PAGE_SIZES = ("A4", "Letter")
 # Every section the sheet can draw, in the default order. The identity (title block on
@@ -50,17 +50,8 @@ def load_style(path: str | Path, job_dir: str | Path | None = None) -> HouseStyl
     """Read a style file; its logo is looked up under `job_dir` (default: the style's folder)."""
     path = Path(path)
     shown = str(path)
-    if not path.is_file():
-        raise JobFileError([Problem(shown, 1, 1, "", "no such style file; expected a YAML "
-                                    "house style like templates/style-default.yaml")])
-    raw = path.read_bytes()
-    if len(raw) > MAX_STYLE_BYTES:
-        raise JobFileError([Problem(shown, 1, 1, "", f"is {len(raw):,} bytes; a style file is "
-                                    f"at most {MAX_STYLE_BYTES:,} bytes")])
-    try:
-        text = raw.decode("utf-8").removeprefix("\ufeff")
-    except UnicodeDecodeError:
-        raise JobFileError([Problem(shown, 1, 1, "", "is not UTF-8 text")]) from None
+    text = read_yaml_text(path, "style file", MAX_STYLE_BYTES,
+                          " (a house style like templates/style-default.yaml)")
     return style_from_text(text, shown, Path(job_dir) if job_dir is not None else path.parent)
 
 
