@@ -178,7 +178,7 @@ def design(job: Job, library: PartsLibrary | None = None) -> Design:
     if coil is not None:
         loaded_coil = _design_coil(job, library, target_l, f_design,
                                    stress.inductor_voltage_rms_v)
-        coil_design = _coil_design(job, library, loaded_coil, target_l, required_c, circuit,
+        coil_design = _coil_design(job, library, loaded_coil, target_l, circuit,
                                    q_used, q_source, f0)
     fixed = choice.fixed_parts_f
     names = designators(len(fixed), choice.trimmer_setting_f is not None,
@@ -245,8 +245,8 @@ def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]
     return x0 / q, q, "estimate"
 
 
-def _coil_design(job: Job, library, coil, target_l: float, required_c: float,
-                 circuit: rz.Circuit, q_used: float, q_source: str, f0: float) -> CoilDesign:
+def _coil_design(job: Job, library, coil, target_l: float, circuit: rz.Circuit,
+                 q_used: float, q_source: str, f0: float) -> CoilDesign:
     from .coil_parts import resolve_toroid
     from .engine.coil import coil_q_sweep
     from .engine.magnetics import link_turns
@@ -269,25 +269,25 @@ def _coil_design(job: Job, library, coil, target_l: float, required_c: float,
     elif tolerance is None:
         tolerance = AIR_CORE_TOLERANCE
     link_turns_n = link_r = tap_turns_n = tap_r = None
-    coupling = ("link", getattr(inductor, "link", None)) if getattr(inductor, "link", None) \
-        else ("tap", inductor.tap) if inductor.tap is not None else (None, None)
-    if coupling[1] is not None:
-        field = f"inductor.{coupling[0]}"
+    link = getattr(inductor, "link", None)  # a solenoid has no link, only a tap
+    kind, coupling = ("link", link) if link is not None else ("tap", inductor.tap)
+    if coupling is not None:
+        field = f"inductor.{kind}"
         if circuit.topology != "parallel" or circuit.load_resistance_ohm is None:
-            raise DesignError(field, f"a {coupling[0]} couples a load to a parallel tank: it "
+            raise DesignError(field, f"a {kind} couples a load to a parallel tank: it "
                               "needs topology parallel and a load resistance (given or "
                               "computed from a bandwidth target)")
         # Ideal transformer: a resistance R at M of N turns looks like R·(N/M)² across the tank.
-        turns = link_turns(coil.turns, circuit.load_resistance_ohm, coupling[1].resistance)
-        if coupling[0] == "link":
-            link_turns_n, link_r = turns, coupling[1].resistance
+        turns = link_turns(coil.turns, circuit.load_resistance_ohm, coupling.resistance)
+        if kind == "link":
+            link_turns_n, link_r = turns, coupling.resistance
         else:
             if turns >= coil.turns:
-                raise DesignError(field, f"a tap for {coupling[1].resistance:.4g} Ω would sit at "
+                raise DesignError(field, f"a tap for {coupling.resistance:.4g} Ω would sit at "
                                   f"or beyond the end of the {coil.turns}-turn winding: a tap "
                                   "matches only a resistance below the tank's load resistance "
                                   f"({circuit.load_resistance_ohm:.4g} Ω)")
-            tap_turns_n, tap_r = turns, coupling[1].resistance
+            tap_turns_n, tap_r = turns, coupling.resistance
     f0_whole = None
     if job.capacitor.capacitance is None:
         f0_whole = float(rz.resonant_frequency_hz(

@@ -331,7 +331,7 @@ def _hookup_text(design: Design, drive: BenchDrive) -> str:
     return f"The design assumes {what}: {how}."
 
 
-def _detector_text(design: Design, found: Detector) -> str:
+def _detector_text(found: Detector) -> str:
     text = (f"Read the response across {found.across} with a probe of at least "
             f"{q(found.probe_resistance_min_ohm, 'Ω')}")
     if found.sense_resistance_max_ohm is not None:
@@ -392,7 +392,7 @@ def procedure(design: Design) -> Procedure:
              "Build the circuit as the schematic shows, with short leads; keep the coil "
              "clear of metal and of the other parts."),
         Step(5, "Connect the test set-up",
-             f"{_hookup_text(design, drive)} {_detector_text(design, found)}"),
+             f"{_hookup_text(design, drive)} {_detector_text(found)}"),
         Step(6, "Set the instrument",
              "Set a network analyser, or a generator and a level-reading receiver, to sweep "
              "as below." + level_note,

@@ -2,7 +2,6 @@
 and E96 rows are from memory) and the best parallel pair against exhaustive search."""
 
 import itertools
-import math
 
 import pytest
 

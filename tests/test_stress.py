@@ -31,7 +31,7 @@ def _ngspice_stress(c: Circuit, drive: Drive, f_hz: float) -> dict[str, float]:
             v = open_circuit_voltage_rms(drive, c.source_resistance_ohm)
             lines = [f"vdrive src 0 dc 0 ac {v!r}",
                      f"rsource src a {c.source_resistance_ohm or 1e-9!r}"]
-        lines += [f"vsense a a1 dc 0", f"lcoil a1 b {c.inductance_h!r}",
+        lines += ["vsense a a1 dc 0", f"lcoil a1 b {c.inductance_h!r}",
                   f"rcoil b c {c.inductor_resistance_ohm or 1e-12!r}",
                   f"ccap c d {c.capacitance_f!r}", f"rcap d e {c.capacitor_esr_ohm or 1e-12!r}",
                   f"rload e 0 {c.load_resistance_ohm or 1e-12!r}"]
@@ -44,9 +44,9 @@ def _ngspice_stress(c: Circuit, drive: Drive, f_hz: float) -> dict[str, float]:
             v = open_circuit_voltage_rms(drive, c.source_resistance_ohm)
             lines = [f"vdrive src 0 dc 0 ac {v!r}",
                      f"rsource src out {c.source_resistance_ohm!r}"]
-        lines += [f"vlsense out l1 dc 0", f"lcoil l1 x {c.inductance_h!r}",
+        lines += ["vlsense out l1 dc 0", f"lcoil l1 x {c.inductance_h!r}",
                   f"rcoil x 0 {c.inductor_resistance_ohm or 1e-12!r}",
-                  f"vcsense out c1 dc 0", f"ccap c1 y {c.capacitance_f!r}",
+                  "vcsense out c1 dc 0", f"ccap c1 y {c.capacitance_f!r}",
                   f"rcap y 0 {c.capacitor_esr_ohm or 1e-12!r}"]
         if c.load_resistance_ohm is not None:
             lines.append(f"rload out 0 {c.load_resistance_ohm!r}")

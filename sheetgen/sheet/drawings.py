@@ -226,9 +226,9 @@ def schematic_drawing(schematic: Schematic, width: float, height: float = HEIGHT
     x_source = 84.0
     _source(g, schematic.source, x_source, y_bottom, y_top, schematic.source_label)
     if schematic.topology == "series":
-        _series(g, schematic, x_source, y_bottom, y_top, width)
+        _series(g, schematic, x_source, y_bottom, y_top)
     else:
-        _parallel(g, schematic, x_source, y_bottom, y_top, width)
+        _parallel(g, schematic, x_source, y_bottom, y_top)
     right = g.getBounds()[2] + 1.0
     scale = min(1.0, width / right)
     g.transform = (scale, 0, 0, scale, 0, 0)
@@ -237,12 +237,12 @@ def schematic_drawing(schematic: Schematic, width: float, height: float = HEIGHT
     return drawing
 
 
-def _source_box(g, s: Schematic, x_source, y_bottom, y_top, right):
+def _source_box(g, x_source, y_bottom, y_top, right):
     _box(g, x_source - 82, y_bottom - 8, right - (x_source - 82), y_top - y_bottom + 40,
          "source", top_left=True)
 
 
-def _series(g, s: Schematic, x_source, y_bottom, y_top, width):
+def _series(g, s: Schematic, x_source, y_bottom, y_top):
     """R1, L1 and C1 (‖ C2 …) along the top wire; the load R2 down the right side."""
     x, gap = x_source, 22.0
     if s.source_resistor is not None:
@@ -251,7 +251,7 @@ def _series(g, s: Schematic, x_source, y_bottom, y_top, width):
         _horizontal(g, "resistor", x + gap, y_top, length)
         _label_above(g, s.source_resistor, x + gap + length / 2, y_top)
         x += gap + length
-        _source_box(g, s, x_source, y_bottom, y_top, x + 6)
+        _source_box(g, x_source, y_bottom, y_top, x + 6)
     length = _LENGTH["inductor"]
     _line(g, x, y_top, x + gap, y_top)
     _horizontal(g, "inductor", x + gap, y_top, length)
@@ -298,7 +298,7 @@ def _capacitor_bank(g, capacitors, x, y) -> tuple[float, float]:
     return end, max(end, x + 10 + inner + 6 + labels)
 
 
-def _parallel(g, s: Schematic, x_source, y_bottom, y_top, width):
+def _parallel(g, s: Schematic, x_source, y_bottom, y_top):
     """R1 along the top to the tank; C1, C2 …, L1 and the load R2 as branches across it."""
     x = x_source
     if s.source_resistor is not None:
@@ -307,7 +307,7 @@ def _parallel(g, s: Schematic, x_source, y_bottom, y_top, width):
         _horizontal(g, "resistor", x + 18, y_top, length)
         _label_above(g, s.source_resistor, x + 18 + length / 2, y_top)
         x += 18 + length
-        _source_box(g, s, x_source, y_bottom, y_top, x + 6)
+        _source_box(g, x_source, y_bottom, y_top, x + 6)
     linked = s.link is not None
     tapped = s.tap_label is not None and s.load is not None and not linked
     coupled = linked or tapped  # L1 goes last, its label on its left, the load beside it
