@@ -13,15 +13,15 @@ import sys
 import tempfile
 from pathlib import Path
 
-from . import __version__
-from .checks import failed_checks
-from .design import Design
-from .jobfile import JobFileError, Problem, field_position
-from .library import find_library_folder
-from .package_data import templates_folder
-from .pipeline import design_from_file
-from .summary import summary_text
-from .starters import TEMPLATE_NAMES, demo_job_path, template_text
+from sheetgen import __version__
+from sheetgen.report.checks import failed_checks
+from sheetgen.design.compute import Design
+from sheetgen.inputs.reader import JobFileError, Problem, field_position
+from sheetgen.inputs.library import find_library_folder
+from sheetgen.inputs.package_data import templates_folder
+from sheetgen.design.pipeline import design_from_file
+from sheetgen.report.summary import summary_text
+from sheetgen.inputs.starters import TEMPLATE_NAMES, demo_job_path, template_text
 
 EXIT_OK, EXIT_CHECK_FAILED, EXIT_BAD_INPUT = 0, 1, 2
 
@@ -106,11 +106,11 @@ def _run(args) -> int:
         sys.stdout.write(template_text(args.kind))
         return EXIT_OK
     if args.command == "schema" and args.markdown:
-        from .jobdoc import job_reference_markdown
+        from sheetgen.inputs.jobdoc import job_reference_markdown
         sys.stdout.write(job_reference_markdown())
         return EXIT_OK
     if args.command == "schema":
-        from .model import Job
+        from sheetgen.inputs.model import Job
         schema = Job.model_json_schema()
         schema["$schema"] = "https://json-schema.org/draft/2020-12/schema"
         schema["title"] = "sheetgen job file"
@@ -120,13 +120,13 @@ def _run(args) -> int:
     result = design_from_file(job_path, getattr(args, "library", None))
     if args.command == "check":
         if args.json:
-            from .results import results_json
+            from sheetgen.report.results import results_json
             sys.stdout.write(results_json(result))
         else:
             sys.stdout.write(summary_text(result))
         return _exit_for(result)
     if args.command == "limits":
-        from .results import limits_csv, limits_json
+        from sheetgen.report.results import limits_csv, limits_json
         text = limits_csv(result) if args.format == "csv" else limits_json(result)
         if args.output is None:
             sys.stdout.write(text)
@@ -152,7 +152,7 @@ def _exit_for(result: Design) -> int:
 def _style(job_path: Path, result: Design, cli_style: Path | None, library_folder: Path | None):
     """The house style: --style, else the job's sheet.style (a path, or a name looked up as
     style-NAME.yaml in the parts library folder and then in the shipped templates)."""
-    from .sheet.style import load_style
+    from sheetgen.inputs.style import load_style
     job_dir = job_path.resolve().parent
     if cli_style is not None:
         return load_style(cli_style, job_dir)
@@ -176,8 +176,8 @@ def _style(job_path: Path, result: Design, cli_style: Path | None, library_folde
 
 def _build(result: Design, job_path: Path, output: Path, results_path: Path | None,
            style=None) -> None:
-    from .results import results_json
-    from .sheet import render_sheet
+    from sheetgen.report.results import results_json
+    from sheetgen.sheet import render_sheet
     job_text = job_path.read_text(encoding="utf-8")
     results_text = results_json(result)
     pdf = render_sheet(result, job_text=job_text, results_text=results_text,

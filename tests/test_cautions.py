@@ -1,4 +1,4 @@
-"""sheetgen.cautions: levels at the thresholds of the standards, and the figures stated.
+"""sheetgen.report.cautions: levels at the thresholds of the standards, and the figures stated.
 
 Sources (see tests/reference/variation.md; all limit figures from memory):
 - IEC 61140 (protection against electric shock): extra-low voltage up to 50 V a.c. rms /
@@ -20,7 +20,7 @@ import math
 
 import pytest
 
-from sheetgen import cautions as ca
+from sheetgen.report import cautions as ca
 from sheetgen.engine.resonance import Circuit, analyse
 from sheetgen.engine.stress import Drive, part_stress
 

@@ -10,8 +10,8 @@ from pathlib import Path
 
 import pytest
 
-from sheetgen.pipeline import design_from_file
-from sheetgen.results import results
+from sheetgen.design.pipeline import design_from_file
+from sheetgen.report.results import results
 from tests import spice
 from tests.support import assert_close
 

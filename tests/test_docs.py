@@ -6,8 +6,8 @@ from pathlib import Path
 import pytest
 from pydantic import BaseModel
 
-from sheetgen.jobdoc import _models_in
-from sheetgen.model import Job, PartsLibraryFile
+from sheetgen.inputs.jobdoc import _models_in
+from sheetgen.inputs.model import Job, PartsLibraryFile
 
 ROOT = Path(__file__).resolve().parent.parent
 REFERENCE = (ROOT / "docs" / "jobfile.md").read_text(encoding="utf-8")

@@ -15,11 +15,11 @@ from pathlib import Path
 
 import pytest
 
-from sheetgen.pipeline import design_from_file
-from sheetgen.procedure import (FORM_FIELD_NAMES, HALF_POWER_DB, bench_drive, dbm_from_emf,
+from sheetgen.design.pipeline import design_from_file
+from sheetgen.report.procedure import (FORM_FIELD_NAMES, HALF_POWER_DB, bench_drive, dbm_from_emf,
                                 detector, nice_at_least, nice_at_most, procedure,
                                 sweep_settings)
-from sheetgen.results import results
+from sheetgen.report.results import results
 from tests.support import assert_close
 
 TEMPLATES = Path(__file__).resolve().parents[1] / "templates"

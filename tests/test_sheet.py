@@ -343,8 +343,8 @@ def test_schematic_designators(sheets):
 
 def test_rerender_in_one_process_is_byte_identical():
     """A second render after another job's (fonts and reportlab state shared) is the same."""
-    from sheetgen.pipeline import design_from_file
-    from sheetgen.results import results_json
+    from sheetgen.design.pipeline import design_from_file
+    from sheetgen.report.results import results_json
     from sheetgen.sheet import render_sheet
 
     def render(name):

@@ -11,11 +11,11 @@ import io
 import pytest
 from pypdf import PdfReader
 
-from sheetgen.pipeline import design_from_file
-from sheetgen.results import results_json
+from sheetgen.design.pipeline import design_from_file
+from sheetgen.report.results import results_json
 from sheetgen.sheet import layout, render_sheet, sections
-from sheetgen.sheet.rows import PartRow
-from sheetgen.sheet.style import style_from_text
+from sheetgen.report.parts import PartRow
+from sheetgen.inputs.style import style_from_text
 from tests.support import assert_close
 from tests.test_sheet_tools import (LETTER_PT, SHARED, TEMPLATES, body_text, build, need,
                                     overlapping_words, page_count, page_text, page_words,

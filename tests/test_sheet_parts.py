@@ -17,14 +17,14 @@ import pytest
 import yaml
 from reportlab.graphics.shapes import Line
 
-from sheetgen.designators import Designators
-from sheetgen.pipeline import design_from_file
+from sheetgen.design.designators import Designators
+from sheetgen.design.pipeline import design_from_file
 from sheetgen.quantities import format_quantity
-from sheetgen.sheet.drawings import schematic_of
-from sheetgen.sheet.rows import NO_DATA, part_rows
+from sheetgen.sheet.schematic import schematic_of
+from sheetgen.report.parts import NO_DATA, part_rows
 from sheetgen.sheet.winding_drawing import winding_drawing, winding_view_of
-from sheetgen.summary import summary_text
-from sheetgen.tables import (capacitor_rows, coil_rows, component_rows, limits_rows,
+from sheetgen.report.summary import summary_text
+from sheetgen.report.rows import (capacitor_rows, coil_rows, component_rows, limits_rows,
                              rating_rows, stress_rows)
 from tests.support import assert_close
 from tests.test_sheet_tools import SHARED, TEMPLATES, build, need, page_text

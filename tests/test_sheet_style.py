@@ -12,11 +12,11 @@ import os
 import pytest
 from pypdf import PdfReader
 
-from sheetgen.pipeline import design_from_file
-from sheetgen.jobfile import JobFileError
-from sheetgen.results import results_json
+from sheetgen.design.pipeline import design_from_file
+from sheetgen.inputs.reader import JobFileError
+from sheetgen.report.results import results_json
 from sheetgen.sheet import render_sheet
-from sheetgen.sheet.style import SECTION_NAMES, check_logo_inside, default_style, load_style
+from sheetgen.inputs.style import SECTION_NAMES, check_logo_inside, default_style, load_style
 from tests.test_sheet_tools import SHARED, TEMPLATES
 
 

@@ -14,7 +14,7 @@ import pytest
 
 from sheetgen.engine.resonance import Circuit, analyse
 from sheetgen.engine.stress import Drive, open_circuit_voltage_rms, part_stress
-from sheetgen.pipeline import design_from_file
+from sheetgen.design.pipeline import design_from_file
 from tests import spice
 from tests.support import assert_close
 

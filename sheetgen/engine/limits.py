@@ -12,8 +12,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .resonance import capacitance_for_f0
-from .variation import Method, SampledParts, VariationResult, central_interval
+from sheetgen.engine.resonance import capacitance_for_f0
+from sheetgen.engine.variation import Method, SampledParts, VariationResult, central_interval
 
 DEFAULT_Q_RESOLUTION = 0.1  # loaded Q is read from f0/bandwidth; one decimal place (ours)
 

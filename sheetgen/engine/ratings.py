@@ -16,8 +16,8 @@ import math
 from dataclasses import dataclass
 from typing import Iterable, Literal
 
-from ..quantities import format_number, format_quantity
-from .wire import current_density_a_per_m2
+from sheetgen.quantities import format_number, format_quantity
+from sheetgen.engine.wire import current_density_a_per_m2
 
 CheckQuantity = Literal["peak voltage", "RF current", "power in ESR", "current density",
                         "flux density"]

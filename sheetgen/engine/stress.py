@@ -14,7 +14,7 @@ from typing import Literal
 
 import numpy as np
 
-from .resonance import Circuit
+from sheetgen.engine.resonance import Circuit
 
 DriveKind = Literal["voltage", "current", "available_power"]
 SQRT2 = math.sqrt(2.0)

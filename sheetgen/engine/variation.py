@@ -25,7 +25,7 @@ from typing import Literal, Mapping
 
 import numpy as np
 
-from .resonance import capacitance_for_f0, Circuit, response_features, terminal_impedance
+from sheetgen.engine.resonance import capacitance_for_f0, Circuit, response_features, terminal_impedance
 
 Distribution = Literal["uniform", "normal"]
 Method = Literal["monte-carlo", "worst-case"]

@@ -1,5 +1,5 @@
 """The printable PDF build-and-test sheet (reportlab); draws what the Design gives."""
 
-from .layout import render_sheet
+from sheetgen.sheet.layout import render_sheet
 
 __all__ = ["render_sheet"]

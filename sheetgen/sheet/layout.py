@@ -22,12 +22,12 @@ from reportlab.lib.utils import simpleSplit
 from reportlab.pdfgen.canvas import Canvas
 from reportlab.platypus import BaseDocTemplate, Frame, PageTemplate, Spacer
 
-from .. import __version__
-from ..design import Design
-from . import fonts
-from .rows import headline
-from .sections import SECTIONS, make_kit, para, with_heading
-from .style import HouseStyle, check_logo_inside, default_style
+from sheetgen import __version__
+from sheetgen.design.compute import Design
+from sheetgen.sheet import fonts
+from sheetgen.report.parts import headline
+from sheetgen.sheet.sections import SECTIONS, make_kit, para, with_heading
+from sheetgen.inputs.style import HouseStyle, check_logo_inside, default_style
 
 PAGE_SIZES = {"A4": A4, "Letter": letter}
 MARGIN = 14 * mm
@@ -36,7 +36,7 @@ BLOCK_HEIGHT = 80.0
 GAP = 8.0
 PAGE_TOTAL_FORM = "sheetgenPageTotal"
 ATTACHMENTS = (("job.yaml", "application/x-yaml", "the job file this sheet was made from"),
-               ("results.json", "application/json", "the computed results (sheetgen.results/1)"))
+               ("results.json", "application/json", "the computed results (sheetgen.report.results/1)"))
 
 
 # --- identity on every page ---------------------------------------------------------------

@@ -13,10 +13,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..design import Design
-from ..quantities import format_quantity
-from ..tables import q
-from . import fonts
+from sheetgen.design.compute import Design
+from sheetgen.quantities import format_quantity
+from sheetgen.report.rows import q
+from sheetgen.sheet import fonts
 
 TICK_SIZE = 7.5
 TITLE_SIZE = 8.0

@@ -19,17 +19,17 @@ from reportlab.lib.styles import ParagraphStyle
 from reportlab.platypus import (CondPageBreak, Flowable, KeepTogether, Paragraph, Spacer, Table,
                                 TableStyle)
 
-from ..design import Design
-from ..procedure import OVERALL_VERDICT, RECORD_TEXT_FIELDS, VERDICT_CHOICES, procedure
-from ..tables import (Row, coil_rows, component_rows, limits_rows, performance_rows,
+from sheetgen.design.compute import Design
+from sheetgen.report.procedure import OVERALL_VERDICT, RECORD_TEXT_FIELDS, VERDICT_CHOICES, procedure
+from sheetgen.report.rows import (Row, coil_rows, component_rows, limits_rows, performance_rows,
                       rating_rows, stress_rows)
-from ..winding import winding_steps
-from . import fonts
-from .drawings import schematic_drawing, schematic_of
-from .forms import CheckBox, TextField
-from .plots import coil_q_drawing, impedance_phase_drawing, response_drawing
-from .rows import PART_COLUMNS, PartRow, part_rows
-from .winding_drawing import SolenoidView, winding_drawing, winding_view_of
+from sheetgen.report.winding import winding_steps
+from sheetgen.sheet import fonts
+from sheetgen.sheet.schematic import schematic_drawing, schematic_of
+from sheetgen.sheet.forms import CheckBox, TextField
+from sheetgen.sheet.plots import coil_q_drawing, impedance_phase_drawing, response_drawing
+from sheetgen.report.parts import PART_COLUMNS, PartRow, part_rows
+from sheetgen.sheet.winding_drawing import SolenoidView, winding_drawing, winding_view_of
 
 GREY_RULE = colors.Color(0.55, 0.55, 0.55)
 GREY_FILL = colors.Color(0.90, 0.90, 0.90)
@@ -155,7 +155,7 @@ def cautions_section(design: Design, kit: Kit) -> SectionContent | None:
 
 
 def checks_section(design: Design, kit: Kit) -> SectionContent | None:
-    from ..checks import failed_checks
+    from sheetgen.report.checks import failed_checks
     failures = failed_checks(design)
     if not failures:
         return None

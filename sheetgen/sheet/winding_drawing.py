@@ -19,10 +19,10 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from ..design import Design
-from ..quantities import format_number
-from ..tables import plural, q
-from . import fonts
+from sheetgen.design.compute import Design
+from sheetgen.quantities import format_number
+from sheetgen.report.rows import plural, q
+from sheetgen.sheet import fonts
 
 POINTS_PER_M = 72.0 / 0.0254  # 1 in = 25.4 mm exactly, 72 pt to the inch
 LABEL_SIZE = 7.5

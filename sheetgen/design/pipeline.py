@@ -8,10 +8,10 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from .design import Design, DesignError, design
-from .jobfile import JobFileError, Problem, field_position, load_job
-from .library import find_library_folder, load_library
-from .model import Job
+from sheetgen.design.compute import Design, DesignError, design
+from sheetgen.inputs.reader import JobFileError, Problem, field_position, load_job
+from sheetgen.inputs.library import find_library_folder, load_library
+from sheetgen.inputs.model import Job
 
 
 def needs_library(job: Job) -> bool:

@@ -9,10 +9,10 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ..design import Design
-from ..engine.variation import dielectric
-from ..quantities import format_number
-from ..tables import plural, q, signed
+from sheetgen.design.compute import Design
+from sheetgen.engine.variation import dielectric
+from sheetgen.quantities import format_number
+from sheetgen.report.rows import plural, q, signed
 
 NO_DATA = "—"
 

@@ -13,14 +13,14 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from . import cautions as caution_rules
-from .designators import Designators
-from .engine import ratings as rt
-from .engine import resonance as rz
-from .engine import variation as vr
-from .engine.limits import TestLimits, TrimmerCheck, test_limits, trimmer_check
-from .engine.stress import Stress
-from .model import Job
+from sheetgen.report import cautions as caution_rules
+from sheetgen.design.designators import Designators
+from sheetgen.engine import ratings as rt
+from sheetgen.engine import resonance as rz
+from sheetgen.engine import variation as vr
+from sheetgen.engine.limits import TestLimits, TrimmerCheck, test_limits, trimmer_check
+from sheetgen.engine.stress import Stress
+from sheetgen.inputs.model import Job
 
 # IEC 60063 pairs each series with a tolerance (from memory): the default for a fixed part.
 SERIES_TOLERANCE = {"E6": 0.20, "E12": 0.10, "E24": 0.05, "E48": 0.02, "E96": 0.01,
@@ -209,7 +209,7 @@ def coil_cautions(coil, f0_hz: float, designator: str,
                   flux_limit_t: float | None = None) -> tuple[caution_rules.Caution, ...]:
     """WARNINGs for a coil whose self-resonance is not well above f0, or whose core runs
     near its flux density limit (over the limit is a failed rating check instead)."""
-    from .quantities import format_quantity
+    from sheetgen.quantities import format_quantity
     found = []
     srf = getattr(coil, "srf_hz", None) if coil is not None else None
     if srf is not None and srf < SRF_MARGIN * f0_hz:

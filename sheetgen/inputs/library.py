@@ -11,9 +11,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 from pathlib import Path
 
-from .jobfile import JobFileError, Problem, compose_located, load_validated
-from .model import CoreSpec, MaterialSpec, PartsLibraryFile
-from .package_data import bundled_library_folder
+from sheetgen.inputs.reader import JobFileError, Problem, compose_located, load_validated
+from sheetgen.inputs.model import CoreSpec, MaterialSpec, PartsLibraryFile
+from sheetgen.inputs.package_data import bundled_library_folder
 
 LIBRARY_MARKERS = ("cores.yaml", "materials.yaml")
 

@@ -7,8 +7,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from .design import Design
-from .quantities import format_quantity
+from sheetgen.design.compute import Design
+from sheetgen.quantities import format_quantity
 
 
 @dataclass(frozen=True)

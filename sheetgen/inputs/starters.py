@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from .package_data import templates_folder
+from sheetgen.inputs.package_data import templates_folder
 
 TEMPLATE_NAMES = ("series", "parallel", "toroid", "solenoid", "power-tank")
 DEMO_NAME = "demo"

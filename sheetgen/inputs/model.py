@@ -14,7 +14,7 @@ from pydantic import (BaseModel, BeforeValidator, ConfigDict, Discriminator, Fie
                       WithJsonSchema, model_validator)
 from pydantic_core import PydanticCustomError
 
-from . import quantities as qty
+from sheetgen import quantities as qty
 
 
 def _quantity(dimension: qty.Dimension, minimum: float | None = 0.0, inclusive: bool = False):

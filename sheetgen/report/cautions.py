@@ -17,10 +17,10 @@ import math
 from dataclasses import dataclass
 from typing import Iterable, Literal, Mapping
 
-from .engine.ratings import discharge_time_s, stored_charge_c, stored_energy_j
-from .engine.resonance import Circuit
-from .engine.stress import Stress
-from .quantities import format_quantity
+from sheetgen.engine.ratings import discharge_time_s, stored_charge_c, stored_energy_j
+from sheetgen.engine.resonance import Circuit
+from sheetgen.engine.stress import Stress
+from sheetgen.quantities import format_quantity
 
 Level = Literal["danger", "warning", "caution", "notice"]
 SEVERITY: Mapping[str, int] = {"notice": 0, "caution": 1, "warning": 2, "danger": 3}

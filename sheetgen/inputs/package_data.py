@@ -10,7 +10,7 @@ from __future__ import annotations
 from importlib import resources
 from pathlib import Path
 
-_REPOSITORY = Path(__file__).resolve().parent.parent
+_REPOSITORY = Path(__file__).resolve().parents[2]
 
 
 def _folder(package: str, checkout_folder: str) -> Path:

@@ -13,10 +13,10 @@ import math
 from dataclasses import dataclass
 from typing import Literal
 
-from .design import Design
-from .quantities import format_number
-from .tables import q, signed
-from .winding import measuring_frequency_hz
+from sheetgen.design.compute import Design
+from sheetgen.quantities import format_number
+from sheetgen.report.rows import q, signed
+from sheetgen.report.winding import measuring_frequency_hz
 
 # Bench generators, analysers and their cables are 50 Ω systems (common practice).
 GENERATOR_RESISTANCE_OHM = 50.0

@@ -16,8 +16,8 @@ from pathlib import Path
 import yaml
 from pydantic import BaseModel, ValidationError
 
-from .model import BY_NAME, INLINE, Job
-from .quantities import shown_input
+from sheetgen.inputs.model import BY_NAME, INLINE, Job
+from sheetgen.quantities import shown_input
 
 UNION_TAGS = {BY_NAME, INLINE}
 

@@ -12,7 +12,7 @@ import typing
 from pydantic import BaseModel
 from pydantic_core import PydanticUndefined
 
-from .model import Job, PartsLibraryFile
+from sheetgen.inputs.model import Job, PartsLibraryFile
 
 INTRO = """# Job file reference
 

@@ -2,9 +2,9 @@
 
 from __future__ import annotations
 
-from .design import Design
-from .checks import failed_checks
-from .tables import (Row, coil_rows, component_rows, limits_rows, performance_rows, rating_rows,
+from sheetgen.design.compute import Design
+from sheetgen.report.checks import failed_checks
+from sheetgen.report.rows import (Row, coil_rows, component_rows, limits_rows, performance_rows, rating_rows,
                      stress_rows)
 
 

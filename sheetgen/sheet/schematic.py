@@ -11,9 +11,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Literal
 
-from ..design import Design
-from ..tables import q
-from . import fonts
+from sheetgen.design.compute import Design
+from sheetgen.report.rows import q
+from sheetgen.sheet import fonts
 
 PartKind = Literal["resistor", "inductor", "capacitor", "trimmer"]
 

@@ -9,11 +9,11 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 
-from .engine import coil as coil_engine
-from .engine.magnetics import CoreLossTable, self_resonant_frequency_hz
-from .engine.wire import Wire, wire_from_designation
-from .library import PartsLibrary
-from .model import CoreSpec, MaterialSpec, SolenoidInductor, ToroidInductor
+from sheetgen.engine import coil as coil_engine
+from sheetgen.engine.magnetics import CoreLossTable, self_resonant_frequency_hz
+from sheetgen.engine.wire import Wire, wire_from_designation
+from sheetgen.inputs.library import PartsLibrary
+from sheetgen.inputs.model import CoreSpec, MaterialSpec, SolenoidInductor, ToroidInductor
 
 
 class PartError(ValueError):

@@ -11,13 +11,13 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from .engine import resonance as rz
-from .engine.standard_values import StandardPair, best_parallel_pair, nearest_standard
-from .assessment import Assessment, UnknownAcceptance, assess
-from .designators import Designators, designators
-from .engine.stress import Drive, DriveError, Stress, part_stress
-from .library import PartsLibrary
-from .model import Job
+from sheetgen.engine import resonance as rz
+from sheetgen.engine.standard_values import StandardPair, best_parallel_pair, nearest_standard
+from sheetgen.design.assessment import Assessment, UnknownAcceptance, assess
+from sheetgen.design.designators import Designators, designators
+from sheetgen.engine.stress import Drive, DriveError, Stress, part_stress
+from sheetgen.inputs.library import PartsLibrary
+from sheetgen.inputs.model import Job
 
 
 class DesignError(ValueError):
@@ -216,7 +216,7 @@ def _assess(job, circuit, resonance, stress, response, names, choice, fixed, coi
 
 def _design_coil(job: Job, library, inductance_h: float, f_hz: float, voltage_rms_v):
     # The coil modules (and scipy.special) are imported only for jobs that design a coil.
-    from .coil_parts import PartError, design_coil
+    from sheetgen.design.coil import PartError, design_coil
     try:
         return design_coil(job.inductor, library, inductance_h, f_hz, voltage_rms_v,
                            WIRE_TEMPERATURE_C)
@@ -240,16 +240,16 @@ def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]
         return x0 / inductor.q, inductor.q, "job"
     if inductor.q is not None:
         return x0 / inductor.q, inductor.q, "job"
-    from .engine.coil import coil_q_sweep
+    from sheetgen.engine.coil import coil_q_sweep
     q = float(coil_q_sweep(coil, f0))
     return x0 / q, q, "estimate"
 
 
 def _coil_design(job: Job, library, coil, target_l: float, circuit: rz.Circuit,
                  q_used: float, q_source: str, f0: float) -> CoilDesign:
-    from .coil_parts import resolve_toroid
-    from .engine.coil import coil_q_sweep
-    from .engine.magnetics import link_turns
+    from sheetgen.design.coil import resolve_toroid
+    from sheetgen.engine.coil import coil_q_sweep
+    from sheetgen.engine.magnetics import link_turns
     inductor = job.inductor
     core_name = material_name = flux_limit = None
     core_size = (None, None, None)

@@ -12,8 +12,8 @@ import difflib
 from dataclasses import dataclass
 from pathlib import Path, PurePosixPath, PureWindowsPath
 
-from ..package_data import templates_folder
-from ..jobfile import JobFileError, Problem, compose_located, read_yaml_text
+from sheetgen.inputs.package_data import templates_folder
+from sheetgen.inputs.reader import JobFileError, Problem, compose_located, read_yaml_text
 
 PAGE_SIZES = ("A4", "Letter")
 # Every section the sheet can draw, in the default order. The identity (title block on

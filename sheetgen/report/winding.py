@@ -10,10 +10,10 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from .design import CoilDesign, Design
-from .designators import Designators
-from .quantities import format_number, format_quantity
-from .tables import plural
+from sheetgen.design.compute import CoilDesign, Design
+from sheetgen.design.designators import Designators
+from sheetgen.quantities import format_number, format_quantity
+from sheetgen.report.rows import plural
 
 LCR_TEST_FREQUENCIES_HZ = (100.0, 1e3, 10e3, 100e3, 1e6)  # usual bench meters (common practice)
 

@@ -1,0 +1,1 @@
+"""Inputs: job, parts-library and style files read into validated, frozen models."""
