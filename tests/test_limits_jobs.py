@@ -137,7 +137,7 @@ def test_coil_cautions_at_their_thresholds():
     over the limit the flux rating check fails instead, so no second warning."""
     from types import SimpleNamespace
 
-    from sheetgen.design.assessment import coil_cautions
+    from sheetgen.report.cautions import coil_cautions
     f0 = 1e6
     codes = lambda coil: [c.code for c in coil_cautions(coil, f0, "L1", 0.010)]  # noqa: E731
     assert codes(SimpleNamespace(srf_hz=2.99e6, flux_density_peak_t=None)) == ["srf-near-f0"]

@@ -1,9 +1,9 @@
-"""Tolerances and temperature → test limits; stresses → rating checks and cautions.
+"""Tolerances and temperature → test limits; stresses → rating checks.
 
 Runs after the nominal design: builds the variation spec from the job (each part's
 tolerance, temperature behaviour and the operating range), runs the seeded Monte Carlo or
-the worst-case corners, sets the test windows, checks the trimmer, the ratings and words
-the cautions. Pure: the same job and seed give the same Assessment.
+the worst-case corners, sets the test windows, checks the trimmer and the ratings
+(report/cautions.py words the cautions from the Design). Pure: the same job and seed give the same Assessment.
 """
 
 from __future__ import annotations
@@ -13,7 +13,6 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from sheetgen.report import cautions as caution_rules
 from sheetgen.design.designators import Designators
 from sheetgen.engine import ratings as rt
 from sheetgen.engine import resonance as rz
@@ -27,8 +26,6 @@ SERIES_TOLERANCE = {"E6": 0.20, "E12": 0.10, "E24": 0.05, "E48": 0.02, "E96": 0.
                     "E192": 0.005}
 ENVELOPE_TRIALS = 2000  # trials drawn for the plotted Monte Carlo envelope of the response
 ENVELOPE_POINTS = 201  # frequencies of the envelope (a band on a plot needs no more)
-SRF_MARGIN = 3.0  # keep the coil's self-resonance at least this many times f0 (common practice)
-FLUX_WARNING_SHARE = 0.8  # warn above this share of the material's flux limit (common practice)
 
 
 @dataclass(frozen=True)
@@ -43,7 +40,7 @@ class Envelope:
 
 @dataclass(frozen=True)
 class Assessment:
-    """Limits, checks and cautions of one design."""
+    """Limits and rating checks of one design."""
 
     spec: vr.VariationSpec
     variation: vr.VariationResult  # of the units as tested (trimmed, when there is a trimmer)
@@ -51,7 +48,6 @@ class Assessment:
     tuned: bool  # the windows are for a unit trimmed to the target f0 at 25 °C
     trimmer: TrimmerCheck | None
     ratings: tuple[rt.RatingCheck, ...]
-    cautions: tuple[caution_rules.Caution, ...]
     envelope: Envelope
     capacitor_tolerance: float
     capacitor_tolerance_source: str
@@ -105,9 +101,9 @@ def assess(job: Job, circuit: rz.Circuit, resonance: rz.Resonance, stress: Stres
            sweep: rz.Sweep, names: Designators, *, f0_target_hz: float | None,
            fixed_capacitance_f: float, inductance_tolerance: float | None,
            inductance_tc: float | None, coil=None, flux_limit_t: float | None = None,
-           wire_diameter_m: float | None = None, coil_temperature_rise_k: float | None = None,
+           wire_diameter_m: float | None = None,
            fixed_parts_f: tuple[float, ...] = ()) -> Assessment:
-    """Limits, trimmer range, rating checks and cautions for the nominal design."""
+    """Limits, trimmer range and rating checks for the nominal design."""
     spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc)
     method = vr.monte_carlo if job.variation.method == "monte-carlo" else vr.worst_case
     resolution = (job.test.frequency_resolution
@@ -128,14 +124,7 @@ def assess(job: Job, circuit: rz.Circuit, resonance: rz.Resonance, stress: Stres
                                  and getattr(coil, "flux_density_peak_t", None) is not None
                                  else None),
                            flux_limit_t=flux_limit_t, wire_diameter_m=wire_diameter_m)
-    found = caution_rules.cautions(
-        caution_rules.parts_from_stress(circuit, stress, capacitor=", ".join(names.capacitors),
-                                        inductor=names.coil,
-                                        bleeder_resistance_ohm=job.capacitor.bleeder,
-                                        inductor_rise_k=coil_temperature_rise_k),
-        stress.f_hz, stress.drive_power_w, ambient_max_c=job.variation.temperature.maximum)
-    found += coil_cautions(coil, resonance.f0_hz, names.coil, flux_limit_t)
-    return Assessment(spec, variation, limits, tuned, trim, checks, found,
+    return Assessment(spec, variation, limits, tuned, trim, checks,
                       envelope(circuit, variation, sweep, spec.coverage if
                                job.variation.method == "monte-carlo" else None),
                       c_tol, c_source, inductance_tolerance, resolution)
@@ -203,32 +192,6 @@ class UnknownAcceptance(ValueError):
     def __init__(self, field: str, message: str):
         self.field = field
         super().__init__(message)
-
-
-def coil_cautions(coil, f0_hz: float, designator: str,
-                  flux_limit_t: float | None = None) -> tuple[caution_rules.Caution, ...]:
-    """WARNINGs for a coil whose self-resonance is not well above f0, or whose core runs
-    near its flux density limit (over the limit is a failed rating check instead)."""
-    from sheetgen.quantities import format_quantity
-    found = []
-    srf = getattr(coil, "srf_hz", None) if coil is not None else None
-    if srf is not None and srf < SRF_MARGIN * f0_hz:
-        found.append(caution_rules.Caution(
-            "warning", "srf-near-f0",
-            f"{designator} self-resonates at {format_quantity(srf, 'Hz')}, only "
-            f"{srf / f0_hz:.1f} times f0 (keep it above {SRF_MARGIN:g}×, common practice): its "
-            "self-capacitance detunes the circuit and its Q falls. Use a longer winding pitch "
-            "or fewer turns on a larger former. " + caution_rules.DEFERRAL))
-    flux = getattr(coil, "flux_density_peak_t", None) if coil is not None else None
-    if flux is not None and flux_limit_t and FLUX_WARNING_SHARE * flux_limit_t < flux <= flux_limit_t:
-        found.append(caution_rules.Caution(
-            "warning", "flux-near-limit",
-            f"The core of {designator} runs at {format_quantity(flux, 'T', 3)} peak, "
-            f"{flux / flux_limit_t * 100:.0f} % of its material's "
-            f"{format_quantity(flux_limit_t, 'T', 3)} limit: it heats and its Q falls as the "
-            "drive rises. Keep the drive at the design level or use a larger core. "
-            + caution_rules.DEFERRAL))
-    return tuple(found)
 
 
 def envelope(circuit: rz.Circuit, variation: vr.VariationResult, sweep: rz.Sweep,

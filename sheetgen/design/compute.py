@@ -210,7 +210,6 @@ def _assess(job, circuit, resonance, stress, response, names, choice, fixed, coi
                   inductance_tolerance=coil.inductance_tolerance,
                   inductance_tc=coil.inductance_tc, coil=r,
                   flux_limit_t=coil.flux_density_max_t, wire_diameter_m=r.wire.diameter_m,
-                  coil_temperature_rise_k=getattr(r, "temperature_rise_k", None),
                   fixed_parts_f=fixed)
 
 

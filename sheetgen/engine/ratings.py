@@ -2,8 +2,7 @@
 
 A check passes when actual ≤ allowed = rating × derating. A failed check can be accepted
 by an explicit written reason; it then stays in the results, marked accepted. Every
-failed check carries a sentence saying which part, by how much, and what to change,
-computed from its numbers (`Remedy` keeps those numbers).
+failed check carries the numbers of its remedy (`Remedy`); report/advice.py words them.
 
 Stresses scale with the drive: in a linear circuit every voltage and current goes with
 √P_drive, every power with P_drive, which is how the drive that would pass is found.
@@ -14,9 +13,8 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Iterable, Literal
+from typing import Literal
 
-from sheetgen.quantities import format_number, format_quantity
 from sheetgen.engine.wire import current_density_a_per_m2
 
 CheckQuantity = Literal["peak voltage", "RF current", "power in ESR", "current density",
@@ -71,17 +69,11 @@ class RatingCheck:
     passed: bool
     accepted: bool
     acceptance_reason: str | None
-    advice: str | None
     remedy: Remedy | None
 
     @property
     def status(self) -> Literal["pass", "accepted", "fail"]:
         return "pass" if self.passed else ("accepted" if self.accepted else "fail")
-
-
-def failed_checks(checks: Iterable[RatingCheck]) -> tuple[RatingCheck, ...]:
-    """The checks that fail and are not accepted (the design fails when there is one)."""
-    return tuple(check for check in checks if check.status == "fail")
 
 
 def _validate(part: str, actual: float, rating: float, derating: float,
@@ -98,17 +90,6 @@ def _validate(part: str, actual: float, rating: float, derating: float,
         raise ValueError(f"{part}: an acceptance needs a written reason")
 
 
-def _shown(value: float, unit: str) -> str:
-    """A stress in the trade's units: current density in A/mm², the rest in SI."""
-    if unit == "A/m²":
-        return format_quantity(value * 1e-6, "A/mm²")
-    return format_quantity(value, unit)
-
-
-def _percent(fraction: float) -> str:
-    return f"{format_number(100.0 * fraction, 3)} %"
-
-
 def _drive_scaled(drive_power_w: float | None, ratio: float, exponent: float) -> float | None:
     """Drive power at which a stress ∝ P^(1/exponent) falls to the allowed value."""
     if drive_power_w is None:
@@ -117,30 +98,16 @@ def _drive_scaled(drive_power_w: float | None, ratio: float, exponent: float) ->
 
 
 def _make(part: str, quantity: CheckQuantity, unit: str, actual: float, rating: float,
-          derating: float, acceptance: str | None, remedy_for, advice_for) -> RatingCheck:
+          derating: float, acceptance: str | None, remedy_for) -> RatingCheck:
     _validate(part, actual, rating, derating, acceptance)
     allowed = rating * derating
     passed = actual <= allowed
-    remedy = advice = None
-    if not passed:
-        remedy = remedy_for(allowed)
-        over = actual / allowed - 1.0
-        derated = ("" if derating == 1.0 else
-                   f" ({_percent(derating)} of its {_shown(rating, unit)} rating)")
-        advice = (f"{part}: {quantity} {_shown(actual, unit)} is {_percent(over)} over "
-                  f"the allowed {_shown(allowed, unit)}{derated}. "
-                  f"{advice_for(remedy)}.")
+    remedy = None if passed else remedy_for(allowed)
     reason = acceptance.strip() if acceptance is not None else None
     return RatingCheck(part=part, quantity=quantity, unit=unit, actual=actual, rating=rating,
                        derating=derating, allowed=allowed, margin=1.0 - actual / allowed,
                        passed=passed, accepted=(not passed) and reason is not None,
-                       acceptance_reason=reason, advice=advice, remedy=remedy)
-
-
-def _or_drive(remedy: Remedy) -> str:
-    if remedy.drive_power_max_w is None:
-        return ""
-    return f", or lower the drive to at most {format_quantity(remedy.drive_power_max_w, 'W')}"
+                       acceptance_reason=reason, remedy=remedy)
 
 
 def capacitor_voltage_check(part: str, peak_voltage_v: float, rated_voltage_v: float, *,
@@ -158,14 +125,8 @@ def capacitor_voltage_check(part: str, peak_voltage_v: float, rated_voltage_v: f
                       parts_needed=math.ceil(peak_voltage_v / allowed), arrangement="series",
                       drive_power_max_w=_drive_scaled(drive_power_w, allowed / peak_voltage_v,
                                                       2.0))
-
-    def advice(r: Remedy):
-        return (f"Fit a capacitor rated at least {format_quantity(r.required_rating, 'V')}, "
-                f"or {r.parts_needed} of the present rating in series, each of "
-                f"{r.parts_needed}× the capacitance{_or_drive(r)}")
-
     return _make(part, "peak voltage", "V", peak_voltage_v, rated_voltage_v, derating,
-                 acceptance, remedy, advice)
+                 acceptance, remedy)
 
 
 def capacitor_current_check(part: str, current_rms_a: float, rated_current_rms_a: float, *,
@@ -182,14 +143,8 @@ def capacitor_current_check(part: str, current_rms_a: float, rated_current_rms_a
                       parts_needed=math.ceil(current_rms_a / allowed), arrangement="parallel",
                       drive_power_max_w=_drive_scaled(drive_power_w, allowed / current_rms_a,
                                                       2.0))
-
-    def advice(r: Remedy):
-        return (f"Fit a capacitor rated for at least {format_quantity(r.required_rating, 'A')}"
-                f" rms, or {r.parts_needed} in parallel, each of 1/{r.parts_needed} of the "
-                f"capacitance{_or_drive(r)}")
-
     return _make(part, "RF current", "A", current_rms_a, rated_current_rms_a, derating,
-                 acceptance, remedy, advice)
+                 acceptance, remedy)
 
 
 def esr_power_check(part: str, power_w: float, rated_power_w: float, *,
@@ -206,17 +161,8 @@ def esr_power_check(part: str, power_w: float, rated_power_w: float, *,
         return Remedy(required_rating=power_w / derating,
                       esr_max_ohm=None if esr_ohm is None else esr_ohm * ratio,
                       drive_power_max_w=_drive_scaled(drive_power_w, ratio, 1.0))
-
-    def advice(r: Remedy):
-        esr = ("" if r.esr_max_ohm is None else
-               f"Fit a capacitor with an ESR of at most {format_quantity(r.esr_max_ohm, 'Ω')} "
-               f"at this frequency, or one ")
-        start = esr or "Fit a capacitor "
-        return (f"{start}rated to dissipate at least "
-                f"{format_quantity(r.required_rating, 'W')}{_or_drive(r)}")
-
     return _make(part, "power in ESR", "W", power_w, rated_power_w, derating, acceptance,
-                 remedy, advice)
+                 remedy)
 
 
 def current_density_check(part: str, current_rms_a: float, diameter_m: float, *,
@@ -235,14 +181,8 @@ def current_density_check(part: str, current_rms_a: float, diameter_m: float, *,
         return Remedy(required_rating=density,
                       wire_diameter_min_m=math.sqrt(4.0 * current_rms_a / (math.pi * allowed)),
                       drive_power_max_w=_drive_scaled(drive_power_w, allowed / density, 2.0))
-
-    def advice(r: Remedy):
-        return (f"Wind it with wire of at least "
-                f"{format_quantity(r.wire_diameter_min_m, 'm')} copper diameter"
-                f"{_or_drive(r)}")
-
     return _make(part, "current density", "A/m²", density, limit_a_per_m2, 1.0, acceptance,
-                 remedy, advice)
+                 remedy)
 
 
 def flux_density_check(part: str, flux_density_peak_t: float, limit_t: float, *,
@@ -258,14 +198,8 @@ def flux_density_check(part: str, flux_density_peak_t: float, limit_t: float, *,
                       core_area_factor=flux_density_peak_t / allowed,
                       drive_power_max_w=_drive_scaled(drive_power_w,
                                                       allowed / flux_density_peak_t, 2.0))
-
-    def advice(r: Remedy):
-        return (f"Use a core with at least {format_number(r.core_area_factor, 3)}× the "
-                f"cross-section Ae, or a material rated for at least "
-                f"{format_quantity(r.required_rating, 'T')}{_or_drive(r)}")
-
     return _make(part, "flux density", "T", flux_density_peak_t, limit_t, derating,
-                 acceptance, remedy, advice)
+                 acceptance, remedy)
 
 
 def stored_energy_j(capacitance_f: float, voltage_v: float) -> float:

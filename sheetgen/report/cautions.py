@@ -15,12 +15,15 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Iterable, Literal, Mapping
+from typing import TYPE_CHECKING, Iterable, Literal, Mapping
 
 from sheetgen.engine.ratings import discharge_time_s, stored_charge_c, stored_energy_j
 from sheetgen.engine.resonance import Circuit
 from sheetgen.engine.stress import Stress
 from sheetgen.quantities import format_quantity
+
+if TYPE_CHECKING:
+    from sheetgen.design.compute import Design
 
 Level = Literal["danger", "warning", "caution", "notice"]
 SEVERITY: Mapping[str, int] = {"notice": 0, "caution": 1, "warning": 2, "danger": 3}
@@ -95,6 +98,8 @@ THRESHOLDS_BY_MEASURE: Mapping[str, Threshold] = {t.measure: t for t in reversed
 # before it is felt as a shock (ICNIRP 1998 uses 100 kHz as the boundary between its
 # stimulation and heating restrictions; from memory).
 RF_BURN_FROM_HZ = 100e3
+SRF_MARGIN = 3.0  # keep the coil's self-resonance at least this many times f0 (common practice)
+FLUX_WARNING_SHARE = 0.8  # warn above this share of the material's flux limit (common practice)
 SAFE_HELD_VOLTAGE_V = 60.0  # a capacitor is taken as discharged below this (held_voltage_v)
 
 
@@ -302,3 +307,43 @@ def cautions(parts: Iterable[PartHazard], f_hz: float, rf_power_w: float, *,
         found.append(_no_hazard_notice(parts))
     kept = [caution for caution in found if caution is not None]
     return tuple(sorted(kept, key=lambda c: (-SEVERITY[c.level], _ORDER.index(c.code))))
+
+
+def design_cautions(design: Design) -> tuple[Caution, ...]:
+    """Every caution of a design: the stresses on its parts, then its coil's."""
+    names = design.designators
+    coil = design.coil
+    result = coil.result if coil is not None else None
+    parts = parts_from_stress(design.circuit, design.stress,
+                              capacitor=", ".join(names.capacitors), inductor=names.coil,
+                              bleeder_resistance_ohm=design.job.capacitor.bleeder,
+                              inductor_rise_k=getattr(result, "temperature_rise_k", None))
+    found = cautions(parts, design.stress.f_hz, design.stress.drive_power_w,
+                     ambient_max_c=design.job.variation.temperature.maximum)
+    return found + coil_cautions(result, design.resonance.f0_hz, names.coil,
+                                 coil.flux_density_max_t if coil is not None else None)
+
+
+def coil_cautions(coil, f0_hz: float, designator: str,
+                  flux_limit_t: float | None = None) -> tuple[Caution, ...]:
+    """WARNINGs for a coil whose self-resonance is not well above f0, or whose core runs
+    near its flux density limit (over the limit is a failed rating check instead)."""
+    found = []
+    srf = getattr(coil, "srf_hz", None) if coil is not None else None
+    if srf is not None and srf < SRF_MARGIN * f0_hz:
+        found.append(Caution(
+            "warning", "srf-near-f0",
+            f"{designator} self-resonates at {format_quantity(srf, 'Hz')}, only "
+            f"{srf / f0_hz:.1f} times f0 (keep it above {SRF_MARGIN:g}×, common practice): its "
+            "self-capacitance detunes the circuit and its Q falls. Use a longer winding pitch "
+            "or fewer turns on a larger former. " + DEFERRAL))
+    flux = getattr(coil, "flux_density_peak_t", None) if coil is not None else None
+    if flux is not None and flux_limit_t and FLUX_WARNING_SHARE * flux_limit_t < flux <= flux_limit_t:
+        found.append(Caution(
+            "warning", "flux-near-limit",
+            f"The core of {designator} runs at {format_quantity(flux, 'T', 3)} peak, "
+            f"{flux / flux_limit_t * 100:.0f} % of its material's "
+            f"{format_quantity(flux_limit_t, 'T', 3)} limit: it heats and its Q falls as the "
+            "drive rises. Keep the drive at the design level or use a larger core. "
+            + DEFERRAL))
+    return tuple(found)

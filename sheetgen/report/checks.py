@@ -8,6 +8,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from sheetgen.design.compute import Design
+from sheetgen.report.advice import rating_advice
 from sheetgen.quantities import format_quantity
 
 
@@ -25,7 +26,7 @@ def failed_checks(design: Design) -> list[CheckFailure]:
     failures = _coil_failures(design)
     for check in design.assessment.ratings:
         if check.status == "fail":
-            failures.append(CheckFailure("rating", _rating_field(design, check), check.advice))
+            failures.append(CheckFailure("rating", _rating_field(design, check), rating_advice(check)))
     trim = design.assessment.trimmer
     if trim is not None and not trim.covers and design.capacitor_choice.trimmer_in_range:
         share = "all" if trim.coverage is None else f"{trim.coverage * 100:.2f} %"

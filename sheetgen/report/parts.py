@@ -12,7 +12,7 @@ from dataclasses import dataclass
 from sheetgen.design.compute import Design
 from sheetgen.engine.variation import dielectric
 from sheetgen.quantities import format_number
-from sheetgen.report.rows import plural, q, signed
+from sheetgen.report.formatting import plural, quantity_text, range_text, signed, tolerance_text
 
 NO_DATA = "—"
 
@@ -53,7 +53,7 @@ def part_rows(design: Design) -> list[PartRow]:
                                   f"go to {names.load_resistor}"))
     if names.source_resistor is not None:
         rows.append(PartRow(names.source_resistor, "Resistance of the source",
-                            q(c.source_resistance_ohm, "Ω"), quantity=NO_DATA,
+                            quantity_text(c.source_resistance_ohm, "Ω"), quantity=NO_DATA,
                             notes="not fitted: the driving stage's own resistance; the bench "
                                   "test makes it up (procedure step 5)"))
     origin = (f"computed: {derived['load.resistance']}" if "load.resistance" in derived
@@ -62,19 +62,19 @@ def part_rows(design: Design) -> list[PartRow]:
     load_tolerance = _tolerance(load.tolerance if load is not None else None)
     if names.load_resistor is not None and names.link is not None and coil is not None:
         rows.append(PartRow(names.load_resistor, "Load resistance",
-                            q(coil.link_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,
-                            notes=f"across {names.link}; presents {q(c.load_resistance_ohm, 'Ω')}"
+                            quantity_text(coil.link_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,
+                            notes=f"across {names.link}; presents {quantity_text(c.load_resistance_ohm, 'Ω')}"
                                   f" across the tank ({origin}); fit this value for the bench "
                                   "test"))
     elif names.load_resistor is not None and coil is not None and coil.tap_turns is not None:
         rows.append(PartRow(names.load_resistor, "Load resistance",
-                            q(coil.tap_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,
+                            quantity_text(coil.tap_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,
                             notes=f"from the tap at turn {coil.tap_turns} of {names.coil} to its "
-                                  f"cold end; presents {q(c.load_resistance_ohm, 'Ω')} across "
+                                  f"cold end; presents {quantity_text(c.load_resistance_ohm, 'Ω')} across "
                                   f"the tank ({origin}); fit this value for the bench test"))
     elif names.load_resistor is not None:
         rows.append(PartRow(names.load_resistor, "Load resistance",
-                            q(c.load_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,
+                            quantity_text(c.load_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,
                             notes=f"{origin}; the stage the circuit feeds: fit this value for "
                                   "the bench test"))
     return rows
@@ -84,7 +84,7 @@ def _tolerance(fraction: float | None, source: str | None = None) -> str:
     """± x % (and where it came from), or NO_DATA when there is none."""
     if not fraction:
         return NO_DATA
-    shown = f"± {format_number(fraction * 100, 3)} %"
+    shown = tolerance_text(fraction)
     return f"{shown} ({source.removeprefix('the ')})" if source else shown
 
 
@@ -94,20 +94,20 @@ def _coil_row(design: Design) -> PartRow:
     name = design.designators.coil
     tolerance = _tolerance(design.assessment.inductance_tolerance)
     if coil is None:
-        return PartRow(name, "Coil", q(c.inductance_h, "H"), tolerance=tolerance,
+        return PartRow(name, "Coil", quantity_text(c.inductance_h, "H"), tolerance=tolerance,
                        notes=f"coil Q {format_number(r.q_inductor, 4)} at f0 "
-                             f"(loss {q(c.inductor_resistance_ohm, 'Ω')} in series)")
+                             f"(loss {quantity_text(c.inductor_resistance_ohm, 'Ω')} in series)")
     built = coil.result
-    wire = (f"{built.wire.name} ({q(built.wire.diameter_m, 'm', 3)} copper), grade "
+    wire = (f"{built.wire.name} ({quantity_text(built.wire.diameter_m, 'm', 3)} copper), grade "
             f"{built.wire.grade} enamel")
     if coil.form == "toroid":
         material = f"{coil.material_name} core; {wire}"
-        rating = (f"core flux {q(coil.flux_density_max_t, 'T', 3)} peak"
+        rating = (f"core flux {quantity_text(coil.flux_density_max_t, 'T', 3)} peak"
                   if coil.flux_density_max_t else NO_DATA)
         where = f" on {coil.core_name}"
     else:
         material, rating, where = f"air core; {wire}", NO_DATA, " on its former (air core)"
-    return PartRow(name, f"Coil, {coil.form}", q(built.inductance_built_h, "H"),
+    return PartRow(name, f"Coil, {coil.form}", quantity_text(built.inductance_built_h, "H"),
                    tolerance=tolerance, rating=rating, material=material,
                    notes=f"{plural(built.turns, 'turn')}{where}; coil Q "
                          f"{format_number(coil.q_used, 4)} at f0 "
@@ -120,11 +120,11 @@ def _fixed_capacitor_rating(design: Design) -> str:
     cap = design.job.capacitor
     ratings = []
     if cap.rated_voltage is not None:
-        ratings.append(q(cap.rated_voltage, "V", 3) + " peak")
+        ratings.append(quantity_text(cap.rated_voltage, "V", 3) + " peak")
     if cap.rated_current is not None:
-        ratings.append(q(cap.rated_current, "A", 3) + " rms")
+        ratings.append(quantity_text(cap.rated_current, "A", 3) + " rms")
     if cap.rated_power is not None:
-        ratings.append(q(cap.rated_power, "W", 3) + " in its ESR")
+        ratings.append(quantity_text(cap.rated_power, "W", 3) + " in its ESR")
     return "; ".join(ratings) or NO_DATA
 
 
@@ -148,25 +148,25 @@ def _capacitor_rows(design: Design) -> list[PartRow]:
                       rating=_fixed_capacitor_rating(design), material=_dielectric(design))
     fixed = names.fixed_capacitors
     if not choice.from_standard_parts:
-        rows = [PartRow(fixed[0], "Capacitor", q(choice.fixed_f, "F"), **fixed_part,
+        rows = [PartRow(fixed[0], "Capacitor", quantity_text(choice.fixed_f, "F"), **fixed_part,
                         notes="as the job gives it")]
     elif pair.second is None:
-        rows = [PartRow(fixed[0], "Capacitor", q(pair.first, "F", 3), **fixed_part,
-                        notes=f"{choice.series} value; {q(choice.required_f, 'F')} required")]
+        rows = [PartRow(fixed[0], "Capacitor", quantity_text(pair.first, "F", 3), **fixed_part,
+                        notes=f"{choice.series} value; {quantity_text(choice.required_f, 'F')} required")]
     else:
-        rows = [PartRow(fixed[0], "Capacitor", q(pair.first, "F", 3), **fixed_part,
+        rows = [PartRow(fixed[0], "Capacitor", quantity_text(pair.first, "F", 3), **fixed_part,
                         notes=f"{choice.series}; with {fixed[1]} in parallel "
-                              f"{q(pair.total, 'F')}, {q(choice.required_f, 'F')} required"),
-                PartRow(fixed[1], "Capacitor", q(pair.second, "F", 3), **fixed_part,
+                              f"{quantity_text(pair.total, 'F')}, {quantity_text(choice.required_f, 'F')} required"),
+                PartRow(fixed[1], "Capacitor", quantity_text(pair.second, "F", 3), **fixed_part,
                         notes=f"{choice.series}; in parallel with {fixed[0]}")]
     trimmer = design.job.capacitor.trimmer
     if names.trimmer is not None and trimmer is not None:
         state = "" if choice.trimmer_in_range else "; OUT OF RANGE: choose another trimmer"
         rows.append(PartRow(names.trimmer, "Trimmer capacitor",
-                            f"{q(trimmer.minimum, 'F', 3)} to {q(trimmer.maximum, 'F', 3)}",
-                            rating=(q(trimmer.rated_voltage, "V", 3) + " peak"
+                            range_text(trimmer.minimum, trimmer.maximum, 'F', 3),
+                            rating=(quantity_text(trimmer.rated_voltage, "V", 3) + " peak"
                                     if trimmer.rated_voltage is not None else NO_DATA),
-                            notes=f"in parallel; set to about {q(choice.trimmer_setting_f, 'F')}"
+                            notes=f"in parallel; set to about {quantity_text(choice.trimmer_setting_f, 'F')}"
                                   f"{state}"))
     return rows
 
@@ -175,9 +175,9 @@ def headline(design: Design) -> str:
     """One line under the title: topology, f0, bandwidth and loaded Q."""
     r = design.resonance
     parts = [f"{design.circuit.topology.capitalize()} tuned circuit",
-             f"f0 {q(r.f0_hz, 'Hz')}"]
+             f"f0 {quantity_text(r.f0_hz, 'Hz')}"]
     if r.bandwidth_hz is not None:
-        parts.append(f"bandwidth (−3 dB) {q(r.bandwidth_hz, 'Hz')}")
+        parts.append(f"bandwidth (−3 dB) {quantity_text(r.bandwidth_hz, 'Hz')}")
     if r.q_loaded is not None:
         parts.append(f"loaded Q {format_number(r.q_loaded, 4)}")
     return " · ".join(parts)

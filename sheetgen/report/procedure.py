@@ -15,7 +15,7 @@ from typing import Literal
 
 from sheetgen.design.compute import Design
 from sheetgen.quantities import format_number
-from sheetgen.report.rows import q, signed
+from sheetgen.report.formatting import quantity_text, range_text, signed, tolerance_text
 from sheetgen.report.winding import measuring_frequency_hz
 
 # Bench generators, analysers and their cables are 50 Ω systems (common practice).
@@ -283,21 +283,21 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
     r, c, a = design.resonance, design.circuit, design.assessment
     lim = a.limits
     expected = {
-        "inductance": q(c.inductance_h, "H"),
-        "capacitance": q(design.capacitor_choice.fixed_f, "F"),
-        "f0": q(r.f_peak_hz, "Hz"),
-        "f_low": q(r.f_low_hz, "Hz"),
-        "f_high": q(r.f_high_hz, "Hz"),
-        "bandwidth": q(r.bandwidth_hz, "Hz"),
+        "inductance": quantity_text(c.inductance_h, "H"),
+        "capacitance": quantity_text(design.capacitor_choice.fixed_f, "F"),
+        "f0": quantity_text(r.f_peak_hz, "Hz"),
+        "f_low": quantity_text(r.f_low_hz, "Hz"),
+        "f_high": quantity_text(r.f_high_hz, "Hz"),
+        "bandwidth": quantity_text(r.bandwidth_hz, "Hz"),
         "q_loaded": format_number(r.q_loaded, 4),
     }
     limits = {
         "inductance": _tolerance(c.inductance_h, a.inductance_tolerance, "H"),
         "capacitance": _tolerance(design.capacitor_choice.fixed_f, a.capacitor_tolerance, "F"),
-        "f0": f"{q(lim.f_peak_min_hz, 'Hz', 6)} to {q(lim.f_peak_max_hz, 'Hz', 6)}",
-        "f_low": f"{q(lim.f_low_min_hz, 'Hz', 6)} to {q(lim.f_low_max_hz, 'Hz', 6)}",
-        "f_high": f"{q(lim.f_high_min_hz, 'Hz', 6)} to {q(lim.f_high_max_hz, 'Hz', 6)}",
-        "bandwidth": f"{q(lim.bandwidth_min_hz, 'Hz')} to {q(lim.bandwidth_max_hz, 'Hz')}",
+        "f0": range_text(lim.f_peak_min_hz, lim.f_peak_max_hz, 'Hz', 6),
+        "f_low": range_text(lim.f_low_min_hz, lim.f_low_max_hz, 'Hz', 6),
+        "f_high": range_text(lim.f_high_min_hz, lim.f_high_max_hz, 'Hz', 6),
+        "bandwidth": range_text(lim.bandwidth_min_hz, lim.bandwidth_max_hz, 'Hz'),
         "q_loaded": f"{format_number(lim.q_loaded_min, 4)} to {format_number(lim.q_loaded_max, 4)}",
     }
     return tuple(RecordRow(m, expected[m.key], limits.get(m.key, "—")) for m in MEASUREMENTS)
@@ -307,24 +307,24 @@ def _tolerance(nominal: float, fraction: float | None, unit: str) -> str:
     """A part's window as the meter reads it: nominal ± tolerance, and the tolerance."""
     if not fraction:
         return "—"
-    return (f"{q(nominal * (1 - fraction), unit)} to {q(nominal * (1 + fraction), unit)} "
-            f"(± {format_number(fraction * 100, 3)} %)")
+    return (f"{range_text(nominal * (1 - fraction), nominal * (1 + fraction), unit)} "
+            f"({tolerance_text(fraction)})")
 
 
 def _hookup_text(design: Design, drive: BenchDrive) -> str:
     rs = design.circuit.source_resistance_ohm
-    what = (f"the source resistance Rs = {q(rs, 'Ω')} ({design.designators.source_resistor})"
+    what = (f"the source resistance Rs = {quantity_text(rs, 'Ω')} ({design.designators.source_resistor})"
             if rs is not None else
             "an ideal voltage source" if design.circuit.topology == "series" else
             "an ideal current source")
-    fixture = q(drive.fixture_resistance_ohm, "Ω")
+    fixture = quantity_text(drive.fixture_resistance_ohm, "Ω")
     if drive.hookup == "direct":
         how = "connect the 50 Ω generator directly: its output resistance is Rs"
     elif drive.hookup == "series_resistor":
         how = f"put {fixture} (Rs − 50 Ω) in series with the 50 Ω generator's output"
     elif drive.hookup == "shunt_resistor":
         how = (f"put {fixture} across the 50 Ω generator's output, making a source of "
-               f"{q(drive.presented_resistance_ohm, 'Ω')}")
+               f"{quantity_text(drive.presented_resistance_ohm, 'Ω')}")
     else:
         how = (f"feed the tank through {fixture} in series with the generator "
                f"(100 × the tank's impedance), making a current source")
@@ -333,12 +333,12 @@ def _hookup_text(design: Design, drive: BenchDrive) -> str:
 
 def _detector_text(found: Detector) -> str:
     text = (f"Read the response across {found.across} with a probe of at least "
-            f"{q(found.probe_resistance_min_ohm, 'Ω')}")
+            f"{quantity_text(found.probe_resistance_min_ohm, 'Ω')}")
     if found.sense_resistance_max_ohm is not None:
-        text = (f"Insert a sense resistor of at most {q(found.sense_resistance_max_ohm, 'Ω')} "
+        text = (f"Insert a sense resistor of at most {quantity_text(found.sense_resistance_max_ohm, 'Ω')} "
                 f"in the loop. " + text)
     if found.probe_capacitance_max_f is not None:
-        text += (f" and at most {q(found.probe_capacitance_max_f, 'F', 3)}: more moves f0 by "
+        text += (f" and at most {quantity_text(found.probe_capacitance_max_f, 'F', 3)}: more moves f0 by "
                  "over a tenth of the bandwidth. If no probe is that light, couple loosely "
                  "(a capacitor of that value or a one-turn link) and note it")
     return text + "."
@@ -350,9 +350,9 @@ def _trim_step(design: Design) -> Step:
         trimmer = design.job.capacitor.trimmer
         return Step(9, "Tune", f"Adjust the trimmer {design.designators.trimmer} for the "
                     f"response maximum at "
-                    f"{q(design.resonance.f_peak_hz, 'Hz')} (expected setting "
-                    f"{q(choice.trimmer_setting_f, 'F')} of its {q(trimmer.minimum, 'F', 3)} to "
-                    f"{q(trimmer.maximum, 'F', 3)}), then repeat steps 7 and 8.")
+                    f"{quantity_text(design.resonance.f_peak_hz, 'Hz')} (expected setting "
+                    f"{quantity_text(choice.trimmer_setting_f, 'F')} of its {quantity_text(trimmer.minimum, 'F', 3)} to "
+                    f"{quantity_text(trimmer.maximum, 'F', 3)}), then repeat steps 7 and 8.")
     return Step(9, "Trim if needed",
                 "If the maximum is off frequency, change the capacitance to C × (f measured / "
                 "f wanted)² (from f0 = 1/(2π√(LC))) and repeat from step 7.")
@@ -381,13 +381,13 @@ def procedure(design: Design) -> Procedure:
              "Check every part against the parts list: value, tolerance, dielectric or "
              "material, and rating where the list gives one."),
         Step(2, "Measure the coil",
-             f"Measure {coil_name}{wound} with an LCR meter at {q(measure_at, 'Hz', 3)}, with nothing "
-             f"connected, before fitting it. Expected {q(design.circuit.inductance_h, 'H')}.",
+             f"Measure {coil_name}{wound} with an LCR meter at {quantity_text(measure_at, 'Hz', 3)}, with nothing "
+             f"connected, before fitting it. Expected {quantity_text(design.circuit.inductance_h, 'H')}.",
              records=("measured.inductance_h",)),
         Step(3, "Measure the capacitance",
              f"Measure {fixed} together as they will be fitted"
              + (", without the trimmer" if trimmer else "")
-             + f". Expected {q(choice.fixed_f, 'F')}.", records=("measured.capacitance_f",)),
+             + f". Expected {quantity_text(choice.fixed_f, 'F')}.", records=("measured.capacitance_f",)),
         Step(4, "Assemble",
              "Build the circuit as the schematic shows, with short leads; keep the coil "
              "clear of metal and of the other parts."),
@@ -397,26 +397,26 @@ def procedure(design: Design) -> Procedure:
              "Set a network analyser, or a generator and a level-reading receiver, to sweep "
              "as below." + level_note,
              settings=(
-                 ("Start", q(sweep.start_hz, "Hz")),
-                 ("Stop", q(sweep.stop_hz, "Hz")),
-                 ("Centre", q(sweep.centre_hz, "Hz")),
-                 ("Span", q(sweep.span_hz, "Hz")),
-                 ("Step", f"{q(sweep.step_hz, 'Hz')} ({sweep.points} points)"),
-                 ("Receiver (resolution/IF) bandwidth", q(sweep.receiver_bandwidth_hz, "Hz")),
-                 ("Generator EMF", q(drive.generator_emf_rms_v, "V") + " rms"),
+                 ("Start", quantity_text(sweep.start_hz, "Hz")),
+                 ("Stop", quantity_text(sweep.stop_hz, "Hz")),
+                 ("Centre", quantity_text(sweep.centre_hz, "Hz")),
+                 ("Span", quantity_text(sweep.span_hz, "Hz")),
+                 ("Step", f"{quantity_text(sweep.step_hz, 'Hz')} ({sweep.points} points)"),
+                 ("Receiver (resolution/IF) bandwidth", quantity_text(sweep.receiver_bandwidth_hz, "Hz")),
+                 ("Generator EMF", quantity_text(drive.generator_emf_rms_v, "V") + " rms"),
                  ("Generator level (into 50 Ω)", signed(drive.generator_level_dbm, 1) + " dBm"),
-                 ("Highest part voltage at this level", q(drive.part_voltage_peak_v, "V")
+                 ("Highest part voltage at this level", quantity_text(drive.part_voltage_peak_v, "V")
                   + " peak"),
              )),
         Step(7, "Find the response maximum",
              "Sweep and find the maximum of the response; record its frequency. Expected "
-             f"{q(r.f_peak_hz, 'Hz')}; the test record gives the pass window.",
+             f"{quantity_text(r.f_peak_hz, 'Hz')}; the test record gives the pass window.",
              records=("measured.f0_hz",)),
         Step(8, "Find the half-power points",
              f"Find the frequencies either side where the response is {-HALF_POWER_DB:.1f} dB "
              f"below the maximum; record both, their difference (the bandwidth) and f0 divided "
-             f"by the bandwidth (the loaded Q). Expected {q(r.f_low_hz, 'Hz')} and "
-             f"{q(r.f_high_hz, 'Hz')}.",
+             f"by the bandwidth (the loaded Q). Expected {quantity_text(r.f_low_hz, 'Hz')} and "
+             f"{quantity_text(r.f_high_hz, 'Hz')}.",
              records=("measured.f_low_hz", "measured.f_high_hz", "measured.bandwidth_hz",
                       "measured.q_loaded")),
         _trim_step(design),

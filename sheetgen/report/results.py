@@ -12,6 +12,8 @@ import math
 
 from sheetgen import __version__
 from sheetgen.design.compute import Design
+from sheetgen.report.advice import rating_advice
+from sheetgen.report.cautions import design_cautions
 from sheetgen.report.checks import failed_checks
 from sheetgen.report.winding import coil_check, winding_steps
 
@@ -97,7 +99,7 @@ def results(design: Design) -> dict:
         "checks": [{"code": c.code, "field": c.field, "text": c.text}
                    for c in failed_checks(design)],
         "cautions": [{"level": c.level, "code": c.code, "text": c.text}
-                     for c in design.assessment.cautions],
+                     for c in design_cautions(design)],
     })
 
 
@@ -215,7 +217,7 @@ def _rating(check) -> dict:
     return {"part": check.part, "quantity": check.quantity, "unit": check.unit,
             "actual": check.actual, "rating": check.rating, "derating": check.derating,
             "allowed": check.allowed, "margin": check.margin, "status": check.status,
-            "acceptance_reason": check.acceptance_reason, "advice": check.advice}
+            "acceptance_reason": check.acceptance_reason, "advice": rating_advice(check)}
 
 
 LIMIT_ROWS = (  # CSV rows: quantity, unit, keys of the minimum and maximum

@@ -9,7 +9,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from sheetgen.design.compute import Design
-from sheetgen.quantities import format_number, format_quantity
+from sheetgen.quantities import format_number
+from sheetgen.report.formatting import plural, quantity_text, range_text, signed, stress_text, tolerance_text
 
 
 @dataclass(frozen=True)
@@ -19,21 +20,6 @@ class Row:
     label: str
     value: str
     remark: str = ""
-
-
-def q(value_si, unit, digits=4):
-    """Engineering notation for the sheet (4 significant figures unless said)."""
-    return format_quantity(value_si, unit, digits)
-
-
-def signed(value: float, decimals: int) -> str:
-    """A number with its sign always shown, the minus as U+2212 (−) as typeset text wants."""
-    return f"{value:+.{decimals}f}".replace("-", "\u2212")
-
-
-def plural(count: int, word: str) -> str:
-    """'1 turn', '3 turns'."""
-    return f"{count} {word}{'' if count == 1 else 's'}"
 
 
 def component_rows(design: Design) -> list[Row]:
@@ -51,16 +37,16 @@ def component_rows(design: Design) -> list[Row]:
         loss_remark = "series, at f0"
     rows = [
         Row("Topology", c.topology),
-        Row("Inductance L", q(c.inductance_h, "H"), inductance_remark),
-        Row("Coil loss resistance rL", q(c.inductor_resistance_ohm, "Ω"), loss_remark),
-        Row("Capacitance C", q(c.capacitance_f, "F"), "as fitted"),
+        Row("Inductance L", quantity_text(c.inductance_h, "H"), inductance_remark),
+        Row("Coil loss resistance rL", quantity_text(c.inductor_resistance_ohm, "Ω"), loss_remark),
+        Row("Capacitance C", quantity_text(c.capacitance_f, "F"), "as fitted"),
     ]
     rows += capacitor_rows(design)
     rows += [
-        Row("Capacitor ESR rC", q(c.capacitor_esr_ohm, "Ω"), "at f0"),
-        Row("Source resistance Rs", q(c.source_resistance_ohm, "Ω")
+        Row("Capacitor ESR rC", quantity_text(c.capacitor_esr_ohm, "Ω"), "at f0"),
+        Row("Source resistance Rs", quantity_text(c.source_resistance_ohm, "Ω")
             if c.source_resistance_ohm is not None else "ideal source"),
-        Row("Load resistance RL", q(c.load_resistance_ohm, "Ω")
+        Row("Load resistance RL", quantity_text(c.load_resistance_ohm, "Ω")
             if c.load_resistance_ohm is not None else "none",
             _origin(derived, "load.resistance")),
     ]
@@ -71,11 +57,11 @@ def capacitor_rows(design: Design) -> list[Row]:
     """What capacitance the design needs and which standard parts make it up."""
     choice = design.capacitor_choice
     if not choice.from_standard_parts:
-        return [Row(f"Nearest {choice.series} value", q(choice.nearest_f, "F", 3),
+        return [Row(f"Nearest {choice.series} value", quantity_text(choice.nearest_f, "F", 3),
                     f"{signed((choice.nearest_f / choice.required_f - 1) * 100, 2)} %")]
     derived = {d.field: d.reason for d in design.derived}
-    parts = " + ".join(q(v, "F", 3) for v in choice.fixed_parts_f)
-    rows = [Row("Capacitance required", q(choice.required_f, "F"),
+    parts = " + ".join(quantity_text(v, "F", 3) for v in choice.fixed_parts_f)
+    rows = [Row("Capacitance required", quantity_text(choice.required_f, "F"),
                 _origin(derived, "capacitor.capacitance"))]
     if choice.trimmer_setting_f is None:
         rows.append(Row(f"Fixed {choice.series} part(s) to fit", parts,
@@ -83,8 +69,8 @@ def capacitor_rows(design: Design) -> list[Row]:
     else:
         trimmer = design.job.capacitor.trimmer
         rows.append(Row(f"Fixed {choice.series} part(s) to fit", parts, "with the trimmer"))
-        rows.append(Row("Trimmer setting", q(choice.trimmer_setting_f, "F"),
-                        f"range {q(trimmer.minimum, 'F', 3)} to {q(trimmer.maximum, 'F', 3)}"
+        rows.append(Row("Trimmer setting", quantity_text(choice.trimmer_setting_f, "F"),
+                        f"range {quantity_text(trimmer.minimum, 'F', 3)} to {quantity_text(trimmer.maximum, 'F', 3)}"
                         + ("" if choice.trimmer_in_range else "; OUT OF RANGE")))
     return rows
 
@@ -99,54 +85,54 @@ def coil_rows(design: Design) -> list[Row]:
     if coil.form == "toroid":
         rows += [
             Row("Core", coil.core_name, f"material {coil.material_name}"),
-            Row("Inductance factor AL", q(r.al_h_per_turn2 * 1e9, "", 4).strip() + " nH/turn²",
+            Row("Inductance factor AL", quantity_text(r.al_h_per_turn2 * 1e9, "", 4).strip() + " nH/turn²",
                 "from µi and geometry (IEC 60205)" if r.al_from_geometry else "from the core's data"),
             # areas and volumes in mm² and mm³: a prefix would scale the metre, not m²
-            Row("Effective magnetic path length le", q(r.effective.le_m, "m"), "IEC 60205"),
+            Row("Effective magnetic path length le", quantity_text(r.effective.le_m, "m"), "IEC 60205"),
             Row("Effective area Ae", format_number(r.effective.ae_m2 * 1e6, 4) + " mm²",
                 "IEC 60205"),
             Row("Effective volume Ve", format_number(r.effective.ve_m3 * 1e9, 4) + " mm³",
                 "IEC 60205"),
         ]
     rows += [
-        Row("Inductance wanted", q(coil.target_inductance_h, "H")),
+        Row("Inductance wanted", quantity_text(coil.target_inductance_h, "H")),
         Row("Turns N", str(r.turns), "each pass through the centre is one turn"
             if coil.form == "toroid" else "whole turns"),
-        Row("Inductance built", q(r.inductance_built_h, "H")),
+        Row("Inductance built", quantity_text(r.inductance_built_h, "H")),
     ]
     if coil.f0_with_whole_turns_hz is not None:
-        rows.append(Row("f0 before re-centring", q(coil.f0_with_whole_turns_hz, "Hz"),
+        rows.append(Row("f0 before re-centring", quantity_text(coil.f0_with_whole_turns_hz, "Hz"),
                         "whole turns, capacitance for the wanted L"))
     rows += [
         Row("Wire", r.wire.name, f"grade {r.wire.grade} enamel, "
-            f"{q(r.wire.overall_diameter_m, 'm', 3)} over enamel"),
-        Row("Wire length to cut", q(r.wire_length_m, "m", 3), "winding and both leads"),
-        Row("DC resistance", q(r.dc_resistance_ohm, "Ω")),
-        Row("AC resistance of the wire", q(r.ac_resistance_ohm, "Ω"), "skin and proximity, at f0"),
+            f"{quantity_text(r.wire.overall_diameter_m, 'm', 3)} over enamel"),
+        Row("Wire length to cut", quantity_text(r.wire_length_m, "m", 3), "winding and both leads"),
+        Row("DC resistance", quantity_text(r.dc_resistance_ohm, "Ω")),
+        Row("AC resistance of the wire", quantity_text(r.ac_resistance_ohm, "Ω"), "skin and proximity, at f0"),
     ]
     if coil.form == "toroid":
-        rows.append(Row("Core loss resistance", q(r.core_loss_resistance_ohm, "Ω"), "at f0"))
+        rows.append(Row("Core loss resistance", quantity_text(r.core_loss_resistance_ohm, "Ω"), "at f0"))
     rows.append(Row("Coil Q", format_number(coil.q_used, 4),
                     "estimated" if coil.q_source == "estimate" else "from the job"))
     if coil.form == "solenoid":
         rows += [
-            Row("Winding length", q(r.length_m, "m", 3), f"pitch {q(r.pitch_m, 'm', 3)}"),
-            Row("Coil diameter", q(r.diameter_m, "m", 3), "to the wire centres"),
+            Row("Winding length", quantity_text(r.length_m, "m", 3), f"pitch {quantity_text(r.pitch_m, 'm', 3)}"),
+            Row("Coil diameter", quantity_text(r.diameter_m, "m", 3), "to the wire centres"),
             Row("Nagaoka coefficient", format_number(r.nagaoka, 4)),
-            Row("Wheeler's formula gives", q(r.wheeler_inductance_h, "H"), "cross-check"),
-            Row("Self-capacitance", q(r.self_capacitance_f, "F", 3), "Medhurst (1947)"),
+            Row("Wheeler's formula gives", quantity_text(r.wheeler_inductance_h, "H"), "cross-check"),
+            Row("Self-capacitance", quantity_text(r.self_capacitance_f, "F", 3), "Medhurst (1947)"),
         ]
-    srf_remark = {"job": f"with the job's self-capacitance {q(r.self_capacitance_f, 'F', 3)}",
+    srf_remark = {"job": f"with the job's self-capacitance {quantity_text(r.self_capacitance_f, 'F', 3)}",
                   "medhurst_1947": "Medhurst's self-capacitance"}.get(
         r.srf_basis, "no estimate for a ring core; give inductor.self_capacitance")
-    rows.append(Row("Self-resonant frequency", q(r.srf_hz, "Hz") if r.srf_hz else "not estimated",
+    rows.append(Row("Self-resonant frequency", quantity_text(r.srf_hz, "Hz") if r.srf_hz else "not estimated",
                     srf_remark))
     if coil.form == "toroid":
         rows += [
-            Row("Peak flux density", q(r.flux_density_peak_t, "T", 3),
+            Row("Peak flux density", quantity_text(r.flux_density_peak_t, "T", 3),
                 f"{format_number(r.flux_density_peak_t * 1e4, 3)} G; limit "
-                f"{q(coil.flux_density_max_t, 'T', 3)}"),
-            Row("Core loss", q(r.core_loss_w, "W", 3) if r.core_loss_w is not None else "—",
+                f"{quantity_text(coil.flux_density_max_t, 'T', 3)}"),
+            Row("Core loss", quantity_text(r.core_loss_w, "W", 3) if r.core_loss_w is not None else "—",
                 "Steinmetz"),
             Row("Temperature rise", (format_number(r.temperature_rise_k, 3) + " K")
                 if r.temperature_rise_k is not None else "—", "estimate (common practice)"),
@@ -158,11 +144,11 @@ def coil_rows(design: Design) -> list[Row]:
     if coil.link_turns is not None:
         rows.append(Row(f"Link winding {design.designators.link or ''}".rstrip(),
                         plural(coil.link_turns, "turn"),
-                        f"to {q(coil.link_resistance_ohm, 'Ω')}: N√(R_link/R_tank) rounded, "
+                        f"to {quantity_text(coil.link_resistance_ohm, 'Ω')}: N√(R_link/R_tank) rounded, "
                         "at least 1"))
     if coil.tap_turns is not None:
         rows.append(Row("Tap", f"at turn {coil.tap_turns} from the start (cold) end",
-                        f"for {q(coil.tap_resistance_ohm, 'Ω')}: N√(R_tap/R_tank) rounded"))
+                        f"for {quantity_text(coil.tap_resistance_ohm, 'Ω')}: N√(R_tap/R_tank) rounded"))
     return rows
 
 
@@ -175,27 +161,27 @@ def performance_rows(design: Design) -> list[Row]:
     r = design.resonance
     parallel = design.circuit.topology == "parallel"
     rows = [
-        Row("Resonant frequency f0", q(r.f0_hz, "Hz"), "1/(2π√(LC))"),
-        Row("Frequency of maximum response", q(r.f_peak_hz, "Hz"),
+        Row("Resonant frequency f0", quantity_text(r.f0_hz, "Hz"), "1/(2π√(LC))"),
+        Row("Frequency of maximum response", quantity_text(r.f_peak_hz, "Hz"),
             "tank voltage" if parallel else "loop current"),
     ]
     if parallel:
-        rows.append(Row("Unity power factor frequency", q(r.f_unity_pf_hz, "Hz"),
+        rows.append(Row("Unity power factor frequency", quantity_text(r.f_unity_pf_hz, "Hz"),
                         "impedance phase zero"))
     rows += [
-        Row("Lower half-power (−3 dB) point", q(r.f_low_hz, "Hz")),
-        Row("Upper half-power (−3 dB) point", q(r.f_high_hz, "Hz")),
-        Row("Bandwidth (−3 dB)", q(r.bandwidth_hz, "Hz")),
-        Row("Reactance at f0", q(r.reactance_ohm, "Ω")),
+        Row("Lower half-power (−3 dB) point", quantity_text(r.f_low_hz, "Hz")),
+        Row("Upper half-power (−3 dB) point", quantity_text(r.f_high_hz, "Hz")),
+        Row("Bandwidth (−3 dB)", quantity_text(r.bandwidth_hz, "Hz")),
+        Row("Reactance at f0", quantity_text(r.reactance_ohm, "Ω")),
         Row("Coil Q", format_number(r.q_inductor, 4), "X0/rL"),
         Row("Capacitor Q", format_number(r.q_capacitor, 4), "X0/rC"),
         Row("Unloaded Q", format_number(r.q_unloaded, 4), "X0/(rL + rC)"),
         Row("Loaded Q", format_number(r.q_loaded, 4), "f0/bandwidth"),
-        Row("Impedance at the response maximum", q(r.impedance_at_peak_ohm, "Ω"),
+        Row("Impedance at the response maximum", quantity_text(r.impedance_at_peak_ohm, "Ω"),
             "source resistance excluded"),
     ]
     if parallel:
-        rows.append(Row("Dynamic resistance of the tank", q(r.dynamic_resistance_ohm, "Ω"),
+        rows.append(Row("Dynamic resistance of the tank", quantity_text(r.dynamic_resistance_ohm, "Ω"),
                         "X0²/(rL + rC)"))
     return rows
 
@@ -204,22 +190,22 @@ def stress_rows(design: Design) -> list[Row]:
     """Voltages, currents and powers at the response maximum for the job's drive."""
     s = design.stress
     drive = design.drive
-    drive_text = {"voltage": q(drive.value, "V") + " rms open-circuit",
-                  "current": q(drive.value, "A") + " rms",
-                  "available_power": q(drive.value, "W") + " available"}[drive.kind]
+    drive_text = {"voltage": quantity_text(drive.value, "V") + " rms open-circuit",
+                  "current": quantity_text(drive.value, "A") + " rms",
+                  "available_power": quantity_text(drive.value, "W") + " available"}[drive.kind]
     return [
-        Row("Drive", drive_text, f"at {q(s.f_hz, 'Hz')}"),
-        Row("Power into the circuit", q(s.drive_power_w, "W")),
-        Row("Capacitor voltage", q(s.capacitor_voltage_rms_v, "V") + " rms",
-            q(s.capacitor_voltage_peak_v, "V") + " peak"),
-        Row("Capacitor current", q(s.capacitor_current_rms_a, "A") + " rms"),
-        Row("Coil voltage", q(s.inductor_voltage_rms_v, "V") + " rms",
-            q(s.inductor_voltage_peak_v, "V") + " peak"),
-        Row("Coil current", q(s.inductor_current_rms_a, "A") + " rms"),
-        Row("Power in the coil's loss", q(s.inductor_loss_w, "W")),
-        Row("Power in the capacitor's ESR", q(s.capacitor_loss_w, "W")),
-        Row("Power in the load", q(s.load_power_w, "W")),
-        Row("Load voltage", q(s.load_voltage_rms_v, "V") + " rms",
+        Row("Drive", drive_text, f"at {quantity_text(s.f_hz, 'Hz')}"),
+        Row("Power into the circuit", quantity_text(s.drive_power_w, "W")),
+        Row("Capacitor voltage", quantity_text(s.capacitor_voltage_rms_v, "V") + " rms",
+            quantity_text(s.capacitor_voltage_peak_v, "V") + " peak"),
+        Row("Capacitor current", quantity_text(s.capacitor_current_rms_a, "A") + " rms"),
+        Row("Coil voltage", quantity_text(s.inductor_voltage_rms_v, "V") + " rms",
+            quantity_text(s.inductor_voltage_peak_v, "V") + " peak"),
+        Row("Coil current", quantity_text(s.inductor_current_rms_a, "A") + " rms"),
+        Row("Power in the coil's loss", quantity_text(s.inductor_loss_w, "W")),
+        Row("Power in the capacitor's ESR", quantity_text(s.capacitor_loss_w, "W")),
+        Row("Power in the load", quantity_text(s.load_power_w, "W")),
+        Row("Load voltage", quantity_text(s.load_voltage_rms_v, "V") + " rms",
             "across the tank; the link steps it down to its load"
             if design.coil is not None and design.coil.link_turns is not None else
             "across the tank; the tap steps it down to its load"
@@ -233,32 +219,32 @@ def limits_rows(design: Design) -> list[Row]:
     lim, r = a.limits, design.resonance
     rows = [Row("Units tested", "trimmed to the f0 target at 25 °C")] if a.tuned else []
     rows += [
-        Row("f0 window", f"{q(lim.f0_min_hz, 'Hz', 6)} to {q(lim.f0_max_hz, 'Hz', 6)}",
-            f"nominal {q(r.f0_hz, 'Hz', 6)}"),
+        Row("f0 window", range_text(lim.f0_min_hz, lim.f0_max_hz, 'Hz', 6),
+            f"nominal {quantity_text(r.f0_hz, 'Hz', 6)}"),
         Row("Peak frequency window",
-            f"{q(lim.f_peak_min_hz, 'Hz', 6)} to {q(lim.f_peak_max_hz, 'Hz', 6)}",
-            f"nominal {q(r.f_peak_hz, 'Hz', 6)}"),
-        Row("Bandwidth window", f"{q(lim.bandwidth_min_hz, 'Hz')} to "
-            f"{q(lim.bandwidth_max_hz, 'Hz')}", f"nominal {q(r.bandwidth_hz, 'Hz')}"),
+            range_text(lim.f_peak_min_hz, lim.f_peak_max_hz, 'Hz', 6),
+            f"nominal {quantity_text(r.f_peak_hz, 'Hz', 6)}"),
+        Row("Bandwidth window", f"{quantity_text(lim.bandwidth_min_hz, 'Hz')} to "
+            f"{quantity_text(lim.bandwidth_max_hz, 'Hz')}", f"nominal {quantity_text(r.bandwidth_hz, 'Hz')}"),
         Row("Loaded Q window", f"{format_number(lim.q_loaded_min, 4)} to "
             f"{format_number(lim.q_loaded_max, 4)}", f"nominal {format_number(r.q_loaded, 4)}"),
         Row("Lower half-power point window",
-            f"{q(lim.f_low_min_hz, 'Hz', 6)} to {q(lim.f_low_max_hz, 'Hz', 6)}",
-            f"nominal {q(r.f_low_hz, 'Hz', 6)}"),
+            range_text(lim.f_low_min_hz, lim.f_low_max_hz, 'Hz', 6),
+            f"nominal {quantity_text(r.f_low_hz, 'Hz', 6)}"),
         Row("Upper half-power point window",
-            f"{q(lim.f_high_min_hz, 'Hz', 6)} to {q(lim.f_high_max_hz, 'Hz', 6)}",
-            f"nominal {q(r.f_high_hz, 'Hz', 6)}"),
+            range_text(lim.f_high_min_hz, lim.f_high_max_hz, 'Hz', 6),
+            f"nominal {quantity_text(r.f_high_hz, 'Hz', 6)}"),
         Row("Unloaded Q window", f"{format_number(lim.q_unloaded_min, 4)} to "
             f"{format_number(lim.q_unloaded_max, 4)}",
             f"nominal {format_number(r.q_unloaded, 4)}; X0/(rL + rC)"),
-        Row("Impedance window", f"{q(lim.impedance_min_ohm, 'Ω', 3)} to "
-            f"{q(lim.impedance_max_ohm, 'Ω', 3)}", f"nominal {q(r.impedance_at_peak_ohm, 'Ω')}"
+        Row("Impedance window", f"{quantity_text(lim.impedance_min_ohm, 'Ω', 3)} to "
+            f"{quantity_text(lim.impedance_max_ohm, 'Ω', 3)}", f"nominal {quantity_text(r.impedance_at_peak_ohm, 'Ω')}"
             " at the response maximum, source resistance excluded"),
     ]
     if a.trimmer is not None:
         t = a.trimmer
-        rows.append(Row("Trimmer capacitance needed", f"{q(t.needed_min_f, 'F')} to "
-                        f"{q(t.needed_max_f, 'F')}", "covered" if t.covers else
+        rows.append(Row("Trimmer capacitance needed", f"{quantity_text(t.needed_min_f, 'F')} to "
+                        f"{quantity_text(t.needed_max_f, 'F')}", "covered" if t.covers else
                         f"NOT COVERED: the trimmer tunes {t.fraction_tunable * 100:.1f} % of builds"))
     method = (f"Monte Carlo, {lim.trials:,} trials, seed {lim.seed}, "
               f"{lim.coverage * 100:.2f} % coverage" if lim.method == "monte-carlo"
@@ -267,12 +253,12 @@ def limits_rows(design: Design) -> list[Row]:
     rows += [
         Row("Method", method, f"bands read as {design.job.variation.distribution}"),
         Row("Temperature range", f"{spec.temperature_min_c:g} to {spec.temperature_max_c:g} °C"),
-        Row("Capacitor tolerance", f"± {format_number(a.capacitor_tolerance * 100, 3)} %",
+        Row("Capacitor tolerance", tolerance_text(a.capacitor_tolerance),
             f"from {a.capacitor_tolerance_source}"),
-        Row("Inductance tolerance", f"± {format_number(a.inductance_tolerance * 100, 3)} %"
+        Row("Inductance tolerance", tolerance_text(a.inductance_tolerance)
             if a.inductance_tolerance else "exact (none given)"),
         _loss_spread_row(design),
-        Row("Windows rounded outward to", q(a.resolution_hz, "Hz", 3)),
+        Row("Windows rounded outward to", quantity_text(a.resolution_hz, "Hz", 3)),
     ]
     return rows
 
@@ -283,7 +269,7 @@ def _loss_spread_row(design: Design) -> Row:
     spread = design.job.variation.loss_tolerance
     estimated = design.coil is not None and design.coil.q_source == "estimate"
     if spread:
-        return Row("Loss resistance spread", f"± {format_number(spread * 100, 3)} %",
+        return Row("Loss resistance spread", tolerance_text(spread),
                    "coil loss and capacitor ESR")
     return Row("Loss resistance spread", "none given",
                "the bandwidth and Q windows assume the estimated coil Q; give "
@@ -295,11 +281,8 @@ def rating_rows(design: Design) -> list[Row]:
     """Each rating check: the stress against the derated rating, and its status."""
     rows = []
     for check in design.assessment.ratings:
-        unit = check.unit
-        shown = (lambda v: format_number(v * 1e-6, 3) + " A/mm²") if unit == "A/m²" else (
-            lambda v: q(v, unit, 3))
         status = {"pass": "pass", "fail": "FAIL", "accepted": "ACCEPTED"}[check.status]
-        rows.append(Row(f"{check.part} {check.quantity}", f"{shown(check.actual)} of "
-                        f"{shown(check.allowed)} allowed", f"{status}, margin "
+        rows.append(Row(f"{check.part} {check.quantity}", f"{stress_text(check.actual, check.unit)} of "
+                        f"{stress_text(check.allowed, check.unit)} allowed", f"{status}, margin "
                         f"{signed(check.margin * 100, 0)} %"))
     return rows

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from sheetgen.design.compute import Design
+from sheetgen.report.cautions import design_cautions
 from sheetgen.report.checks import failed_checks
 from sheetgen.report.rows import (Row, coil_rows, component_rows, limits_rows, performance_rows, rating_rows,
                      stress_rows)
@@ -33,7 +34,7 @@ def summary_text(design: Design) -> str:
     if ratings:
         lines += _block("Ratings", ratings)
     lines += ["Cautions", "--------"]
-    lines += [f"  {c.signal_word}: {c.text}" for c in design.assessment.cautions] + [""]
+    lines += [f"  {c.signal_word}: {c.text}" for c in design_cautions(design)] + [""]
     failures = failed_checks(design)
     lines += ["Checks", "------"]
     lines += ([f"  FAILED {f.field}: {f.text}" for f in failures] or ["  all pass"]) + [""]

@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from sheetgen.design.compute import CoilDesign, Design
 from sheetgen.design.designators import Designators
 from sheetgen.quantities import format_number, format_quantity
-from sheetgen.report.rows import plural
+from sheetgen.report.formatting import plural, tolerance_text
 
 LCR_TEST_FREQUENCIES_HZ = (100.0, 1e3, 10e3, 100e3, 1e6)  # usual bench meters (common practice)
 
@@ -61,7 +61,7 @@ def winding_steps(design: Design) -> list[Step]:
     texts = (_toroid_texts(coil, names) if coil.form == "toroid"
              else _solenoid_texts(coil, names, design.job.inductor.former_length))
     check = coil_check(design)
-    tolerance = (f" ± {format_number(check.tolerance * 100, 3)} %"
+    tolerance = (f" {tolerance_text(check.tolerance)}"
                  if check.tolerance is not None else "")
     texts.append(
         f"Check the wound coil before assembly: measure its inductance at "

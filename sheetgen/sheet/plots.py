@@ -15,7 +15,7 @@ import numpy as np
 
 from sheetgen.design.compute import Design
 from sheetgen.quantities import format_quantity
-from sheetgen.report.rows import q
+from sheetgen.report.formatting import quantity_text
 from sheetgen.sheet import fonts
 
 TICK_SIZE = 7.5
@@ -219,7 +219,7 @@ def response_drawing(design: Design, width: float, height: float = 175.0):
             anchor = "end"
         elif x0 < box.x + 45:
             anchor = "start"
-        _string(g, x0, box.y + box.height + 5, f"f0 {q(r.f0_hz, 'Hz')}", MARK_SIZE, anchor,
+        _string(g, x0, box.y + box.height + 5, f"f0 {quantity_text(r.f0_hz, 'Hz')}", MARK_SIZE, anchor,
                 bold=True)
     for f_hz, side in ((r.f_low_hz, "end"), (r.f_high_hz, "start")):
         if f_hz is None or not x_axis.low <= f_hz <= x_axis.high:
@@ -228,7 +228,7 @@ def response_drawing(design: Design, width: float, height: float = 175.0):
         g.add(Circle(x, y_hp, 2.4, fillColor=white, strokeColor=black, strokeWidth=0.9))
         # outside the half-power points the curve is below the −3 dB line: label above it
         offset = -4 if side == "end" else 4
-        _string(g, x + offset, y_hp + 4, q(f_hz, "Hz"), MARK_SIZE, side)
+        _string(g, x + offset, y_hp + 4, quantity_text(f_hz, "Hz"), MARK_SIZE, side)
     drawing.add(g)
     return drawing
 
@@ -284,7 +284,7 @@ def coil_q_drawing(design: Design, width: float, height: float = 150.0):
         x0 = box.x + float(x_axis.fraction(f0)) * box.width
         g.add(Line(x0, box.y, x0, box.y + box.height, strokeColor=black, strokeWidth=0.7,
                    strokeDashArray=[4, 2]))
-        _string(g, x0, box.y + box.height + 5, f"f0 {q(f0, 'Hz')}", MARK_SIZE, "middle",
+        _string(g, x0, box.y + box.height + 5, f"f0 {quantity_text(f0, 'Hz')}", MARK_SIZE, "middle",
                 bold=True)
     drawing.add(g)
     return drawing

@@ -12,7 +12,7 @@ from dataclasses import dataclass
 from typing import Literal
 
 from sheetgen.design.compute import Design
-from sheetgen.report.rows import q
+from sheetgen.report.formatting import quantity_text, range_text
 from sheetgen.sheet import fonts
 
 PartKind = Literal["resistor", "inductor", "capacitor", "trimmer"]
@@ -65,31 +65,31 @@ def schematic_of(design: Design) -> Schematic:
     names = design.designators
     choice = design.capacitor_choice
     if choice.from_standard_parts:
-        capacitors = [Part(name, "capacitor", q(value, "F", 3))
+        capacitors = [Part(name, "capacitor", quantity_text(value, "F", 3))
                       for name, value in zip(names.fixed_capacitors, choice.fixed_parts_f)]
     else:
-        capacitors = [Part(names.fixed_capacitors[0], "capacitor", q(c.capacitance_f, "F"))]
+        capacitors = [Part(names.fixed_capacitors[0], "capacitor", quantity_text(c.capacitance_f, "F"))]
     trimmer = design.job.capacitor.trimmer
     if names.trimmer is not None and trimmer is not None:
         capacitors.append(Part(names.trimmer, "trimmer",
-                               f"{q(trimmer.minimum, 'F', 3)} to {q(trimmer.maximum, 'F', 3)}"))
-    source_resistor = (Part(names.source_resistor, "resistor", q(c.source_resistance_ohm, "Ω"))
+                               range_text(trimmer.minimum, trimmer.maximum, 'F', 3)))
+    source_resistor = (Part(names.source_resistor, "resistor", quantity_text(c.source_resistance_ohm, "Ω"))
                        if names.source_resistor is not None else None)
     coil = design.coil
     link = load = None
     if names.link is not None and coil is not None:
         turns = f"{coil.link_turns} turn{'s' if coil.link_turns != 1 else ''}"
         link = Part(names.link, "inductor", turns)
-        load = Part(names.load_resistor, "resistor", q(coil.link_resistance_ohm, "Ω"))
+        load = Part(names.load_resistor, "resistor", quantity_text(coil.link_resistance_ohm, "Ω"))
     elif coil is not None and coil.tap_turns is not None:
-        load = Part(names.load_resistor, "resistor", q(coil.tap_resistance_ohm, "Ω"))
+        load = Part(names.load_resistor, "resistor", quantity_text(coil.tap_resistance_ohm, "Ω"))
     elif names.load_resistor is not None:
-        load = Part(names.load_resistor, "resistor", q(c.load_resistance_ohm, "Ω"))
+        load = Part(names.load_resistor, "resistor", quantity_text(c.load_resistance_ohm, "Ω"))
     drive = design.drive
-    label = {"voltage": q(drive.value, "V") + " rms", "current": q(drive.value, "A") + " rms",
-             "available_power": q(drive.value, "W") + " avail."}[drive.kind]
+    label = {"voltage": quantity_text(drive.value, "V") + " rms", "current": quantity_text(drive.value, "A") + " rms",
+             "available_power": quantity_text(drive.value, "W") + " avail."}[drive.kind]
     return Schematic(c.topology, "current" if drive.kind == "current" else "voltage", label,
-                     Part(names.coil, "inductor", q(c.inductance_h, "H")), tuple(capacitors),
+                     Part(names.coil, "inductor", quantity_text(c.inductance_h, "H")), tuple(capacitors),
                      source_resistor, load, link,
                      tap_label=(f"tap, turn {coil.tap_turns}: to {names.load_resistor}"
                                 if coil is not None and coil.tap_turns is not None else None),

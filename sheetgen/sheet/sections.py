@@ -20,6 +20,8 @@ from reportlab.platypus import (CondPageBreak, Flowable, KeepTogether, Paragraph
                                 TableStyle)
 
 from sheetgen.design.compute import Design
+from sheetgen.report.advice import rating_advice
+from sheetgen.report.cautions import design_cautions
 from sheetgen.report.procedure import OVERALL_VERDICT, RECORD_TEXT_FIELDS, VERDICT_CHOICES, procedure
 from sheetgen.report.rows import (Row, coil_rows, component_rows, limits_rows, performance_rows,
                       rating_rows, stress_rows)
@@ -137,7 +139,7 @@ SIGNAL_PANELS = {"danger": (colors.black, colors.white), "warning": (colors.Colo
 
 
 def cautions_section(design: Design, kit: Kit) -> SectionContent | None:
-    cautions = design.assessment.cautions
+    cautions = design_cautions(design)
     if not cautions:
         return None
     data, commands = [], _grid_style(header=False)
@@ -178,7 +180,7 @@ def ratings_section(design: Design, kit: Kit) -> SectionContent | None:
         return None
     flowables: list = [rows_table(rows, kit, ("Part and stress", "Stress", "Verdict"))]
     for check in design.assessment.ratings:
-        for label, text in (("accepted", check.acceptance_reason), ("advice", check.advice)):
+        for label, text in (("accepted", check.acceptance_reason), ("advice", rating_advice(check))):
             if text:
                 flowables.append(para(f"{check.part} {check.quantity}, {label}: {text}",
                                     kit.small))

@@ -21,7 +21,7 @@ from dataclasses import dataclass
 
 from sheetgen.design.compute import Design
 from sheetgen.quantities import format_number
-from sheetgen.report.rows import plural, q
+from sheetgen.report.formatting import plural, quantity_text
 from sheetgen.sheet import fonts
 
 POINTS_PER_M = 72.0 / 0.0254  # 1 in = 25.4 mm exactly, 72 pt to the inch
@@ -305,9 +305,9 @@ def _toroid_drawing(view: ToroidView, width: float):
     drawing.add(tap, name="tap")
     facts = Group()
     x_facts = cx + r_out + _LEAD_PT + 34.0
-    size = [f"OD {q(view.outer_diameter_m, 'm', 3)}", f"ID {q(view.inner_diameter_m, 'm', 3)}"]
+    size = [f"OD {quantity_text(view.outer_diameter_m, 'm', 3)}", f"ID {quantity_text(view.inner_diameter_m, 'm', 3)}"]
     if view.height_m:
-        size.append(f"height {q(view.height_m, 'm', 3)}")
+        size.append(f"height {quantity_text(view.height_m, 'm', 3)}")
     lines = [(f"{view.designator}: {plural(view.turns, 'turn')} of {view.wire_name}", True)]
     if not view.fits:
         lines.append(("DOES NOT FIT in one layer with a lead gap: see the failed checks", True))
@@ -326,7 +326,7 @@ def _toroid_drawing(view: ToroidView, width: float):
     core = f"Core {view.core_name}" if view.core_name else "Core"
     lines += [(f"{core}: {', '.join(size)}", False),
               (f"Seen from above, drawn to scale {scale.text} (the leads are not: cut each "
-               f"{q(view.lead_length_m, 'm', 3)} long)", False)]
+               f"{quantity_text(view.lead_length_m, 'm', 3)} long)", False)]
     _facts(facts, x_facts, height - 10.0, width - x_facts, lines)
     drawing.add(facts, name="facts")
     return _fit_height(drawing)
@@ -389,7 +389,7 @@ def _solenoid_drawing(view: SolenoidView, width: float):
         _line(marks, x, y_top + wire_pt / 2 + 2, x, y_dim + 3, width=0.4)
     _dimension(marks, x_start, y_dim, x_end, y_dim)
     _text(marks, (x_start + x_end) / 2, y_dim + 4,
-          f"winding {q(view.winding_length_m, 'm', 3)}", LABEL_SIZE, "middle")
+          f"winding {quantity_text(view.winding_length_m, 'm', 3)}", LABEL_SIZE, "middle")
     # pitch, below the former, between two turns in the middle of the winding; the
     # dimension line runs on to its label right of the winding, clear of the leads' labels
     if view.turns >= 2:
@@ -402,7 +402,7 @@ def _solenoid_drawing(view: SolenoidView, width: float):
         _line(marks, xa - 10, y_pitch, x_end + 6, y_pitch, width=0.5)
         _arrow_head(marks, xa, y_pitch, 1.0, 0.0)
         _arrow_head(marks, xb, y_pitch, -1.0, 0.0)
-        pitch_text = f"pitch {q(view.pitch_m, 'm', 3)}"
+        pitch_text = f"pitch {quantity_text(view.pitch_m, 'm', 3)}"
         _text(marks, x_end + 8, y_pitch - 2.6, pitch_text, LABEL_SIZE, "start")
         right = max(right, x_end + 8 + stringWidth(pitch_text, fonts.REGULAR, LABEL_SIZE))
     # the former's diameter, left of it
@@ -410,24 +410,24 @@ def _solenoid_drawing(view: SolenoidView, width: float):
     for y in (y_bottom, y_top):
         _line(marks, x_left - 2, y, x_dim - 3, y, width=0.4)
     _dimension(marks, x_dim, y_bottom, x_dim, y_top)
-    _text(marks, x_dim - 4, (y_bottom + y_top) / 2 + 1, f"Ø {q(view.former_diameter_m, 'm', 3)}",
+    _text(marks, x_dim - 4, (y_bottom + y_top) / 2 + 1, f"Ø {quantity_text(view.former_diameter_m, 'm', 3)}",
           LABEL_SIZE, "end")
     _text(marks, x_dim - 4, (y_bottom + y_top) / 2 - 8, "former", LABEL_SIZE, "end")
     drawing.add(marks, name="marks")
     drawing.add(Group(), name="link_turns")
     facts = Group()
     x_facts = right + 20.0
-    former = (f"a former Ø {q(view.former_diameter_m, 'm', 3)}, "
-              f"{q(view.former_length_m, 'm', 3)} long" if view.former_length_given else
-              f"a former Ø {q(view.former_diameter_m, 'm', 3)}")
+    former = (f"a former Ø {quantity_text(view.former_diameter_m, 'm', 3)}, "
+              f"{quantity_text(view.former_length_m, 'm', 3)} long" if view.former_length_given else
+              f"a former Ø {quantity_text(view.former_diameter_m, 'm', 3)}")
     lines = [(f"{view.designator}: {plural(view.turns, 'turn')} of {view.wire_name}", True)]
     if not view.fits:
         lines.append(("DOES NOT FIT as asked: see the failed checks", True))
-    lines += [(f"at a pitch of {q(view.pitch_m, 'm', 3)} over "
-              f"{q(view.winding_length_m, 'm', 3)}, one layer", False),
+    lines += [(f"at a pitch of {quantity_text(view.pitch_m, 'm', 3)} over "
+              f"{quantity_text(view.winding_length_m, 'm', 3)}, one layer", False),
              (f"on {former}", False),
              (f"Seen from the side (the front half of each turn), drawn to scale {scale.text} "
-              f"(the leads are not: cut each {q(view.lead_length_m, 'm', 3)} long)", False)]
+              f"(the leads are not: cut each {quantity_text(view.lead_length_m, 'm', 3)} long)", False)]
     _facts(facts, x_facts, height - 10.0, width - x_facts, lines)
     drawing.add(facts, name="facts")
     return _fit_height(drawing)

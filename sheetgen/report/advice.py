@@ -1,0 +1,67 @@
+"""Failed rating checks in words: which part, by how much, and what to change.
+
+The numbers come from the engine's `RatingCheck` and its `Remedy`; this module only words
+them (engine/ratings.py computes, this says).
+"""
+
+from __future__ import annotations
+
+from sheetgen.engine.ratings import RatingCheck, Remedy
+from sheetgen.report.formatting import percent, stress_text
+from sheetgen.quantities import format_number, format_quantity
+
+
+def rating_advice(check: RatingCheck) -> str | None:
+    """The sentence for a failed check (None when it passes)."""
+    if check.passed or check.remedy is None:
+        return None
+    over = check.actual / check.allowed - 1.0
+    derated = ("" if check.derating == 1.0 else
+               f" ({percent(check.derating)} of its {stress_text(check.rating, check.unit)} "
+               "rating)")
+    return (f"{check.part}: {check.quantity} {stress_text(check.actual, check.unit)} is "
+            f"{percent(over)} over the allowed {stress_text(check.allowed, check.unit)}"
+            f"{derated}. {_REMEDIES[check.quantity](check.remedy)}.")
+
+
+def _or_drive(remedy: Remedy) -> str:
+    if remedy.drive_power_max_w is None:
+        return ""
+    return f", or lower the drive to at most {format_quantity(remedy.drive_power_max_w, 'W')}"
+
+
+def _peak_voltage(r: Remedy) -> str:
+    return (f"Fit a capacitor rated at least {format_quantity(r.required_rating, 'V')}, "
+            f"or {r.parts_needed} of the present rating in series, each of "
+            f"{r.parts_needed}× the capacitance{_or_drive(r)}")
+
+
+def _rf_current(r: Remedy) -> str:
+    return (f"Fit a capacitor rated for at least {format_quantity(r.required_rating, 'A')}"
+            f" rms, or {r.parts_needed} in parallel, each of 1/{r.parts_needed} of the "
+            f"capacitance{_or_drive(r)}")
+
+
+def _esr_power(r: Remedy) -> str:
+    esr = ("" if r.esr_max_ohm is None else
+           f"Fit a capacitor with an ESR of at most {format_quantity(r.esr_max_ohm, 'Ω')} "
+           f"at this frequency, or one ")
+    start = esr or "Fit a capacitor "
+    return (f"{start}rated to dissipate at least "
+            f"{format_quantity(r.required_rating, 'W')}{_or_drive(r)}")
+
+
+def _current_density(r: Remedy) -> str:
+    return (f"Wind it with wire of at least {format_quantity(r.wire_diameter_min_m, 'm')} "
+            f"copper diameter{_or_drive(r)}")
+
+
+def _flux_density(r: Remedy) -> str:
+    return (f"Use a core with at least {format_number(r.core_area_factor, 3)}× the "
+            f"cross-section Ae, or a material rated for at least "
+            f"{format_quantity(r.required_rating, 'T')}{_or_drive(r)}")
+
+
+_REMEDIES = {"peak voltage": _peak_voltage, "RF current": _rf_current,
+             "power in ESR": _esr_power, "current density": _current_density,
+             "flux density": _flux_density}

@@ -1,0 +1,53 @@
+"""The few ways a value is written for people, used by every row, step and label.
+
+Engineering notation itself lives in sheetgen/quantities.py; these helpers fix the
+conventions on top of it (4 figures on the sheet, ± tolerances, signed margins, A/mm²).
+"""
+
+from __future__ import annotations
+
+from sheetgen.quantities import format_number, format_quantity
+
+SHEET_DIGITS = 4  # significant figures of a computed value on the sheet and the summary
+
+
+def quantity_text(value_si: float, unit: str, digits: int = SHEET_DIGITS) -> str:
+    """Engineering notation with its unit: quantity_text(1.5e-10, 'F') → '150.0 pF'."""
+    return format_quantity(value_si, unit, digits)
+
+
+def range_text(low_si: float, high_si: float, unit: str, digits: int = SHEET_DIGITS) -> str:
+    """A window as written on the sheet: '3.540 MHz to 3.560 MHz'."""
+    return f"{quantity_text(low_si, unit, digits)} to {quantity_text(high_si, unit, digits)}"
+
+
+def signed(value: float, decimals: int) -> str:
+    """A number with its sign always shown, the minus as U+2212 (−) as typeset text wants;
+    a value that rounds to zero is written without a sign ('0.00', never '−0.00')."""
+    text = f"{value:+.{decimals}f}"
+    if float(text) == 0.0:
+        return f"{0.0:.{decimals}f}"
+    return text.replace("-", "\u2212")
+
+
+def percent(fraction: float, digits: int = 3) -> str:
+    """0.125 → '12.5 %'."""
+    return f"{format_number(100.0 * fraction, digits)} %"
+
+
+def tolerance_text(fraction: float) -> str:
+    """0.05 → '± 5 %'."""
+    return f"± {percent(fraction)}"
+
+
+def plural(count: int, word: str) -> str:
+    """'1 turn', '3 turns'."""
+    return f"{count} {word}{'' if count == 1 else 's'}"
+
+
+def stress_text(value_si: float, unit: str, digits: int = 3) -> str:
+    """A stress in the trade's units: current density in plain A/mm² (no prefix), the rest
+    in SI with a prefix."""
+    if unit == "A/m²":
+        return f"{format_number(value_si * 1e-6, digits)} A/mm²"
+    return format_quantity(value_si, unit, digits)
