@@ -39,7 +39,7 @@ def test_json_results_follow_the_contract(capsys):
     code, out, _ = _run(capsys, "check", ROOT / "templates" / "toroid.yaml", "--json")
     assert code == 0
     got = json.loads(out)
-    assert got["format"] == "sheetgen.report.results/1"
+    assert got["format"] == "sheetgen.results/1"
     assert set(got) >= {"tool_version", "sheet", "topology", "components", "resonance",
                         "stress", "inductor", "limits", "cautions"}
     assert set(got["resonance"]) >= {"f0_hz", "f_peak_hz", "f_unity_pf_hz", "reactance_ohm",

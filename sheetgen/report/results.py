@@ -1,6 +1,6 @@
 """Design → the results contract (JSON) that work-order systems and scripts read.
 
-The format is versioned ("sheetgen.report.results/1"); keys carry their SI unit as a suffix and
+The format is versioned ("sheetgen.results/1"); keys carry their SI unit as a suffix and
 null marks a value that does not apply. Adding keys keeps the version; renaming or
 removing one needs a new version.
 """
@@ -17,7 +17,7 @@ from sheetgen.report.cautions import design_cautions
 from sheetgen.report.checks import failed_checks
 from sheetgen.report.winding import coil_check, winding_steps
 
-RESULTS_FORMAT = "sheetgen.report.results/1"
+RESULTS_FORMAT = "sheetgen.results/1"
 
 
 def _clean(value):

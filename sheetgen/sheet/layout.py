@@ -36,7 +36,7 @@ BLOCK_HEIGHT = 80.0
 GAP = 8.0
 PAGE_TOTAL_FORM = "sheetgenPageTotal"
 ATTACHMENTS = (("job.yaml", "application/x-yaml", "the job file this sheet was made from"),
-               ("results.json", "application/json", "the computed results (sheetgen.report.results/1)"))
+               ("results.json", "application/json", "the computed results (sheetgen.results/1)"))
 
 
 # --- identity on every page ---------------------------------------------------------------
