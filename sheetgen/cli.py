@@ -16,9 +16,7 @@ from pathlib import Path
 from sheetgen import __version__
 from sheetgen.report.checks import failed_checks
 from sheetgen.design.compute import Design
-from sheetgen.inputs.reader import JobFileError, Problem, field_position
-from sheetgen.inputs.library import find_library_folder
-from sheetgen.inputs.package_data import templates_folder
+from sheetgen.errors import InputError
 from sheetgen.design.pipeline import design_from_file
 from sheetgen.report.summary import summary_text
 from sheetgen.inputs.starters import TEMPLATE_NAMES, demo_job_path, template_text
@@ -83,8 +81,8 @@ def main(argv: list[str] | None = None) -> int:
     except SystemExit as done:  # --help and --version
         return int(done.code or 0)
     try:
-        return _run(args)
-    except JobFileError as error:
+        return COMMANDS[args.command](args)
+    except InputError as error:
         for problem in error.problems:
             print(problem, file=sys.stderr)
         return EXIT_BAD_INPUT
@@ -101,44 +99,64 @@ def main(argv: list[str] | None = None) -> int:
         return EXIT_OK
 
 
-def _run(args) -> int:
-    if args.command == "new":
-        sys.stdout.write(template_text(args.kind))
-        return EXIT_OK
-    if args.command == "schema" and args.markdown:
+def _new(args) -> int:
+    sys.stdout.write(template_text(args.kind))
+    return EXIT_OK
+
+
+def _schema(args) -> int:
+    if args.markdown:
         from sheetgen.inputs.jobdoc import job_reference_markdown
         sys.stdout.write(job_reference_markdown())
-        return EXIT_OK
-    if args.command == "schema":
-        from sheetgen.inputs.model import Job
-        schema = Job.model_json_schema()
-        schema["$schema"] = "https://json-schema.org/draft/2020-12/schema"
-        schema["title"] = "sheetgen job file"
-        print(json.dumps(schema, indent=2, ensure_ascii=False))
-        return EXIT_OK
-    job_path = demo_job_path() if args.command == "demo" else args.job
-    result = design_from_file(job_path, getattr(args, "library", None))
-    if args.command == "check":
-        if args.json:
-            from sheetgen.report.results import results_json
-            sys.stdout.write(results_json(result))
-        else:
-            sys.stdout.write(summary_text(result))
-        return _exit_for(result)
-    if args.command == "limits":
-        from sheetgen.report.results import limits_csv, limits_json
-        text = limits_csv(result) if args.format == "csv" else limits_json(result)
-        if args.output is None:
-            sys.stdout.write(text)
-        else:
-            write_atomically(args.output, text.encode("utf-8"))
-            print(f"wrote {args.output}")
-        return _exit_for(result)
-    output = args.output or job_path.with_suffix(".pdf")
-    style = _style(job_path, result, getattr(args, "style", None), getattr(args, "library", None))
-    _build(result, job_path, output, getattr(args, "results", None), style)
+    else:
+        from sheetgen.inputs.schema import job_schema_json
+        sys.stdout.write(job_schema_json())
+    return EXIT_OK
+
+
+def _check(args) -> int:
+    design = design_from_file(args.job, args.library)
+    if args.json:
+        from sheetgen.report.results import results_json
+        sys.stdout.write(results_json(design))
+    else:
+        sys.stdout.write(summary_text(design))
+    return _exit_for(design)
+
+
+def _limits(args) -> int:
+    from sheetgen.report.results import limits_csv, limits_json
+    design = design_from_file(args.job, args.library)
+    text = limits_csv(design) if args.format == "csv" else limits_json(design)
+    if args.output is None:
+        sys.stdout.write(text)
+    else:
+        write_atomically(args.output, text.encode("utf-8"))
+        print(f"wrote {args.output}")
+    return _exit_for(design)
+
+
+def _build_command(args) -> int:
+    return _build_sheet(args.job, args.output, args.results, args.style, args.library)
+
+
+def _demo(args) -> int:
+    return _build_sheet(demo_job_path(), args.output, None, None, None)
+
+
+def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
+                 style_path: Path | None, library_folder: Path | None) -> int:
+    from sheetgen.inputs.style import resolve_style
+    design = design_from_file(job_path, library_folder)
+    output = output or job_path.with_suffix(".pdf")
+    style = resolve_style(job_path, design.job, style_path, library_folder)
+    _build(design, job_path, output, results_path, style)
     print(f"wrote {output}")
-    return _exit_for(result)
+    return _exit_for(design)
+
+
+COMMANDS = {"check": _check, "build": _build_command, "limits": _limits, "demo": _demo,
+            "new": _new, "schema": _schema}
 
 
 def _exit_for(result: Design) -> int:
@@ -147,31 +165,6 @@ def _exit_for(result: Design) -> int:
     for failure in failures:
         print(f"check failed: {failure.field}: {failure.text}", file=sys.stderr)
     return EXIT_CHECK_FAILED if failures else EXIT_OK
-
-
-def _style(job_path: Path, result: Design, cli_style: Path | None, library_folder: Path | None):
-    """The house style: --style, else the job's sheet.style (a path, or a name looked up as
-    style-NAME.yaml in the parts library folder and then in the shipped templates)."""
-    from sheetgen.inputs.style import load_style
-    job_dir = job_path.resolve().parent
-    if cli_style is not None:
-        return load_style(cli_style, job_dir)
-    wanted = result.job.sheet.style
-    if wanted is None:
-        return None
-    if wanted.endswith((".yaml", ".yml")) or "/" in wanted or "\\" in wanted:
-        return load_style(job_dir / wanted, job_dir)
-    folders = [find_library_folder(job_path, result.job.library, library_folder),
-               templates_folder()]
-    for folder in folders:
-        candidate = folder / f"style-{wanted}.yaml"
-        if candidate.is_file():
-            return load_style(candidate, job_dir)
-    line, column = field_position(job_path, "sheet.style")
-    looked = " and ".join(str(f) for f in folders)
-    raise JobFileError([Problem(str(job_path), line, column, "sheet.style",
-                                f"no house style named {wanted!r} (style-{wanted}.yaml) in "
-                                f"{looked}; expected a style name or a path to a style file")])
 
 
 def _build(result: Design, job_path: Path, output: Path, results_path: Path | None,

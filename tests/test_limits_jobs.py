@@ -128,7 +128,7 @@ def test_acceptance_of_a_check_that_does_not_exist_is_bad_input(tmp_path, capsys
                     "    - {check: C9 peak voltage, reason: 'a typo must not hide a failure'}\n")
     code, _, err = _run(capsys, "check", _job(tmp_path, text))
     assert code == 2
-    assert "ratings.accept.0.check: no rating check is called 'C9 peak voltage'" in err
+    assert "ratings.accept[0].check: no rating check is called 'C9 peak voltage'" in err
     assert "C1 peak voltage" in err
 
 

@@ -13,7 +13,7 @@ import pytest
 from pypdf import PdfReader
 
 from sheetgen.design.pipeline import design_from_file
-from sheetgen.inputs.reader import JobFileError
+from sheetgen.errors import InputError
 from sheetgen.report.results import results_json
 from sheetgen.sheet import render_sheet
 from sheetgen.inputs.style import SECTION_NAMES, check_logo_inside, default_style, load_style
@@ -23,7 +23,7 @@ from tests.test_sheet_tools import SHARED, TEMPLATES
 def _problems(tmp_path, text: str, job_dir=None) -> list[str]:
     path = tmp_path / "style.yaml"
     path.write_text(text, encoding="utf-8")
-    with pytest.raises(JobFileError) as caught:
+    with pytest.raises(InputError) as caught:
         load_style(path, job_dir or tmp_path)
     return [str(p).removeprefix(f"{path}:") for p in caught.value.problems]
 
@@ -91,6 +91,6 @@ def test_logo_inside_the_job_folder_is_drawn(tmp_path):
                        job_dir=tmp_path, style=style)
     reader = PdfReader(io.BytesIO(pdf))
     assert all(len(page.images) == 1 for page in reader.pages), "the logo on every page"
-    with pytest.raises(JobFileError) as caught:  # the same style for a job elsewhere
+    with pytest.raises(InputError) as caught:  # the same style for a job elsewhere
         check_logo_inside(style, tmp_path / "other-job")
     assert "2:7 logo:" in str(caught.value)

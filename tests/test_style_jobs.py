@@ -54,3 +54,22 @@ def test_style_by_path_and_unknown_name(tmp_path, capsys):
     err = capsys.readouterr().err
     assert f"{tmp_path / 'job.yaml'}:9:10 sheet.style: no house style named 'nowhere'" in err
     assert not out.exists()
+
+
+def test_a_toroid_job_beside_a_team_style_file_builds(tmp_path, capsys):
+    """The parts library loader reads the team folder's parts files, not the house styles
+    kept beside them (this failed with `organisation: unknown key`, exit 2)."""
+    team = tmp_path / "shared"
+    team.mkdir()
+    for name in ("cores.yaml", "materials.yaml"):
+        shutil.copy(ROOT / "shared" / name, team)
+    _letter_style(team / "style-shop.yaml", "Example Radio Works")
+    toroid = (ROOT / "templates" / "toroid.yaml").read_text(encoding="utf-8")
+    job = tmp_path / "job.yaml"
+    job.write_text(toroid.replace("  date: 2026-12-01", "  date: 2026-12-01\n  style: shop"),
+                   encoding="utf-8")
+    assert "style: shop" in job.read_text(encoding="utf-8")
+    out = tmp_path / "out.pdf"
+    assert main(["check", str(job)]) == 0, capsys.readouterr().err
+    assert main(["build", str(job), "-o", str(out)]) == 0, capsys.readouterr().err
+    assert "Example Radio Works" in _media_and_text(out)[1]

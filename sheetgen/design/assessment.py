@@ -19,6 +19,7 @@ from sheetgen.engine import resonance as rz
 from sheetgen.engine import variation as vr
 from sheetgen.engine.limits import TestLimits, TrimmerCheck, test_limits, trimmer_check
 from sheetgen.engine.stress import Stress
+from sheetgen.errors import FieldError
 from sheetgen.inputs.model import Job
 
 # IEC 60063 pairs each series with a tolerance (from memory): the default for a fixed part.
@@ -180,18 +181,10 @@ def rating_checks(job: Job, circuit: rz.Circuit, stress: Stress, names: Designat
     for index, accepted_check in enumerate(ratings.accept):
         if accepted_check.check.strip().lower() not in known:
             names = ", ".join(f"{c.part} {c.quantity}" for c in checks) or "none"
-            raise UnknownAcceptance(f"ratings.accept.{index}.check",
+            raise FieldError(f"ratings.accept[{index}].check",
                                     f"no rating check is called {accepted_check.check!r}; the "
                                     f"checks of this design are: {names}")
     return tuple(checks)
-
-
-class UnknownAcceptance(ValueError):
-    """An acceptance that names no rating check of the design (a typo would hide a failure)."""
-
-    def __init__(self, field: str, message: str):
-        self.field = field
-        super().__init__(message)
 
 
 def envelope(circuit: rz.Circuit, variation: vr.VariationResult, sweep: rz.Sweep,

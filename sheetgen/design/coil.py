@@ -10,18 +10,11 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 
 from sheetgen.engine import coil as coil_engine
+from sheetgen.errors import FieldError
 from sheetgen.engine.magnetics import CoreLossTable, self_resonant_frequency_hz
 from sheetgen.engine.wire import Wire, wire_from_designation
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import CoreSpec, MaterialSpec, SolenoidInductor, ToroidInductor
-
-
-class PartError(ValueError):
-    """A coil that cannot be designed as asked; `field` is the job field at fault."""
-
-    def __init__(self, field: str, message: str):
-        self.field = field
-        super().__init__(message)
 
 
 @dataclass(frozen=True)
@@ -74,7 +67,7 @@ def _lookup(library: PartsLibrary | None, kind: str, name: str, field: str):
     where = f"the parts library in {library.folder}" if library is not None else "no library"
     known = ", ".join(sorted(table)) or "none"
     singular = kind[:-1]
-    raise PartError(field, f"no {singular} named {name!r} in {where}; known {kind}: {known}")
+    raise FieldError(field, f"no {singular} named {name!r} in {where}; known {kind}: {known}")
 
 
 def resolve_wire(text: str, grade: int, field: str) -> Wire:
@@ -82,7 +75,7 @@ def resolve_wire(text: str, grade: int, field: str) -> Wire:
     try:
         return wire_from_designation(text, grade)
     except ValueError as error:
-        raise PartError(field, str(error)) from None
+        raise FieldError(field, str(error)) from None
 
 
 def with_self_capacitance(coil, capacitance_f: float, f_hz: float):
@@ -113,7 +106,7 @@ def design_coil(inductor: ToroidInductor | SolenoidInductor, library: PartsLibra
                                            pitch_m=inductor.pitch, length_m=inductor.length,
                                            lead_length_m=inductor.lead_length,
                                            temperature_c=temperature_c)
-    except PartError:
+    except FieldError:
         raise
     except ValueError as error:
-        raise PartError("inductor", str(error)) from None
+        raise FieldError("inductor", str(error)) from None

@@ -13,19 +13,12 @@ import numpy as np
 
 from sheetgen.engine import resonance as rz
 from sheetgen.engine.standard_values import StandardPair, best_parallel_pair, nearest_standard
-from sheetgen.design.assessment import Assessment, UnknownAcceptance, assess
+from sheetgen.design.assessment import Assessment, assess
+from sheetgen.errors import FieldError
 from sheetgen.design.designators import Designators, designators
 from sheetgen.engine.stress import Drive, DriveError, Stress, part_stress
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import Job
-
-
-class DesignError(ValueError):
-    """The job is well-formed but asks for something the circuit cannot do."""
-
-    def __init__(self, field: str, message: str):
-        self.field = field
-        super().__init__(f"{field}: {message}" if field else message)
 
 
 @dataclass(frozen=True)
@@ -154,7 +147,7 @@ def design(job: Job, library: PartsLibrary | None = None) -> Design:
     wanted_q = _wanted_loaded_q(targets, f0)
     if wanted_q is not None:
         if load_r is not None:
-            raise DesignError("load.resistance", "is given and so is a bandwidth or loaded Q "
+            raise FieldError("load.resistance", "is given and so is a bandwidth or loaded Q "
                               "target; remove one of them")
         circuit = _with_load_for_q(circuit, wanted_q)
         derived.append(Derivation("load.resistance", circuit.load_resistance_ohm, "Ω",
@@ -162,17 +155,17 @@ def design(job: Job, library: PartsLibrary | None = None) -> Design:
     try:
         resonance = rz.analyse(circuit)
     except rz.NoResonanceError as error:
-        raise DesignError("", str(error)) from None
+        raise FieldError("", str(error)) from None
     drive = _drive(job)
     try:
         stress = part_stress(circuit, drive, resonance.f_peak_hz)
     except DriveError as error:
-        raise DesignError("source", str(error)) from None
+        raise FieldError("source", str(error)) from None
     start, stop = rz.default_sweep_range_hz(resonance)
     start = job.sweep.start if job.sweep.start is not None else start
     stop = job.sweep.stop if job.sweep.stop is not None else stop
     if stop <= start:
-        raise DesignError("sweep", f"start {start:.6g} Hz must be below stop {stop:.6g} Hz")
+        raise FieldError("sweep", f"start {start:.6g} Hz must be below stop {stop:.6g} Hz")
     response = rz.sweep(circuit, np.linspace(start, stop, job.sweep.points))
     coil_design = None
     if coil is not None:
@@ -188,10 +181,10 @@ def design(job: Job, library: PartsLibrary | None = None) -> Design:
     try:
         assessment = _assess(job, circuit, resonance, stress, response, names, choice, fixed,
                              coil_design, f0_target)
-    except UnknownAcceptance as error:
-        raise DesignError(error.field, str(error)) from None
+    except FieldError:
+        raise
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
-        raise DesignError("variation", str(error)) from None
+        raise FieldError("variation", str(error)) from None
     return Design(job, circuit, drive, resonance, stress, response, choice, tuple(derived),
                   coil_design, names, assessment)
 
@@ -215,12 +208,9 @@ def _assess(job, circuit, resonance, stress, response, names, choice, fixed, coi
 
 def _design_coil(job: Job, library, inductance_h: float, f_hz: float, voltage_rms_v):
     # The coil modules (and scipy.special) are imported only for jobs that design a coil.
-    from sheetgen.design.coil import PartError, design_coil
-    try:
-        return design_coil(job.inductor, library, inductance_h, f_hz, voltage_rms_v,
-                           WIRE_TEMPERATURE_C)
-    except PartError as error:
-        raise DesignError(error.field, str(error)) from None
+    from sheetgen.design.coil import design_coil
+    return design_coil(job.inductor, library, inductance_h, f_hz, voltage_rms_v,
+                       WIRE_TEMPERATURE_C)
 
 
 def _replace_derivation(derived: list[Derivation], field: str, value: float, reason: str):
@@ -273,7 +263,7 @@ def _coil_design(job: Job, library, coil, target_l: float, circuit: rz.Circuit,
     if coupling is not None:
         field = f"inductor.{kind}"
         if circuit.topology != "parallel" or circuit.load_resistance_ohm is None:
-            raise DesignError(field, f"a {kind} couples a load to a parallel tank: it "
+            raise FieldError(field, f"a {kind} couples a load to a parallel tank: it "
                               "needs topology parallel and a load resistance (given or "
                               "computed from a bandwidth target)")
         # Ideal transformer: a resistance R at M of N turns looks like R·(N/M)² across the tank.
@@ -282,7 +272,7 @@ def _coil_design(job: Job, library, coil, target_l: float, circuit: rz.Circuit,
             link_turns_n, link_r = turns, coupling.resistance
         else:
             if turns >= coil.turns:
-                raise DesignError(field, f"a tap for {coupling.resistance:.4g} Ω would sit at "
+                raise FieldError(field, f"a tap for {coupling.resistance:.4g} Ω would sit at "
                                   f"or beyond the end of the {coil.turns}-turn winding: a tap "
                                   "matches only a resistance below the tank's load resistance "
                                   f"({circuit.load_resistance_ohm:.4g} Ω)")
@@ -315,7 +305,7 @@ def _capacitor_choice(job: Job, required_c: float) -> CapacitorChoice:
                                pair.total, True)
     middle = 0.5 * (trimmer.minimum + trimmer.maximum)
     if required_c - middle <= 0:
-        raise DesignError("capacitor.trimmer", f"the trimmer's mid-range ({middle:.4g} F) "
+        raise FieldError("capacitor.trimmer", f"the trimmer's mid-range ({middle:.4g} F) "
                           f"exceeds the whole capacitance needed ({required_c:.4g} F); "
                           "choose a smaller trimmer")
     fixed = best_parallel_pair(required_c - middle, series)
@@ -332,15 +322,15 @@ def _reactive_parts(job: Job, derived: list[Derivation]) -> tuple[float, float]:
     f0 = job.circuit.targets.f0 if job.circuit.targets else None
     if inductance is not None and capacitance is not None:
         if f0 is not None:
-            raise DesignError("circuit.targets.f0", "inductance and capacitance are both given; "
+            raise FieldError("circuit.targets.f0", "inductance and capacitance are both given; "
                               "leave one out for sheetgen to compute, or drop the f0 target")
         return inductance, capacitance
     if f0 is None:
         missing = "inductor.inductance" if inductance is None else "capacitor.capacitance"
-        raise DesignError(missing, "is missing; give it, or give circuit.targets.f0 and the "
+        raise FieldError(missing, "is missing; give it, or give circuit.targets.f0 and the "
                           "other reactive part")
     if inductance is None and capacitance is None:
-        raise DesignError("inductor.inductance", "give the inductance or the capacitance; "
+        raise FieldError("inductor.inductance", "give the inductance or the capacitance; "
                           "an f0 target alone does not fix both")
     if capacitance is None:
         capacitance = float(rz.capacitance_for_f0(f0, inductance))
@@ -382,7 +372,7 @@ def _with_load_for_q(circuit: rz.Circuit, wanted_q: float) -> rz.Circuit:
     low_u, high_u = math.log(x0 * 1e-6), math.log(x0 * 1e6)
     ends = _loaded_q(circuit, np.exp(np.array([low_u, high_u])))
     if not min(ends) < wanted_q < max(ends):
-        raise DesignError("circuit.targets", f"a loaded Q of {wanted_q:.4g} cannot be reached with "
+        raise FieldError("circuit.targets", f"a loaded Q of {wanted_q:.4g} cannot be reached with "
                           f"a load resistance: the losses and source allow {min(ends):.3g} to "
                           f"{max(ends):.3g}")
     rising = ends[1] > ends[0]

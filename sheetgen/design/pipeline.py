@@ -8,8 +8,9 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from sheetgen.design.compute import Design, DesignError, design
-from sheetgen.inputs.reader import JobFileError, Problem, field_position, load_job
+from sheetgen.design.compute import Design, design
+from sheetgen.errors import FieldError, InputError, Problem
+from sheetgen.inputs.reader import field_position, load_job
 from sheetgen.inputs.library import find_library_folder, load_library
 from sheetgen.inputs.model import Job
 
@@ -23,7 +24,7 @@ def needs_library(job: Job) -> bool:
 
 
 def design_from_file(job_path: Path, library_folder: Path | None = None) -> Design:
-    """The Design of the job file at job_path; JobFileError lists what is wrong with it."""
+    """The Design of the job file at job_path; InputError lists what is wrong with it."""
     job_path = Path(job_path)
     job = load_job(job_path)
     library = None
@@ -31,7 +32,7 @@ def design_from_file(job_path: Path, library_folder: Path | None = None) -> Desi
         library = load_library(find_library_folder(job_path, job.library, library_folder))
     try:
         return design(job, library)
-    except DesignError as error:
+    except FieldError as error:
         line, column = field_position(job_path, error.field)
-        message = str(error).removeprefix(f"{error.field}: ") if error.field else str(error)
-        raise JobFileError([Problem(str(job_path), line, column, error.field, message)]) from None
+        raise InputError([Problem(str(job_path), line, column, error.field,
+                                  error.message)]) from None

@@ -3,7 +3,8 @@
 Where it is found, first match wins: the folder given on the command line (--library);
 the job's own `library:` field (relative to the job file); the nearest folder named
 `shared/` above the job file that holds library files; the library shipped with sheetgen.
-Every *.yaml file of the folder is read; names must be unique across the files.
+Every *.yaml file of the folder is read except house styles (style-NAME.yaml); names must
+be unique across the files.
 """
 
 from __future__ import annotations
@@ -11,10 +12,12 @@ from __future__ import annotations
 from dataclasses import dataclass
 from pathlib import Path
 
-from sheetgen.inputs.reader import JobFileError, Problem, compose_located, load_validated
+from sheetgen.errors import InputError, Problem
+from sheetgen.inputs.reader import load_validated_located
 from sheetgen.inputs.model import CoreSpec, MaterialSpec, PartsLibraryFile
 from sheetgen.inputs.package_data import bundled_library_folder
 
+STYLE_FILE_PREFIX = "style-"  # house styles may share the team's library folder
 LIBRARY_MARKERS = ("cores.yaml", "materials.yaml")
 
 
@@ -41,23 +44,30 @@ def find_library_folder(job_path: Path, named: str | None, cli_folder: Path | No
     return bundled_library_folder()
 
 
+def library_files(folder: Path) -> list[Path]:
+    """The parts files of a library folder: every *.yaml but the house styles kept beside
+    them (style-NAME.yaml, see inputs/style.py)."""
+    return [path for path in sorted(folder.glob("*.yaml"))
+            if not path.name.startswith(STYLE_FILE_PREFIX)]
+
+
 def load_library(folder: Path) -> PartsLibrary:
-    """Read and validate every YAML file of `folder`; JobFileError lists all problems."""
+    """Read and validate every YAML file of `folder`; InputError lists all problems."""
     if not folder.is_dir():
-        raise JobFileError([Problem(str(folder), 1, 1, "", "the parts library folder does not "
+        raise InputError([Problem(str(folder), 1, 1, "", "the parts library folder does not "
                                     "exist; expected a folder of YAML files")])
     materials: dict[str, MaterialSpec] = {}
     cores: dict[str, CoreSpec] = {}
     origin: dict[str, str] = {}
     problems: list[Problem] = []
-    for path in sorted(folder.glob("*.yaml")):
+    for path in library_files(folder):
         try:
-            part = load_validated(path, PartsLibraryFile, "a mapping with materials and/or cores",
-                                  kind="parts library file")
-        except JobFileError as error:
+            part, located = load_validated_located(
+                path, PartsLibraryFile, "a mapping with materials and/or cores",
+                kind="parts library file")
+        except InputError as error:
             problems += error.problems
             continue
-        located = compose_located(path.read_text(encoding="utf-8"), str(path))
         for kind, found, store in (("materials", part.materials, materials),
                                    ("cores", part.cores, cores)):
             for name, spec in found.items():
@@ -71,5 +81,5 @@ def load_library(folder: Path) -> PartsLibrary:
                 store[name] = spec
                 origin[key] = str(path)
     if problems:
-        raise JobFileError(problems)
+        raise InputError(problems)
     return PartsLibrary(str(folder), materials, cores, origin)

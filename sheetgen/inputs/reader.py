@@ -16,6 +16,7 @@ from pathlib import Path
 import yaml
 from pydantic import BaseModel, ValidationError
 
+from sheetgen.errors import InputError, Problem, field_parts, field_path
 from sheetgen.inputs.model import BY_NAME, INLINE, Job
 from sheetgen.quantities import shown_input
 
@@ -27,29 +28,6 @@ _PLAIN_TAGS = {
     "tag:yaml.org,2002:" + name
     for name in ("str", "int", "float", "bool", "null", "map", "seq", "timestamp")
 }
-
-
-@dataclass(frozen=True)
-class Problem:
-    """One thing wrong with a job file, at a 1-based line and column."""
-
-    path: str
-    line: int
-    column: int
-    field: str
-    message: str
-
-    def __str__(self) -> str:
-        where = f"{self.path}:{self.line}:{self.column}"
-        return f"{where} {self.field}: {self.message}" if self.field else f"{where} {self.message}"
-
-
-class JobFileError(Exception):
-    """A job file that cannot be used; `problems` lists everything found, in file order."""
-
-    def __init__(self, problems: list[Problem]):
-        self.problems = sorted(problems, key=lambda p: (p.line, p.column))
-        super().__init__("\n".join(str(p) for p in self.problems))
 
 
 @dataclass(frozen=True)
@@ -74,24 +52,24 @@ def read_yaml_text(path: Path, kind: str, max_bytes: int, missing_hint: str = ""
     ("job file", "style file" …) names it in the messages."""
     shown = str(path)
     if not path.exists():
-        raise JobFileError([Problem(shown, 1, 1, "", f"no such file; expected a YAML {kind}"
+        raise InputError([Problem(shown, 1, 1, "", f"no such file; expected a YAML {kind}"
                                     f"{missing_hint}")])
     if path.is_dir():
-        raise JobFileError([Problem(shown, 1, 1, "", f"is a directory; expected a YAML {kind}")])
+        raise InputError([Problem(shown, 1, 1, "", f"is a directory; expected a YAML {kind}")])
     size = path.stat().st_size
     if size > max_bytes:
-        raise JobFileError([Problem(shown, 1, 1, "", f"is {size:,} bytes; a {kind} is at most "
+        raise InputError([Problem(shown, 1, 1, "", f"is {size:,} bytes; a {kind} is at most "
                                     f"{max_bytes:,} bytes")])
     try:
         raw = path.read_bytes()
     except OSError as error:
-        raise JobFileError([Problem(shown, 1, 1, "", f"cannot be read ({error.strerror})")]) from None
+        raise InputError([Problem(shown, 1, 1, "", f"cannot be read ({error.strerror})")]) from None
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as error:
         line = raw.count(b"\n", 0, error.start) + 1
         column = error.start - (raw.rfind(b"\n", 0, error.start) + 1) + 1
-        raise JobFileError([Problem(shown, line, column, "", f"byte 0x{raw[error.start]:02x} is "
+        raise InputError([Problem(shown, line, column, "", f"byte 0x{raw[error.start]:02x} is "
                                     f"not UTF-8; save the {kind} as UTF-8 text")]) from None
     return text.removeprefix("\ufeff")
 
@@ -99,7 +77,7 @@ def read_yaml_text(path: Path, kind: str, max_bytes: int, missing_hint: str = ""
 def compose_located(text: str, shown: str) -> Located:
     """YAML text → plain data, with marks; only the plain YAML types, no duplicate keys."""
     if not text.strip():
-        raise JobFileError([Problem(shown, 1, 1, "", "the file is empty; expected a mapping with "
+        raise InputError([Problem(shown, 1, 1, "", "the file is empty; expected a mapping with "
                                     "sheet, circuit, inductor, capacitor and source")])
     loader = yaml.SafeLoader(text)
     try:
@@ -108,14 +86,14 @@ def compose_located(text: str, shown: str) -> Located:
         mark = error.problem_mark or error.context_mark
         what = error.problem or "not valid YAML"
         line, column = (mark.line + 1, mark.column + 1) if mark else (1, 1)
-        raise JobFileError([Problem(shown, line, column, "",
+        raise InputError([Problem(shown, line, column, "",
                                     f"YAML syntax: {what}; expected valid YAML")]) from None
     except yaml.YAMLError as error:
-        raise JobFileError([Problem(shown, 1, 1, "", f"YAML syntax: {error}")]) from None
+        raise InputError([Problem(shown, 1, 1, "", f"YAML syntax: {error}")]) from None
     finally:
         loader.dispose()
     if node is None:
-        raise JobFileError([Problem(shown, 1, 1, "", "the file holds no YAML document; expected "
+        raise InputError([Problem(shown, 1, 1, "", "the file holds no YAML document; expected "
                                     "a mapping with sheet, circuit, inductor, capacitor and source")])
     problems: list[Problem] = []
     marks: dict[tuple, tuple[int, int]] = {}
@@ -129,12 +107,12 @@ def compose_located(text: str, shown: str) -> Located:
     def build(n, path: tuple):
         count[0] += 1
         if count[0] > MAX_NODES:
-            raise JobFileError([Problem(shown, *at(n), _dotted(path),
+            raise InputError([Problem(shown, *at(n), field_path(path),
                                         f"more than {MAX_NODES:,} YAML nodes (aliases expanded); "
                                         "a job file is far smaller")])
         marks[path] = at(n)
         if n.tag not in _PLAIN_TAGS:
-            problems.append(Problem(shown, *at(n), _dotted(path),
+            problems.append(Problem(shown, *at(n), field_path(path),
                                     f"the tag {n.tag!r} is not allowed; expected plain YAML "
                                     "values (text, numbers, lists, mappings)"))
             return None
@@ -143,12 +121,12 @@ def compose_located(text: str, shown: str) -> Located:
             for key_node, value_node in n.value:
                 if (not isinstance(key_node, yaml.ScalarNode)
                         or key_node.tag != "tag:yaml.org,2002:str"):
-                    problems.append(Problem(shown, *at(key_node), _dotted(path),
+                    problems.append(Problem(shown, *at(key_node), field_path(path),
                                             "a key must be plain text"))
                     continue
                 key = key_node.value
                 if key in result:
-                    problems.append(Problem(shown, *at(key_node), _dotted(path + (key,)),
+                    problems.append(Problem(shown, *at(key_node), field_path(path + (key,)),
                                             "appears twice; give each key once"))
                     continue
                 key_marks[path + (key,)] = at(key_node)
@@ -160,19 +138,12 @@ def compose_located(text: str, shown: str) -> Located:
 
     data = build(node, ())
     if problems:
-        raise JobFileError(problems)
+        raise InputError(problems)
     return Located(data, marks, key_marks)
 
 
-def _dotted(path: tuple) -> str:
-    text = ""
-    for part in path:
-        text += f"[{part}]" if isinstance(part, int) else (f".{part}" if text else str(part))
-    return text
-
-
 def load_job(path: str | os.PathLike) -> Job:
-    """Read and validate a job file. Raises JobFileError listing every problem found."""
+    """Read and validate a job file. Raises InputError listing every problem found."""
     return load_validated(path, Job, "a mapping with sheet, circuit, inductor, capacitor and "
                           "source at the top level", "job file", JOB_FILE_HINT)
 
@@ -180,22 +151,28 @@ def load_job(path: str | os.PathLike) -> Job:
 def load_validated(path: str | os.PathLike, model: type[BaseModel], expected: str,
                    kind: str, missing_hint: str = ""):
     """Read a YAML `kind` of file and validate it as `model`, every problem located in it."""
+    return load_validated_located(path, model, expected, kind, missing_hint)[0]
+
+
+def load_validated_located(path: str | os.PathLike, model: type[BaseModel], expected: str,
+                           kind: str, missing_hint: str = "") -> tuple[BaseModel, Located]:
+    """load_validated, also returning the located data (marks of every node) it read."""
     path = Path(path)
     shown = str(path)
     located = compose_located(read_yaml_text(path, kind, MAX_JOB_BYTES, missing_hint), shown)
     if not isinstance(located.data, dict):
-        raise JobFileError([Problem(shown, 1, 1, "", f"expected {expected}")])
+        raise InputError([Problem(shown, 1, 1, "", f"expected {expected}")])
     try:
-        return model.model_validate(located.data)
+        return model.model_validate(located.data), located
     except ValidationError as error:
-        raise JobFileError([_problem(shown, located, e, model) for e in error.errors()]) from None
+        raise InputError([_problem(shown, located, e, model) for e in error.errors()]) from None
 
 
 def _problem(shown: str, located: Located, error: dict, root: type[BaseModel]) -> Problem:
     """One pydantic error → a Problem at the right node, with a message a person can act on."""
     path = _data_path(located.data, error["loc"])
     kind = error["type"]
-    field = _dotted(path)
+    field = field_path(path)
     if kind == "extra_forbidden":
         line, column = located.key_marks.get(path, located.marks.get(path, (1, 1)))
         allowed = _allowed_keys(root, path[:-1], located.data)
@@ -214,7 +191,7 @@ def _problem(shown: str, located: Located, error: dict, root: type[BaseModel]) -
     if kind in ("union_tag_invalid", "union_tag_not_found"):
         tags = error.get("ctx", {}).get("expected_tags") or _forms(root, path)
         path = path + ("form",)
-        field = _dotted(path)
+        field = field_path(path)
         line, column = located.marks.get(path, located.marks.get(path[:-1], (1, 1)))
         given = error.get("ctx", {}).get("tag")
         what = f"{_shown(given)} is not a form" if given is not None else "is missing"
@@ -328,7 +305,7 @@ def _pick_model(annotation, node):
 def field_position(path: str | os.PathLike, field: str) -> tuple[int, int]:
     """Line and column of a dotted field in a job file already known to load (1, 1 if absent)."""
     located = compose_located(read_job_text(Path(path)), str(path))
-    parts = tuple(int(p) if p.isdigit() else p for p in field.split(".")) if field else ()
+    parts = field_parts(field)
     while parts and parts not in located.marks:
         parts = parts[:-1]
     return located.marks.get(parts, (1, 1))

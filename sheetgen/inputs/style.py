@@ -13,7 +13,10 @@ from dataclasses import dataclass
 from pathlib import Path, PurePosixPath, PureWindowsPath
 
 from sheetgen.inputs.package_data import templates_folder
-from sheetgen.inputs.reader import JobFileError, Problem, compose_located, read_yaml_text
+from sheetgen.errors import InputError, Problem
+from sheetgen.inputs.library import STYLE_FILE_PREFIX, find_library_folder
+from sheetgen.inputs.model import Job
+from sheetgen.inputs.reader import compose_located, field_position, read_yaml_text
 
 PAGE_SIZES = ("A4", "Letter")
 # Every section the sheet can draw, in the default order. The identity (title block on
@@ -60,7 +63,7 @@ def style_from_text(text: str, shown: str, job_dir: Path | None) -> HouseStyle:
     located = compose_located(text, shown)
     data = located.data
     if not isinstance(data, dict):
-        raise JobFileError([Problem(shown, 1, 1, "", "expected a mapping with organisation, "
+        raise InputError([Problem(shown, 1, 1, "", "expected a mapping with organisation, "
                                     "page_size and sections")])
     problems: list[Problem] = []
 
@@ -112,7 +115,7 @@ def style_from_text(text: str, shown: str, job_dir: Path | None) -> HouseStyle:
     if logo is not None:
         logo_path = _logo(logo, job_dir, lambda message: problem("logo", message))
     if problems:
-        raise JobFileError(problems)
+        raise InputError(problems)
     return HouseStyle(organisation=organisation.strip(), page_size=page_size,
                       sections=tuple(sections), logo_path=logo_path, page_note=page_note,
                       source=shown, logo_mark=located.marks.get(("logo",), (1, 1)))
@@ -162,6 +165,31 @@ def check_logo_inside(style: HouseStyle, job_dir: Path | None) -> None:
     root = Path(job_dir).resolve()
     if not style.logo_path.resolve().is_relative_to(root):
         line, column = style.logo_mark
-        raise JobFileError([Problem(style.source, line, column, "logo",
+        raise InputError([Problem(style.source, line, column, "logo",
                                     f"{style.logo_path} is outside the job's folder {root}; "
                                     "keep the logo inside the job's folder tree")])
+
+
+def resolve_style(job_path: Path, job: Job, cli_style: Path | None,
+                  library_folder: Path | None) -> HouseStyle | None:
+    """The house style: --style, else the job's sheet.style (a path, or a name looked up as
+    style-NAME.yaml in the parts library folder and then in the shipped templates)."""
+    job_dir = job_path.resolve().parent
+    if cli_style is not None:
+        return load_style(cli_style, job_dir)
+    wanted = job.sheet.style
+    if wanted is None:
+        return None
+    if wanted.endswith((".yaml", ".yml")) or "/" in wanted or "\\" in wanted:
+        return load_style(job_dir / wanted, job_dir)
+    folders = [find_library_folder(job_path, job.library, library_folder),
+               templates_folder()]
+    for folder in folders:
+        candidate = folder / f"{STYLE_FILE_PREFIX}{wanted}.yaml"
+        if candidate.is_file():
+            return load_style(candidate, job_dir)
+    line, column = field_position(job_path, "sheet.style")
+    looked = " and ".join(str(f) for f in folders)
+    raise InputError([Problem(str(job_path), line, column, "sheet.style",
+                                f"no house style named {wanted!r} (style-{wanted}.yaml) in "
+                                f"{looked}; expected a style name or a path to a style file")])
