@@ -7,19 +7,18 @@ printed one a line, never as a traceback; an output file is written whole or not
 from __future__ import annotations
 
 import argparse
-import json
 import os
 import sys
 import tempfile
 from pathlib import Path
 
 from sheetgen import __version__
-from sheetgen.report.checks import failed_checks
 from sheetgen.design.compute import Design
-from sheetgen.errors import InputError
 from sheetgen.design.pipeline import design_from_file
-from sheetgen.report.summary import summary_text
+from sheetgen.errors import InputError
 from sheetgen.inputs.starters import TEMPLATE_NAMES, demo_job_path, template_text
+from sheetgen.report.checks import failed_checks
+from sheetgen.report.summary import summary_text
 
 EXIT_OK, EXIT_CHECK_FAILED, EXIT_BAD_INPUT = 0, 1, 2
 

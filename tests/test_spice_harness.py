@@ -24,6 +24,8 @@ from scipy.optimize import brentq, minimize_scalar
 from tests import spice
 from tests.support import assert_close
 
+pytestmark = pytest.mark.ngspice
+
 HARNESS_REL = 2e-6  # meas rounding (5e-7) + sweep grid and linear interpolation of WHEN
 
 

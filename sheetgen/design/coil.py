@@ -10,9 +10,9 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 
 from sheetgen.engine import coil as coil_engine
-from sheetgen.errors import FieldError
 from sheetgen.engine.magnetics import CoreLossTable, self_resonant_frequency_hz
 from sheetgen.engine.wire import Wire, wire_from_designation
+from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import CoreSpec, MaterialSpec, SolenoidInductor, ToroidInductor
 

@@ -11,12 +11,12 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
+from sheetgen.design.assessment import Assessment, assess
+from sheetgen.design.designators import Designators, designators
 from sheetgen.engine import resonance as rz
 from sheetgen.engine.standard_values import StandardPair, best_parallel_pair, nearest_standard
-from sheetgen.design.assessment import Assessment, assess
-from sheetgen.errors import FieldError
-from sheetgen.design.designators import Designators, designators
 from sheetgen.engine.stress import Drive, DriveError, Stress, part_stress
+from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import Job
 

@@ -10,9 +10,9 @@ from pathlib import Path
 
 from sheetgen.design.compute import Design, design
 from sheetgen.errors import FieldError, InputError, Problem
-from sheetgen.inputs.reader import field_position, load_job
 from sheetgen.inputs.library import find_library_folder, load_library
 from sheetgen.inputs.model import Job
+from sheetgen.inputs.reader import field_position, load_job
 
 
 def needs_library(job: Job) -> bool:

@@ -11,8 +11,8 @@ from dataclasses import dataclass
 from typing import Literal
 
 import numpy as np
-from sheetgen.engine.constants import MU_0_H_PER_M as mu_0
 
+from sheetgen.engine.constants import MU_0_H_PER_M as mu_0
 from sheetgen.engine.resonance import reactance_ohm, resonant_frequency_hz
 
 LEAD_GAP_DEG = 30.0  # angle left free between a toroid's two leads (common practice)

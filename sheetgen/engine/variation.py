@@ -19,13 +19,19 @@ from __future__ import annotations
 
 import itertools
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
 from types import MappingProxyType
-from typing import Literal, Mapping
+from typing import Literal
 
 import numpy as np
 
-from sheetgen.engine.resonance import capacitance_for_f0, Circuit, response_features, terminal_impedance
+from sheetgen.engine.resonance import (
+    Circuit,
+    capacitance_for_f0,
+    response_features,
+    terminal_impedance,
+)
 
 Distribution = Literal["uniform", "normal"]
 Method = Literal["monte-carlo", "worst-case"]
@@ -206,7 +212,8 @@ class VariationSpec:
                 and self.temperature_max_c <= band.rated_max_c):
             raise ValueError(
                 f"the operating range {self.temperature_min_c:g} … "
-                f"{self.temperature_max_c:g} °C goes beyond the capacitor dielectric's rated range {band.rated_min_c:g} … "
+                f"{self.temperature_max_c:g} °C goes beyond the capacitor dielectric's rated "
+                f"range {band.rated_min_c:g} … "
                 f"{band.rated_max_c:g} °C, where its change is not bounded")
 
     @property

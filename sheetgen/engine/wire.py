@@ -11,6 +11,7 @@ import re
 from dataclasses import dataclass
 
 import numpy as np
+
 from sheetgen.engine.constants import MU_0_H_PER_M as mu_0
 
 # IEC 60028: annealed copper standard, 1/58 Ω·mm²/m at 20 °C, α20 = 0.00393 /K.

@@ -13,9 +13,9 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from sheetgen.errors import InputError, Problem
-from sheetgen.inputs.reader import load_validated_located
 from sheetgen.inputs.model import CoreSpec, MaterialSpec, PartsLibraryFile
 from sheetgen.inputs.package_data import bundled_library_folder
+from sheetgen.inputs.reader import load_validated_located
 
 STYLE_FILE_PREFIX = "style-"  # house styles may share the team's library folder
 LIBRARY_MARKERS = ("cores.yaml", "materials.yaml")

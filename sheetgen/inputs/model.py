@@ -10,8 +10,16 @@ from __future__ import annotations
 import datetime as _dt
 from typing import Annotated, Literal
 
-from pydantic import (BaseModel, BeforeValidator, ConfigDict, Discriminator, Field, Tag,
-                      WithJsonSchema, model_validator)
+from pydantic import (
+    BaseModel,
+    BeforeValidator,
+    ConfigDict,
+    Discriminator,
+    Field,
+    Tag,
+    WithJsonSchema,
+    model_validator,
+)
 from pydantic_core import PydanticCustomError
 
 from sheetgen import quantities as qty

@@ -12,10 +12,10 @@ import difflib
 from dataclasses import dataclass
 from pathlib import Path, PurePosixPath, PureWindowsPath
 
-from sheetgen.inputs.package_data import templates_folder
 from sheetgen.errors import InputError, Problem
 from sheetgen.inputs.library import STYLE_FILE_PREFIX, find_library_folder
 from sheetgen.inputs.model import Job
+from sheetgen.inputs.package_data import templates_folder
 from sheetgen.inputs.reader import compose_located, field_position, read_yaml_text
 
 PAGE_SIZES = ("A4", "Letter")

@@ -7,8 +7,8 @@ them (engine/ratings.py computes, this says).
 from __future__ import annotations
 
 from sheetgen.engine.ratings import RatingCheck, Remedy
-from sheetgen.report.formatting import percent, stress_text
 from sheetgen.quantities import format_number, format_quantity
+from sheetgen.report.formatting import percent, stress_text
 
 
 def rating_advice(check: RatingCheck) -> str | None:

@@ -14,8 +14,9 @@ keeps the peak as a DC voltage; that is compared with the DC limits.
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, Iterable, Literal, Mapping
+from typing import TYPE_CHECKING, Literal
 
 from sheetgen.engine.ratings import discharge_time_s, stored_charge_c, stored_energy_j
 from sheetgen.engine.resonance import Circuit

@@ -8,8 +8,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from sheetgen.design.compute import Design
-from sheetgen.report.advice import rating_advice
 from sheetgen.quantities import format_quantity
+from sheetgen.report.advice import rating_advice
 
 
 @dataclass(frozen=True)

@@ -351,8 +351,8 @@ def _trim_step(design: Design) -> Step:
         return Step(9, "Tune", f"Adjust the trimmer {design.designators.trimmer} for the "
                     f"response maximum at "
                     f"{quantity_text(design.resonance.f_peak_hz, 'Hz')} (expected setting "
-                    f"{quantity_text(choice.trimmer_setting_f, 'F')} of its {quantity_text(trimmer.minimum, 'F', 3)} to "
-                    f"{quantity_text(trimmer.maximum, 'F', 3)}), then repeat steps 7 and 8.")
+                    f"{quantity_text(choice.trimmer_setting_f, 'F')} of its "
+                    f"{range_text(trimmer.minimum, trimmer.maximum, 'F', 3)}), then repeat steps 7 and 8.")
     return Step(9, "Trim if needed",
                 "If the maximum is off frequency, change the capacitance to C × (f measured / "
                 "f wanted)² (from f0 = 1/(2π√(LC))) and repeat from step 7.")

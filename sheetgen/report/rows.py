@@ -10,7 +10,14 @@ from dataclasses import dataclass
 
 from sheetgen.design.compute import Design
 from sheetgen.quantities import format_number
-from sheetgen.report.formatting import plural, quantity_text, range_text, signed, stress_text, tolerance_text
+from sheetgen.report.formatting import (
+    plural,
+    quantity_text,
+    range_text,
+    signed,
+    stress_text,
+    tolerance_text,
+)
 
 
 @dataclass(frozen=True)

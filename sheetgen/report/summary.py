@@ -5,8 +5,15 @@ from __future__ import annotations
 from sheetgen.design.compute import Design
 from sheetgen.report.cautions import design_cautions
 from sheetgen.report.checks import failed_checks
-from sheetgen.report.rows import (Row, coil_rows, component_rows, limits_rows, performance_rows, rating_rows,
-                     stress_rows)
+from sheetgen.report.rows import (
+    Row,
+    coil_rows,
+    component_rows,
+    limits_rows,
+    performance_rows,
+    rating_rows,
+    stress_rows,
+)
 
 
 def _block(title: str, rows: list[Row]) -> list[str]:

@@ -24,10 +24,10 @@ from reportlab.platypus import BaseDocTemplate, Frame, PageTemplate, Spacer
 
 from sheetgen import __version__
 from sheetgen.design.compute import Design
-from sheetgen.sheet import fonts
-from sheetgen.report.parts import headline
-from sheetgen.sheet.sections import SECTIONS, make_kit, para, with_heading
 from sheetgen.inputs.style import HouseStyle, check_logo_inside, default_style
+from sheetgen.report.parts import headline
+from sheetgen.sheet import fonts
+from sheetgen.sheet.sections import SECTIONS, make_kit, para, with_heading
 
 PAGE_SIZES = {"A4": A4, "Letter": letter}
 MARGIN = 14 * mm

@@ -9,28 +9,47 @@ rows.py), so the sheet words and formats every value as the terminal summary doe
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Callable
 from xml.sax.saxutils import escape
 
 from reportlab.lib import colors
 from reportlab.lib.enums import TA_LEFT
 from reportlab.lib.styles import ParagraphStyle
-from reportlab.platypus import (CondPageBreak, Flowable, KeepTogether, Paragraph, Spacer, Table,
-                                TableStyle)
+from reportlab.platypus import (
+    CondPageBreak,
+    Flowable,
+    KeepTogether,
+    Paragraph,
+    Spacer,
+    Table,
+    TableStyle,
+)
 
 from sheetgen.design.compute import Design
 from sheetgen.report.advice import rating_advice
 from sheetgen.report.cautions import design_cautions
-from sheetgen.report.procedure import OVERALL_VERDICT, RECORD_TEXT_FIELDS, VERDICT_CHOICES, procedure
-from sheetgen.report.rows import (Row, coil_rows, component_rows, limits_rows, performance_rows,
-                      rating_rows, stress_rows)
+from sheetgen.report.parts import PART_COLUMNS, PartRow, part_rows
+from sheetgen.report.procedure import (
+    OVERALL_VERDICT,
+    RECORD_TEXT_FIELDS,
+    VERDICT_CHOICES,
+    procedure,
+)
+from sheetgen.report.rows import (
+    Row,
+    coil_rows,
+    component_rows,
+    limits_rows,
+    performance_rows,
+    rating_rows,
+    stress_rows,
+)
 from sheetgen.report.winding import winding_steps
 from sheetgen.sheet import fonts
-from sheetgen.sheet.schematic import schematic_drawing, schematic_of
 from sheetgen.sheet.forms import CheckBox, TextField
 from sheetgen.sheet.plots import coil_q_drawing, impedance_phase_drawing, response_drawing
-from sheetgen.report.parts import PART_COLUMNS, PartRow, part_rows
+from sheetgen.sheet.schematic import schematic_drawing, schematic_of
 from sheetgen.sheet.winding_drawing import SolenoidView, winding_drawing, winding_view_of
 
 GREY_RULE = colors.Color(0.55, 0.55, 0.55)

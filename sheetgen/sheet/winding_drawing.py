@@ -226,8 +226,8 @@ def _label_step(turns: int, arc_per_turn_pt: float) -> int:
 
 def _toroid_drawing(view: ToroidView, width: float):
     from reportlab.graphics.shapes import Circle, Drawing, Group
-    from reportlab.pdfbase.pdfmetrics import stringWidth
     from reportlab.lib.colors import Color, black, white
+    from reportlab.pdfbase.pdfmetrics import stringWidth
     scale = drafting_scale(view.outer_diameter_m, _RING_MAX_PT)
     k = scale.factor * POINTS_PER_M
     r_out, r_in = view.outer_diameter_m / 2 * k, view.inner_diameter_m / 2 * k
@@ -345,8 +345,8 @@ def _fit_height(drawing, margin_pt: float = 4.0):
 
 def _solenoid_drawing(view: SolenoidView, width: float):
     from reportlab.graphics.shapes import Drawing, Group, Rect
-    from reportlab.pdfbase.pdfmetrics import stringWidth
     from reportlab.lib.colors import Color, black
+    from reportlab.pdfbase.pdfmetrics import stringWidth
     overhang_m = max(0.0, -view.winding_start_m)
     by_length = drafting_scale(view.former_length_m + 2 * overhang_m,
                                min(_FORMER_MAX_PT[0], width - _FACTS_MIN_PT - 110.0))

@@ -1,3 +1,4 @@
+
 """A job chooses its house style: by name from the team library or the shipped templates, or
 by path; an unknown name is bad input at sheet.style. Page sizes: ANSI Letter 612 × 792 pt,
 ISO 216 A4 595.3 × 841.9 pt (from memory)."""
@@ -5,11 +6,14 @@ ISO 216 A4 595.3 × 841.9 pt (from memory)."""
 import shutil
 from pathlib import Path
 
+import pytest
 from pypdf import PdfReader
 
 from sheetgen.cli import main
 
-ROOT = Path(__file__).resolve().parent.parent
+pytestmark = pytest.mark.pdf
+
+ROOT = Path(__file__).resolve().parents[2]
 SERIES = (ROOT / "templates" / "series.yaml").read_text(encoding="utf-8")
 DEFAULT_STYLE = (ROOT / "templates" / "style-default.yaml").read_text(encoding="utf-8")
 

@@ -25,8 +25,14 @@ from scipy import stats
 
 from sheetgen.engine.resonance import Circuit, resonant_frequency_hz
 from sheetgen.engine.variation import (
-    DIELECTRICS, Spread, TemperatureBand, TemperatureCoefficient, VariationSpec, dielectric,
-    monte_carlo, worst_case,
+    DIELECTRICS,
+    Spread,
+    TemperatureBand,
+    TemperatureCoefficient,
+    VariationSpec,
+    dielectric,
+    monte_carlo,
+    worst_case,
 )
 from tests.support import assert_close
 

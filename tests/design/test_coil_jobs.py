@@ -13,7 +13,7 @@ import pytest
 
 from sheetgen.cli import main
 
-ROOT = Path(__file__).resolve().parent.parent
+ROOT = Path(__file__).resolve().parents[2]
 TOROID = (ROOT / "templates" / "toroid.yaml").read_text(encoding="utf-8")
 
 
@@ -139,6 +139,7 @@ def test_tap_above_the_tank_resistance_and_tap_with_link_are_refused(tmp_path, c
     assert code == 2 and "give a link or a tap, not both" in err
 
 
+@pytest.mark.pdf
 def test_tap_is_drawn_on_the_schematic_and_the_winding(tmp_path, capsys):
     from pypdf import PdfReader
     job, out = _job(tmp_path, TAPPED), tmp_path / "tap.pdf"

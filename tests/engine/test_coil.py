@@ -25,8 +25,8 @@ from sheetgen.engine.coil import (
 )
 from sheetgen.engine.magnetics import CoreLossTable
 from sheetgen.engine.wire import awg_wire, dc_resistance_ohm, wire_from_designation
+from tests.engine.test_magnetics import _maxwell_current_sheet_inductance_h
 from tests.support import assert_close
-from tests.test_magnetics import _maxwell_current_sheet_inductance_h
 
 FOOT_M = 0.3048
 
@@ -236,6 +236,7 @@ def _ngspice_q(l_h, r_ohm, c_f, f_hz):
     return data.vectors["zim"][0] / data.vectors["zre"][0]
 
 
+@pytest.mark.ngspice
 def test_q_with_self_capacitance_against_ngspice():
     coil = design_solenoid(2e-6, 7e6, 20e-3, awg_wire(18), pitch_m=2e-3, lead_length_m=0.02)
     model = coil.loss_model

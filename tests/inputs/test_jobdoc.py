@@ -9,7 +9,7 @@ from pydantic import BaseModel
 from sheetgen.inputs.jobdoc import _models_in
 from sheetgen.inputs.model import Job, PartsLibraryFile
 
-ROOT = Path(__file__).resolve().parent.parent
+ROOT = Path(__file__).resolve().parents[2]
 REFERENCE = (ROOT / "docs" / "jobfile.md").read_text(encoding="utf-8")
 
 

@@ -20,14 +20,22 @@ from reportlab.graphics.shapes import Line
 from sheetgen.design.designators import Designators
 from sheetgen.design.pipeline import design_from_file
 from sheetgen.quantities import format_quantity
-from sheetgen.sheet.schematic import schematic_of
 from sheetgen.report.parts import NO_DATA, part_rows
-from sheetgen.sheet.winding_drawing import winding_drawing, winding_view_of
+from sheetgen.report.rows import (
+    capacitor_rows,
+    coil_rows,
+    component_rows,
+    limits_rows,
+    rating_rows,
+    stress_rows,
+)
 from sheetgen.report.summary import summary_text
-from sheetgen.report.rows import (capacitor_rows, coil_rows, component_rows, limits_rows,
-                             rating_rows, stress_rows)
+from sheetgen.sheet.schematic import schematic_of
+from sheetgen.sheet.winding_drawing import winding_drawing, winding_view_of
+from tests.sheet.test_tools import SHARED, TEMPLATES, build, need, page_text
 from tests.support import assert_close
-from tests.test_sheet_tools import SHARED, TEMPLATES, build, need, page_text
+
+pytestmark = pytest.mark.pdf
 
 WIDTH_PT = 515.0  # the A4 frame's width (210 mm less two 14 mm margins, in points)
 PT_PER_MM = 72 / 25.4  # 1 in = 25.4 mm exactly (ISO 31-1), 72 pt to the inch (PostScript)

@@ -14,7 +14,7 @@ import pytest
 from sheetgen.cli import main
 from sheetgen.inputs.starters import TEMPLATE_NAMES, template_text
 
-ROOT = Path(__file__).resolve().parent.parent
+ROOT = Path(__file__).resolve().parents[2]
 
 
 def _run(capsys, *args):
@@ -75,14 +75,23 @@ def test_schema_is_valid_and_accepts_every_starter(capsys):
     assert list(validator.iter_errors(bad)), "an unknown key must fail the schema too"
 
 
+def installed_command() -> str | None:
+    """The console script of the Python running the tests (beside sys.executable, as a
+    virtual environment puts it), else the first on PATH."""
+    import shutil
+    import sys
+    beside = Path(sys.executable).parent / "sheetgen"
+    return str(beside) if beside.is_file() else shutil.which("sheetgen")
+
+
+@pytest.mark.pdf
 def test_installed_command_runs_the_demo_from_any_folder(tmp_path):
     """The installed console script (not this checkout) finds its package data: the demo,
     the starters and the bundled parts library. Outside check: pypdf reads the PDF."""
-    import shutil
     import subprocess
 
     from pypdf import PdfReader
-    command = shutil.which("sheetgen")
+    command = installed_command()
     assert command, "sheetgen is not installed; the README's test command installs it"
     done = subprocess.run([command, "demo", "-o", "demo.pdf"], cwd=tmp_path, capture_output=True,
                           text=True, timeout=300)

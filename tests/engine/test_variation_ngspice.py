@@ -32,6 +32,8 @@ from sheetgen.engine.resonance import Circuit, resonant_frequency_hz
 from sheetgen.engine.variation import Spread, VariationSpec, monte_carlo
 from tests import spice
 
+pytestmark = pytest.mark.ngspice
+
 NGSPICE_TRIALS = 400
 SIGNIFICANCE = 1e-3  # two-sided binomial p-value below which the coverage is rejected
 

@@ -148,8 +148,8 @@ def test_trimmer_too_small_is_reported_with_its_shortfall():
 def test_sampled_parts_are_the_monte_carlo_draws():
     """sample_parts gives the very trials monte_carlo evaluates (same seed, same streams),
     so a trimmer check on either agrees."""
-    from sheetgen.engine.variation import monte_carlo, sample_parts, Spread, VariationSpec
     from sheetgen.engine.resonance import Circuit
+    from sheetgen.engine.variation import Spread, VariationSpec, monte_carlo, sample_parts
     circuit = Circuit("parallel", 2.2e-6, 0.5, 228e-12, 0.02, 10e3, 17e3)
     spec = VariationSpec(capacitance=Spread(0.02), inductance=Spread(0.05), trials=500, seed=3)
     full, parts = monte_carlo(circuit, spec), sample_parts(circuit, spec, "monte-carlo")

@@ -15,7 +15,7 @@ from pathlib import Path
 from sheetgen.cli import main
 from sheetgen.quantities import format_quantity
 
-ROOT = Path(__file__).resolve().parent.parent
+ROOT = Path(__file__).resolve().parents[2]
 TEMPLATES = ROOT / "templates"
 POWER = (TEMPLATES / "power-tank.yaml").read_text(encoding="utf-8")
 

@@ -18,7 +18,7 @@ import pytest
 
 from sheetgen.cli import main
 
-REPO = Path(__file__).resolve().parents[1]
+REPO = Path(__file__).resolve().parents[2]
 TEMPLATES = REPO / "templates"
 SHARED = REPO / "shared"  # the parts library the starters name
 # ISO 216 A4 is 210 mm × 297 mm; ANSI Letter is 8.5 in × 11 in; 1 pt = 1/72 in (from memory).

@@ -17,6 +17,8 @@ from sheetgen.engine.resonance import Circuit, analyse
 from tests import spice
 from tests.support import assert_close
 
+pytestmark = pytest.mark.ngspice
+
 # The brief for the engine asks for 1e-4 relative; engine and ngspice agree to ~3e-7 on
 # these circuits, so every case is held to 1e-5 (still 5x the harness's own 2e-6).
 REL = 1e-5
@@ -44,7 +46,7 @@ CIRCUITS = [
 ]
 
 
-@functools.lru_cache(maxsize=None)
+@functools.cache
 def _ngspice(topology, L, r_l, C, r_c, r_s, r_load) -> spice.ResonanceMeasurement:
     build = spice.series_netlist if topology == "series" else spice.parallel_netlist
     return spice.measure_bench(build(L, r_l, C, r_c, r_s, r_load))

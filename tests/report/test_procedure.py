@@ -16,13 +16,21 @@ from pathlib import Path
 import pytest
 
 from sheetgen.design.pipeline import design_from_file
-from sheetgen.report.procedure import (FORM_FIELD_NAMES, HALF_POWER_DB, bench_drive, dbm_from_emf,
-                                detector, nice_at_least, nice_at_most, procedure,
-                                sweep_settings)
+from sheetgen.report.procedure import (
+    FORM_FIELD_NAMES,
+    HALF_POWER_DB,
+    bench_drive,
+    dbm_from_emf,
+    detector,
+    nice_at_least,
+    nice_at_most,
+    procedure,
+    sweep_settings,
+)
 from sheetgen.report.results import results
 from tests.support import assert_close
 
-TEMPLATES = Path(__file__).resolve().parents[1] / "templates"
+TEMPLATES = Path(__file__).resolve().parents[2] / "templates"
 SHARED = TEMPLATES.parent / "shared"  # the parts library the starters name
 
 

@@ -15,7 +15,9 @@ from sheetgen.report.results import results
 from tests import spice
 from tests.support import assert_close
 
-TEMPLATES = Path(__file__).resolve().parent.parent / "templates"
+pytestmark = pytest.mark.ngspice
+
+TEMPLATES = Path(__file__).resolve().parents[2] / "templates"
 JOBS = sorted(p.name for p in TEMPLATES.glob("*.yaml") if not p.name.startswith("style"))
 REL = 1e-4  # the agreement asked of the engine; engine and ngspice agree to ~1e-6
 

@@ -14,7 +14,7 @@ import pytest
 
 from sheetgen.cli import main
 
-TEMPLATES = Path(__file__).resolve().parent.parent / "templates"
+TEMPLATES = Path(__file__).resolve().parents[2] / "templates"
 GOOD = (TEMPLATES / "series.yaml").read_text(encoding="utf-8")
 LOCATED = re.compile(r"^(?P<file>.+?):(?P<line>\d+):(?P<column>\d+) (?P<rest>.+)$")
 

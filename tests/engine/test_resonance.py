@@ -7,7 +7,7 @@ Sources, named per check:
 - E. Hughes, Electrical and Electronic Technology, chapter on parallel resonance (lossy coil
   in parallel with C: f_upf = f0 √(1 − r²C/L); dynamic resistance L/(Cr)) — from memory.
 - scipy.optimize.brentq on an impedance written out independently in this file.
-The ngspice comparison lives in tests/test_resonance_ngspice.py.
+The ngspice comparison lives in tests/engine/test_resonance_ngspice.py.
 """
 
 import math

@@ -14,10 +14,10 @@ from pypdf import PdfReader
 
 from sheetgen.design.pipeline import design_from_file
 from sheetgen.errors import InputError
+from sheetgen.inputs.style import SECTION_NAMES, check_logo_inside, default_style, load_style
 from sheetgen.report.results import results_json
 from sheetgen.sheet import render_sheet
-from sheetgen.inputs.style import SECTION_NAMES, check_logo_inside, default_style, load_style
-from tests.test_sheet_tools import SHARED, TEMPLATES
+from tests.sheet.test_tools import SHARED, TEMPLATES
 
 
 def _problems(tmp_path, text: str, job_dir=None) -> list[str]:

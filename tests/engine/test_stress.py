@@ -12,13 +12,15 @@ from pathlib import Path
 
 import pytest
 
+from sheetgen.design.pipeline import design_from_file
 from sheetgen.engine.resonance import Circuit, analyse
 from sheetgen.engine.stress import Drive, open_circuit_voltage_rms, part_stress
-from sheetgen.design.pipeline import design_from_file
 from tests import spice
 from tests.support import assert_close
 
-TEMPLATES = Path(__file__).resolve().parent.parent / "templates"
+pytestmark = pytest.mark.ngspice
+
+TEMPLATES = Path(__file__).resolve().parents[2] / "templates"
 REL = 1e-5  # ngspice's meas keeps 7 digits (tests/reference/ngspice.md)
 
 

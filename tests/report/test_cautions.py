@@ -20,9 +20,9 @@ import math
 
 import pytest
 
-from sheetgen.report import cautions as ca
 from sheetgen.engine.resonance import Circuit, analyse
 from sheetgen.engine.stress import Drive, part_stress
+from sheetgen.report import cautions as ca
 
 BELOW, ABOVE = 1.0 - 1e-6, 1.0 + 1e-6
 SQRT2 = math.sqrt(2.0)

@@ -12,14 +12,26 @@ import pytest
 from pypdf import PdfReader
 
 from sheetgen.design.pipeline import design_from_file
+from sheetgen.inputs.style import style_from_text
+from sheetgen.report.parts import PartRow
 from sheetgen.report.results import results_json
 from sheetgen.sheet import layout, render_sheet, sections
-from sheetgen.report.parts import PartRow
-from sheetgen.inputs.style import style_from_text
+from tests.sheet.test_tools import (
+    LETTER_PT,
+    SHARED,
+    TEMPLATES,
+    body_text,
+    build,
+    need,
+    overlapping_words,
+    page_count,
+    page_text,
+    page_words,
+    words_outside,
+)
 from tests.support import assert_close
-from tests.test_sheet_tools import (LETTER_PT, SHARED, TEMPLATES, body_text, build, need,
-                                    overlapping_words, page_count, page_text, page_words,
-                                    words_outside)
+
+pytestmark = pytest.mark.pdf
 
 MARGIN_PT = 14 / 25.4 * 72 - 1.0
 WORDS = ("tank coil capacitor bench trimmer winding enamel ferrite powder-iron ring former "

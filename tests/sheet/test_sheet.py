@@ -20,9 +20,21 @@ from pypdf import PdfReader
 
 from sheetgen import __version__
 from sheetgen.quantities import format_number, format_quantity
+from tests.sheet.test_tools import (
+    A4_PT,
+    SHARED,
+    TEMPLATES,
+    build,
+    need,
+    overlapping_words,
+    page_count,
+    page_text,
+    page_words,
+    words_outside,
+)
 from tests.support import assert_close
-from tests.test_sheet_tools import (A4_PT, SHARED, TEMPLATES, build, need, overlapping_words,
-                                    page_count, page_text, page_words, words_outside)
+
+pytestmark = pytest.mark.pdf
 
 JOBS = ("series", "parallel", "demo", "toroid", "solenoid")
 MARGIN_PT = 14 / 25.4 * 72 - 1.0  # the sheet's 14 mm margin, less 1 pt for glyph overhang
@@ -253,7 +265,7 @@ def test_no_text_in_the_margins_and_no_words_overlap(sheets, name):
 
 def test_overlap_check_can_fail():
     """The overlap and margin checks find what they look for (two boxes drawn on each other)."""
-    from tests.test_sheet_tools import PageWords, Word
+    from tests.sheet.test_tools import PageWords, Word
     a, b = Word(100, 100, 140, 110, "7.100"), Word(120, 102, 160, 112, "MHz")
     assert overlapping_words((a, b)) == [(a, b)]
     assert words_outside(PageWords(595, 842, (Word(10, 100, 30, 110, "x"),)), MARGIN_PT)
