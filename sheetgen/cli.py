@@ -13,8 +13,8 @@ import tempfile
 from pathlib import Path
 
 from sheetgen import __version__
-from sheetgen.design.compute import Design
 from sheetgen.design.pipeline import design_from_file
+from sheetgen.design.records import Design
 from sheetgen.errors import InputError
 from sheetgen.inputs.starters import TEMPLATE_NAMES, demo_job_path, template_text
 from sheetgen.report.checks import failed_checks

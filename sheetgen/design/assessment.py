@@ -18,13 +18,11 @@ from sheetgen.engine import ratings as rt
 from sheetgen.engine import resonance as rz
 from sheetgen.engine import variation as vr
 from sheetgen.engine.limits import TestLimits, TrimmerCheck, test_limits, trimmer_check
+from sheetgen.engine.standard_values import SERIES_TOLERANCE
 from sheetgen.engine.stress import Stress
 from sheetgen.errors import FieldError
 from sheetgen.inputs.model import Job
 
-# IEC 60063 pairs each series with a tolerance (from memory): the default for a fixed part.
-SERIES_TOLERANCE = {"E6": 0.20, "E12": 0.10, "E24": 0.05, "E48": 0.02, "E96": 0.01,
-                    "E192": 0.005}
 ENVELOPE_TRIALS = 2000  # trials drawn for the plotted Monte Carlo envelope of the response
 ENVELOPE_POINTS = 201  # frequencies of the envelope (a band on a plot needs no more)
 

@@ -9,12 +9,19 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 
+import numpy as np
+
+from sheetgen.design.records import CoilCurve, CoilDesign
 from sheetgen.engine import coil as coil_engine
-from sheetgen.engine.magnetics import CoreLossTable, self_resonant_frequency_hz
-from sheetgen.engine.wire import Wire, wire_from_designation
+from sheetgen.engine.coil import SolenoidCoil, ToroidCoil
+from sheetgen.engine.magnetics import CoreLossTable, link_turns
+from sheetgen.engine.resonance import Circuit, capacitance_for_f0, resonant_frequency_hz
+from sheetgen.engine.wire import COPPER_REFERENCE_TEMPERATURE_C, Wire, wire_from_designation
 from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
-from sheetgen.inputs.model import CoreSpec, MaterialSpec, SolenoidInductor, ToroidInductor
+from sheetgen.inputs.model import CoreSpec, Job, MaterialSpec, SolenoidInductor, ToroidInductor
+
+AIR_CORE_TOLERANCE = 0.05  # hand-wound single-layer coils, set by turn spacing (common practice)
 
 
 @dataclass(frozen=True)
@@ -83,18 +90,19 @@ def with_self_capacitance(coil, capacitance_f: float, f_hz: float):
     f_hz with that capacitance across it (engine.coil.coil_q_sweep)."""
     model = replace(coil.loss_model, self_capacitance_f=capacitance_f)
     return replace(coil, loss_model=model, self_capacitance_f=capacitance_f,
-                   srf_hz=float(self_resonant_frequency_hz(coil.inductance_built_h, capacitance_f)),
+                   srf_hz=float(resonant_frequency_hz(coil.inductance_built_h, capacitance_f)),
                    srf_basis="job", q_estimated=float(coil_engine.coil_q_sweep(model, f_hz)))
 
 
-def design_coil(inductor: ToroidInductor | SolenoidInductor, library: PartsLibrary | None,
+def design_coil(inductor: ToroidInductor | SolenoidInductor, parts: ResolvedToroid | None,
                 inductance_h: float, f_hz: float, voltage_rms_v: float | None,
-                temperature_c: float):
-    """The designed coil (engine result) for a toroid or solenoid inductor section."""
+                temperature_c: float = COPPER_REFERENCE_TEMPERATURE_C
+                ) -> ToroidCoil | SolenoidCoil:
+    """The designed coil (engine result) for a toroid (its core and material resolved) or a
+    solenoid inductor section."""
     wire = resolve_wire(inductor.wire, inductor.enamel_grade, "inductor.wire")
     try:
         if inductor.form == "toroid":
-            parts = resolve_toroid(inductor, library)
             coil = coil_engine.design_toroid(inductance_h, f_hz, parts.core, parts.material,
                                              wire, inductor.lead_length, voltage_rms_v,
                                              temperature_c)
@@ -110,3 +118,68 @@ def design_coil(inductor: ToroidInductor | SolenoidInductor, library: PartsLibra
         raise
     except ValueError as error:
         raise FieldError("inductor", str(error)) from None
+
+
+def coil_loss(inductor: ToroidInductor | SolenoidInductor, coil: ToroidCoil | SolenoidCoil,
+              x0: float, f0: float) -> tuple[float, float, str]:
+    """A designed coil's series loss resistance at f0, its Q, and whether the job (a
+    measured Q) or the estimate gave it (Q = X/r)."""
+    if inductor.q is not None:
+        return x0 / inductor.q, inductor.q, "job"
+    q = float(coil_engine.coil_q_sweep(coil, f0))
+    return x0 / q, q, "estimate"
+
+
+def coil_design(job: Job, parts: ResolvedToroid | None, coil: ToroidCoil | SolenoidCoil,
+                target_l: float, circuit: Circuit, q_used: float, q_source: str,
+                f0: float) -> CoilDesign:
+    """What the design made of the engine's coil: tolerances, coupling turns, Q curve."""
+    inductor = job.inductor
+    core_name = material_name = flux_limit = None
+    core_size = (None, None, None)
+    tolerance = inductor.tolerance
+    tc = inductor.temperature_coefficient
+    if inductor.form == "toroid":
+        core_name, material_name = parts.core_name, parts.material_name
+        flux_limit = parts.material.flux_density_max_t
+        core_size = (parts.core.outer_diameter_m, parts.core.inner_diameter_m,
+                     parts.core.height_m)
+        if tolerance is None:
+            tolerance = (parts.core_spec.al_tolerance if parts.core_spec.al_tolerance is not None
+                         else parts.material_spec.mu_i_tolerance)
+        if tc is None:
+            tc = parts.material_spec.mu_tc  # AL ∝ µ, so L follows µ's coefficient
+    elif tolerance is None:
+        tolerance = AIR_CORE_TOLERANCE
+    link_turns_n = link_r = tap_turns_n = tap_r = None
+    link = getattr(inductor, "link", None)  # a solenoid has no link, only a tap
+    kind, coupling = ("link", link) if link is not None else ("tap", inductor.tap)
+    if coupling is not None:
+        field = f"inductor.{kind}"
+        if circuit.topology != "parallel" or circuit.load_resistance_ohm is None:
+            raise FieldError(field, f"a {kind} couples a load to a parallel tank: it "
+                              "needs topology parallel and a load resistance (given or "
+                              "computed from a bandwidth target)")
+        # Ideal transformer: a resistance R at M of N turns looks like R·(N/M)² across the tank.
+        turns = link_turns(coil.turns, circuit.load_resistance_ohm, coupling.resistance)
+        if kind == "link":
+            link_turns_n, link_r = turns, coupling.resistance
+        else:
+            if turns >= coil.turns:
+                raise FieldError(field, f"a tap for {coupling.resistance:.4g} Ω would sit at "
+                                  f"or beyond the end of the {coil.turns}-turn winding: a tap "
+                                  "matches only a resistance below the tank's load resistance "
+                                  f"({circuit.load_resistance_ohm:.4g} Ω)")
+            tap_turns_n, tap_r = turns, coupling.resistance
+    f0_whole = None
+    if job.capacitor.capacitance is None:
+        f0_whole = float(resonant_frequency_hz(
+            coil.inductance_built_h, capacitance_for_f0(job.circuit.targets.f0, target_l)))
+    high = min(20.0 * f0, 0.98 * coil.srf_hz) if coil.srf_hz else 20.0 * f0
+    f_curve = np.geomspace(f0 / 20.0, high, 241)
+    return CoilDesign(inductor.form, coil, core_name, material_name, target_l, f0_whole,
+                      link_turns_n, link_r, tap_turns_n, tap_r, flux_limit, tolerance, tc,
+                      inductor.lead_length,
+                      *core_size,
+                      q_used, q_source,
+                      CoilCurve(f_curve, np.asarray(coil_engine.coil_q_sweep(coil, f_curve))))

@@ -8,7 +8,8 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from sheetgen.design.compute import Design, design
+from sheetgen.design.compute import compute_design
+from sheetgen.design.records import Design
 from sheetgen.errors import FieldError, InputError, Problem
 from sheetgen.inputs.library import find_library_folder, load_library
 from sheetgen.inputs.model import Job
@@ -31,7 +32,7 @@ def design_from_file(job_path: Path, library_folder: Path | None = None) -> Desi
     if needs_library(job):
         library = load_library(find_library_folder(job_path, job.library, library_folder))
     try:
-        return design(job, library)
+        return compute_design(job, library)
     except FieldError as error:
         line, column = field_position(job_path, error.field)
         raise InputError([Problem(str(job_path), line, column, error.field,

@@ -39,6 +39,7 @@ from sheetgen.engine.resonance import reactance_ohm
 from sheetgen.engine.wire import (
     AWG_MAX,
     AWG_MIN,
+    COPPER_REFERENCE_TEMPERATURE_C,
     Wire,
     ac_resistance_ratio,
     awg_wire,
@@ -242,7 +243,8 @@ def _toroid_winding_length_m(turns: int, core: ToroidCore, wire: Wire,
 
 def design_toroid(target_inductance_h: float, f_hz: float, core: ToroidCore,
                   material: CoreMaterial, wire: Wire, lead_length_m: float,
-                  voltage_rms_v: float | None, temperature_c: float = 20.0) -> ToroidCoil:
+                  voltage_rms_v: float | None,
+                  temperature_c: float = COPPER_REFERENCE_TEMPERATURE_C) -> ToroidCoil:
     """Turns, wire, losses, Q, flux density and fit of a winding on a ring core at f.
 
     lead_length_m is the length of each of the two leads; voltage_rms_v is the rms voltage
@@ -369,7 +371,8 @@ class SolenoidCoil:
 def design_solenoid(target_inductance_h: float, f_hz: float,
                     former_diameter_m: float | SolenoidFormer, wire: Wire, *,
                     pitch_m: float | None = None, length_m: float | None = None,
-                    lead_length_m: float = 0.0, temperature_c: float = 20.0) -> SolenoidCoil:
+                    lead_length_m: float = 0.0,
+                    temperature_c: float = COPPER_REFERENCE_TEMPERATURE_C) -> SolenoidCoil:
     """Whole turns, inductance, losses, Q and self-resonance of a single-layer solenoid at f.
 
     Give exactly one of pitch_m (l = N·p) and length_m (p = l/N). The current-sheet

@@ -15,7 +15,7 @@ the same code on perturbed inputs, one element per trial.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Literal
 
 import numpy as np
@@ -331,3 +331,49 @@ def default_sweep_range_hz(resonance: Resonance) -> tuple[float, float]:
     low = max(resonance.f_peak_hz - half_span, resonance.f0_hz / 3.0)
     high = min(resonance.f_peak_hz + half_span, resonance.f0_hz * 3.0)
     return low, high
+
+
+_LOAD_GRID_POINTS = 64  # RL grid per round when solving for a loaded-Q target
+_LOAD_GRID_ROUNDS = 8  # 27.6 (ln of 12 decades) / 63^8 < 1e-13
+
+
+class LoadedQUnreachable(ValueError):
+    """No load resistance gives the wanted loaded Q; `low`/`high` are the Q the load can span."""
+
+    def __init__(self, wanted_q: float, low: float, high: float):
+        self.wanted_q, self.low, self.high = wanted_q, low, high
+        super().__init__(f"a loaded Q of {wanted_q:.4g} cannot be reached with a load "
+                         f"resistance: the losses and source allow {low:.3g} to {high:.3g}")
+
+
+def loaded_q(circuit: Circuit, loads_ohm: np.ndarray) -> np.ndarray:
+    """f0/bandwidth of the circuit with each of the load resistances (0 where no −3 dB
+    points), all in one vectorised evaluation of the exact response."""
+    features = response_features(replace(circuit, load_resistance_ohm=loads_ohm))
+    with np.errstate(invalid="ignore", divide="ignore"):
+        q = features.f0_hz / (features.f_high_hz - features.f_low_hz)
+    return np.nan_to_num(q, nan=0.0)
+
+
+def load_for_loaded_q(circuit: Circuit, wanted_q: float) -> float:
+    """The load resistance that gives loaded Q = f0/bandwidth = wanted_q.
+
+    Solved on the exact response: the loaded Q moves monotonically with RL (down as a
+    series load grows, up as a parallel load grows), so a grid of RL over twelve decades
+    around X0 brackets the answer and each finer grid inside the bracket narrows it 63-fold.
+    Raises LoadedQUnreachable when no load in that span reaches it.
+    """
+    x0 = float(reactance_ohm(circuit.inductance_h,
+                             resonant_frequency_hz(circuit.inductance_h, circuit.capacitance_f)))
+    low_u, high_u = math.log(x0 * 1e-6), math.log(x0 * 1e6)
+    ends = loaded_q(circuit, np.exp(np.array([low_u, high_u])))
+    if not min(ends) < wanted_q < max(ends):
+        raise LoadedQUnreachable(wanted_q, float(min(ends)), float(max(ends)))
+    rising = ends[1] > ends[0]
+    for _ in range(_LOAD_GRID_ROUNDS):
+        grid = np.linspace(low_u, high_u, _LOAD_GRID_POINTS)
+        below = (loaded_q(circuit, np.exp(grid)) < wanted_q) == rising
+        index = int(np.count_nonzero(below))  # grid[:index] lie on the low side
+        index = min(max(index, 1), _LOAD_GRID_POINTS - 1)
+        low_u, high_u = grid[index - 1], grid[index]
+    return math.exp(0.5 * (low_u + high_u))

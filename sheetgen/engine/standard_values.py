@@ -75,3 +75,8 @@ def best_parallel_pair(target: float, name: str = "E12") -> StandardPair:
         if abs(error) < abs(best.error_rel) - 1e-12:
             best = StandardPair(first, second, total, error)
     return best
+
+
+# IEC 60063 pairs each series with a tolerance (from memory): the default for a fixed part.
+SERIES_TOLERANCE = {"E6": 0.20, "E12": 0.10, "E24": 0.05, "E48": 0.02, "E96": 0.01,
+                    "E192": 0.005}

@@ -53,13 +53,16 @@ class Wire:
     awg: int | None = None
 
 
-def copper_resistivity_ohm_m(temperature_c: float = 20.0) -> float:
+COPPER_REFERENCE_TEMPERATURE_C = 20.0  # IEC 60028's reference; windings are taken at it
+
+
+def copper_resistivity_ohm_m(temperature_c: float = COPPER_REFERENCE_TEMPERATURE_C) -> float:
     """ρ(T) = ρ20 (1 + α20 (T − 20 °C)), annealed copper per IEC 60028.
 
     The linear law is the standard's; it is good to a fraction of a percent between about
     −50 °C and +150 °C (common practice).
     """
-    ratio = 1.0 + COPPER_TEMPERATURE_COEFFICIENT_PER_K * (temperature_c - 20.0)
+    ratio = 1.0 + COPPER_TEMPERATURE_COEFFICIENT_PER_K * (temperature_c - COPPER_REFERENCE_TEMPERATURE_C)
     if ratio <= 0.0:
         raise ValueError(f"copper temperature {temperature_c} °C is below the linear law's range")
     return COPPER_RESISTIVITY_20C_OHM_M * ratio

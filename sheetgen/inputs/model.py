@@ -22,21 +22,24 @@ from pydantic import (
 )
 from pydantic_core import PydanticCustomError
 
-from sheetgen import quantities as qty
+from sheetgen import quantities
+from sheetgen.engine.ratings import DEFAULT_CURRENT_DERATING, DEFAULT_VOLTAGE_DERATING
+from sheetgen.engine.standard_values import SERIES_TOLERANCE
+from sheetgen.engine.variation import DEFAULT_COVERAGE, DEFAULT_SEED, DEFAULT_TRIALS
 
 
-def _quantity(dimension: qty.Dimension, minimum: float | None = 0.0, inclusive: bool = False):
+def _quantity(dimension: quantities.Dimension, minimum: float | None = 0.0, inclusive: bool = False):
     """A float field read from engineering notation, checked finite and above `minimum`."""
 
     def parse(value: object) -> float:
         try:
-            number = qty.parse_quantity(value, dimension)
-        except qty.QuantityError as error:
+            number = quantities.parse_quantity(value, dimension)
+        except quantities.QuantityError as error:
             raise PydanticCustomError("quantity", str(error)) from None
         if minimum is not None and (number < minimum or (number == minimum and not inclusive)):
             bound = "at least" if inclusive else "greater than"
             raise PydanticCustomError(
-                "quantity", f"{qty.shown_input(value)} must be {bound} {minimum:g} "
+                "quantity", f"{quantities.shown_input(value)} must be {bound} {minimum:g} "
                 f"{dimension.si_unit}".rstrip())
         return number
 
@@ -48,22 +51,22 @@ def _quantity(dimension: qty.Dimension, minimum: float | None = 0.0, inclusive: 
     return Annotated[float, BeforeValidator(parse), WithJsonSchema(schema)]
 
 
-Inductance = _quantity(qty.INDUCTANCE)
-Capacitance = _quantity(qty.CAPACITANCE)
-Resistance = _quantity(qty.RESISTANCE)
-LossResistance = _quantity(qty.RESISTANCE, minimum=0.0, inclusive=True)
-Frequency = _quantity(qty.FREQUENCY)
-Voltage = _quantity(qty.VOLTAGE)
-Current = _quantity(qty.CURRENT)
-Power = _quantity(qty.POWER)
-Fraction = _quantity(qty.FRACTION, minimum=0.0, inclusive=True)
-PositiveNumber = _quantity(qty.DIMENSIONLESS)
-Length = _quantity(qty.LENGTH)
-LeadLength = _quantity(qty.LENGTH, minimum=0.0, inclusive=True)
-FluxDensity = _quantity(qty.FLUX_DENSITY)
-InductanceFactor = _quantity(qty.INDUCTANCE_FACTOR)
-TemperatureCoefficient = _quantity(qty.TEMPERATURE_COEFFICIENT, minimum=None)
-Temperature = _quantity(qty.TEMPERATURE, minimum=-273.15)
+Inductance = _quantity(quantities.INDUCTANCE)
+Capacitance = _quantity(quantities.CAPACITANCE)
+Resistance = _quantity(quantities.RESISTANCE)
+LossResistance = _quantity(quantities.RESISTANCE, minimum=0.0, inclusive=True)
+Frequency = _quantity(quantities.FREQUENCY)
+Voltage = _quantity(quantities.VOLTAGE)
+Current = _quantity(quantities.CURRENT)
+Power = _quantity(quantities.POWER)
+Fraction = _quantity(quantities.FRACTION, minimum=0.0, inclusive=True)
+PositiveNumber = _quantity(quantities.DIMENSIONLESS)
+Length = _quantity(quantities.LENGTH)
+LeadLength = _quantity(quantities.LENGTH, minimum=0.0, inclusive=True)
+FluxDensity = _quantity(quantities.FLUX_DENSITY)
+InductanceFactor = _quantity(quantities.INDUCTANCE_FACTOR)
+TemperatureCoefficient = _quantity(quantities.TEMPERATURE_COEFFICIENT, minimum=None)
+Temperature = _quantity(quantities.TEMPERATURE, minimum=-273.15)
 Name = Annotated[str, Field(min_length=1, max_length=200, pattern=r"^[A-Za-z0-9][A-Za-z0-9._-]*$")]
 
 
@@ -363,7 +366,8 @@ class CapacitorSection(Section):
                                     "f0 (optional)")
     tolerance: Fraction | None = Field(
         None, description="± tolerance of the fixed part(s) (default: the one IEC 60063 pairs "
-        "with the preferred series: E6 20 %, E12 10 %, E24 5 %, E48 2 %, E96 1 %, E192 0.5 %)")
+        "with the preferred series: " + ", ".join(f"{name} {share * 100:g} %" for name, share
+                                                  in SERIES_TOLERANCE.items()) + ")")
     dielectric: Literal["C0G", "NP0", "X7R", "X5R", "Y5V"] | None = Field(
         None, description="ceramic dielectric, which sets how C moves with temperature "
         "(C0G/NP0 class 1: 0 ± 30 ppm/K; X7R, X5R, Y5V class 2)")
@@ -441,10 +445,10 @@ class VariationSection(Section):
     distribution: Literal["uniform", "normal"] = Field(
         "uniform", description="how a tolerance band is read: uniform within the band, or "
         "normal with the band at ±3σ")
-    trials: int = Field(100_000, ge=100, le=2_000_000, description="Monte Carlo trials")
-    seed: int = Field(1, ge=0, description="random seed; the same job and seed give the same "
+    trials: int = Field(DEFAULT_TRIALS, ge=100, le=2_000_000, description="Monte Carlo trials")
+    seed: int = Field(DEFAULT_SEED, ge=0, description="random seed; the same job and seed give the same "
                       "limits")
-    coverage: Fraction = Field(0.9973, description="share of correctly built units the limits "
+    coverage: Fraction = Field(DEFAULT_COVERAGE, description="share of correctly built units the limits "
                                "must pass, e.g. 99.73 %")
     loss_tolerance: Fraction | None = Field(
         None, description="± spread of the coil's loss resistance and the capacitor's ESR "
@@ -482,9 +486,9 @@ class Acceptance(Section):
 class RatingsSection(Section):
     """Derating and recorded acceptances for the component rating checks."""
 
-    voltage_derating: Fraction = Field(0.5, description="share of a capacitor's rated voltage "
+    voltage_derating: Fraction = Field(DEFAULT_VOLTAGE_DERATING, description="share of a capacitor's rated voltage "
                                        "it may carry (default 50 %, common practice)")
-    current_derating: Fraction = Field(0.8, description="share of a rated current a part may "
+    current_derating: Fraction = Field(DEFAULT_CURRENT_DERATING, description="share of a rated current a part may "
                                        "carry (default 80 %, common practice)")
     accept: tuple[Acceptance, ...] = Field((), description="failed checks accepted on purpose")
 

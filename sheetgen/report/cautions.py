@@ -24,7 +24,7 @@ from sheetgen.engine.stress import Stress
 from sheetgen.quantities import format_quantity
 
 if TYPE_CHECKING:
-    from sheetgen.design.compute import Design
+    from sheetgen.design.records import Design
 
 Level = Literal["danger", "warning", "caution", "notice"]
 SEVERITY: Mapping[str, int] = {"notice": 0, "caution": 1, "warning": 2, "danger": 3}

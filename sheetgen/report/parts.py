@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from sheetgen.design.compute import Design
+from sheetgen.design.records import Design
 from sheetgen.engine.variation import dielectric
 from sheetgen.quantities import format_number
 from sheetgen.report.formatting import plural, quantity_text, range_text, signed, tolerance_text

@@ -13,7 +13,7 @@ import math
 from dataclasses import dataclass
 from typing import Literal
 
-from sheetgen.design.compute import Design
+from sheetgen.design.records import Design
 from sheetgen.quantities import format_number
 from sheetgen.report.formatting import quantity_text, range_text, signed, tolerance_text
 from sheetgen.report.winding import measuring_frequency_hz

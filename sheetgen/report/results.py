@@ -11,7 +11,7 @@ import json
 import math
 
 from sheetgen import __version__
-from sheetgen.design.compute import Design
+from sheetgen.design.records import Design
 from sheetgen.report.advice import rating_advice
 from sheetgen.report.cautions import design_cautions
 from sheetgen.report.checks import failed_checks

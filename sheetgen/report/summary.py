@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from sheetgen.design.compute import Design
+from sheetgen.design.records import Design
 from sheetgen.report.cautions import design_cautions
 from sheetgen.report.checks import failed_checks
 from sheetgen.report.rows import (

@@ -10,8 +10,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from sheetgen.design.compute import CoilDesign, Design
 from sheetgen.design.designators import Designators
+from sheetgen.design.records import CoilDesign, Design
 from sheetgen.quantities import format_number, format_quantity
 from sheetgen.report.formatting import plural, tolerance_text
 

@@ -23,7 +23,7 @@ from reportlab.pdfgen.canvas import Canvas
 from reportlab.platypus import BaseDocTemplate, Frame, PageTemplate, Spacer
 
 from sheetgen import __version__
-from sheetgen.design.compute import Design
+from sheetgen.design.records import Design
 from sheetgen.inputs.style import HouseStyle, check_logo_inside, default_style
 from sheetgen.report.parts import headline
 from sheetgen.sheet import fonts

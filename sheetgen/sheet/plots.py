@@ -13,7 +13,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from sheetgen.design.compute import Design
+from sheetgen.design.records import Design
 from sheetgen.quantities import format_quantity
 from sheetgen.report.formatting import quantity_text
 from sheetgen.sheet import fonts

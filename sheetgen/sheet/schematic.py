@@ -11,7 +11,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Literal
 
-from sheetgen.design.compute import Design
+from sheetgen.design.records import Design
 from sheetgen.report.formatting import quantity_text, range_text
 from sheetgen.sheet import fonts
 

@@ -26,7 +26,7 @@ from reportlab.platypus import (
     TableStyle,
 )
 
-from sheetgen.design.compute import Design
+from sheetgen.design.records import Design
 from sheetgen.report.advice import rating_advice
 from sheetgen.report.cautions import design_cautions
 from sheetgen.report.parts import PART_COLUMNS, PartRow, part_rows

@@ -19,7 +19,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from sheetgen.design.compute import Design
+from sheetgen.design.records import Design
 from sheetgen.quantities import format_number
 from sheetgen.report.formatting import plural, quantity_text
 from sheetgen.sheet import fonts

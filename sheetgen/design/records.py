@@ -1,0 +1,105 @@
+"""What a design is made of: frozen records that the report and the sheet read.
+
+Computed by design/compute.py; nothing here computes or formats.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from sheetgen.design.assessment import Assessment
+from sheetgen.design.designators import Designators
+from sheetgen.engine.coil import SolenoidCoil, ToroidCoil
+from sheetgen.engine.resonance import Circuit, Resonance, Sweep
+from sheetgen.engine.standard_values import StandardPair
+from sheetgen.engine.stress import Drive, Stress
+from sheetgen.inputs.model import Job
+
+
+@dataclass(frozen=True)
+class CapacitorChoice:
+    """Standard parts for the capacitance the design needs (IEC 60063), and what is fitted.
+
+    With a trimmer, the fixed part is picked for the required capacitance less the
+    trimmer's mid-range, and the trimmer is set to make up the rest.
+    """
+
+    required_f: float
+    series: str
+    nearest_f: float
+    pair: StandardPair
+    fixed_f: float
+    trimmer_setting_f: float | None
+    trimmer_in_range: bool | None
+    built_f: float
+    from_standard_parts: bool
+
+    @property
+    def fixed_parts_f(self) -> tuple[float, ...]:
+        """The fixed capacitors to fit: the standard part(s), or the job's own value."""
+        if not self.from_standard_parts:
+            return (self.fixed_f,)
+        return tuple(v for v in (self.pair.first, self.pair.second) if v is not None)
+
+
+@dataclass(frozen=True)
+class Derivation:
+    """A value sheetgen computed rather than read from the job, and from what."""
+
+    field: str
+    value: float
+    unit: str
+    reason: str
+
+
+@dataclass(frozen=True)
+class CoilCurve:
+    """The designed coil's estimated Q against frequency."""
+
+    f_hz: np.ndarray
+    q: np.ndarray
+
+
+@dataclass(frozen=True)
+class CoilDesign:
+    """The coil sheetgen designed: the engine's result and what the design made of it."""
+
+    form: str
+    result: ToroidCoil | SolenoidCoil
+    core_name: str | None
+    material_name: str | None
+    target_inductance_h: float
+    f0_with_whole_turns_hz: float | None  # before the capacitor re-centres it
+    link_turns: int | None
+    link_resistance_ohm: float | None
+    tap_turns: int | None  # counted from the start (cold) end
+    tap_resistance_ohm: float | None
+    flux_density_max_t: float | None
+    inductance_tolerance: float | None  # ± fraction of the built inductance
+    inductance_tc: float | None  # 1/K
+    lead_length_m: float
+    core_outer_diameter_m: float | None  # toroid only
+    core_inner_diameter_m: float | None
+    core_height_m: float | None
+    q_used: float
+    q_source: str  # "estimate" or "job"
+    q_curve: CoilCurve
+
+
+@dataclass(frozen=True)
+class Design:
+    """Everything computed for one job; the results, the sheet and the CLI read only this."""
+
+    job: Job
+    circuit: Circuit
+    drive: Drive
+    resonance: Resonance
+    stress: Stress
+    sweep: Sweep
+    capacitor_choice: CapacitorChoice
+    derived: tuple[Derivation, ...]
+    coil: CoilDesign | None
+    designators: Designators
+    assessment: Assessment
