@@ -11,42 +11,45 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, replace
 
-import numpy as np
-
 from sheetgen.design.designators import Designators
-from sheetgen.engine import ratings as rt
-from sheetgen.engine import resonance as rz
-from sheetgen.engine import variation as vr
 from sheetgen.engine.limits import TestLimits, TrimmerCheck, test_limits, trimmer_check
+from sheetgen.engine.ratings import (
+    RatingCheck,
+    capacitor_current_check,
+    capacitor_voltage_check,
+    current_density_check,
+    esr_power_check,
+    flux_density_check,
+)
+from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import SERIES_TOLERANCE
 from sheetgen.engine.stress import Stress
+from sheetgen.engine.variation import (
+    Envelope,
+    Spread,
+    TemperatureCoefficient,
+    VariationResult,
+    VariationSpec,
+    dielectric,
+    monte_carlo,
+    response_envelope,
+    sample_parts,
+    worst_case,
+)
 from sheetgen.errors import FieldError
 from sheetgen.inputs.model import Job
-
-ENVELOPE_TRIALS = 2000  # trials drawn for the plotted Monte Carlo envelope of the response
-ENVELOPE_POINTS = 201  # frequencies of the envelope (a band on a plot needs no more)
-
-
-@dataclass(frozen=True)
-class Envelope:
-    """The response (dB, relative to the nominal maximum) that the coverage of builds stays
-    within, at each frequency of the sweep."""
-
-    f_hz: np.ndarray
-    low_db: np.ndarray
-    high_db: np.ndarray
 
 
 @dataclass(frozen=True)
 class Assessment:
     """Limits and rating checks of one design."""
 
-    spec: vr.VariationSpec
-    variation: vr.VariationResult  # of the units as tested (trimmed, when there is a trimmer)
+    spec: VariationSpec
+    variation: VariationResult  # of the units as tested (trimmed, when there is a trimmer)
     limits: TestLimits
     tuned: bool  # the windows are for a unit trimmed to the target f0 at 25 °C
     trimmer: TrimmerCheck | None
-    ratings: tuple[rt.RatingCheck, ...]
+    ratings: tuple[RatingCheck, ...]
     envelope: Envelope
     capacitor_tolerance: float
     capacitor_tolerance_source: str
@@ -54,8 +57,8 @@ class Assessment:
     resolution_hz: float
 
 
-def variation_spec(job: Job, circuit: rz.Circuit, inductance_tolerance: float | None,
-                   inductance_tc: float | None) -> tuple[vr.VariationSpec, float, str]:
+def variation_spec(job: Job, circuit: Circuit, inductance_tolerance: float | None,
+                   inductance_tc: float | None) -> tuple[VariationSpec, float, str]:
     """The VariationSpec of a job; also the capacitor tolerance used and where it came from."""
     var = job.variation
     distribution = var.distribution
@@ -67,22 +70,22 @@ def variation_spec(job: Job, circuit: rz.Circuit, inductance_tolerance: float | 
         c_source = f"IEC 60063 {cap.preferred_series}"
     c_temperature = None
     if cap.dielectric is not None:
-        c_temperature = vr.dielectric(cap.dielectric).temperature
-        if isinstance(c_temperature, vr.TemperatureCoefficient):
+        c_temperature = dielectric(cap.dielectric).temperature
+        if isinstance(c_temperature, TemperatureCoefficient):
             c_temperature = replace(c_temperature, distribution=distribution)
     elif cap.temperature_coefficient is not None:
-        c_temperature = vr.TemperatureCoefficient(cap.temperature_coefficient)
-    loss = (vr.Spread(var.loss_tolerance, distribution) if var.loss_tolerance else None)
+        c_temperature = TemperatureCoefficient(cap.temperature_coefficient)
+    loss = (Spread(var.loss_tolerance, distribution) if var.loss_tolerance else None)
     load_tol = job.load.tolerance if job.load is not None else None
-    spec = vr.VariationSpec(
-        capacitance=vr.Spread(c_tol, distribution),
-        inductance=(vr.Spread(inductance_tolerance, distribution)
+    spec = VariationSpec(
+        capacitance=Spread(c_tol, distribution),
+        inductance=(Spread(inductance_tolerance, distribution)
                     if inductance_tolerance else None),
         inductor_resistance=loss, capacitor_esr=loss if circuit.capacitor_esr_ohm > 0 else None,
-        load_resistance=(vr.Spread(load_tol, distribution)
+        load_resistance=(Spread(load_tol, distribution)
                          if load_tol and circuit.load_resistance_ohm is not None else None),
         capacitor_temperature=c_temperature,
-        inductance_temperature=(vr.TemperatureCoefficient(inductance_tc)
+        inductance_temperature=(TemperatureCoefficient(inductance_tc)
                                 if inductance_tc else None),
         temperature_min_c=var.temperature.minimum, temperature_max_c=var.temperature.maximum,
         trials=var.trials, seed=var.seed, coverage=var.coverage)
@@ -96,22 +99,22 @@ def default_resolution_hz(bandwidth_hz: float | None, f0_hz: float) -> float:
     return 10.0 ** math.floor(math.log10(basis))
 
 
-def assess(job: Job, circuit: rz.Circuit, resonance: rz.Resonance, stress: Stress,
-           sweep: rz.Sweep, names: Designators, *, f0_target_hz: float | None,
+def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
+           sweep: Sweep, names: Designators, *, f0_target_hz: float | None,
            fixed_capacitance_f: float, inductance_tolerance: float | None,
            inductance_tc: float | None, coil=None, flux_limit_t: float | None = None,
            wire_diameter_m: float | None = None,
            fixed_parts_f: tuple[float, ...] = ()) -> Assessment:
     """Limits, trimmer range and rating checks for the nominal design."""
     spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc)
-    method = vr.monte_carlo if job.variation.method == "monte-carlo" else vr.worst_case
+    method = monte_carlo if job.variation.method == "monte-carlo" else worst_case
     resolution = (job.test.frequency_resolution
                   or default_resolution_hz(resonance.bandwidth_hz, resonance.f0_hz))
     trimmer = job.capacitor.trimmer
     tuned = trimmer is not None and f0_target_hz is not None
     trim = None
     if tuned:  # the trimmer takes up the tolerances; what is tested is the trimmed unit
-        built = vr.sample_parts(circuit, spec, job.variation.method)
+        built = sample_parts(circuit, spec, job.variation.method)
         trim = trimmer_check(built, f0_target_hz, fixed_capacitance_f, trimmer.minimum,
                              trimmer.maximum)
         variation = method(circuit, replace(spec, tuned_f0_hz=f0_target_hz))
@@ -124,15 +127,15 @@ def assess(job: Job, circuit: rz.Circuit, resonance: rz.Resonance, stress: Stres
                                  else None),
                            flux_limit_t=flux_limit_t, wire_diameter_m=wire_diameter_m)
     return Assessment(spec, variation, limits, tuned, trim, checks,
-                      envelope(circuit, variation, sweep, spec.coverage if
+                      response_envelope(circuit, variation, sweep.f_hz, spec.coverage if
                                job.variation.method == "monte-carlo" else None),
                       c_tol, c_source, inductance_tolerance, resolution)
 
 
-def rating_checks(job: Job, circuit: rz.Circuit, stress: Stress, names: Designators,
+def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators,
                   fixed_parts_f: tuple[float, ...], *, flux: float | None,
                   flux_limit_t: float | None, wire_diameter_m: float | None
-                  ) -> tuple[rt.RatingCheck, ...]:
+                  ) -> tuple[RatingCheck, ...]:
     """Every rating the job gives, against the computed stress (parallel parts share the
     capacitor current in proportion to their capacitance)."""
     ratings = job.ratings
@@ -148,31 +151,31 @@ def rating_checks(job: Job, circuit: rz.Circuit, stress: Stress, names: Designat
     for part, c_part in zip(names.fixed_capacitors, fixed_parts_f):
         share = c_part / total_c
         if cap.rated_voltage is not None:
-            checks.append(rt.capacitor_voltage_check(
+            checks.append(capacitor_voltage_check(
                 part, stress.capacitor_voltage_peak_v, cap.rated_voltage,
                 derating=ratings.voltage_derating, drive_power_w=power,
                 acceptance=acceptance(part, "peak voltage")))
         if cap.rated_current is not None:
-            checks.append(rt.capacitor_current_check(
+            checks.append(capacitor_current_check(
                 part, stress.capacitor_current_rms_a * share, cap.rated_current,
                 derating=ratings.current_derating, drive_power_w=power,
                 acceptance=acceptance(part, "RF current")))
         if cap.rated_power is not None:
-            checks.append(rt.esr_power_check(
+            checks.append(esr_power_check(
                 part, stress.capacitor_loss_w * share, cap.rated_power,
                 esr_ohm=circuit.capacitor_esr_ohm, drive_power_w=power,
                 acceptance=acceptance(part, "power in ESR")))
     if names.trimmer and cap.trimmer is not None and cap.trimmer.rated_voltage is not None:
-        checks.append(rt.capacitor_voltage_check(
+        checks.append(capacitor_voltage_check(
             names.trimmer, stress.capacitor_voltage_peak_v, cap.trimmer.rated_voltage,
             derating=ratings.voltage_derating, drive_power_w=power,
             acceptance=acceptance(names.trimmer, "peak voltage")))
     if wire_diameter_m is not None:
-        checks.append(rt.current_density_check(
+        checks.append(current_density_check(
             names.coil, stress.inductor_current_rms_a, wire_diameter_m, drive_power_w=power,
             acceptance=acceptance(names.coil, "current density")))
     if flux is not None and flux_limit_t is not None:
-        checks.append(rt.flux_density_check(
+        checks.append(flux_density_check(
             names.coil, flux, flux_limit_t, drive_power_w=power,
             acceptance=acceptance(names.coil, "flux density")))
     known = {f"{c.part} {c.quantity}".lower() for c in checks}
@@ -183,25 +186,3 @@ def rating_checks(job: Job, circuit: rz.Circuit, stress: Stress, names: Designat
                                     f"no rating check is called {accepted_check.check!r}; the "
                                     f"checks of this design are: {names}")
     return tuple(checks)
-
-
-def envelope(circuit: rz.Circuit, variation: vr.VariationResult, sweep: rz.Sweep,
-             coverage: float | None) -> Envelope:
-    """The response band of the first ENVELOPE_TRIALS builds (all corners for a worst case)
-    over the sweep, relative to the nominal maximum."""
-    parts = variation.parts
-    count = min(ENVELOPE_TRIALS, len(parts.inductance_h))
-    take = slice(0, count)
-    trial = rz.Circuit(
-        circuit.topology, parts.inductance_h[take, None], parts.inductor_resistance_ohm[take, None],
-        parts.capacitance_f[take, None], parts.capacitor_esr_ohm[take, None],
-        circuit.source_resistance_ohm,
-        None if parts.load_resistance_ohm is None else parts.load_resistance_ohm[take, None])
-    f_hz = sweep.f_hz[::max(1, (len(sweep.f_hz) - 1) // (ENVELOPE_POINTS - 1))]
-    relative = rz.relative_response_db(trial, circuit, f_hz[None, :])
-    if coverage is None:
-        low, high = relative.min(axis=0), relative.max(axis=0)
-    else:
-        tail = 100.0 * (1.0 - coverage) / 2.0
-        low, high = np.percentile(relative, [tail, 100.0 - tail], axis=0)
-    return Envelope(f_hz, low, high)

@@ -21,7 +21,6 @@ from sheetgen.engine.magnetics import (
     core_loss_resistance_ohm,
     medhurst_self_capacitance_f,
     peak_flux_density_t,
-    self_resonant_frequency_hz,
     solenoid_turns_for_inductance,
     steinmetz_core_loss_w,
     temperature_rise_k,
@@ -35,7 +34,7 @@ from sheetgen.engine.magnetics import (
     turns_for_inductance,
     wheeler_inductance_h,
 )
-from sheetgen.engine.resonance import reactance_ohm
+from sheetgen.engine.resonance import reactance_ohm, resonant_frequency_hz
 from sheetgen.engine.wire import (
     AWG_MAX,
     AWG_MIN,
@@ -50,7 +49,7 @@ from sheetgen.engine.wire import (
     single_layer_field_per_ampere_per_m,
 )
 
-Remedy = Literal["thinner_wire", "larger_core", "two_layers"]
+WindingRemedy = Literal["thinner_wire", "larger_core", "two_layers"]
 LARGER_CORE_STEP_M = 0.1e-3  # a suggested inner diameter is rounded up to this step
 
 
@@ -201,7 +200,7 @@ class ToroidCoil:
     winding_angle_deg: float
     close_wound_angle_deg: float
     fits: bool  # one layer, close-wound within 360° less the lead gap
-    remedy: Remedy | None
+    remedy: WindingRemedy | None
     remedy_wire: Wire | None  # thickest AWG of the same grade that fits in one layer
     remedy_inner_diameter_m: float | None  # smallest core hole that takes the winding
     effective: ToroidEffectiveParameters
@@ -257,14 +256,14 @@ def design_toroid(target_inductance_h: float, f_hz: float, core: ToroidCore,
     if coil.fits:
         return coil
     thinner = _thickest_fitting_awg(coil.turns, core.inner_diameter_m, wire)
-    options: list[tuple[float, Remedy]] = []
+    options: list[tuple[float, WindingRemedy]] = []
     if thinner is not None:
         options.append((_toroid_build(target_inductance_h, f_hz, core, material, thinner,
                                       lead_length_m, voltage_rms_v, temperature_c).q_estimated,
                         "thinner_wire"))
     if coil.layers_needed == 2:
         options.append((coil.q_estimated, "two_layers"))
-    remedy: Remedy = max(options)[1] if options else "larger_core"
+    remedy: WindingRemedy = max(options)[1] if options else "larger_core"
     hole = toroid_inner_diameter_for_turns_m(coil.turns, wire.overall_diameter_m)
     hole = math.ceil(hole / LARGER_CORE_STEP_M + 1e-9) * LARGER_CORE_STEP_M
     return replace(coil, remedy=remedy, remedy_wire=thinner, remedy_inner_diameter_m=hole)
@@ -408,5 +407,5 @@ def design_solenoid(target_inductance_h: float, f_hz: float,
         dc_resistance_ohm=dc_resistance_ohm(helix + 2.0 * lead_length_m, wire.diameter_m, rho),
         ac_resistance_ohm=r_ac, series_resistance_ohm=r_ac,
         q_estimated=coil_q_sweep(model, f_hz), self_capacitance_f=c_self,
-        srf_hz=float(self_resonant_frequency_hz(wound.inductance_built_h, c_self)),
+        srf_hz=float(resonant_frequency_hz(wound.inductance_built_h, c_self)),
         srf_basis="medhurst_1947", fits=fits, loss_model=model)

@@ -13,7 +13,7 @@ from typing import Literal
 import numpy as np
 
 from sheetgen.engine.constants import MU_0_H_PER_M as mu_0
-from sheetgen.engine.resonance import reactance_ohm, resonant_frequency_hz
+from sheetgen.engine.resonance import reactance_ohm
 
 LEAD_GAP_DEG = 30.0  # angle left free between a toroid's two leads (common practice)
 INCH_M = 0.0254
@@ -299,11 +299,6 @@ def medhurst_self_capacitance_f(diameter_m: float, length_m: float) -> float:
     ratio = length_m / diameter_m
     h_pf_per_cm = 0.1126 * ratio + 0.08 + 0.27 / math.sqrt(ratio)
     return h_pf_per_cm * (diameter_m * 100.0) * 1e-12
-
-
-def self_resonant_frequency_hz(l_h, c_f):
-    """f = 1/(2π √(L C)) of the coil and its self-capacitance (Thomson's formula)."""
-    return resonant_frequency_hz(l_h, c_f)
 
 
 # --------------------------------------------------------------------------- core loss

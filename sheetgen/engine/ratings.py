@@ -2,7 +2,7 @@
 
 A check passes when actual ≤ allowed = rating × derating. A failed check can be accepted
 by an explicit written reason; it then stays in the results, marked accepted. Every
-failed check carries the numbers of its remedy (`Remedy`); report/advice.py words them.
+failed check carries the numbers of its remedy (`RatingRemedy`); report/advice.py words them.
 
 Stresses scale with the drive: in a linear circuit every voltage and current goes with
 √P_drive, every power with P_drive, which is how the drive that would pass is found.
@@ -33,7 +33,7 @@ DEFAULT_CURRENT_DENSITY_LIMIT_A_PER_M2 = 4.0e6
 
 
 @dataclass(frozen=True)
-class Remedy:
+class RatingRemedy:
     """The numbers behind a failed check's advice (None where a remedy does not apply).
 
     required_rating: the rating that would pass at the same derating (actual / derating);
@@ -69,7 +69,7 @@ class RatingCheck:
     passed: bool
     accepted: bool
     acceptance_reason: str | None
-    remedy: Remedy | None
+    remedy: RatingRemedy | None
 
     @property
     def status(self) -> Literal["pass", "accepted", "fail"]:
@@ -121,7 +121,7 @@ def capacitor_voltage_check(part: str, peak_voltage_v: float, rated_voltage_v: f
     drive P·(allowed/V̂)².
     """
     def remedy(allowed):
-        return Remedy(required_rating=peak_voltage_v / derating,
+        return RatingRemedy(required_rating=peak_voltage_v / derating,
                       parts_needed=math.ceil(peak_voltage_v / allowed), arrangement="series",
                       drive_power_max_w=_drive_scaled(drive_power_w, allowed / peak_voltage_v,
                                                       2.0))
@@ -139,7 +139,7 @@ def capacitor_current_check(part: str, current_rms_a: float, rated_current_rms_a
     1/n of the capacitance; or the drive P·(allowed/I)².
     """
     def remedy(allowed):
-        return Remedy(required_rating=current_rms_a / derating,
+        return RatingRemedy(required_rating=current_rms_a / derating,
                       parts_needed=math.ceil(current_rms_a / allowed), arrangement="parallel",
                       drive_power_max_w=_drive_scaled(drive_power_w, allowed / current_rms_a,
                                                       2.0))
@@ -158,7 +158,7 @@ def esr_power_check(part: str, power_w: float, rated_power_w: float, *,
     """
     def remedy(allowed):
         ratio = allowed / power_w
-        return Remedy(required_rating=power_w / derating,
+        return RatingRemedy(required_rating=power_w / derating,
                       esr_max_ohm=None if esr_ohm is None else esr_ohm * ratio,
                       drive_power_max_w=_drive_scaled(drive_power_w, ratio, 1.0))
     return _make(part, "power in ESR", "W", power_w, rated_power_w, derating, acceptance,
@@ -178,7 +178,7 @@ def current_density_check(part: str, current_rms_a: float, diameter_m: float, *,
     density = float(current_density_a_per_m2(current_rms_a, diameter_m))
 
     def remedy(allowed):
-        return Remedy(required_rating=density,
+        return RatingRemedy(required_rating=density,
                       wire_diameter_min_m=math.sqrt(4.0 * current_rms_a / (math.pi * allowed)),
                       drive_power_max_w=_drive_scaled(drive_power_w, allowed / density, 2.0))
     return _make(part, "current density", "A/m²", density, limit_a_per_m2, 1.0, acceptance,
@@ -194,7 +194,7 @@ def flux_density_check(part: str, flux_density_peak_t: float, limit_t: float, *,
     B̂/allowed times the cross-section Ae passes; or the drive P·(allowed/B̂)².
     """
     def remedy(allowed):
-        return Remedy(required_rating=flux_density_peak_t / derating,
+        return RatingRemedy(required_rating=flux_density_peak_t / derating,
                       core_area_factor=flux_density_peak_t / allowed,
                       drive_power_max_w=_drive_scaled(drive_power_w,
                                                       allowed / flux_density_peak_t, 2.0))

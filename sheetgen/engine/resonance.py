@@ -94,16 +94,6 @@ def inductance_for_f0(f0_hz, capacitance_f):
     return 1.0 / ((2.0 * np.pi * f0_hz) ** 2 * capacitance_f)
 
 
-def series_half_power_hz(f0_hz, q):
-    """Half-power points of a series RLC, f1,2 = f0 (√(1 + 1/(4Q²)) ∓ 1/(2Q)).
-
-    The closed form of the exact response (e.g. Alexander & Sadiku, Fundamentals of
-    Electric Circuits, section 14.5); their difference is exactly f0/Q.
-    """
-    root = np.sqrt(1.0 + 1.0 / (4.0 * q * q))
-    return f0_hz * (root - 1.0 / (2.0 * q)), f0_hz * (root + 1.0 / (2.0 * q))
-
-
 def unity_power_factor_hz(inductance_h, capacitance_f, inductor_resistance_ohm,
                           capacitor_esr_ohm):
     """Frequency where a lossy two-branch tank is purely resistive (NaN where none).

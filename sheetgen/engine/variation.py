@@ -29,6 +29,7 @@ import numpy as np
 from sheetgen.engine.resonance import (
     Circuit,
     capacitance_for_f0,
+    relative_response_db,
     response_features,
     terminal_impedance,
 )
@@ -532,3 +533,39 @@ def sample_parts(circuit: Circuit, spec: VariationSpec, method: Method) -> Sampl
         return SampledParts(method, spec.coverage, circuit,
                             _parts(circuit, spec, _monte_carlo_draws(spec)))
     return SampledParts(method, None, circuit, _parts(circuit, spec, _corner_draws(spec)))
+
+
+ENVELOPE_TRIALS = 2000  # trials drawn for the plotted Monte Carlo envelope of the response
+ENVELOPE_POINTS = 201  # frequencies of the envelope (a band on a plot needs no more)
+
+
+@dataclass(frozen=True)
+class Envelope:
+    """The response (dB, relative to the nominal maximum) that the coverage of builds stays
+    within, at each frequency of the sweep."""
+
+    f_hz: np.ndarray
+    low_db: np.ndarray
+    high_db: np.ndarray
+
+
+def response_envelope(circuit: Circuit, variation: VariationResult, sweep_f_hz: np.ndarray,
+                      coverage: float | None) -> Envelope:
+    """The response band of the first ENVELOPE_TRIALS builds (all corners for a worst case)
+    over the sweep, relative to the nominal maximum."""
+    parts = variation.parts
+    count = min(ENVELOPE_TRIALS, len(parts.inductance_h))
+    take = slice(0, count)
+    trial = Circuit(
+        circuit.topology, parts.inductance_h[take, None], parts.inductor_resistance_ohm[take, None],
+        parts.capacitance_f[take, None], parts.capacitor_esr_ohm[take, None],
+        circuit.source_resistance_ohm,
+        None if parts.load_resistance_ohm is None else parts.load_resistance_ohm[take, None])
+    f_hz = sweep_f_hz[::max(1, (len(sweep_f_hz) - 1) // (ENVELOPE_POINTS - 1))]
+    relative = relative_response_db(trial, circuit, f_hz[None, :])
+    if coverage is None:
+        low, high = relative.min(axis=0), relative.max(axis=0)
+    else:
+        tail = 100.0 * (1.0 - coverage) / 2.0
+        low, high = np.percentile(relative, [tail, 100.0 - tail], axis=0)
+    return Envelope(f_hz, low, high)

@@ -255,7 +255,7 @@ class PartsLibraryFile(Section):
     cores: dict[Name, CoreSpec] = Field(default_factory=dict)
 
 
-Wire = Annotated[str, Field(min_length=1, max_length=40, description='wire size: "AWG 24", '
+WireSize = Annotated[str, Field(min_length=1, max_length=40, description='wire size: "AWG 24", '
                             '"24 AWG" or a copper diameter "0.50 mm"')]
 
 
@@ -263,7 +263,7 @@ class LinkWinding(Section):
     """A coupling winding over the tank coil that matches a resistance to the tank."""
 
     resistance: Resistance = Field(description="the resistance the link connects to, e.g. 50 Ω")
-    wire: Wire | None = Field(None, description="link wire (default: the tank's wire)")
+    wire: WireSize | None = Field(None, description="link wire (default: the tank's wire)")
 
 
 class Tap(Section):
@@ -281,7 +281,7 @@ class ToroidInductor(Section):
     inductance: Inductance | None = Field(
         None, description="inductance wanted; omit to have it computed from targets.f0 and C")
     core: name_or(CoreSpec) = Field(description="a core of the parts library by name, or inline")
-    wire: Wire
+    wire: WireSize
     enamel_grade: Literal[1, 2] = Field(2, description="enamel build grade 1 (thin) or 2")
     lead_length: LeadLength = Field(0.025, description="length of each lead beyond the core")
     link: LinkWinding | None = Field(None, description="a link winding (optional)")
@@ -314,7 +314,7 @@ class SolenoidInductor(Section):
     inductance: Inductance | None = Field(
         None, description="inductance wanted; omit to have it computed from targets.f0 and C")
     former_diameter: Length = Field(description="outside diameter of the former (or mandrel)")
-    wire: Wire
+    wire: WireSize
     enamel_grade: Literal[1, 2] = Field(2, description="enamel build grade 1 (thin) or 2")
     pitch: Length | None = Field(None, description="turn-to-turn spacing (centre to centre)")
     length: Length | None = Field(None, description="winding length (instead of pitch)")

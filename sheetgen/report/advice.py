@@ -1,12 +1,12 @@
 """Failed rating checks in words: which part, by how much, and what to change.
 
-The numbers come from the engine's `RatingCheck` and its `Remedy`; this module only words
+The numbers come from the engine's `RatingCheck` and its `RatingRemedy`; this module only words
 them (engine/ratings.py computes, this says).
 """
 
 from __future__ import annotations
 
-from sheetgen.engine.ratings import RatingCheck, Remedy
+from sheetgen.engine.ratings import RatingCheck, RatingRemedy
 from sheetgen.quantities import format_number, format_quantity
 from sheetgen.report.formatting import percent, stress_text
 
@@ -24,25 +24,25 @@ def rating_advice(check: RatingCheck) -> str | None:
             f"{derated}. {_REMEDIES[check.quantity](check.remedy)}.")
 
 
-def _or_drive(remedy: Remedy) -> str:
+def _or_drive(remedy: RatingRemedy) -> str:
     if remedy.drive_power_max_w is None:
         return ""
     return f", or lower the drive to at most {format_quantity(remedy.drive_power_max_w, 'W')}"
 
 
-def _peak_voltage(r: Remedy) -> str:
+def _peak_voltage(r: RatingRemedy) -> str:
     return (f"Fit a capacitor rated at least {format_quantity(r.required_rating, 'V')}, "
             f"or {r.parts_needed} of the present rating in series, each of "
             f"{r.parts_needed}× the capacitance{_or_drive(r)}")
 
 
-def _rf_current(r: Remedy) -> str:
+def _rf_current(r: RatingRemedy) -> str:
     return (f"Fit a capacitor rated for at least {format_quantity(r.required_rating, 'A')}"
             f" rms, or {r.parts_needed} in parallel, each of 1/{r.parts_needed} of the "
             f"capacitance{_or_drive(r)}")
 
 
-def _esr_power(r: Remedy) -> str:
+def _esr_power(r: RatingRemedy) -> str:
     esr = ("" if r.esr_max_ohm is None else
            f"Fit a capacitor with an ESR of at most {format_quantity(r.esr_max_ohm, 'Ω')} "
            f"at this frequency, or one ")
@@ -51,12 +51,12 @@ def _esr_power(r: Remedy) -> str:
             f"{format_quantity(r.required_rating, 'W')}{_or_drive(r)}")
 
 
-def _current_density(r: Remedy) -> str:
+def _current_density(r: RatingRemedy) -> str:
     return (f"Wind it with wire of at least {format_quantity(r.wire_diameter_min_m, 'm')} "
             f"copper diameter{_or_drive(r)}")
 
 
-def _flux_density(r: Remedy) -> str:
+def _flux_density(r: RatingRemedy) -> str:
     return (f"Use a core with at least {format_number(r.core_area_factor, 3)}× the "
             f"cross-section Ae, or a material rated for at least "
             f"{format_quantity(r.required_rating, 'T')}{_or_drive(r)}")

@@ -9,78 +9,22 @@ listed in FORM_FIELD_NAMES.
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
-from typing import Literal
 
 from sheetgen.design.records import Design
+from sheetgen.engine.bench import (
+    GENERATOR_LEVEL_MAX_DBM,
+    HALF_POWER_DB,
+    BenchDrive,
+    Detector,
+    SweepSettings,
+    bench_drive,
+    detector,
+    sweep_settings,
+)
 from sheetgen.quantities import format_number
 from sheetgen.report.formatting import quantity_text, range_text, signed, tolerance_text
 from sheetgen.report.winding import measuring_frequency_hz
-
-# Bench generators, analysers and their cables are 50 Ω systems (common practice).
-GENERATOR_RESISTANCE_OHM = 50.0
-# Highest part voltage for the bench test: small-signal, far inside any part's rating and
-# any hazard, and within an analyser input's range (common practice).
-TEST_PART_VOLTAGE_PEAK_V = 1.0
-# Frequency step at most BW/100, so each half-power point is read to 1 % of the bandwidth.
-STEPS_PER_BANDWIDTH = 100
-# Receiver (resolution / IF) bandwidth at most a tenth of the circuit's bandwidth, so the
-# receiver does not smooth the skirts (common practice).
-RECEIVER_BANDWIDTHS_PER_BANDWIDTH = 10
-# A probe or fixture resistor at least 100 times the impedance it loads changes the loaded
-# Q by about 1 % (common practice).
-LOADING_RATIO = 100.0
-# A probe may move f0 by at most a tenth of the bandwidth.
-PROBE_SHIFT_PER_BANDWIDTH = 0.1
-MAX_POINTS = 10001
-# Above this level many bench generators run out of output (common practice).
-GENERATOR_LEVEL_MAX_DBM = 10.0
-HALF_POWER_DB = 10.0 * math.log10(0.5)  # −3.0103 dB
-
-
-@dataclass(frozen=True)
-class SweepSettings:
-    """Frequency sweep for a network analyser or a generator and level-reading receiver."""
-
-    start_hz: float
-    stop_hz: float
-    centre_hz: float
-    span_hz: float
-    step_hz: float
-    points: int
-    receiver_bandwidth_hz: float
-
-
-Hookup = Literal["direct", "series_resistor", "shunt_resistor", "feed_resistor"]
-
-
-@dataclass(frozen=True)
-class BenchDrive:
-    """How the 50 Ω generator stands in for the design's source, and at what level.
-
-    `hookup`: direct (Rs is 50 Ω); series_resistor (Rs − 50 Ω in series); shunt_resistor
-    (a resistor across the generator's output makes a lower source resistance, Thévenin);
-    feed_resistor (a large series resistor makes a current source, Norton).
-    """
-
-    scale: float
-    part_voltage_peak_v: float
-    hookup: Hookup
-    fixture_resistance_ohm: float | None
-    presented_resistance_ohm: float | None
-    generator_emf_rms_v: float
-    generator_level_dbm: float
-
-
-@dataclass(frozen=True)
-class Detector:
-    """Where the response is read and what the probe may load it with."""
-
-    across: str
-    probe_resistance_min_ohm: float
-    probe_capacitance_max_f: float | None
-    sense_resistance_max_ohm: float | None
 
 
 @dataclass(frozen=True)
@@ -104,8 +48,11 @@ class RecordRow:
 
 
 @dataclass(frozen=True)
-class Step:
-    """One numbered step: what to do, the settings it needs and the fields it fills."""
+class TestStep:
+    """One numbered step of the bench test: what to do, the settings it needs and the
+    fields it fills."""
+
+    __test__ = False  # not a pytest test class
 
     number: int
     title: str
@@ -121,7 +68,7 @@ class Procedure:
     sweep: SweepSettings
     drive: BenchDrive
     detector: Detector
-    steps: tuple[Step, ...]
+    steps: tuple[TestStep, ...]
     record: tuple[RecordRow, ...]
 
 
@@ -150,127 +97,6 @@ FORM_FIELD_NAMES: tuple[str, ...] = (
             + [OVERALL_VERDICT] for choice in VERDICT_CHOICES)
     + RECORD_TEXT_FIELDS
 )
-
-
-def nice_at_most(value: float, mantissas: tuple[float, ...] = (1.0, 2.0, 5.0)) -> float:
-    """The largest m·10^k not above `value`, m from `mantissas` (1-2-5 or 1-3 steps)."""
-    return max(c for c in _ladder(value, mantissas) if c <= value * (1 + 1e-12))
-
-
-def nice_at_least(value: float, mantissas: tuple[float, ...] = (1.0, 2.0, 5.0)) -> float:
-    """The smallest m·10^k not below `value`."""
-    return min(c for c in _ladder(value, mantissas) if c >= value * (1 - 1e-12))
-
-
-def _ladder(value: float, mantissas: tuple[float, ...]) -> list[float]:
-    if not value > 0 or not math.isfinite(value):
-        raise ValueError("a step needs a positive, finite bound")
-    decade = math.floor(math.log10(value))
-    return [float(f"{m * 10.0 ** k:.6g}") for k in (decade - 1, decade, decade + 1)
-            for m in mantissas]
-
-
-def sweep_settings(design: Design) -> SweepSettings:
-    """The sweep of the design's own response plot, stepped finely enough for the −3 dB points.
-
-    Start and stop are the design's sweep range (the plot's), so the screen and the sheet
-    agree. Step: the largest 1-2-5 value at most BW/100 (at most 10001 points, coarser if
-    the span needs it); with no half-power points, span/1000. Receiver bandwidth: the
-    largest 1-3 value at most BW/10 (common practice), or the step when there is no BW.
-    """
-    start, stop = float(design.sweep.f_hz[0]), float(design.sweep.f_hz[-1])
-    span = stop - start
-    bandwidth = design.resonance.bandwidth_hz
-    step = nice_at_most(bandwidth / STEPS_PER_BANDWIDTH if bandwidth else span / 1000.0)
-    if span / step + 1 > MAX_POINTS:
-        step = nice_at_least(span / (MAX_POINTS - 1))
-    points = int(math.ceil(span / step - 1e-9)) + 1
-    receiver = nice_at_most(bandwidth / RECEIVER_BANDWIDTHS_PER_BANDWIDTH if bandwidth else step,
-                            (1.0, 3.0))
-    return SweepSettings(start, stop, 0.5 * (start + stop), span, step, points, receiver)
-
-
-def dbm_from_emf(emf_rms_v: float, resistance_ohm: float = GENERATOR_RESISTANCE_OHM) -> float:
-    """A generator's level setting for an EMF: the power it delivers into a matched load.
-
-    A matched load gets half the EMF, so P = (E/2)²/R and the level is 10·log10(P / 1 mW).
-    """
-    power_w = (emf_rms_v / 2.0) ** 2 / resistance_ohm
-    return 10.0 * math.log10(power_w / 1e-3)
-
-
-def bench_drive(design: Design) -> BenchDrive:
-    """The generator's hookup and level for a bench test at small signal.
-
-    Level: the design's drive scaled down (never up) so that the highest part voltage is at
-    most TEST_PART_VOLTAGE_PEAK_V; f0, bandwidth and Q do not depend on the level for a
-    linear circuit. Hookup, from a 50 Ω generator (common practice):
-    Rs > 50 Ω: a series resistor Rs − 50 Ω; Rs < 50 Ω: a shunt R = 50·Rs/(50 − Rs) across
-    the output (Thévenin: source resistance Rs, EMF × R/(R + 50)); no Rs, series circuit
-    (ideal voltage source): a shunt giving 1/100 of the loop's resistance; no Rs, parallel
-    (ideal current source): a feed resistor of 100 × the tank's impedance (Norton).
-    """
-    circuit, stress, resonance = design.circuit, design.stress, design.resonance
-    highest_v = max(stress.capacitor_voltage_peak_v, stress.inductor_voltage_peak_v)
-    scale = min(1.0, TEST_PART_VOLTAGE_PEAK_V / highest_v) if highest_v > 0 else 1.0
-    rs = circuit.source_resistance_ohm
-    z_peak = resonance.impedance_at_peak_ohm
-    series = circuit.topology == "series"
-    current = design.drive.value if design.drive.kind == "current" else None
-    if stress.source_voltage_rms_v is not None:
-        emf = stress.source_voltage_rms_v
-    elif series:
-        emf = current * ((rs or 0.0) + z_peak)  # loop at the maximum is nearly resistive
-    elif rs is not None:
-        emf = current * rs  # Norton current beside Rs is a Thévenin EMF I·Rs behind Rs
-    else:
-        emf = None
-    r_gen = GENERATOR_RESISTANCE_OHM
-    if emf is None:  # parallel tank fed by an ideal current source
-        feed = LOADING_RATIO * z_peak
-        generator_emf = scale * current * (r_gen + feed)
-        hookup, fixture, presented = "feed_resistor", feed, r_gen + feed
-    else:
-        wanted = rs if rs is not None else z_peak / LOADING_RATIO
-        test_emf = scale * emf
-        if math.isclose(wanted, r_gen, rel_tol=0.01):
-            hookup, fixture, generator_emf = "direct", None, test_emf
-        elif wanted > r_gen:
-            hookup, fixture, generator_emf = "series_resistor", wanted - r_gen, test_emf
-        else:
-            shunt = r_gen * wanted / (r_gen - wanted)
-            hookup, fixture = "shunt_resistor", shunt
-            generator_emf = test_emf * (shunt + r_gen) / shunt
-        presented = wanted
-    return BenchDrive(scale=scale, part_voltage_peak_v=scale * highest_v, hookup=hookup,
-                     fixture_resistance_ohm=fixture, presented_resistance_ohm=presented,
-                     generator_emf_rms_v=generator_emf,
-                     generator_level_dbm=dbm_from_emf(generator_emf))
-
-
-def detector(design: Design) -> Detector:
-    """Where to read the response, and the probe that does not disturb it.
-
-    Series: the loop current, as the voltage across the load (or across a sense resistor of
-    at most 1/100 of the loop's resistance). Parallel: the tank voltage. The probe's
-    resistance is at least 100 × what it is across (common practice). Across a tank, its
-    capacitance Cp adds to C and, from f0 = 1/(2π√(LC)), moves f0 by about −Cp/(2C); keeping
-    that under a tenth of the bandwidth gives Cp ≤ 0.2·C·BW/f0.
-    """
-    circuit, resonance = design.circuit, design.resonance
-    if circuit.topology == "series":
-        if circuit.load_resistance_ohm is not None:
-            return Detector(f"the load {design.designators.load_resistor}",
-                            LOADING_RATIO * circuit.load_resistance_ohm, None, None)
-        loop = resonance.impedance_at_peak_ohm + (circuit.source_resistance_ohm or 0.0)
-        sense = loop / LOADING_RATIO
-        return Detector("a sense resistor in the loop", LOADING_RATIO * sense, None, sense)
-    bandwidth = resonance.bandwidth_hz
-    probe_c = (2.0 * PROBE_SHIFT_PER_BANDWIDTH * circuit.capacitance_f * bandwidth
-               / resonance.f0_hz) if bandwidth else None
-    return Detector(f"the tank (across {design.designators.coil})",
-                    LOADING_RATIO * resonance.impedance_at_peak_ohm,
-                    probe_c, None)
 
 
 def record_rows(design: Design) -> tuple[RecordRow, ...]:
@@ -331,8 +157,11 @@ def _hookup_text(design: Design, drive: BenchDrive) -> str:
     return f"The design assumes {what}: {how}."
 
 
-def _detector_text(found: Detector) -> str:
-    text = (f"Read the response across {found.across} with a probe of at least "
+def _detector_text(design: Design, found: Detector) -> str:
+    across = {"load": f"the load {design.designators.load_resistor}",
+              "sense_resistor": "a sense resistor in the loop",
+              "tank": f"the tank (across {design.designators.coil})"}[found.place]
+    text = (f"Read the response across {across} with a probe of at least "
             f"{quantity_text(found.probe_resistance_min_ohm, 'Ω')}")
     if found.sense_resistance_max_ohm is not None:
         text = (f"Insert a sense resistor of at most {quantity_text(found.sense_resistance_max_ohm, 'Ω')} "
@@ -344,26 +173,28 @@ def _detector_text(found: Detector) -> str:
     return text + "."
 
 
-def _trim_step(design: Design) -> Step:
+def _trim_step(design: Design, repeat_from: int, repeat_to: int) -> tuple[str, str]:
+    """The tuning step's title and text; it sends the technician back to the measuring steps."""
     choice = design.capacitor_choice
     if choice.trimmer_setting_f is not None:
         trimmer = design.job.capacitor.trimmer
-        return Step(9, "Tune", f"Adjust the trimmer {design.designators.trimmer} for the "
-                    f"response maximum at "
-                    f"{quantity_text(design.resonance.f_peak_hz, 'Hz')} (expected setting "
-                    f"{quantity_text(choice.trimmer_setting_f, 'F')} of its "
-                    f"{range_text(trimmer.minimum, trimmer.maximum, 'F', 3)}), then repeat steps 7 and 8.")
-    return Step(9, "Trim if needed",
-                "If the maximum is off frequency, change the capacitance to C × (f measured / "
-                "f wanted)² (from f0 = 1/(2π√(LC))) and repeat from step 7.")
+        return "Tune", (f"Adjust the trimmer {design.designators.trimmer} for the response "
+                        f"maximum at {quantity_text(design.resonance.f_peak_hz, 'Hz')} (expected "
+                        f"setting {quantity_text(choice.trimmer_setting_f, 'F')} of its "
+                        f"{range_text(trimmer.minimum, trimmer.maximum, 'F', 3)}), then repeat "
+                        f"steps {repeat_from} and {repeat_to}.")
+    return "Trim if needed", ("If the maximum is off frequency, change the capacitance to C × "
+                              "(f measured / f wanted)² (from f0 = 1/(2π√(LC))) and repeat "
+                              f"from step {repeat_from}.")
 
 
 def procedure(design: Design) -> Procedure:
     """The numbered bench test of `design`, with its instrument settings and record."""
-    sweep = sweep_settings(design)
-    drive = bench_drive(design)
-    found = detector(design)
     r = design.resonance
+    sweep = sweep_settings(float(design.sweep.f_hz[0]), float(design.sweep.f_hz[-1]),
+                           r.bandwidth_hz)
+    drive = bench_drive(design.circuit, r, design.stress, design.drive)
+    found = detector(design.circuit, r)
     choice = design.capacitor_choice
     level_note = ""
     if drive.generator_level_dbm > GENERATOR_LEVEL_MAX_DBM:
@@ -376,52 +207,59 @@ def procedure(design: Design) -> Procedure:
     names = design.designators
     fixed = " + ".join(names.fixed_capacitors)
     coil_name = names.coil
-    steps = [
-        Step(1, "Check the parts",
-             "Check every part against the parts list: value, tolerance, dielectric or "
-             "material, and rating where the list gives one."),
-        Step(2, "Measure the coil",
-             f"Measure {coil_name}{wound} with an LCR meter at {quantity_text(measure_at, 'Hz', 3)}, with nothing "
-             f"connected, before fitting it. Expected {quantity_text(design.circuit.inductance_h, 'H')}.",
-             records=("measured.inductance_h",)),
-        Step(3, "Measure the capacitance",
-             f"Measure {fixed} together as they will be fitted"
-             + (", without the trimmer" if trimmer else "")
-             + f". Expected {quantity_text(choice.fixed_f, 'F')}.", records=("measured.capacitance_f",)),
-        Step(4, "Assemble",
-             "Build the circuit as the schematic shows, with short leads; keep the coil "
-             "clear of metal and of the other parts."),
-        Step(5, "Connect the test set-up",
-             f"{_hookup_text(design, drive)} {_detector_text(found)}"),
-        Step(6, "Set the instrument",
-             "Set a network analyser, or a generator and a level-reading receiver, to sweep "
-             "as below." + level_note,
-             settings=(
-                 ("Start", quantity_text(sweep.start_hz, "Hz")),
-                 ("Stop", quantity_text(sweep.stop_hz, "Hz")),
-                 ("Centre", quantity_text(sweep.centre_hz, "Hz")),
-                 ("Span", quantity_text(sweep.span_hz, "Hz")),
-                 ("Step", f"{quantity_text(sweep.step_hz, 'Hz')} ({sweep.points} points)"),
-                 ("Receiver (resolution/IF) bandwidth", quantity_text(sweep.receiver_bandwidth_hz, "Hz")),
-                 ("Generator EMF", quantity_text(drive.generator_emf_rms_v, "V") + " rms"),
-                 ("Generator level (into 50 Ω)", signed(drive.generator_level_dbm, 1) + " dBm"),
-                 ("Highest part voltage at this level", quantity_text(drive.part_voltage_peak_v, "V")
-                  + " peak"),
-             )),
-        Step(7, "Find the response maximum",
-             "Sweep and find the maximum of the response; record its frequency. Expected "
-             f"{quantity_text(r.f_peak_hz, 'Hz')}; the test record gives the pass window.",
-             records=("measured.f0_hz",)),
-        Step(8, "Find the half-power points",
-             f"Find the frequencies either side where the response is {-HALF_POWER_DB:.1f} dB "
-             f"below the maximum; record both, their difference (the bandwidth) and f0 divided "
-             f"by the bandwidth (the loaded Q). Expected {quantity_text(r.f_low_hz, 'Hz')} and "
-             f"{quantity_text(r.f_high_hz, 'Hz')}.",
-             records=("measured.f_low_hz", "measured.f_high_hz", "measured.bandwidth_hz",
-                      "measured.q_loaded")),
-        _trim_step(design),
-        Step(10, "Record the verdict",
-             "Mark pass or fail against the work order's limits for each value, and overall; "
-             "fill in the instruments used, your name and the date."),
+    # (key, title, text, settings, records); numbered from this list, so a step that
+    # refers to another names it by its key.
+    plan: list[tuple[str, str, str, tuple, tuple]] = [
+        ("parts", "Check the parts",
+         "Check every part against the parts list: value, tolerance, dielectric or "
+         "material, and rating where the list gives one.", (), ()),
+        ("coil", "Measure the coil",
+         f"Measure {coil_name}{wound} with an LCR meter at {quantity_text(measure_at, 'Hz', 3)}, "
+         f"with nothing connected, before fitting it. Expected "
+         f"{quantity_text(design.circuit.inductance_h, 'H')}.", (), ("measured.inductance_h",)),
+        ("capacitance", "Measure the capacitance",
+         f"Measure {fixed} together as they will be fitted"
+         + (", without the trimmer" if trimmer else "")
+         + f". Expected {quantity_text(choice.fixed_f, 'F')}.", (), ("measured.capacitance_f",)),
+        ("assemble", "Assemble",
+         "Build the circuit as the schematic shows, with short leads; keep the coil "
+         "clear of metal and of the other parts.", (), ()),
+        ("connect", "Connect the test set-up",
+         f"{_hookup_text(design, drive)} {_detector_text(design, found)}", (), ()),
+        ("instrument", "Set the instrument",
+         "Set a network analyser, or a generator and a level-reading receiver, to sweep "
+         "as below." + level_note,
+         (
+             ("Start", quantity_text(sweep.start_hz, "Hz")),
+             ("Stop", quantity_text(sweep.stop_hz, "Hz")),
+             ("Centre", quantity_text(sweep.centre_hz, "Hz")),
+             ("Span", quantity_text(sweep.span_hz, "Hz")),
+             ("Step", f"{quantity_text(sweep.step_hz, 'Hz')} ({sweep.points} points)"),
+             ("Receiver (resolution/IF) bandwidth", quantity_text(sweep.receiver_bandwidth_hz, "Hz")),
+             ("Generator EMF", quantity_text(drive.generator_emf_rms_v, "V") + " rms"),
+             ("Generator level (into 50 Ω)", signed(drive.generator_level_dbm, 1) + " dBm"),
+             ("Highest part voltage at this level", quantity_text(drive.part_voltage_peak_v, "V")
+              + " peak"),
+         ), ()),
+        ("maximum", "Find the response maximum",
+         "Sweep and find the maximum of the response; record its frequency. Expected "
+         f"{quantity_text(r.f_peak_hz, 'Hz')}; the test record gives the pass window.",
+         (), ("measured.f0_hz",)),
+        ("half_power", "Find the half-power points",
+         f"Find the frequencies either side where the response is {-HALF_POWER_DB:.1f} dB "
+         f"below the maximum; record both, their difference (the bandwidth) and f0 divided "
+         f"by the bandwidth (the loaded Q). Expected {quantity_text(r.f_low_hz, 'Hz')} and "
+         f"{quantity_text(r.f_high_hz, 'Hz')}.", (),
+         ("measured.f_low_hz", "measured.f_high_hz", "measured.bandwidth_hz",
+          "measured.q_loaded")),
+        ("tune", "", "", (), ()),
+        ("verdict", "Record the verdict",
+         "Mark pass or fail against the work order's limits for each value, and overall; "
+         "fill in the instruments used, your name and the date.", (), ()),
     ]
-    return Procedure(sweep, drive, found, tuple(steps), record_rows(design))
+    number = {key: index + 1 for index, (key, *_rest) in enumerate(plan)}
+    tune_title, tune_text = _trim_step(design, number["maximum"], number["half_power"])
+    steps = tuple(TestStep(number[key], tune_title if key == "tune" else title,
+                           tune_text if key == "tune" else text, settings, records)
+                  for key, title, text, settings, records in plan)
+    return Procedure(sweep, drive, found, steps, record_rows(design))

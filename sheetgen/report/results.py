@@ -31,7 +31,7 @@ def _clean(value):
     return value
 
 
-def results(design: Design) -> dict:
+def results_document(design: Design) -> dict:
     """The results contract of DESIGN.md as plain data."""
     job, circuit, res, stress = design.job, design.circuit, design.resonance, design.stress
     choice = design.capacitor_choice
@@ -279,4 +279,4 @@ def limits_json(design: Design) -> str:
 
 def results_json(design: Design) -> str:
     """The results as stable, sorted-key JSON text, ending in a newline."""
-    return json.dumps(results(design), indent=2, sort_keys=False, ensure_ascii=False) + "\n"
+    return json.dumps(results_document(design), indent=2, ensure_ascii=False) + "\n"

@@ -19,7 +19,7 @@ LCR_TEST_FREQUENCIES_HZ = (100.0, 1e3, 10e3, 100e3, 1e6)  # usual bench meters (
 
 
 @dataclass(frozen=True)
-class Step:
+class WindingStep:
     """One numbered instruction."""
 
     number: int
@@ -52,7 +52,7 @@ def coil_check(design: Design) -> CoilCheck | None:
                      measuring_frequency_hz(design.resonance.f0_hz, r.srf_hz))
 
 
-def winding_steps(design: Design) -> list[Step]:
+def winding_steps(design: Design) -> list[WindingStep]:
     """The numbered steps to wind, finish and check the coil (empty for a given coil)."""
     coil = design.coil
     if coil is None:
@@ -68,7 +68,7 @@ def winding_steps(design: Design) -> list[Step]:
         f"{format_quantity(check.measure_at_hz, 'Hz', 3)} with nothing connected. Expect "
         f"{format_quantity(check.inductance_h, 'H', 4)}{tolerance}. Record the reading on the "
         "test record.")
-    return [Step(i + 1, text) for i, text in enumerate(texts)]
+    return [WindingStep(i + 1, text) for i, text in enumerate(texts)]
 
 
 def _toroid_texts(coil: CoilDesign, names: Designators) -> list[str]:

@@ -1,6 +1,6 @@
 """Fillable AcroForm fields as platypus flowables, placed wherever a table cell puts them.
 
-The field names are the record's stable names from sheetgen.report.procedure (FORM_FIELDS);
+The field names are the record's stable names from sheetgen.report.procedure (FORM_FIELD_NAMES);
 work-order systems read a filled sheet by those names. Fields print with a border so a
 sheet printed blank is filled by hand in the same boxes.
 """
@@ -10,10 +10,8 @@ from __future__ import annotations
 from reportlab.lib.colors import Color, black, white
 from reportlab.platypus import Flowable
 
-from sheetgen.report.procedure import FORM_FIELD_NAMES
 from sheetgen.sheet import fonts
 
-FORM_FIELDS = FORM_FIELD_NAMES
 FIELD_FONT = "Helvetica"  # AcroForm appearance streams need a standard PDF font
 FIELD_BORDER = Color(0.25, 0.25, 0.25)
 FIELD_FILL = Color(0.97, 0.97, 0.97)

@@ -11,7 +11,7 @@ from pathlib import Path
 import pytest
 
 from sheetgen.design.pipeline import design_from_file
-from sheetgen.report.results import results
+from sheetgen.report.results import results_document
 from tests import spice
 from tests.support import assert_close
 
@@ -32,7 +32,7 @@ def _measure(components: dict, topology: str) -> spice.ResonanceMeasurement:
 
 @pytest.mark.parametrize("name", JOBS)
 def test_job_agrees_with_ngspice(name):
-    got = results(design_from_file(TEMPLATES / name))
+    got = results_document(design_from_file(TEMPLATES / name))
     measured = _measure(got["components"], got["topology"])
     where = f"{name} vs {spice.ngspice_version()}"
     res = got["resonance"]
@@ -69,7 +69,7 @@ def test_design_mode_hits_its_targets_in_ngspice(tmp_path, topology, f0, selecti
     job = tmp_path / "job.yaml"
     job.write_text(TARGET_JOB.format(topology=topology, f0=f0, selectivity=selectivity, L=L,
                                      q=q, rs=rs), encoding="utf-8")
-    got = results(design_from_file(job))
+    got = results_document(design_from_file(job))
     measured = _measure(got["components"], topology)
     parts = got["components"]
     build = parts["capacitor_build"]

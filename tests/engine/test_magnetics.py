@@ -23,7 +23,6 @@ from sheetgen.engine.magnetics import (
     medhurst_self_capacitance_f,
     nagaoka_coefficient,
     peak_flux_density_t,
-    self_resonant_frequency_hz,
     solenoid_inductance_h,
     solenoid_turns_for_inductance,
     steinmetz_core_loss_w,
@@ -38,6 +37,7 @@ from sheetgen.engine.magnetics import (
     turns_for_inductance,
     wheeler_inductance_h,
 )
+from sheetgen.engine.resonance import resonant_frequency_hz
 from tests.support import assert_close
 
 # Invented ring cores: (OD, ID, height) in m.
@@ -314,7 +314,7 @@ def test_medhurst_capacitance_scales_with_diameter():
 
 def test_self_resonant_frequency():
     # Thomson: 10 µH with 10 pF resonates at 1/(2π·10⁻⁵) Hz = 15.915494 MHz.
-    assert_close(self_resonant_frequency_hz(10e-6, 10e-12), 15.915494e6, rel=1e-7, what="SRF")
+    assert_close(resonant_frequency_hz(10e-6, 10e-12), 15.915494e6, rel=1e-7, what="SRF")
 
 
 # --------------------------------------------------------------------------- core loss

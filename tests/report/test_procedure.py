@@ -16,18 +16,10 @@ from pathlib import Path
 import pytest
 
 from sheetgen.design.pipeline import design_from_file
-from sheetgen.report.procedure import (
-    FORM_FIELD_NAMES,
-    HALF_POWER_DB,
-    bench_drive,
-    dbm_from_emf,
-    detector,
-    nice_at_least,
-    nice_at_most,
-    procedure,
-    sweep_settings,
-)
-from sheetgen.report.results import results
+from sheetgen.engine import bench
+from sheetgen.engine.bench import HALF_POWER_DB, dbm_from_emf, nice_at_least, nice_at_most
+from sheetgen.report.procedure import FORM_FIELD_NAMES, procedure
+from sheetgen.report.results import results_document
 from tests.support import assert_close
 
 TEMPLATES = Path(__file__).resolve().parents[2] / "templates"
@@ -42,7 +34,7 @@ def _design(tmp_path, name: str, edits: dict[str, str] | None = None):
     path = tmp_path / f"{name}.yaml"
     path.write_text(text, encoding="utf-8")
     d = design_from_file(path, SHARED)
-    return d, results(d)
+    return d, results_document(d)
 
 
 @pytest.mark.parametrize("emf_v, dbm, tol_db", [
@@ -75,7 +67,7 @@ def test_nice_steps(value, mantissas, at_most, at_least):
 @pytest.mark.parametrize("name", ["series", "parallel", "demo"])
 def test_sweep_resolves_the_half_power_points(tmp_path, name):
     d, res = _design(tmp_path, name)
-    sweep = sweep_settings(d)
+    sweep = bench.sweep_settings(float(d.sweep.f_hz[0]), float(d.sweep.f_hz[-1]), d.resonance.bandwidth_hz)
     bandwidth = res["resonance"]["bandwidth_hz"]
     assert sweep.step_hz <= bandwidth / 100 * (1 + 1e-12), "step at most BW/100"
     assert sweep.step_hz > bandwidth / 100 / 2.5 * (1 - 1e-12), "the largest 1-2-5 step"
@@ -93,7 +85,7 @@ def test_sweep_resolves_the_half_power_points(tmp_path, name):
 def test_direct_hookup_and_level_for_a_50_ohm_source(tmp_path):
     """series.yaml: Rs = 50 Ω, 1 W available. EMF = 2√(P·Rs) (maximum power transfer)."""
     d, res = _design(tmp_path, "series")
-    drive = bench_drive(d)
+    drive = bench.bench_drive(d.circuit, d.resonance, d.stress, d.drive)
     emf_design = 2 * math.sqrt(1.0 * 50.0)
     highest = max(res["stress"]["capacitor_voltage_peak_v"],
                   res["stress"]["inductor_voltage_peak_v"])
@@ -110,7 +102,7 @@ def test_shunt_makes_a_low_source_resistance(tmp_path):
     and the EMF behind it is 12.5/(12.5 + 50) of the generator's."""
     d, res = _design(tmp_path, "series", {"resistance: 50 ohm\n  available_power: 1 W":
                                           "resistance: 10 ohm\n  voltage: 0.1 V"})
-    drive = bench_drive(d)
+    drive = bench.bench_drive(d.circuit, d.resonance, d.stress, d.drive)
     assert drive.hookup == "shunt_resistor"
     assert_close(drive.fixture_resistance_ohm, 12.5, rel=1e-12, what="shunt resistor")
     assert_close(1 / (1 / 12.5 + 1 / 50), drive.presented_resistance_ohm, rel=1e-12)
@@ -124,7 +116,7 @@ def test_norton_current_drive_beside_a_source_resistance(tmp_path):
     """parallel.yaml: 1 mA beside 47 kΩ is an EMF of 47 V behind 47 kΩ (Norton → Thévenin);
     a series resistor of 47 kΩ − 50 Ω makes the generator's 50 Ω up to it."""
     d, res = _design(tmp_path, "parallel")
-    drive = bench_drive(d)
+    drive = bench.bench_drive(d.circuit, d.resonance, d.stress, d.drive)
     assert drive.hookup == "series_resistor"
     assert_close(drive.fixture_resistance_ohm, 47e3 - 50, rel=1e-12)
     highest = max(res["stress"]["capacitor_voltage_peak_v"],
@@ -136,7 +128,7 @@ def test_feed_resistor_for_an_ideal_current_source(tmp_path):
     """No Rs, a current drive: a feed resistor of 100 × |Z| at the maximum, EMF = I·(50 + R)."""
     d, res = _design(tmp_path, "parallel", {"  resistance: 47 kohm    # output resistance of "
                                             "the driving stage\n": ""})
-    drive = bench_drive(d)
+    drive = bench.bench_drive(d.circuit, d.resonance, d.stress, d.drive)
     z_peak = res["resonance"]["impedance_at_peak_ohm"]
     assert drive.hookup == "feed_resistor"
     assert_close(drive.fixture_resistance_ohm, 100 * z_peak, rel=1e-12)
@@ -150,13 +142,13 @@ def test_probe_capacitance_limit_moves_f0_a_tenth_of_the_bandwidth(tmp_path):
     """Adding the largest probe capacitance allowed to C lowers f0 (Thomson's formula) by
     about a tenth of the bandwidth (first order in Cp/C)."""
     d, res = _design(tmp_path, "demo")
-    probe = detector(d).probe_capacitance_max_f
+    probe = bench.detector(d.circuit, d.resonance).probe_capacitance_max_f
     c, l_h = res["components"]["capacitance_f"], res["components"]["inductance_h"]
     f0 = 1 / (2 * math.pi * math.sqrt(l_h * c))
     shifted = 1 / (2 * math.pi * math.sqrt(l_h * (c + probe)))
     assert_close(f0 - shifted, 0.1 * res["resonance"]["bandwidth_hz"], rel=0.01,
                  what="f0 shift by the probe")
-    assert_close(detector(d).probe_resistance_min_ohm,
+    assert_close(bench.detector(d.circuit, d.resonance).probe_resistance_min_ohm,
                  100 * res["resonance"]["impedance_at_peak_ohm"], rel=1e-12)
 
 
@@ -166,7 +158,7 @@ def test_steps_are_numbered_and_name_the_settings(tmp_path):
     assert [s.number for s in plan.steps] == list(range(1, len(plan.steps) + 1))
     settings = dict(next(s for s in plan.steps if s.settings).settings)
     from sheetgen.quantities import format_quantity
-    sweep = sweep_settings(d)
+    sweep = bench.sweep_settings(float(d.sweep.f_hz[0]), float(d.sweep.f_hz[-1]), d.resonance.bandwidth_hz)
     assert settings["Start"] == format_quantity(sweep.start_hz, "Hz", 4)
     assert settings["Stop"] == format_quantity(sweep.stop_hz, "Hz", 4)
     recorded = {field for step in plan.steps for field in step.records}

@@ -298,7 +298,7 @@ def test_attachments_read_back_equal(sheets, name):
 
 @pytest.mark.parametrize("name", JOBS)
 def test_form_fields_exist_with_their_names(sheets, name):
-    from sheetgen.sheet.forms import FORM_FIELDS
+    from sheetgen.report.procedure import FORM_FIELD_NAMES as FORM_FIELDS
     fields = PdfReader(io.BytesIO(sheets[name].pdf)).get_fields()
     assert sorted(fields) == sorted(STABLE_FIELDS)
     assert sorted(FORM_FIELDS) == sorted(STABLE_FIELDS)
