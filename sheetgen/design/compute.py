@@ -49,7 +49,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     x0 = float(resonance.reactance_ohm(inductance, f0))
     coil_r, q_used, q_source = _coil_loss(job, coil, x0, f0)
     esr = (job.capacitor.esr if job.capacitor.esr is not None
-           else job.capacitor.dissipation_factor * x0)  # ESR = D / (ωC) and 1/(ω0 C) = X0
+           else float(resonance.esr_from_dissipation_factor_ohm(
+               job.capacitor.dissipation_factor, capacitance, f0)))
     load_r = job.load.resistance if job.load is not None else None
     circuit = resonance.Circuit(job.circuit.topology, inductance, coil_r, capacitance, esr,
                                 job.source.resistance, load_r)

@@ -366,6 +366,11 @@ class SolenoidCoil:
     fits: bool  # pitch ≥ wire overall diameter and length within the former's
     loss_model: CoilLossModel
 
+    @property
+    def former_diameter_m(self) -> float:
+        """The former under the winding: the wire-centre diameter less one wire overall."""
+        return self.diameter_m - self.wire.overall_diameter_m
+
 
 def design_solenoid(target_inductance_h: float, f_hz: float,
                     former_diameter_m: float | SolenoidFormer, wire: Wire, *,

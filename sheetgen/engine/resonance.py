@@ -89,6 +89,11 @@ def capacitance_for_f0(f0_hz, inductance_h):
     return 1.0 / ((2.0 * np.pi * f0_hz) ** 2 * inductance_h)
 
 
+def esr_from_dissipation_factor_ohm(dissipation_factor, capacitance_f, f_hz):
+    """ESR = D/(ωC): a capacitor's dissipation factor D = tan δ = ESR·ωC at f."""
+    return dissipation_factor / (2.0 * np.pi * f_hz * capacitance_f)
+
+
 def inductance_for_f0(f0_hz, capacitance_f):
     """L = 1 / ((2π f0)² C), Thomson's formula solved for L."""
     return 1.0 / ((2.0 * np.pi * f0_hz) ** 2 * capacitance_f)

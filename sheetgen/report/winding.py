@@ -126,7 +126,7 @@ def _solenoid_texts(coil: CoilDesign, names: Designators,
                f"at a pitch of {format_quantity(r.pitch_m, 'm', 3)} centre to centre "
                f"(a gap of {format_quantity(r.pitch_m - r.wire.overall_diameter_m, 'm', 3)} "
                "between turns)")
-    former = format_quantity(r.diameter_m - r.wire.overall_diameter_m, "m", 3)
+    former = format_quantity(r.former_diameter_m, "m", 3)
     reasons = []
     if r.pitch_m < r.wire.overall_diameter_m:
         reasons.append("its pitch is below the wire's overall diameter")

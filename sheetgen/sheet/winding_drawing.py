@@ -145,7 +145,7 @@ def winding_view_of(design: Design) -> ToroidView | SolenoidView | None:
                           r.wire.overall_diameter_m, r.turns, r.winding_angle_deg, angles,
                           names.link if link else None, link, coil.lead_length_m, r.fits,
                           coil.tap_turns)
-    former_diameter = r.diameter_m - r.wire.overall_diameter_m
+    former_diameter = r.former_diameter_m
     given = design.job.inductor.former_length
     margin = max(0.15 * r.length_m, 2.0 * r.wire.overall_diameter_m, 0.003)
     length = given if given is not None else r.length_m + 2 * margin
