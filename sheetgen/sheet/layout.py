@@ -26,6 +26,7 @@ from sheetgen import __version__
 from sheetgen.design.records import Design
 from sheetgen.inputs.style import HouseStyle, check_logo_inside, default_style
 from sheetgen.report.parts import headline
+from sheetgen.report.procedure import procedure
 from sheetgen.sheet import fonts
 from sheetgen.sheet.sections import SECTIONS, make_kit, para, with_heading
 
@@ -262,7 +263,7 @@ def render_sheet(design: Design, job_text: str, results_text: str, job_dir: Path
     frame_top = page_h - MARGIN - HEADER_HEIGHT - 2
     frame = Frame(MARGIN, frame_bottom, page_w - 2 * MARGIN, frame_top - frame_bottom,
                   leftPadding=0, rightPadding=0, topPadding=0, bottomPadding=0, id="body")
-    kit = make_kit(frame.width)
+    kit = make_kit(frame.width, procedure(design))
     story: list = [para(sheet.title, kit.title), para(headline(design), kit.small), Spacer(1, 4)]
     number = 0
     for name in style.sections:

@@ -16,7 +16,7 @@ import numpy as np
 from sheetgen.design.records import Design
 from sheetgen.quantities import format_quantity
 from sheetgen.report.formatting import quantity_text
-from sheetgen.sheet import fonts
+from sheetgen.sheet import drawing
 
 TICK_SIZE = 7.5
 TITLE_SIZE = 8.0
@@ -113,9 +113,7 @@ class Box:
 
 
 def _string(group, x, y, text, size=TICK_SIZE, anchor="middle", bold=False):
-    from reportlab.graphics.shapes import String
-    group.add(String(x, y, text, fontName=fonts.BOLD if bold else fonts.REGULAR,
-                     fontSize=size, textAnchor=anchor))
+    drawing.text(group, x, y, text, size, anchor, bold)
 
 
 def _frame(group, box: Box, x_axis: Axis, y_axis: Axis, y_side: str = "left",

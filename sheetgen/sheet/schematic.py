@@ -13,7 +13,7 @@ from typing import Literal
 
 from sheetgen.design.records import Design
 from sheetgen.report.formatting import quantity_text, range_text
-from sheetgen.sheet import fonts
+from sheetgen.sheet import drawing, fonts
 
 PartKind = Literal["resistor", "inductor", "capacitor", "trimmer"]
 
@@ -99,14 +99,11 @@ def schematic_of(design: Design) -> Schematic:
 # --- primitives ---------------------------------------------------------------------------
 
 def _line(group, x1, y1, x2, y2, width=LINE_WIDTH):
-    from reportlab.graphics.shapes import Line
-    group.add(Line(x1, y1, x2, y2, strokeWidth=width))
+    drawing.line(group, x1, y1, x2, y2, width)
 
 
 def _text(group, x, y, text, size=LABEL_SIZE, anchor="start", bold=False):
-    from reportlab.graphics.shapes import String
-    group.add(String(x, y, text, fontName=fonts.BOLD if bold else fonts.REGULAR,
-                     fontSize=size, textAnchor=anchor))
+    drawing.text(group, x, y, text, size, anchor, bold)
 
 
 def _dot(group, x, y):

@@ -34,7 +34,7 @@ from sheetgen.report.procedure import (
     OVERALL_VERDICT,
     RECORD_TEXT_FIELDS,
     VERDICT_CHOICES,
-    procedure,
+    Procedure,
 )
 from sheetgen.report.rows import (
     Row,
@@ -58,9 +58,11 @@ GREY_FILL = colors.Color(0.90, 0.90, 0.90)
 
 @dataclass(frozen=True)
 class Kit:
-    """What a section needs to lay itself out: frame width and paragraph styles."""
+    """What a section needs to lay itself out: frame width, paragraph styles, and the
+    bench procedure (worded once per sheet, read by the procedure and record sections)."""
 
     width: float
+    procedure: Procedure
     body: ParagraphStyle
     small: ParagraphStyle
     cell: ParagraphStyle
@@ -80,10 +82,11 @@ class SectionContent:
     flowables: list
 
 
-def make_kit(width: float) -> Kit:
+def make_kit(width: float, plan: Procedure) -> Kit:
     base = dict(fontName=fonts.REGULAR, textColor=colors.black, alignment=TA_LEFT)
     return Kit(
         width=width,
+        procedure=plan,
         body=ParagraphStyle("body", fontSize=9, leading=12, spaceAfter=4, **base),
         small=ParagraphStyle("small", fontSize=8, leading=10, **base),
         cell=ParagraphStyle("cell", fontSize=8.5, leading=10.5, **base),
@@ -289,7 +292,7 @@ def _numbered(number: int, title: str, text: str, kit: Kit) -> Paragraph:
 
 
 def procedure_section(design: Design, kit: Kit) -> SectionContent:
-    plan = procedure(design)
+    plan = kit.procedure
     flowables: list = [CondPageBreak(200)]  # start the steps where a few of them fit
     for step in plan.steps:
         paragraph = _numbered(step.number, step.title, step.text, kit)
@@ -304,7 +307,7 @@ def procedure_section(design: Design, kit: Kit) -> SectionContent:
 
 
 def record_section(design: Design, kit: Kit) -> SectionContent:
-    rows = procedure(design).record
+    rows = kit.procedure.record
     heads = ("Measurement", "Expected", "Pass window", "Measured (with unit)", "Verdict", "")
     data = [[para(h, kit.cell_bold) for h in heads]]
     for row in rows:

@@ -22,7 +22,7 @@ from dataclasses import dataclass
 from sheetgen.design.records import Design
 from sheetgen.quantities import format_number
 from sheetgen.report.formatting import plural, quantity_text
-from sheetgen.sheet import fonts
+from sheetgen.sheet import drawing, fonts
 
 POINTS_PER_M = 72.0 / 0.0254  # 1 in = 25.4 mm exactly, 72 pt to the inch
 LABEL_SIZE = 7.5
@@ -167,16 +167,11 @@ def winding_drawing(view: ToroidView | SolenoidView, width: float):
 
 
 def _text(group, x, y, text, size=LABEL_SIZE, anchor="start", bold=False):
-    from reportlab.graphics.shapes import String
-    group.add(String(round(x, 2), round(y, 2), text, fontSize=size, textAnchor=anchor,
-                     fontName=fonts.BOLD if bold else fonts.REGULAR))
+    drawing.text(group, x, y, text, size, anchor, bold)
 
 
 def _line(group, x1, y1, x2, y2, width=0.8, dash=None, cap=0, color=None):
-    from reportlab.graphics.shapes import Line
-    from reportlab.lib.colors import black
-    group.add(Line(round(x1, 2), round(y1, 2), round(x2, 2), round(y2, 2), strokeWidth=width,
-                   strokeDashArray=dash, strokeLineCap=cap, strokeColor=color or black))
+    drawing.line(group, x1, y1, x2, y2, width, dash, cap, color)
 
 
 def _arrow_head(group, x, y, dx, dy, size=4.0):
