@@ -32,7 +32,7 @@ def _clean(value):
 
 
 def results_document(design: Design) -> dict:
-    """The results contract of DESIGN.md as plain data."""
+    """The results contract (docs/results.md) as plain data."""
     job, circuit, res, stress = design.job, design.circuit, design.resonance, design.stress
     choice = design.capacitor_choice
     return _clean({
