@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import difflib
 import os
+import re
 import types
 import typing
 from dataclasses import dataclass
@@ -160,10 +161,15 @@ def load_validated_located(path: str | os.PathLike, model: type[BaseModel], expe
     path = Path(path)
     shown = str(path)
     located = compose_located(read_yaml_text(path, kind, MAX_JOB_BYTES, missing_hint), shown)
+    return validate_located(located, shown, model, expected), located
+
+
+def validate_located(located: Located, shown: str, model: type[BaseModel], expected: str):
+    """Validate located data as `model`; every problem is reported at its line and column."""
     if not isinstance(located.data, dict):
         raise InputError([Problem(shown, 1, 1, "", f"expected {expected}")])
     try:
-        return model.model_validate(located.data), located
+        return model.model_validate(located.data)
     except ValidationError as error:
         raise InputError([_problem(shown, located, e, model) for e in error.errors()]) from None
 
@@ -199,7 +205,10 @@ def _problem(shown: str, located: Located, error: dict, root: type[BaseModel]) -
     line, column = located.marks.get(path, located.marks.get(path[:-1], (1, 1)))
     message = error["msg"]
     if kind == "literal_error":
-        message = f"{_shown(error.get('input'))} is not allowed; {message.lower()}"
+        allowed = re.findall(r"'([^']*)'", error.get("ctx", {}).get("expected", ""))
+        close = difflib.get_close_matches(str(error.get("input")), allowed, n=1, cutoff=0.6)
+        hint = f"did you mean {close[0]!r}? " if close else ""
+        message = f"{_shown(error.get('input'))} is not allowed; {hint}{message[:1].lower()}{message[1:]}"
     elif kind in ("model_type", "dict_type"):
         message = f"expected a mapping of keys, got {_shown(error.get('input'))}"
     elif kind in ("string_type", "int_type", "int_parsing", "int_from_float", "float_type"):

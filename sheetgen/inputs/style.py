@@ -8,25 +8,28 @@ folder tree: absolute paths, `..` and links that lead out are refused.
 
 from __future__ import annotations
 
-import difflib
+import typing
 from dataclasses import dataclass
 from pathlib import Path, PurePosixPath, PureWindowsPath
+from typing import Annotated, Literal
+
+from pydantic import Field
 
 from sheetgen.errors import InputError, Problem
 from sheetgen.inputs.library import STYLE_FILE_PREFIX, find_library_folder
-from sheetgen.inputs.model import Job
+from sheetgen.inputs.model import Job, Section
 from sheetgen.inputs.package_data import templates_folder
-from sheetgen.inputs.reader import compose_located, field_position, read_yaml_text
+from sheetgen.inputs.reader import compose_located, field_position, read_yaml_text, validate_located
 
 PAGE_SIZES = ("A4", "Letter")
 # Every section the sheet can draw, in the default order. The identity (title block on
 # every page) is not a section: it is always there.
-SECTION_NAMES = ("checks", "cautions", "schematic", "parts", "values", "coil", "performance", "limits",
-                 "stress", "ratings", "response", "procedure", "record", "notes")
+SectionName = Literal["checks", "cautions", "schematic", "parts", "values", "coil", "performance",
+                      "limits", "stress", "ratings", "response", "procedure", "record", "notes"]
+SECTION_NAMES: tuple[str, ...] = typing.get_args(SectionName)
 DEFAULT_STYLE_NAME = "style-default"
 MAX_STYLE_BYTES = 100_000
 MAX_LOGO_BYTES = 5_000_000
-_KEYS = ("organisation", "logo", "page_size", "sections", "page_note")
 _LOGO_SIGNATURES = {b"\x89PNG\r\n\x1a\n": "PNG", b"\xff\xd8\xff": "JPEG"}
 
 
@@ -58,67 +61,57 @@ def load_style(path: str | Path, job_dir: str | Path | None = None) -> HouseStyl
     return style_from_text(text, shown, Path(job_dir) if job_dir is not None else path.parent)
 
 
+class StyleFile(Section):
+    """A house style file: who the sheet is for, its page, and which sections in what order."""
+
+    organisation: Annotated[str, Field(min_length=1, max_length=200)] = Field(
+        description="the organisation's name for the title block")
+    logo: str | None = Field(None, min_length=1, max_length=1000, description="a PNG or JPEG "
+                             "file, relative to the job's folder (optional)")
+    page_size: Literal["A4", "Letter"] = Field("A4", description="paper size")
+    sections: tuple[SectionName, ...] = Field(SECTION_NAMES, min_length=1, description="the "
+                                              "sections to draw, in order, each at most once")
+    page_note: str | None = Field(None, max_length=200, description="one line printed on "
+                                  "every page (optional)")
+
+
 def style_from_text(text: str, shown: str, job_dir: Path | None) -> HouseStyle:
     """Parse and check a style's YAML text; every problem is reported at once."""
     located = compose_located(text, shown)
-    data = located.data
-    if not isinstance(data, dict):
-        raise InputError([Problem(shown, 1, 1, "", "expected a mapping with organisation, "
-                                    "page_size and sections")])
-    problems: list[Problem] = []
-
-    def problem(field: str, message: str, key: bool = False) -> None:
-        marks = located.key_marks if key else located.marks
-        line, column = marks.get((field,), located.marks.get((field,), (1, 1)))
-        problems.append(Problem(shown, line, column, field, message))
-
-    for key in data:
-        if key not in _KEYS:
-            close = difflib.get_close_matches(key, _KEYS, n=1, cutoff=0.6)
-            hint = f"did you mean {close[0]!r}? " if close else ""
-            problem(key, f"unknown key; {hint}expected one of: {', '.join(sorted(_KEYS))}", True)
-    organisation = data.get("organisation")
-    if not isinstance(organisation, str) or not organisation.strip():
-        if "organisation" in data:
-            problem("organisation", "expected the organisation's name as text")
-        else:
-            problems.append(Problem(shown, 1, 1, "organisation", "is missing; this field is "
-                                    "required"))
-    elif len(organisation) > 200:
-        problem("organisation", f"is {len(organisation)} characters; at most 200 fit the "
-                "title block")
-    page_size = data.get("page_size", "A4")
-    if page_size not in PAGE_SIZES:
-        problem("page_size", f"{page_size!r} is not a page size; expected A4 or Letter")
-    sections = data.get("sections", list(SECTION_NAMES))
-    if not isinstance(sections, list) or not sections:
-        problem("sections", "expected a list of section names, e.g. [schematic, parts]")
-        sections = []
-    seen: set = set()
-    for index, name in enumerate(sections):
-        line, column = located.marks.get(("sections", index), (1, 1))
-        if name not in SECTION_NAMES:
-            close = difflib.get_close_matches(str(name), SECTION_NAMES, n=1, cutoff=0.6)
-            hint = f"did you mean {close[0]!r}? " if close else ""
-            problems.append(Problem(shown, line, column, f"sections[{index}]",
-                                    f"{name!r} is not a section; {hint}expected one of: "
-                                    f"{', '.join(SECTION_NAMES)}"))
-        elif name in seen:
-            problems.append(Problem(shown, line, column, f"sections[{index}]",
-                                    f"{name!r} appears twice; list each section once"))
-        seen.add(name)
-    page_note = data.get("page_note")
-    if page_note is not None and (not isinstance(page_note, str) or len(page_note) > 200):
-        problem("page_note", "expected one line of text (at most 200 characters)")
-    logo = data.get("logo")
+    problems = _repeated_sections(located, shown)
+    try:
+        style = validate_located(located, shown, StyleFile, "a mapping with organisation, "
+                                 "page_size and sections")
+    except InputError as error:
+        raise InputError(error.problems + problems) from None
     logo_path = None
-    if logo is not None:
-        logo_path = _logo(logo, job_dir, lambda message: problem("logo", message))
+    if style.logo is not None:
+        line, column = located.marks.get(("logo",), (1, 1))
+        logo_path = _logo(style.logo, job_dir, lambda message: problems.append(
+            Problem(shown, line, column, "logo", message)))
+    if not style.organisation.strip():
+        line, column = located.marks.get(("organisation",), (1, 1))
+        problems.append(Problem(shown, line, column, "organisation",
+                                "is blank; expected the organisation's name"))
     if problems:
         raise InputError(problems)
-    return HouseStyle(organisation=organisation.strip(), page_size=page_size,
-                      sections=tuple(sections), logo_path=logo_path, page_note=page_note,
-                      source=shown, logo_mark=located.marks.get(("logo",), (1, 1)))
+    return HouseStyle(organisation=style.organisation.strip(), page_size=style.page_size,
+                      sections=tuple(style.sections), logo_path=logo_path,
+                      page_note=style.page_note, source=shown,
+                      logo_mark=located.marks.get(("logo",), (1, 1)))
+
+
+def _repeated_sections(located, shown: str) -> list[Problem]:
+    """A section listed twice (checked on the raw list, so it is reported with the rest)."""
+    sections = located.data.get("sections") if isinstance(located.data, dict) else None
+    problems, seen = [], set()
+    for index, name in enumerate(sections if isinstance(sections, list) else []):
+        if isinstance(name, str) and name in seen:
+            line, column = located.marks.get(("sections", index), (1, 1))
+            problems.append(Problem(shown, line, column, f"sections[{index}]",
+                                    f"{name!r} appears twice; list each section once"))
+        seen.add(name if isinstance(name, str) else None)
+    return problems
 
 
 def _logo(value: object, job_dir: Path | None, problem) -> Path | None:

@@ -42,18 +42,18 @@ def test_default_style_lists_every_section_once():
 
 
 @pytest.mark.parametrize("text, expected", [
-    ("organisation: X\npage_size: A5\n", ["2:12 page_size: 'A5' is not a page size"]),
+    ("organisation: X\npage_size: A5\n", ['2:12 page_size: "A5" is not allowed; input should be \'A4\' or \'Letter\'']),
     ("organisation: X\npagesize: A4\n", ["2:1 pagesize: unknown key; did you mean 'page_size'?"]),
     ("page_size: A4\n", ["1:1 organisation: is missing"]),
     ("organisation: X\nsections:\n  - parts\n  - shematic\n  - parts\n",
-     ["4:5 sections[1]: 'shematic' is not a section; did you mean 'schematic'?",
+     ['4:5 sections[1]: "shematic" is not allowed; did you mean \'schematic\'?',
       "5:5 sections[2]: 'parts' appears twice"]),
     ("organisation: X\nlogo: /etc/hostname\n", ['2:7 logo: "/etc/hostname" is an absolute path']),
     ("organisation: X\nlogo: ../outside.png\n", ['2:7 logo: "../outside.png" leads out of the']),
     ("organisation: X\nlogo: img/none.png\n", ['2:7 logo: "img/none.png" does not exist']),
     ("organisation: [a, b]\npage_size: Legal\n",
-     ["1:15 organisation: expected the organisation's name as text",
-      "2:12 page_size: 'Legal' is not a page size"]),
+     ["1:15 organisation: a list: input should be a valid string",
+      '2:12 page_size: "Legal" is not allowed']),
     ("organisation: X\n  bad: [\n", ["YAML syntax"]),
 ])
 def test_bad_styles_say_where_and_what(tmp_path, text, expected):
