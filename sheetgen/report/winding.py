@@ -58,8 +58,9 @@ def winding_steps(design: Design) -> list[WindingStep]:
     if coil is None:
         return []
     names = design.designators
-    texts = (_toroid_texts(coil, names) if coil.form == "toroid"
-             else _solenoid_texts(coil, names, design.job.inductor.former_length))
+    finish = coil_finish_text(design)
+    texts = (_toroid_texts(coil, names, finish) if coil.form == "toroid"
+             else _solenoid_texts(coil, names, design.job.inductor.former_length, finish))
     check = coil_check(design)
     tolerance = (f" {tolerance_text(check.tolerance)}"
                  if check.tolerance is not None else "")
@@ -71,38 +72,40 @@ def winding_steps(design: Design) -> list[WindingStep]:
     return [WindingStep(i + 1, text) for i, text in enumerate(texts)]
 
 
-def _toroid_texts(coil: CoilDesign, names: Designators) -> list[str]:
+def _toroid_texts(coil: CoilDesign, names: Designators, finish: str) -> list[str]:
     r = coil.result
     lead = format_quantity(coil.lead_length_m, "m", 3)
-    texts = [
+    stop = [] if r.fits else [
+        f"STOP: close-wound, the {plural(r.turns, 'turn')} need "
+        f"{format_number(r.close_wound_angle_deg, 3)}° of the hole's circumference, more than "
+        "one layer with a lead gap allows. Do not cut wire or wind this coil until the design "
+        "is changed (see the failed checks)."]
+    spread = (f"Space the {plural(r.turns, 'turn')} evenly: turn 1 to turn {r.turns} covers "
+              f"{format_number(r.winding_angle_deg, 3)}° of the core, "
+              f"{format_number(r.winding_angle_deg / (r.turns - 1), 3)}° from each turn to the "
+              f"next ({r.turns - 1} spaces), leaving a gap of "
+              f"{format_number(360 - r.winding_angle_deg, 3)}° between the start and finish "
+              "leads so that they do not touch." if r.turns > 1 else
+              "Leave the start and finish leads apart so that they do not touch.")
+    texts = stop + [
         f"Cut {format_quantity(r.wire_length_m, 'm', 3)} of {r.wire.name} enamelled copper "
         f"wire (grade {r.wire.grade}, {format_quantity(r.wire.overall_diameter_m, 'm', 3)} over "
-        f"the enamel). This includes {lead} for each lead.",
+        f"the enamel) for {names.coil}. This includes {lead} for each lead.",
         f"Hold {lead} of wire as the start lead and pass the wire through the centre of the "
         f"core ({coil.core_name}). Each pass through the centre counts as one turn.",
         f"Wind {plural(r.turns, 'turn')} of {names.coil} in one layer, pulling each turn snug "
         "against the core without nicking the enamel on its edges. Count the passes through "
         "the centre, not the turns seen on the outside.",
-        f"Spread the {plural(r.turns, 'turn')} evenly over {format_number(r.winding_angle_deg, 3)}"
-        f"° of the core (about {format_number(r.winding_angle_deg / r.turns, 3)}° per turn), "
-        f"leaving a gap of about {format_number(360 - r.winding_angle_deg, 3)}° between the "
-        f"start and finish leads so that they do not touch." if r.fits else
-        f"STOP: close-wound, the {plural(r.turns, 'turn')} need "
-        f"{format_number(r.close_wound_angle_deg, 3)}° of the hole's circumference, more than "
-        "one layer with a lead gap allows. Do not wind this coil until the design is changed "
-        "(see the failed checks).",
-    ]
+    ] + ([spread] if r.fits else [])
     if coil.tap_turns is not None:
-        texts.insert(2, _tap_text(coil, names))  # before "Wind N turns": made while winding
+        texts.insert(len(stop) + 2, _tap_text(coil, names))  # made while winding
     if coil.link_turns is not None:
         texts.append(
             f"Wind the link {names.link}: {plural(coil.link_turns, 'turn')} of insulated wire "
-            f"over the start end of {names.coil}; the start lead goes to the cold (earthy) "
-            f"side of the tank. The link's two ends go to {names.load_resistor} "
+            f"over the start end of {names.coil}; {names.coil}'s start lead goes to the cold "
+            f"(earthy) side of the tank. The link's two ends go to {names.load_resistor} "
             f"({format_quantity(coil.link_resistance_ohm, 'Ω', 3)}).")
-    texts.append(
-        f"Leave {lead} for the finish lead. Secure the turns with a low-loss RF coil varnish "
-        "or wax (not a general-purpose glue) and let it cure before measuring.")
+    texts.append(f"Leave {lead} for the finish lead. {finish}")
     texts.append("Strip the enamel from the last 5 mm of each lead (scrape or use a solder pot "
                  "hot enough to burn through it) and tin both ends.")
     return texts
@@ -117,8 +120,31 @@ def _tap_text(coil: CoilDesign, names: Designators) -> str:
             "and the start (cold, earthy) lead.")
 
 
-def _solenoid_texts(coil: CoilDesign, names: Designators,
-                    former_length_m: float | None) -> list[str]:
+def coil_finish_text(design: Design) -> str:
+    """How to secure the turns, from the heat the coil makes (common practice: wax softens
+    from about 50 °C (from memory), so it suits coils that stay cool; a coil that dissipates
+    more gets a varnish rated above its surface temperature, or ties and no coating)."""
+    coil = design.coil
+    rise = getattr(coil.result, "temperature_rise_k", None)
+    power_w = design.stress.inductor_loss_w
+    hottest_c = design.job.variation.temperature.maximum + rise if rise is not None else None
+    if (hottest_c is not None and hottest_c > WAX_MAX_SURFACE_C) or power_w > WAX_MAX_POWER_W:
+        heat = (f"up to {format_quantity(hottest_c, '°C', 3)} at its surface"
+                if hottest_c is not None else
+                f"{format_quantity(power_w, 'W', 3)} of heat at the design drive")
+        return (f"{design.designators.coil} makes {heat}: do not use wax. Secure the turns "
+                "with a low-loss RF varnish rated for at least that temperature (or with "
+                "PTFE cord ties and no coating), and let it cure before measuring.")
+    return ("Secure the turns with a low-loss RF coil varnish or wax (not a general-purpose "
+            "glue) and let it cure before measuring.")
+
+
+WAX_MAX_SURFACE_C = 50.0  # coil wax softens from about here (from memory; common practice)
+WAX_MAX_POWER_W = 0.25  # above this a small coil warms noticeably (common practice)
+
+
+def _solenoid_texts(coil: CoilDesign, names: Designators, former_length_m: float | None,
+                    finish: str) -> list[str]:
     r = coil.result
     lead = format_quantity(coil.lead_length_m, "m", 3)
     close = r.pitch_m <= r.wire.overall_diameter_m * 1.001
@@ -135,16 +161,27 @@ def _solenoid_texts(coil: CoilDesign, names: Designators,
                        " former")
     stop = [] if r.fits else [
         f"STOP: as designed the winding does not fit ({' and '.join(reasons) or 'see below'}). "
-        "Do not wind this coil until the design is changed (see the failed checks)."]
+        "Do not cut wire or wind this coil until the design is changed (see the failed "
+        "checks)."]
+    if former_length_m is not None and r.length_m <= former_length_m:
+        margin = format_quantity((former_length_m - r.length_m) / 2.0, "m", 3)
+        place = (f"centred on the {format_quantity(former_length_m, 'm', 3)} former: start "
+                 f"the first turn {margin} from one end, so that the last turn ends {margin} "
+                 "from the other")
+    else:
+        place = "centred on the former"
     return stop + [
+        f"Use a former of {former} diameter made of a low-loss insulating material "
+        "(dissipation factor of 0.001 or less at the working frequency, e.g. PTFE or "
+        "ceramic; common practice): a lossy former lowers the coil's Q.",
         f"Cut {format_quantity(r.wire_length_m, 'm', 3)} of {r.wire.name} enamelled copper "
-        f"wire (grade {r.wire.grade}). This includes {lead} for each lead.",
-        f"Wind {plural(r.turns, 'turn')} of {names.coil} in a single layer on the {former} "
-        f"diameter former, {spacing}, "
-        f"over a winding length of {format_quantity(r.length_m, 'm', 3)}.",
+        f"wire (grade {r.wire.grade}) for {names.coil}. This includes {lead} for each lead.",
+        f"Wind {plural(r.turns, 'turn')} of {names.coil} in a single layer, {spacing}, over a "
+        f"winding length of {format_quantity(r.length_m, 'm', 3)}, {place}.",
     ] + ([_tap_text(coil, names)] if coil.tap_turns is not None else []) + [
-        f"Leave {lead} for each lead. Secure the winding with low-loss RF coil varnish or "
-        "wax, and strip and tin the last 5 mm of each lead.",
+        "Anchor each end of the winding so that it keeps its pitch: pass the wire through "
+        "two small holes in the former, or hold it with a turn of PTFE tape.",
+        f"Leave {lead} for each lead. {finish} Strip and tin the last 5 mm of each lead.",
         "If the inductance reads high, spread the turns slightly; if low, compress them. "
         "Re-secure after any adjustment.",
     ]

@@ -257,9 +257,11 @@ def _winding_caption(view) -> str:
     if isinstance(view, SolenoidView):
         return ("The coil seen from the side: the grey band is the former, each slanted stroke "
                 "the front half of one turn.")
-    return ("The core seen from above: the grey ring is the core, each radial stroke one turn "
-            "across its top face." + (" Long dashed strokes: the link winding."
-                                      if view.link_angles_deg else ""))
+    return ("The core seen from above, drawn to scale: each solid stroke is one turn over the "
+            "top face, each dashed stroke its way back under the ring; the arc gives the angle "
+            "from the first turn to the last." + (" Outlined strokes: the link winding."
+                                                   if view.link_angles_deg else "")
+            + " Beside it, a section through one turn: a single layer around the core.")
 
 
 def performance_section(design: Design, kit: Kit) -> SectionContent:

@@ -2,16 +2,19 @@
 
 `winding_view_of(design)` says what to draw, in metres and degrees, from the designed coil;
 `winding_drawing(view, width)` draws it. A ring core is seen from above: the core's two
-circles, each turn as a radial stroke across the top face spread evenly over the winding
-angle, the start and finish leads either side of the lead gap, and a link winding as
-longer dashed strokes over the start (cold) end. A solenoid is seen from the side: the
+circles, each turn as it lies (solid over the top face, dashed where it returns under the
+ring), spaced evenly from the first turn to the last with the spread as an angular
+dimension, the start and finish leads either side of the lead gap, a link winding as
+outlined strokes (insulated wire) over the start (cold) end, and beside it a section
+through one turn showing the single layer. A solenoid is seen from the side: the
 former, the front half of each turn at the pitch, the leads, and dimensions for the
 winding length, the pitch and the former's diameter. Black on white: the link is told
 apart by dash, width and label, never by colour.
 
-The drawing keeps its L1 turn strokes in `drawing.turns` and the link's in
-`drawing.link_turns` (reportlab Groups of Lines), the ring's circles in `drawing.core` or
-the former in `drawing.former`, so a test can count and measure what was drawn.
+The drawing keeps its L1 turn strokes in `drawing.turns` (their hidden returns in
+`drawing.hidden_turns`) and the link's in `drawing.link_turns` (reportlab Groups of
+Lines), the ring's circles in `drawing.core` or the former in `drawing.former`, so a test
+can count and measure what was drawn.
 """
 
 from __future__ import annotations
@@ -107,11 +110,12 @@ class SolenoidView:
 
 
 def toroid_turn_angles_deg(turns: int, winding_angle_deg: float) -> tuple[float, ...]:
-    """Turn centres spread evenly over the winding angle, one pitch (angle/turns) apart,
-    half a pitch in from each end, the lead gap centred at 270°."""
-    pitch = winding_angle_deg / turns
+    """Turn centres evenly spaced from the first turn to the last over the winding angle
+    (centre to centre: the pitch is angle/(N − 1)), clockwise from the start, the lead gap
+    of 360° − angle centred at 270°."""
     start = 270.0 - (360.0 - winding_angle_deg) / 2.0
-    return tuple(start - (i + 0.5) * pitch for i in range(turns))
+    pitch = winding_angle_deg / (turns - 1) if turns > 1 else 0.0
+    return tuple(start - i * pitch for i in range(turns))
 
 
 def link_angles_deg(turn_angles: tuple[float, ...], link_turns: int) -> tuple[float, ...]:
@@ -210,79 +214,94 @@ def _polar(cx, cy, radius, angle_deg):
     return cx + radius * math.cos(a), cy + radius * math.sin(a)
 
 
-def _label_step(turns: int, arc_per_turn_pt: float) -> int:
-    """Number every n-th turn, n the first of 5, 10, 20, 50 … that leaves 16 pt between
-    labels."""
-    for step in (5, 10, 20, 50, 100, 200, 500):
-        if step * arc_per_turn_pt >= 16.0:
-            return step
-    return max(turns, 1)
+def _arc_points(cx, cy, radius, from_deg, to_deg, steps: int) -> list[float]:
+    points = []
+    for n in range(steps + 1):
+        x, y = _polar(cx, cy, radius, from_deg + (to_deg - from_deg) * n / steps)
+        points += [round(x, 2), round(y, 2)]
+    return points
 
 
 def _toroid_drawing(view: ToroidView, width: float):
-    from reportlab.graphics.shapes import Circle, Drawing, Group
-    from reportlab.lib.colors import Color, black, white
+    """Top view with each turn as it lies (over the top face solid, under the ring dashed),
+    the spread as an angular dimension, labels at start, tap and finish; beside it a section
+    through one turn showing the single layer."""
+    from reportlab.graphics.shapes import Circle, Drawing, Group, PolyLine, Rect
+    from reportlab.lib.colors import black, white
     from reportlab.pdfbase.pdfmetrics import stringWidth
     scale = drafting_scale(view.outer_diameter_m, _RING_MAX_PT)
     k = scale.factor * POINTS_PER_M
     r_out, r_in = view.outer_diameter_m / 2 * k, view.inner_diameter_m / 2 * k
     wire_pt = max(view.wire_overall_diameter_m * k, _MIN_STROKE_PT)
+    angles = view.turn_angles_deg
+    pitch = view.winding_angle_deg / (view.turns - 1) if view.turns > 1 else 0.0
+    gap = 360.0 - view.winding_angle_deg
     label_room = 64.0  # the lead labels and the link's label left of the ring
     cx = label_room + r_out + _LEAD_PT * 0.5
-    height = 2 * r_out + 2 * _LEAD_PT + 40.0  # provisional: _fit_height trims it
-    cy = height - 14.0 - r_out
+    height = 2 * r_out + 2 * _LEAD_PT + 60.0  # provisional: _fit_height trims it
+    cy = height - 30.0 - r_out
     drawing = Drawing(width, height)
     body = Group()
-    body.add(Circle(round(cx, 2), round(cy, 2), round(r_out, 2), strokeColor=black,
-                    fillColor=Color(0.86, 0.86, 0.86), strokeWidth=0.9))
-    body.add(Circle(round(cx, 2), round(cy, 2), round(r_in, 2), fillColor=white,
-                    strokeColor=black, strokeWidth=0.9))
+    for radius in (r_out, r_in):
+        body.add(Circle(round(cx, 2), round(cy, 2), round(radius, 2), strokeColor=black,
+                        fillColor=None, strokeWidth=1.0))
     drawing.add(body, name="core")
-    turns = Group()
-    for angle in view.turn_angles_deg:  # across the top face, over both edges
-        x1, y1 = _polar(cx, cy, r_in - wire_pt / 2 - 1.0, angle)
-        x2, y2 = _polar(cx, cy, r_out + wire_pt / 2 + 1.0, angle)
-        _line(turns, x1, y1, x2, y2, width=wire_pt)
+    over = r_out + wire_pt / 2 + 0.8  # the wire rounds the edges just outside the outline
+    under = r_in - wire_pt / 2 - 0.8
+    turns, hidden = Group(), Group()
+    for index, angle in enumerate(angles):
+        x1, y1 = _polar(cx, cy, under, angle)  # over the top face: seen, solid
+        x2, y2 = _polar(cx, cy, over, angle)
+        _line(turns, x1, y1, x2, y2, width=max(wire_pt * 0.55, _MIN_STROKE_PT), cap=1)
+        back = angle - pitch / 2 if index < len(angles) - 1 or pitch else angle - 4.0
+        x3, y3 = _polar(cx, cy, under, back)  # under the ring: hidden, dashed
+        x4, y4 = _polar(cx, cy, over, back)
+        _line(hidden, x3, y3, x4, y4, width=0.45, dash=[2.0, 1.4])
+    drawing.add(hidden, name="hidden_turns")
     drawing.add(turns, name="turns")
     marks = Group()
-    angles = view.turn_angles_deg
-    # leads: from turn 1 and turn N, out of the gap
     lead_ends = []
-    for angle in (angles[0], angles[-1]):
-        x1, y1 = _polar(cx, cy, r_out + wire_pt / 2 + 1.0, angle)
+    for angle in (angles[0], angles[-1] - (pitch / 2 if pitch else 4.0)):
+        x1, y1 = _polar(cx, cy, over, angle)
         x2, y2 = _polar(cx, cy, r_out + _LEAD_PT, angle)
-        _line(marks, x1, y1, x2, y2, width=max(wire_pt * 0.6, 0.9), cap=1)
+        _line(marks, x1, y1, x2, y2, width=max(wire_pt * 0.55, 0.9), cap=1)
         lead_ends.append((x2, y2))
     (sx, sy), (fx, fy) = lead_ends
     _text(marks, sx - 3, sy - 8, "start", LABEL_SIZE, "end", bold=True)
     _text(marks, sx - 3, sy - 16, "turn 1", LABEL_SIZE, "end")
     _text(marks, fx + 3, fy - 8, "finish", LABEL_SIZE, "start", bold=True)
     _text(marks, fx + 3, fy - 16, f"turn {view.turns}", LABEL_SIZE, "start")
-    gap = 360.0 - view.winding_angle_deg
+    spread = Group()  # the angular dimension from turn 1 to turn N, over the top
+    if view.turns > 1:
+        r_dim = r_out + wire_pt + 9.0
+        spread.add(PolyLine(_arc_points(cx, cy, r_dim, angles[0], angles[-1], 96),
+                            strokeWidth=0.35, strokeColor=black))
+        for end, toward in ((angles[0], angles[0] - 3.0), (angles[-1], angles[-1] + 3.0)):
+            x, y = _polar(cx, cy, r_dim, end)
+            xa, ya = _polar(cx, cy, r_dim, toward)
+            _arrow_head(spread, x, y, x - xa, y - ya)
+            xe1, ye1 = _polar(cx, cy, over + 1.5, end)
+            xe2, ye2 = _polar(cx, cy, r_dim + 3.0, end)
+            _line(spread, xe1, ye1, xe2, ye2, width=0.35)
+        _text(spread, cx, cy + r_dim + 4.0,
+              f"{format_number(view.winding_angle_deg, 3)}° from turn 1 to turn {view.turns}",
+              LABEL_SIZE, "middle")
     gap_text = f"gap {format_number(gap, 3)}°"
-    lead_apart = 2 * (r_out + 12) * math.sin(math.radians(gap / 2 - 0.5 * (
-        view.winding_angle_deg / view.turns)))  # between the leads, at the label's height
+    lead_apart = 2 * (r_out + 12) * math.sin(math.radians(gap / 2))
     if lead_apart > stringWidth(gap_text, fonts.REGULAR, LABEL_SIZE) + 8 + wire_pt:
         _text(marks, cx, cy - r_out - 12, gap_text, LABEL_SIZE, "middle")
-    pitch = view.winding_angle_deg / view.turns
-    step = _label_step(view.turns, math.radians(pitch) * (r_out + 9))
-    for number in range(step, view.turns, step):
-        if view.turns - number < step / 2:
-            continue
-        x, y = _polar(cx, cy, r_out + wire_pt / 2 + 8.0, angles[number - 1])
-        _text(marks, x, y - 2.6, str(number), 6.5, "middle")
     _text(marks, cx, cy + 2, view.designator, 9.0, "middle", bold=True)
     _text(marks, cx, cy - 9, plural(view.turns, "turn"), LABEL_SIZE, "middle")
+    drawing.add(spread, name="spread")
     drawing.add(marks, name="marks")
     link = Group()
     if view.link_angles_deg:
-        for angle in view.link_angles_deg:  # dashed, on a white halo over the tank turns
-            x1, y1 = _polar(cx, cy, r_in - wire_pt / 2 - 6.0, angle)
-            x2, y2 = _polar(cx, cy, r_out + wire_pt / 2 + 11.0, angle)
-            _line(link, x1, y1, x2, y2, width=4.2, color=white)
-            _line(link, x1, y1, x2, y2, width=1.8, dash=[3, 1.5])
-        # a leader from the link's first turn (by the start lead) to its label on the left
-        x1, y1 = _polar(cx, cy, r_out + wire_pt / 2 + 11.0, view.link_angles_deg[0])
+        for angle in view.link_angles_deg:  # insulated wire: an outlined stroke over the top
+            x1, y1 = _polar(cx, cy, under - 4.0, angle)
+            x2, y2 = _polar(cx, cy, over + 7.0, angle)
+            _line(link, x1, y1, x2, y2, width=3.4, cap=1)
+            _line(link, x1, y1, x2, y2, width=1.6, color=white, cap=1)
+        x1, y1 = _polar(cx, cy, over + 7.0, view.link_angles_deg[0])
         x2 = cx - r_out - _LEAD_PT
         _line(link, x1, y1, x2, y1, width=0.5)
         _text(link, x2 - 3, y1 + 1, view.link_designator, 9.0, "end", bold=True)
@@ -290,32 +309,60 @@ def _toroid_drawing(view: ToroidView, width: float):
     drawing.add(link, name="link_turns")
     tap = Group()
     if view.tap_turn is not None:  # a short lead from between turn M and M + 1
-        between = (angles[view.tap_turn - 1] + angles[min(view.tap_turn, len(angles) - 1)]) / 2
-        x1, y1 = _polar(cx, cy, r_out + wire_pt / 2 + 1.0, between)
-        x2, y2 = _polar(cx, cy, r_out + _LEAD_PT * 0.7, between)
-        _line(tap, x1, y1, x2, y2, width=max(wire_pt * 0.6, 0.9), cap=1)
+        between = angles[view.tap_turn - 1] - pitch / 2
+        x1, y1 = _polar(cx, cy, over, between)
+        x2, y2 = _polar(cx, cy, r_out + _LEAD_PT * 0.8, between)
+        _line(tap, x1, y1, x2, y2, width=max(wire_pt * 0.55, 0.9), cap=1)
         anchor = "start" if x2 >= cx else "end"
-        _text(tap, x2 + (3 if anchor == "start" else -3), y2 - 3, f"tap (turn {view.tap_turn})",
+        _text(tap, x2 + (3 if anchor == "start" else -3), y2 - 3, f"tap, turn {view.tap_turn}",
               LABEL_SIZE, anchor, bold=True)
     drawing.add(tap, name="tap")
+    # a section through one turn, to the same scale: the single layer around the core
+    section = Group()
+    x_section = cx + r_out + _LEAD_PT + 30.0
+    ring_w = r_out - r_in
+    ring_h = (view.height_m or view.outer_diameter_m - view.inner_diameter_m) * k
+    y_section = cy - ring_h / 2
+    section.add(Rect(round(x_section, 2), round(y_section, 2), round(ring_w, 2),
+                     round(ring_h, 2), strokeColor=black, fillColor=None, strokeWidth=0.7))
+    for offset in range(1, 6):  # hatching: a cut face
+        step = (ring_w + ring_h) / 6.0 * offset
+        xa, ya = x_section + min(step, ring_w), y_section + max(0.0, step - ring_w)
+        xb, yb = x_section + max(0.0, step - ring_h), y_section + min(step, ring_h)
+        _line(section, xa, ya, xb, yb, width=0.3)
+    pad = wire_pt / 2 + 0.4
+    section.add(Rect(round(x_section - pad, 2), round(y_section - pad, 2),
+                     round(ring_w + 2 * pad, 2), round(ring_h + 2 * pad, 2),
+                     rx=round(pad, 2), ry=round(pad, 2), strokeColor=black, fillColor=None,
+                     strokeWidth=round(max(wire_pt * 0.55, _MIN_STROKE_PT), 2)))
+    _text(section, x_section + ring_w / 2, y_section - pad - 10.0, "section through",
+          LABEL_SIZE, "middle")
+    _text(section, x_section + ring_w / 2, y_section - pad - 18.0, "one turn", LABEL_SIZE,
+          "middle")
+    _text(section, x_section - pad - 3.0, y_section + ring_h / 2 - 2.5, "hole", LABEL_SIZE,
+          "end")
+    drawing.add(section, name="section")
     facts = Group()
-    x_facts = cx + r_out + _LEAD_PT + 34.0
-    size = [f"OD {quantity_text(view.outer_diameter_m, 'm', 3)}", f"ID {quantity_text(view.inner_diameter_m, 'm', 3)}"]
+    x_facts = x_section + ring_w + 2 * pad + 24.0
+    size = [f"OD {quantity_text(view.outer_diameter_m, 'm', 3)}",
+            f"ID {quantity_text(view.inner_diameter_m, 'm', 3)}"]
     if view.height_m:
         size.append(f"height {quantity_text(view.height_m, 'm', 3)}")
-    lines = [(f"{view.designator}: {plural(view.turns, 'turn')} of {view.wire_name}", True)]
+    lines = [(f"{view.designator}: {plural(view.turns, 'turn')} of {view.wire_name}, one layer",
+              True)]
     if not view.fits:
         lines.append(("DOES NOT FIT in one layer with a lead gap: see the failed checks", True))
-    lines += [(f"spread evenly over {format_number(view.winding_angle_deg, 3)}° of the ring, "
-              f"about {format_number(pitch, 3)}° per turn", False),
-             (f"gap of {format_number(gap, 3)}° between the start and finish leads"
-              if view.fits else "no gap left between the start and finish leads", False),
-             ("each stroke is one pass through the centre (one turn); every "
-              f"{step}th turn is numbered", False)]
+    if view.turns > 1:
+        lines += [(f"turn 1 to turn {view.turns}: {format_number(view.winding_angle_deg, 3)}°, "
+                   f"{format_number(pitch, 3)}° from each turn to the next "
+                   f"({view.turns - 1} spaces)", False)]
+    lines += [(f"gap of {format_number(gap, 3)}° between the start and finish leads"
+               if view.fits else "no gap left between the start and finish leads", False),
+              ("solid: the wire over the top face; dashed: its way back under the ring", False)]
     if view.link_angles_deg:
-        lines.append((f"{view.link_designator} (long dashed strokes): "
+        lines.append((f"{view.link_designator} (outlined strokes): "
                       f"{plural(len(view.link_angles_deg), 'turn')} of insulated wire over the "
-                      "start end, which goes to the cold (earthy) side", True))
+                      f"start end of {view.designator}", True))
     if view.tap_turn is not None:
         lines.append((f"tap after turn {view.tap_turn}, counted from the start lead", True))
     core = f"Core {view.core_name}" if view.core_name else "Core"

@@ -16,10 +16,11 @@ import re
 import pytest
 import yaml
 from reportlab.graphics.shapes import Line
+from reportlab.lib.colors import white
 
 from sheetgen.design.designators import Designators
 from sheetgen.design.pipeline import design_from_file
-from sheetgen.quantities import format_quantity
+from sheetgen.quantities import format_number, format_quantity
 from sheetgen.report.parts import NO_DATA, part_rows
 from sheetgen.report.rows import (
     capacitor_rows,
@@ -30,6 +31,7 @@ from sheetgen.report.rows import (
     stress_rows,
 )
 from sheetgen.report.summary import summary_text
+from sheetgen.report.winding import winding_steps
 from sheetgen.sheet.schematic import schematic_of
 from sheetgen.sheet.winding_drawing import winding_drawing, winding_view_of
 from tests.sheet.test_tools import SHARED, TEMPLATES, build, need, page_text
@@ -111,25 +113,36 @@ def test_toroid_draws_one_radial_stroke_per_turn_on_a_ring_to_scale():
         assert not line.strokeDashArray, "tank turns are solid"
 
 
-def test_toroid_turns_are_spread_evenly_over_the_winding_angle():
-    """A winding that fits is spread over 360° less the lead gap (30°, common practice),
-    one pitch of angle/N between turns."""
+def test_toroid_winding_arithmetic_closes_in_the_drawing_and_the_steps():
+    """A winding that fits runs from turn 1 to turn N over 360° less the lead gap (30°,
+    common practice): N − 1 equal spaces of (360° − gap)/(N − 1), and those spaces plus the
+    gap, summed from the drawn strokes, make the full 360°. The steps and the facts beside
+    the drawing state the same numbers."""
     design = _design("demo")
     drawing = winding_drawing(winding_view_of(design), WIDTH_PT)
     cx, cy, _, _ = _ring(drawing)
     angles = _stroke_angles(drawing.turns.contents, cx, cy)
     n = len(angles)
-    pitch = (360.0 - LEAD_GAP_DEG) / n
-    steps = [(a - b) % 360.0 for a, b in zip(angles, angles[1:])]  # clockwise, turn to turn
+    steps = [(a - b) % 360.0 for a, b in zip(angles, angles[1:], strict=False)]  # clockwise
+    gap = (angles[-1] - angles[0]) % 360.0  # from the last turn on round to the first
+    assert_close(sum(steps) + gap, 360.0, abs=0.05, what="drawn spaces plus the gap")
+    assert_close(gap, LEAD_GAP_DEG, abs=0.05, what="gap between the finish and start turns")
+    pitch = (360.0 - LEAD_GAP_DEG) / (n - 1)
     for step in steps:
         assert_close(step, pitch, abs=0.05, what="angle between neighbouring turns, degrees")
-    gap = (angles[-1] - angles[0]) % 360.0  # from the last turn on round to the first
-    assert_close(gap, LEAD_GAP_DEG + pitch, abs=0.1, what="gap between finish and start")
     assert_close((angles[0] + angles[-1]) / 2 % 360.0, 270.0, abs=0.1,
                  what="the lead gap sits at the bottom")
+    facts = " ".join(s.text for s in drawing.facts.contents)
+    words = " ".join(step.text for step in winding_steps(design))
+    for text in (facts, words):
+        assert f"{format_number(pitch, 3)}° from each turn to the next ({n - 1} spaces)" in text
+        assert f"gap of {format_number(LEAD_GAP_DEG, 3)}°" in text
+    hidden = drawing.hidden_turns.contents
+    assert len(hidden) == n and all(line.strokeDashArray for line in hidden), \
+        "each turn's way back under the ring is drawn once, dashed"
 
 
-def test_link_is_drawn_dashed_over_the_start_end():
+def test_link_is_drawn_as_outlined_strokes_over_the_start_end():
     """The link's turns: N_link = N·√(R_link/R_tank), rounded (an ideal transformer refers a
     resistance by the square of the turns ratio, textbook)."""
     design = _design("toroid")
@@ -138,15 +151,15 @@ def test_link_is_drawn_dashed_over_the_start_end():
     r_link = float(_template("toroid")["inductor"]["link"]["resistance"].split()[0])
     expected = max(1, round(n * math.sqrt(r_link / r_tank)))
     drawing = winding_drawing(winding_view_of(design), WIDTH_PT)
-    link = [line for line in drawing.link_turns.contents
-            if isinstance(line, Line) and line.strokeDashArray]
-    assert len(link) == expected == design.coil.link_turns
+    strokes = [line for line in drawing.link_turns.contents if isinstance(line, Line)]
+    cores = [line for line in strokes if line.strokeColor == white]  # the outline's inside
+    assert len(cores) == expected == design.coil.link_turns
     tank = drawing.turns.contents
     cx, cy, r_out, _ = _ring(drawing)
     tank_angles = _stroke_angles(tank, cx, cy)
-    for angle in _stroke_angles(link, cx, cy):  # between turn 1 and turn (link turns + 1)
+    for angle in _stroke_angles(cores, cx, cy):  # between turn 1 and turn (link turns + 1)
         assert (tank_angles[0] - angle) % 360.0 <= (tank_angles[0] - tank_angles[expected]) % 360.0
-    longest = max(math.hypot(line.x2 - cx, line.y2 - cy) for line in link)
+    longest = max(math.hypot(line.x2 - cx, line.y2 - cy) for line in cores)
     assert longest > max(math.hypot(line.x2 - cx, line.y2 - cy) for line in tank), \
         "the link's strokes reach beyond the tank's, so they read apart without colour"
     labels = [s.text for s in drawing.link_turns.contents if hasattr(s, "text")]
@@ -194,7 +207,7 @@ def test_winding_drawing_on_the_sheet(tmp_path):
     text = page_text(built.pdf_path)
     turns = built.results["inductor"]["turns"]
     for words in ("start turn 1", f"finish turn {turns}", f"L1: {turns} turns of AWG 24",
-                  "L2 (long dashed strokes): 1 turn", "seen from above"):
+                  "L2 (outlined strokes): 1 turn", "seen from above"):
         assert words.lower() in text.lower(), words
 
 
