@@ -150,17 +150,16 @@ def _raise(problems: list[Problem]):
 
 
 def _scan_touchstone(path: str, text: str, ports: int) -> tuple[list[Problem], str]:
-    """Cells that are not numbers and frequencies that do not increase, at their line and
-    column; returns (problems, version). Records are counted as 1 + 2·ports² numbers
-    (a record may run over lines); v1 2-port noise data (a frequency that drops, on a
-    5-number line) and v2 [Noise Data] end the scan."""
+    """Cells that are not numbers, records of the wrong length and frequencies that do not
+    increase, at their line and column; returns (problems, version). A 1- or 2-port record
+    is 1 + 2·ports² numbers on one line (Touchstone 1.1 and 2.0); v1 2-port noise data (a
+    frequency that drops, on a 5-number line) and v2 [Noise Data] end the scan."""
     per_record = 1 + 2 * ports * ports
     version = "1.0"
     in_data = True
     problems: list[Problem] = []
     frequencies: list[float] = []
     places: list[tuple[int, int]] = []
-    count = 0
     scale = TOUCHSTONE_UNITS["ghz"]  # the standard's default when the option line says none
     for number, raw_line in enumerate(text.splitlines(), start=1):
         line = raw_line.split("!", 1)[0]
@@ -186,18 +185,21 @@ def _scan_touchstone(path: str, text: str, ports: int) -> tuple[list[Problem], s
         if not in_data:
             continue
         tokens = [(m.start() + 1, m.group(0)) for m in re.finditer(r"\S+", line)]
-        if (ports == 2 and count % per_record == 0 and len(tokens) == 5 and frequencies
-                and _number(tokens[0][1]) is not None
-                and _number(tokens[0][1]) <= frequencies[-1]):
+        first = _number(tokens[0][1])
+        if ports == 2 and len(tokens) == 5 and frequencies and first is not None \
+                and first * scale <= frequencies[-1] * scale:
             break  # Touchstone 1.x: a 2-port file's noise parameters follow its S-parameters
-        for column, token in tokens:
-            value = _number(token)
-            if value is None:
-                problems.append(_problem(path, number, column, "", f'"{token}" is not a number'))
-            elif count % per_record == 0:
-                frequencies.append(value)
-                places.append((number, column))
-            count += 1
+        bad = [(column, token) for column, token in tokens if _number(token) is None]
+        for column, token in bad:
+            problems.append(_problem(path, number, column, "", f'"{token}" is not a number'))
+        if not bad and len(tokens) != per_record:
+            problems.append(_problem(
+                path, number, tokens[-1][0], "", f"holds {len(tokens)} numbers",
+                f"{per_record} on one line (frequency and {ports * ports} pair"
+                f"{'s' if ports > 1 else ''} of values) for a {ports}-port file"))
+        if first is not None:
+            frequencies.append(first)
+            places.append((number, tokens[0][0]))
     problems += _check_frequencies(path, [f * scale for f in frequencies], places, "")
     return problems, version
 
