@@ -52,23 +52,25 @@ class MeasuredSweep:
 
 def read_sweep(path: str | Path, parameter: str | None = None) -> MeasuredSweep:
     """Read `path`: .s1p → S11; .s2p → S21 (a through-fixture measurement) unless
-    `parameter` names another ("s11", "s12", "s22"); .csv → its magnitude column.
+    `parameter` names another ("s11", "s12", "s22"); .ts (Touchstone 2.0) likewise by its
+    [Number of Ports]; .csv → its magnitude column.
 
     Frequencies must be positive, finite and strictly increasing, with at least
     MIN_POINTS points. Raises InputError for any file that cannot be used."""
     path = Path(path)
     shown = str(path)
     suffix = path.suffix.lower()
-    if suffix not in (".s1p", ".s2p", ".csv"):
+    if suffix not in (".s1p", ".s2p", ".ts", ".csv"):
         raise InputError([_problem(shown, 1, 1, "", f"unknown sweep file type {suffix or '(none)'!r}",
-                                   "a Touchstone .s1p or .s2p file, or a .csv file")])
+                                   "a Touchstone .s1p, .s2p or .ts file, or a .csv file")])
     text = _read_text(path)
     if suffix == ".csv":
         if parameter is not None:
             raise InputError([_problem(shown, 1, 1, "", f"parameter {parameter!r} applies to "
                                        "Touchstone files only; a CSV sweep holds one response")])
         return _read_csv(shown, text)
-    return _read_touchstone(path, text, 1 if suffix == ".s1p" else 2, parameter)
+    ports = {".s1p": 1, ".s2p": 2}.get(suffix) or _declared_ports(shown, text)
+    return _read_touchstone(path, text, ports, parameter)
 
 
 # --------------------------------------------------------------------------- common
@@ -204,6 +206,19 @@ def _scan_touchstone(path: str, text: str, ports: int) -> tuple[list[Problem], s
     return problems, version
 
 
+def _declared_ports(path: str, text: str) -> int:
+    """A .ts file's [Number of Ports] (Touchstone 2.0); a sweep has 1 or 2."""
+    for number, line in enumerate(text.splitlines(), start=1):
+        match = re.match(r"\s*\[\s*number\s+of\s+ports\s*\]\s*(\S*)", line, re.I)
+        if match:
+            if match.group(1) in ("1", "2"):
+                return int(match.group(1))
+            raise InputError([_problem(path, number, match.start(1) + 1, "", f"{match.group(1)!r} "
+                                       "ports", "1 or 2 ports for a measured sweep")])
+    raise InputError([_problem(path, 1, 1, "", "has no [Number of Ports] line",
+                               "a Touchstone 2.0 file, or name it .s1p or .s2p")])
+
+
 def _number(token: str) -> float | None:
     try:
         return float(token)
@@ -285,10 +300,13 @@ class _Column:
 
 
 def _cells(line: str, delimiter: str) -> list[tuple[int, str]]:
-    """(1-based character column, text) of each cell; double quotes group and "" escapes."""
-    cells, start, text, quoted, i = [], 0, [], False, 0
+    """(1-based column of the cell's first visible character, or of the cell when it is
+    empty, and its text) of each cell; double quotes group and "" escapes."""
+    cells, start, seen, text, quoted, i = [], 0, None, [], False, 0
     while i < len(line):
         char = line[i]
+        if seen is None and not char.isspace() and (quoted or char != delimiter):
+            seen = i
         if quoted:
             if char == '"' and line[i + 1:i + 2] == '"':
                 text.append('"')
@@ -300,15 +318,13 @@ def _cells(line: str, delimiter: str) -> list[tuple[int, str]]:
         elif char == '"':
             quoted = True
         elif char == delimiter:
-            cells.append((start + 1, "".join(text).strip()))
-            start, text = i + 1, []
+            cells.append(((start if seen is None else seen) + 1, "".join(text).strip()))
+            start, seen, text = i + 1, None, []
         else:
             text.append(char)
         i += 1
-    cells.append((start + 1, "".join(text).strip()))
-    # a cell's column points at its first visible character
-    return [(column + len(line[column - 1:]) - len(line[column - 1:].lstrip()), value)
-            for column, value in cells]
+    cells.append(((start if seen is None else seen) + 1, "".join(text).strip()))
+    return cells
 
 
 def _classify(path, line, column, index, header) -> tuple[_Column | None, Problem | None]:
