@@ -57,13 +57,18 @@ class SweepPlan:
     points: int
 
     def describe(self) -> str:
-        digits = max(3, math.floor(math.log10(self.f_stop_hz))
-                     - math.floor(math.log10(self.step_hz)) + 1)
+        digits = self.digits()
         return (f"a sweep from {format_quantity(self.f_start_hz, 'Hz', digits)} to "
                 f"{format_quantity(self.f_stop_hz, 'Hz', digits)} "
                 f"(f_peak ± {SPAN_BANDWIDTHS:g} bandwidths, span "
                 f"{format_quantity(self.f_stop_hz - self.f_start_hz, 'Hz')}) in steps of "
                 f"{format_quantity(self.step_hz, 'Hz', 2)} or finer ({self.points} points or more)")
+
+
+    def digits(self) -> int:
+        """Significant figures that show the ends to about one step."""
+        return max(3, math.floor(math.log10(self.f_stop_hz))
+                   - math.floor(math.log10(self.step_hz)) + 1)
 
 
 @dataclass(frozen=True)
@@ -85,9 +90,9 @@ class SweepFeatures:
 
 def sweep_plan(f_peak_hz: float, bandwidth_hz: float,
                bandwidth_resolution_hz: float | None = None) -> SweepPlan:
-    """f_peak ± SPAN_BANDWIDTHS·bandwidth, with a step that puts MIN_POINTS_IN_BAND + 2
-    points across the bandwidth (margin for rounding and an estimated bandwidth) and is no
-    coarser than the resolution; the step is rounded down to two significant figures."""
+    """f_peak ± SPAN_BANDWIDTHS·bandwidth (ends rounded outward), with a step that puts
+    MIN_POINTS_IN_BAND + 2 points across the bandwidth (margin for rounding and an estimated
+    bandwidth) and is no coarser than the resolution, rounded down to two figures."""
     step_hz = bandwidth_hz / (MIN_POINTS_IN_BAND + 2)
     if bandwidth_resolution_hz is not None:
         step_hz = min(step_hz, bandwidth_resolution_hz)
@@ -95,6 +100,11 @@ def sweep_plan(f_peak_hz: float, bandwidth_hz: float,
     step_hz = math.floor(step_hz / scale * (1 + 1e-12)) * scale
     f_start_hz = max(f_peak_hz - SPAN_BANDWIDTHS * bandwidth_hz, step_hz)
     f_stop_hz = f_peak_hz + SPAN_BANDWIDTHS * bandwidth_hz
+    # ends rounded outward to the figures SweepPlan.describe shows, so the span is kept
+    shown = SweepPlan(f_start_hz, f_stop_hz, step_hz, 0).digits()
+    unit = 10.0 ** (math.floor(math.log10(f_stop_hz)) - shown + 1)
+    f_start_hz = max(math.floor(f_start_hz / unit) * unit, step_hz)
+    f_stop_hz = math.ceil(f_stop_hz / unit) * unit
     points = math.ceil((f_stop_hz - f_start_hz) / step_hz - 1e-9) + 1
     return SweepPlan(f_start_hz, f_stop_hz, step_hz, points)
 
@@ -143,9 +153,8 @@ def sweep_features(sweep: MeasuredSweep,
         coarse.append(f"{inside} point{'s' if inside != 1 else ''} inside the −3 dB band "
                       f"(at least {MIN_POINTS_IN_BAND} needed)")
     if bandwidth_resolution_hz is not None and step_hz > bandwidth_resolution_hz:
-        coarse.append(f"a {format_quantity(step_hz, 'Hz')} step across it (at most "
-                      f"{format_quantity(bandwidth_resolution_hz, 'Hz')} to resolve the bandwidth "
-                      f"to {format_quantity(bandwidth_resolution_hz, 'Hz')})")
+        coarse.append(f"a {format_quantity(step_hz, 'Hz')} step across it (the bandwidth is "
+                      f"to be resolved to {format_quantity(bandwidth_resolution_hz, 'Hz')})")
     if coarse:
         _refuse(sweep, f"the sweep is too coarse for a {format_quantity(bandwidth_hz, 'Hz')} "
                 f"bandwidth: " + " and ".join(coarse),
