@@ -17,8 +17,8 @@ Methods:
 - Half-power points: where the response crosses peak − 10·log10(2) dB (−3.0103 dB,
   |H| = peak/√2), nearest the peak on each side, by linear interpolation of dB against f
   between the two bracketing samples. At the half-power points of a single-tuned response,
-  −10·log10(1 + x²) has an inflection (x = ±1), so linear interpolation in dB is exact to
-  second order in the step.
+  −10·log10(1 + x²) has an inflection (x = ±1), so linear interpolation in dB errs only
+  at third order in the step.
 - Loaded Q = f_peak / bandwidth; f_centre is the midpoint of the half-power points.
 - Zero phase: the crossing of zero (not a ±180° wrap) nearest the peak, linear in f.
 """

@@ -248,13 +248,11 @@ def _read_touchstone(path: Path, text: str, ports: int, parameter: str | None) -
 
     try:
         with warnings.catch_warnings():
-            warnings.simplefilter("ignore")  # scikit-rf's notes on the file are not ours to raise
+            warnings.simplefilter("ignore")  # scikit-rf's notes on the file; our checks follow
             with path.open("rb") as handle:
                 network = skrf.Network(handle)
             frequency_hz = np.asarray(network.f, dtype=float)
             response = np.asarray(network.s, dtype=complex)
-    except InputError:
-        raise
     except Exception as exc:  # scikit-rf raises many kinds; each is a bad file here
         raise InputError([_problem(shown, 1, 1, "", f"not a readable Touchstone file: "
                                    f"{_clean(exc)}", f"Touchstone {ports}-port data")]) from None
