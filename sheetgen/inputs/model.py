@@ -150,6 +150,10 @@ class CircuitSection(Section):
         description="series: source, coil, capacitor and load in one loop; parallel: coil "
         "and capacitor across one node, the load across it, fed through the source resistance")
     targets: DesignTargets | None = Field(None, description="design mode (optional)")
+    dc_voltage: Voltage | None = Field(None, description="DC supply voltage the tank carries "
+                                       "(e.g. a supply fed through the coil); omit when none")
+    dc_blocked: bool = Field(False, description="true when a series blocking capacitor keeps "
+                             "a parallel tank's coil from discharging its capacitor for DC")
 
 
 class GivenInductor(Section):

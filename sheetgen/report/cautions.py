@@ -42,7 +42,7 @@ class Threshold:
     """
 
     measure: Literal["voltage_rms_v", "held_voltage_v", "stored_charge_c", "stored_energy_j",
-                     "surface_temperature_c", "rf_power_w"]
+                     "surface_temperature_c", "rf_power_w", "dc_voltage_v"]
     above: float
     unit: str
     level: Level
@@ -71,6 +71,15 @@ THRESHOLDS: tuple[Threshold, ...] = (
     Threshold("held_voltage_v", 60.0, "V", "caution",
               "the {limit} ripple-free DC limit of IEC 61140 for dry conditions",
               "IEC 61140 with IEC 60364-4-41 §414.4.5; from memory"),
+    Threshold("dc_voltage_v", 60.0, "V", "caution",
+              "the {limit} ripple-free DC limit of IEC 61140 for dry conditions",
+              "IEC 61140 with IEC 60364-4-41 §414.4.5; from memory"),
+    Threshold("dc_voltage_v", 120.0, "V", "warning",
+              "the {limit} ripple-free DC extra-low-voltage limit of IEC 61140",
+              "IEC 61140: extra-low voltage up to 120 V ripple-free d.c.; from memory"),
+    Threshold("dc_voltage_v", 1500.0, "V", "danger",
+              "the {limit} DC upper limit of low voltage in IEC 61140",
+              "IEC 61140: low voltage up to 1500 V d.c.; from memory"),
     Threshold("stored_charge_c", 45e-6, "C", "warning",
               "the {limit} of stored charge that IEC 61010-1 counts as hazardous",
               "IEC 61010-1 §6.3: 45 µC at 60 V … 15 kV; from memory"),
@@ -84,9 +93,6 @@ THRESHOLDS: tuple[Threshold, ...] = (
     Threshold("surface_temperature_c", 65.0, "°C", "warning",
               "{limit}, where bare metal burns skin in a one-second touch (ISO 13732-1)",
               "ISO 13732-1 burn threshold, uncoated metal, 1 s contact; from memory"),
-    Threshold("rf_power_w", 0.02, "W", "notice",
-              "the {limit} low-power exclusion of IEC 62479",
-              "IEC 62479 low-power exclusion for the general public; from memory"),
     Threshold("rf_power_w", 10.0, "W", "caution",
               "{limit}, where the near field of an unscreened coil is strong",
               "common practice"),
@@ -101,6 +107,7 @@ THRESHOLDS_BY_MEASURE: Mapping[str, Threshold] = {t.measure: t for t in reversed
 RF_BURN_FROM_HZ = 100e3
 SRF_MARGIN = 3.0  # keep the coil's self-resonance at least this many times f0 (common practice)
 FLUX_WARNING_SHARE = 0.8  # warn above this share of the material's flux limit (common practice)
+ENCLOSURE_FROM_W = 10.0  # RF power from which a test needs covers and interlocks (common practice)
 SAFE_HELD_VOLTAGE_V = 60.0  # a capacitor is taken as discharged below this (held_voltage_v)
 
 
@@ -129,6 +136,8 @@ class PartHazard:
     capacitance_f: float | None = None
     bleeder_resistance_ohm: float | None = None
     temperature_rise_k: float | None = None
+    holds_charge: bool = True  # False when the coil discharges the capacitor (parallel tank)
+    several: bool = False  # the designator names more than one part ("C1 and C2")
 
 
 def threshold_for(measure: str, value: float) -> Threshold | None:
@@ -149,7 +158,18 @@ def _most_severe(*levels: Level | None) -> Level | None:
 
 
 def _text(*sentences: str) -> str:
-    return " ".join(sentences + (DEFERRAL,))
+    """A caution's sentences; the deferral to local codes is printed once for the whole box."""
+    return " ".join(sentences)
+
+
+def names_text(designators: Iterable[str]) -> str:
+    """('C1',) → 'C1'; ('C1', 'C2', 'C3') → 'C1, C2 and C3'."""
+    names = list(designators)
+    return names[0] if len(names) == 1 else f"{', '.join(names[:-1])} and {names[-1]}"
+
+
+def _possessive(part: PartHazard) -> str:
+    return "their" if part.several else "its"
 
 
 def _volts(peak_v: float) -> str:
@@ -157,15 +177,20 @@ def _volts(peak_v: float) -> str:
             f"({format_quantity(peak_v / math.sqrt(2.0), 'V')} rms)")
 
 
-def parts_from_stress(circuit: Circuit, stress: Stress, *, capacitor: str = "C1",
+def parts_from_stress(circuit: Circuit, stress: Stress, *, capacitors: tuple[str, ...] = ("C1",),
                       inductor: str = "L1", bleeder_resistance_ohm: float | None = None,
                       capacitor_rise_k: float | None = None,
-                      inductor_rise_k: float | None = None) -> tuple[PartHazard, ...]:
-    """The capacitor and the coil of one circuit, from its computed stresses."""
+                      inductor_rise_k: float | None = None,
+                      dc_blocked: bool = False) -> tuple[PartHazard, ...]:
+    """The capacitor(s) and the coil of one circuit, from its computed stresses. In a
+    parallel tank the coil is across the capacitor and discharges it for DC unless a
+    blocking capacitor is in the way; in a series loop nothing does."""
     return (
-        PartHazard(capacitor, "capacitor", stress.capacitor_voltage_peak_v,
+        PartHazard(names_text(capacitors), "capacitor", stress.capacitor_voltage_peak_v,
                    stress.capacitor_current_rms_a, circuit.capacitance_f,
-                   bleeder_resistance_ohm, capacitor_rise_k),
+                   bleeder_resistance_ohm, capacitor_rise_k,
+                   holds_charge=circuit.topology == "series" or dc_blocked,
+                   several=len(capacitors) > 1),
         PartHazard(inductor, "inductor", stress.inductor_voltage_peak_v,
                    stress.inductor_current_rms_a, temperature_rise_k=inductor_rise_k),
     )
@@ -179,12 +204,13 @@ def _voltage_caution(part: PartHazard, f_hz: float) -> Caution | None:
     return Caution(threshold.level, code, _text(
         f"{_volts(part.voltage_peak_v)} on {part.designator} at "
         f"{format_quantity(f_hz, 'Hz')}, above {threshold.describe()}.",
-        f"Do not touch {part.designator} or its connections while the drive is on; "
+        f"Do not touch {part.designator} or {_possessive(part)} connections while the drive "
+        "is on; "
         f"use insulated tools and probes rated for the voltage."))
 
 
 def _stored_energy_caution(part: PartHazard) -> Caution | None:
-    if part.kind != "capacitor" or part.capacitance_f is None:
+    if part.kind != "capacitor" or part.capacitance_f is None or not part.holds_charge:
         return None
     held_v = part.voltage_peak_v
     level = level_for("held_voltage_v", held_v)
@@ -207,8 +233,8 @@ def _stored_energy_caution(part: PartHazard) -> Caution | None:
     if part.bleeder_resistance_ohm:
         time = discharge_time_s(part.capacitance_f, part.bleeder_resistance_ohm, held_v,
                                 SAFE_HELD_VOLTAGE_V)
-        discharge = (f"Through its {format_quantity(part.bleeder_resistance_ohm, 'Ω')} bleeder "
-                     f"it falls below {format_quantity(SAFE_HELD_VOLTAGE_V, 'V')} in "
+        discharge = (f"Through the {format_quantity(part.bleeder_resistance_ohm, 'Ω')} bleeder "
+                     f"across {name} the voltage falls below {format_quantity(SAFE_HELD_VOLTAGE_V, 'V')} in "
                      f"{format_quantity(time, 's')}; wait that long, then discharge it with an "
                      f"insulated shorting tool and check with a meter before touching.")
     else:
@@ -262,14 +288,28 @@ def _exposure_caution(rf_power_w: float) -> Caution | None:
         "circuit screened while driven and keep people clear while testing."))
 
 
-def _enclosure_caution(parts: Iterable[PartHazard], level: Level | None) -> Caution | None:
+def _enclosure_caution(parts: Iterable[PartHazard], level: Level | None,
+                       rf_power_w: float) -> Caution | None:
+    """Covers and interlocks: for power equipment (from ENCLOSURE_FROM_W) with voltages above
+    the extra-low-voltage limit, or for any circuit above the low-voltage limit."""
     if level is None or SEVERITY[level] < SEVERITY["warning"]:
+        return None
+    if level != "danger" and rf_power_w < ENCLOSURE_FROM_W:
         return None
     highest = max(parts, key=lambda p: p.voltage_peak_v)
     return Caution(level, "covers-interlocks", _text(
         f"Up to {_volts(highest.voltage_peak_v)} on {highest.designator}: test inside a "
         f"screened enclosure with its covers fitted and its interlocks working, never defeat "
         f"an interlock to tune, and switch the drive off and discharge before opening."))
+
+
+def _dc_supply_caution(dc_voltage_v: float) -> Caution:
+    threshold = threshold_for("dc_voltage_v", dc_voltage_v)
+    above = f", above {threshold.describe()}" if threshold else ""
+    return Caution(threshold.level if threshold else "notice", "dc-supply", _text(
+        f"The tank carries {format_quantity(dc_voltage_v, 'V')} DC from its supply{above}.",
+        "It is live whenever the supply is on, with or without RF drive: switch the supply "
+        "off, discharge its filter capacitors and check with a meter before touching."))
 
 
 def _no_hazard_notice(parts: Iterable[PartHazard]) -> Caution:
@@ -281,12 +321,14 @@ def _no_hazard_notice(parts: Iterable[PartHazard]) -> Caution:
         "A higher drive, a fault or mistuning can give more; check before raising the drive."))
 
 
-_ORDER = ("covers-interlocks", "hv-capacitor", "hv-coil", "stored-energy", "rf-burn",
-          "hot-core", "hot-capacitor", "rf-exposure", "no-hazardous-voltage")
+_ORDER = ("covers-interlocks", "hv-capacitor", "hv-coil", "dc-supply", "stored-energy", "rf-burn",
+          "hot-core", "hot-capacitor", "rf-exposure", "flux-near-limit", "srf-near-f0",
+          "no-hazardous-voltage")
 
 
 def cautions(parts: Iterable[PartHazard], f_hz: float, rf_power_w: float, *,
-             ambient_max_c: float = 25.0) -> tuple[Caution, ...]:
+             ambient_max_c: float = 25.0, dc_voltage_v: float | None = None
+             ) -> tuple[Caution, ...]:
     """Every caution the computed stresses call for, most severe first.
 
     parts: what each part carries at the operating frequency f_hz; rf_power_w: the RF
@@ -303,7 +345,9 @@ def cautions(parts: Iterable[PartHazard], f_hz: float, rf_power_w: float, *,
     found.append(_rf_burn_caution(parts, f_hz, voltage_level))
     found += [_hot_caution(p, ambient_max_c) for p in parts]
     found.append(_exposure_caution(rf_power_w))
-    found.append(_enclosure_caution(parts, voltage_level))
+    found.append(_enclosure_caution(parts, voltage_level, rf_power_w))
+    if dc_voltage_v:
+        found.append(_dc_supply_caution(dc_voltage_v))
     if voltage_level is None:
         found.append(_no_hazard_notice(parts))
     kept = [caution for caution in found if caution is not None]
@@ -311,40 +355,44 @@ def cautions(parts: Iterable[PartHazard], f_hz: float, rf_power_w: float, *,
 
 
 def design_cautions(design: Design) -> tuple[Caution, ...]:
-    """Every caution of a design: the stresses on its parts, then its coil's."""
+    """Every caution of a design, most severe first: the stresses on its parts, its DC
+    supply, and its coil's."""
     names = design.designators
     coil = design.coil
     result = coil.result if coil is not None else None
-    parts = parts_from_stress(design.circuit, design.stress,
-                              capacitor=", ".join(names.capacitors), inductor=names.coil,
+    parts = parts_from_stress(design.circuit, design.stress, capacitors=names.capacitors,
+                              inductor=names.coil,
                               bleeder_resistance_ohm=design.job.capacitor.bleeder,
-                              inductor_rise_k=getattr(result, "temperature_rise_k", None))
+                              inductor_rise_k=getattr(result, "temperature_rise_k", None),
+                              dc_blocked=design.job.circuit.dc_blocked)
     found = cautions(parts, design.stress.f_hz, design.stress.drive_power_w,
-                     ambient_max_c=design.job.variation.temperature.maximum)
-    return found + coil_cautions(result, design.resonance.f0_hz, names.coil,
-                                 coil.flux_density_max_t if coil is not None else None)
+                     ambient_max_c=design.job.variation.temperature.maximum,
+                     dc_voltage_v=design.job.circuit.dc_voltage)
+    found += coil_cautions(result, design.resonance.f0_hz, names.coil,
+                           coil.flux_density_max_t if coil is not None else None)
+    return tuple(sorted(found, key=lambda c: (-SEVERITY[c.level], _ORDER.index(c.code))))
 
 
 def coil_cautions(coil, f0_hz: float, designator: str,
                   flux_limit_t: float | None = None) -> tuple[Caution, ...]:
-    """WARNINGs for a coil whose self-resonance is not well above f0, or whose core runs
-    near its flux density limit (over the limit is a failed rating check instead)."""
+    """NOTICEs (harm to the equipment, not to people) for a coil whose self-resonance is not
+    well above f0, or whose core runs near its flux density limit (over the limit is a
+    failed rating check instead)."""
     found = []
     srf = getattr(coil, "srf_hz", None) if coil is not None else None
     if srf is not None and srf < SRF_MARGIN * f0_hz:
         found.append(Caution(
-            "warning", "srf-near-f0",
+            "notice", "srf-near-f0",
             f"{designator} self-resonates at {format_quantity(srf, 'Hz')}, only "
             f"{srf / f0_hz:.1f} times f0 (keep it above {SRF_MARGIN:g}×, common practice): its "
             "self-capacitance detunes the circuit and its Q falls. Use a longer winding pitch "
-            "or fewer turns on a larger former. " + DEFERRAL))
+            "or fewer turns on a larger former."))
     flux = getattr(coil, "flux_density_peak_t", None) if coil is not None else None
     if flux is not None and flux_limit_t and FLUX_WARNING_SHARE * flux_limit_t < flux <= flux_limit_t:
         found.append(Caution(
-            "warning", "flux-near-limit",
+            "notice", "flux-near-limit",
             f"The core of {designator} runs at {format_quantity(flux, 'T', 3)} peak, "
             f"{flux / flux_limit_t * 100:.0f} % of its material's "
             f"{format_quantity(flux_limit_t, 'T', 3)} limit: it heats and its Q falls as the "
-            "drive rises. Keep the drive at the design level or use a larger core. "
-            + DEFERRAL))
+            "drive rises. Keep the drive at the design level or use a larger core."))
     return tuple(found)

@@ -13,7 +13,7 @@ import math
 from sheetgen import __version__
 from sheetgen.design.records import Design
 from sheetgen.report.advice import rating_advice
-from sheetgen.report.cautions import design_cautions
+from sheetgen.report.cautions import DEFERRAL, design_cautions
 from sheetgen.report.checks import failed_checks
 from sheetgen.report.winding import coil_check, winding_steps
 
@@ -100,6 +100,7 @@ def results_document(design: Design) -> dict:
                    for c in failed_checks(design)],
         "cautions": [{"level": c.level, "code": c.code, "text": c.text}
                      for c in design_cautions(design)],
+        "cautions_deferral": DEFERRAL,
     })
 
 

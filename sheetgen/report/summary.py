@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from sheetgen.design.records import Design
-from sheetgen.report.cautions import design_cautions
+from sheetgen.report.cautions import DEFERRAL, design_cautions
 from sheetgen.report.checks import failed_checks
 from sheetgen.report.rows import (
     Row,
@@ -41,7 +41,8 @@ def summary_text(design: Design) -> str:
     if ratings:
         lines += _block("Ratings", ratings)
     lines += ["Cautions", "--------"]
-    lines += [f"  {c.signal_word}: {c.text}" for c in design_cautions(design)] + [""]
+    lines += [f"  {c.signal_word}: {c.text}" for c in design_cautions(design)]
+    lines += [f"  {DEFERRAL}", ""]
     failures = failed_checks(design)
     lines += ["Checks", "------"]
     lines += ([f"  FAILED {f.field}: {f.text}" for f in failures] or ["  all pass"]) + [""]

@@ -28,7 +28,7 @@ from reportlab.platypus import (
 
 from sheetgen.design.records import Design
 from sheetgen.report.advice import rating_advice
-from sheetgen.report.cautions import design_cautions
+from sheetgen.report.cautions import DEFERRAL, design_cautions
 from sheetgen.report.parts import PART_COLUMNS, PartRow, part_rows
 from sheetgen.report.procedure import (
     OVERALL_VERDICT,
@@ -173,8 +173,9 @@ def cautions_section(design: Design, kit: Kit) -> SectionContent | None:
         data.append([para(alert + caution.signal_word, word), para(caution.text, kit.cell)])
         commands += [("BACKGROUND", (0, row), (0, row), fill),
                      ("VALIGN", (0, row), (0, row), "MIDDLE")]
+    data.append(["", para(DEFERRAL, kit.cell_bold)])  # once for the whole box
     table = Table(data, colWidths=[kit.width * 0.15, kit.width * 0.85])
-    table.setStyle(TableStyle(commands + [("LINEBELOW", (0, 0), (-1, -1), 0.8, colors.black)]))
+    table.setStyle(TableStyle(commands + [("LINEBELOW", (0, 0), (-1, -2), 0.8, colors.black)]))
     return SectionContent("Safety", [table])
 
 
