@@ -24,8 +24,9 @@ from sheetgen.inputs.reader import compose_located, field_position, read_yaml_te
 PAGE_SIZES = ("A4", "Letter")
 # Every section the sheet can draw, in the default order. The identity (title block on
 # every page) is not a section: it is always there.
-SectionName = Literal["checks", "cautions", "schematic", "parts", "values", "coil", "performance",
-                      "limits", "stress", "ratings", "response", "procedure", "record", "notes"]
+SectionName = Literal["checks", "cautions", "notes", "schematic", "parts", "values", "coil",
+                      "performance", "limits", "stress", "ratings", "response", "procedure",
+                      "record"]
 SECTION_NAMES: tuple[str, ...] = typing.get_args(SectionName)
 DEFAULT_STYLE_NAME = "style-default"
 MAX_STYLE_BYTES = 100_000

@@ -35,7 +35,7 @@ def component_rows(design: Design) -> list[Row]:
     derived = {d.field: d.reason for d in design.derived}
     coil = design.coil
     if coil is not None:
-        inductance_remark = (f"{coil.result.turns} turns, built"
+        inductance_remark = (f"{plural(coil.result.turns, 'turn')}, built"
                              + (f" on {coil.core_name}" if coil.core_name else ""))
         loss_remark = ("estimated at f0" if coil.q_source == "estimate"
                        else "from the job's Q")

@@ -12,7 +12,7 @@ from dataclasses import dataclass
 from typing import Literal
 
 from sheetgen.design.records import Design
-from sheetgen.report.formatting import quantity_text, range_text
+from sheetgen.report.formatting import plural, quantity_text, range_text
 from sheetgen.sheet import drawing, fonts
 
 PartKind = Literal["resistor", "inductor", "capacitor", "trimmer"]
@@ -78,7 +78,7 @@ def schematic_of(design: Design) -> Schematic:
     coil = design.coil
     link = load = None
     if names.link is not None and coil is not None:
-        turns = f"{coil.link_turns} turn{'s' if coil.link_turns != 1 else ''}"
+        turns = plural(coil.link_turns, "turn")
         link = Part(names.link, "inductor", turns)
         load = Part(names.load_resistor, "resistor", quantity_text(coil.link_resistance_ohm, "Ω"))
     elif coil is not None and coil.tap_turns is not None:

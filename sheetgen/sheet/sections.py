@@ -9,6 +9,7 @@ rows.py), so the sheet words and formats every value as the terminal summary doe
 
 from __future__ import annotations
 
+import re
 from collections.abc import Callable
 from dataclasses import dataclass
 from xml.sax.saxutils import escape
@@ -108,8 +109,13 @@ def make_kit(width: float, plan: Procedure) -> Kit:
     )
 
 
+_NUMBER_THEN_WORD = re.compile(r"(?<=\d) (?=[^\s\d])")
+
+
 def para(text: str, style: ParagraphStyle) -> Paragraph:
-    return Paragraph(escape(text), style)
+    """A paragraph of plain text; a number and the unit or word after it never part at a
+    line break ("16.10 kHz", "3 turns": joined by a no-break space)."""
+    return Paragraph(escape(_NUMBER_THEN_WORD.sub("\u00a0", text)), style)
 
 
 def _grid_style(header: bool = True) -> list:
@@ -224,8 +230,7 @@ def _coverage(design: Design) -> str:
 
 
 def parts_section(design: Design, kit: Kit) -> SectionContent:
-    # kept on one page with its heading when it fits on one (KeepTogether splits it if not)
-    return SectionContent("Parts list", [[parts_table(part_rows(design), kit)]])
+    return SectionContent("Parts list", [parts_table(part_rows(design), kit)])
 
 
 def values_section(design: Design, kit: Kit) -> SectionContent:
@@ -282,6 +287,7 @@ def response_section(design: Design, kit: Kit) -> SectionContent:
            f"Grey band: where {_coverage(design)} of builds fall, from the parts' tolerances "
            "(test limits section).", kit.caption)]
     second = [
+        para("Impedance and phase", kit.subheading),
         impedance_phase_drawing(design, kit.width),
         para("Impedance the source terminals see (the source's own resistance excluded): "
            "magnitude on a logarithmic scale, and phase.", kit.caption)]
@@ -380,14 +386,42 @@ def with_heading(heading: Paragraph, items: list) -> list:
         items = items[1:]
     if not items:
         return lead + [heading]
-    if isinstance(items[0], Table):  # a table may split: keep only a few rows with the heading
+    if isinstance(items[0], Table):  # a table may split: keep a few rows with the heading
         heading.keepWithNext = 0  # (keepWithNext would move the heading and whole table on)
-        out = lead + [CondPageBreak(110), heading, items[0]]
+        table = _splittable(items[0])
+        out = lead + [CondPageBreak(_heading_and_first_rows_pt(heading, table)), heading, table]
     else:
         first = items[0] if isinstance(items[0], list) else [items[0]]
         out = lead + [KeepTogether([heading, *first])]
     out += [KeepTogether(item) if isinstance(item, list) else item for item in items[1:]]
     return out
+
+
+TABLE_ROWS_KEPT = 3  # rows a split leaves at least on each page (besides a repeated header)
+
+
+def _splittable(table: Table) -> Table:
+    """A table that may split across pages but never leaves fewer than TABLE_ROWS_KEPT body
+    rows on either page (its header row repeats on the next)."""
+    rows = len(table._cellvalues)
+    header = table.repeatRows or 0
+    if rows - header > 2 * TABLE_ROWS_KEPT:
+        table.setStyle(TableStyle([
+            ("NOSPLIT", (0, 0), (-1, header + TABLE_ROWS_KEPT - 1)),
+            ("NOSPLIT", (0, rows - TABLE_ROWS_KEPT), (-1, rows - 1))]))
+    else:
+        table.setStyle(TableStyle([("NOSPLIT", (0, 0), (-1, rows - 1))]))
+    return table
+
+
+def _heading_and_first_rows_pt(heading: Paragraph, table: Table) -> float:
+    """The height a heading needs below it on its page: itself and the table's first rows."""
+    width = table._colWidths and sum(w for w in table._colWidths if w) or 500.0
+    _, heading_pt = heading.wrap(width, 1e6)
+    table.wrap(width, 1e6)
+    kept = (table.repeatRows or 0) + TABLE_ROWS_KEPT
+    return (heading_pt + heading.style.spaceBefore + heading.style.spaceAfter
+            + sum(table._rowHeights[:kept]) + 6.0)
 
 
 class _Indent(Flowable):
