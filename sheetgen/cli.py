@@ -149,6 +149,8 @@ def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
     design = design_from_file(job_path, library_folder)
     output = output or job_path.with_suffix(".pdf")
     style = resolve_style(job_path, design.job, style_path, library_folder)
+    from sheetgen.sheet.glyphs import check_printable
+    check_printable(design.job, job_path, style)
     _build(design, job_path, output, results_path, style)
     print(f"wrote {output}")
     return _exit_for(design)
