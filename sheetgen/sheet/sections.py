@@ -419,7 +419,8 @@ def _heading_and_first_rows_pt(heading: Paragraph, table: Table) -> float:
     width = table._colWidths and sum(w for w in table._colWidths if w) or 500.0
     _, heading_pt = heading.wrap(width, 1e6)
     table.wrap(width, 1e6)
-    kept = (table.repeatRows or 0) + TABLE_ROWS_KEPT
+    rows, header = len(table._cellvalues), table.repeatRows or 0
+    kept = header + TABLE_ROWS_KEPT if rows - header > 2 * TABLE_ROWS_KEPT else rows
     return (heading_pt + heading.style.spaceBefore + heading.style.spaceAfter
             + sum(table._rowHeights[:kept]) + 6.0)
 
