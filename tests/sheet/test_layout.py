@@ -7,6 +7,7 @@ ISO 216 (A4, 210 × 297 mm) and ANSI/ASME Y14.1 (Letter, 8.5 × 11 in).
 from __future__ import annotations
 
 import io
+import re
 
 import pytest
 from pypdf import PdfReader
@@ -143,3 +144,36 @@ def test_fit_text_never_exceeds_its_width(width_pt):
     assert lines[-1].endswith("…")
     for line in lines:
         assert stringWidth(line, fonts.BOLD, size) <= width_pt + 1e-6
+
+
+def _body_lines(pdf_path, page):
+    """The non-empty text lines of one page between its header and its title block."""
+    import subprocess
+
+    from tests.sheet.test_tools import need
+    info = subprocess.run([need("pdfinfo"), "-f", str(page), "-l", str(page), str(pdf_path)],
+                          capture_output=True, text=True, check=True).stdout
+    width, height = map(float, re.search(r"Page\s+\d+ size:\s+([\d.]+) x ([\d.]+)",
+                                         info).groups())
+    top, bottom = 0.085 * height, 0.845 * height
+    out = subprocess.run([need("pdftotext"), "-layout", "-enc", "UTF-8", "-f", str(page), "-l",
+                          str(page), "-x", "0", "-y", str(int(top)), "-W", str(int(width)),
+                          "-H", str(int(bottom - top)), str(pdf_path), "-"],
+                         capture_output=True, check=True).stdout.decode("utf-8")
+    return [line.strip() for line in out.splitlines() if line.strip()]
+
+
+@pytest.mark.parametrize("name", ["series", "parallel", "toroid", "solenoid", "power-tank",
+                                  "demo"])
+def test_no_heading_ends_a_page_and_no_page_is_nearly_empty(tmp_path, name):
+    """Read as laid out by poppler: a section heading ("3 Parts list") is never the last
+    line of its page, and no page after the first holds only a line or two."""
+    from tests.sheet.test_tools import page_count
+    built = build(tmp_path, (TEMPLATES / f"{name}.yaml").read_text(encoding="utf-8"), name)
+    heading = re.compile(r"^\d{1,2}\s+[A-Z][A-Za-z ()−-]+$")
+    for page in range(1, page_count(built.pdf_path) + 1):
+        lines = _body_lines(built.pdf_path, page)
+        assert lines, f"{name} page {page} is empty"
+        assert not heading.match(lines[-1]), f"{name} page {page} ends with {lines[-1]!r}"
+        if page > 1:
+            assert len(lines) > 3, f"{name} page {page} holds only {lines}"
