@@ -196,3 +196,27 @@ def detector(circuit: Circuit, resonance: Resonance) -> Detector:
     probe_c = (2.0 * PROBE_SHIFT_PER_BANDWIDTH * circuit.capacitance_f * bandwidth
                / resonance.f0_hz) if bandwidth else None
     return Detector("tank", LOADING_RATIO * resonance.impedance_at_peak_ohm, probe_c, None)
+
+
+# --- rework ---------------------------------------------------------------------------------
+
+def f0_with_turns_hz(f0_hz: float, turns: int, new_turns: int) -> float:
+    """f0 after rewinding to new_turns: L ∝ N² (AL·N² on a ring; about so on a solenoid of
+    the same length), and f0 = 1/(2π√(LC)) ∝ 1/N."""
+    return f0_hz * turns / new_turns
+
+
+def f0_with_capacitance_hz(f0_hz: float, capacitance_f: float, new_capacitance_f: float) -> float:
+    """f0 after changing the tank capacitance: f0 ∝ 1/√C (Thomson's formula)."""
+    return f0_hz * math.sqrt(capacitance_f / new_capacitance_f)
+
+
+def adjacent_standard_values(value: float, series: str) -> tuple[float, float]:
+    """The standard values of `series` (IEC 60063) just below and just above `value`."""
+    from sheetgen.engine.standard_values import series_values
+    decade = math.floor(math.log10(value))
+    ladder = sorted(float(f"{m * 10.0 ** (decade + shift):.6g}") for shift in (-1, 0, 1)
+                    for m in series_values(series))
+    below = max(v for v in ladder if v < value * (1 - 1e-9))
+    above = min(v for v in ladder if v > value * (1 + 1e-9))
+    return below, above

@@ -254,8 +254,10 @@ def procedure(design: Design) -> Procedure:
           "measured.q_loaded")),
         ("tune", "", "", (), ()),
         ("verdict", "Record the verdict",
-         "Mark pass or fail against the work order's limits for each value, and overall; "
-         "fill in the instruments used, your name and the date.", (), ()),
+         "Mark pass or fail for each value against the pass window printed in the test "
+         "record, and overall: those windows are the limits of this sheet's id and revision, "
+         "and they rule. Fill in the instruments used, your name and the date; for a fail, "
+         "follow the rework table.", (), ()),
     ]
     number = {key: index + 1 for index, (key, *_rest) in enumerate(plan)}
     tune_title, tune_text = _trim_step(design, number["maximum"], number["half_power"])

@@ -37,6 +37,7 @@ from sheetgen.report.procedure import (
     VERDICT_CHOICES,
     Procedure,
 )
+from sheetgen.report.rework import RETURN_TO_ENGINEERING, rework_rows
 from sheetgen.report.rows import (
     Row,
     coil_rows,
@@ -347,6 +348,17 @@ def record_section(design: Design, kit: Kit) -> SectionContent:
     return SectionContent("Test record", [[table, Spacer(1, 8), sign]])
 
 
+def rework_section(design: Design, kit: Kit) -> SectionContent:
+    rows = rework_rows(design)
+    data = [[para(h, kit.cell_bold) for h in ("Value that fails", "Likely causes", "Rework")]]
+    data += [[para(r.label, kit.cell), para(r.causes, kit.cell), para(r.actions, kit.cell)]
+             for r in rows]
+    table = Table(data, colWidths=[kit.width * f for f in (0.2, 0.33, 0.47)], repeatRows=1)
+    table.setStyle(TableStyle(_grid_style()))
+    return SectionContent("If a value fails", [table, Spacer(1, 4),
+                                               para(RETURN_TO_ENGINEERING, kit.body)])
+
+
 def notes_section(design: Design, kit: Kit) -> SectionContent | None:
     notes = design.job.sheet.notes
     if not notes or not notes.strip():
@@ -370,6 +382,7 @@ SECTIONS: dict[str, Callable[[Design, Kit], SectionContent | None]] = {
     "response": response_section,
     "procedure": procedure_section,
     "record": record_section,
+    "rework": rework_section,
     "notes": notes_section,
 }
 
