@@ -4,7 +4,7 @@ Pure: reads a Design, returns frozen data (text already worded for the technicia
 I/O, no reportlab. The rules that turn the design into settings are stated where they are
 used; those that are the trade's habits rather than derivations are marked common practice.
 The names of the record's fields are stable (work-order systems read the filled form) and
-listed in FORM_FIELD_NAMES.
+listed by form_field_names().
 """
 
 from __future__ import annotations
@@ -26,6 +26,8 @@ from sheetgen.quantities import format_number
 from sheetgen.report.formatting import quantity_text, range_text, signed, tolerance_text
 from sheetgen.report.winding import measuring_frequency_hz
 
+NO_WINDOW = "—"  # a record row with no window to judge against (e.g. no tolerance given)
+
 
 @dataclass(frozen=True)
 class Measurement:
@@ -40,11 +42,20 @@ class Measurement:
 
 @dataclass(frozen=True)
 class RecordRow:
-    """A measurement with the value the design expects and its pass window, formatted."""
+    """A measurement with the value the design expects and its pass window, formatted.
+
+    `as_found_field`: for a unit that is trimmed, the field for the value before trimming
+    (the as-left value goes in the measurement's own field). `verdict_field`: the row's
+    pass/fail choice, None when the row has no window to judge against."""
 
     measurement: Measurement
     expected: str
-    limits: str = "—"
+    limits: str = NO_WINDOW
+    as_found_field: str | None = None
+
+    @property
+    def verdict_field(self) -> str | None:
+        return self.measurement.verdict if self.limits != NO_WINDOW else None
 
 
 @dataclass(frozen=True)
@@ -88,15 +99,28 @@ MEASUREMENTS: tuple[Measurement, ...] = (
                 "Loaded Q, f0 / bandwidth", ""),
 )
 OVERALL_VERDICT = "verdict.overall"
-RECORD_TEXT_FIELDS = ("record.technician", "record.date", "record.instruments",
+# The unit's identity and the test conditions, then who tested it with what.
+RECORD_TEXT_FIELDS = ("record.serial", "record.work_order", "record.technician",
+                      "record.date", "record.ambient_c", "record.instruments",
                       "record.remarks")
-VERDICT_CHOICES = ("pass", "fail")
-FORM_FIELD_NAMES: tuple[str, ...] = (
-    tuple(m.field for m in MEASUREMENTS)
-    + tuple(f"{v}.{choice}" for v in [m.verdict for m in MEASUREMENTS if m.verdict]
-            + [OVERALL_VERDICT] for choice in VERDICT_CHOICES)
-    + RECORD_TEXT_FIELDS
-)
+RECORD_TEXT_LABELS = {
+    "record.serial": "Unit serial number", "record.work_order": "Work order",
+    "record.technician": "Technician", "record.date": "Date tested",
+    "record.ambient_c": "Test ambient temperature (°C)",
+    "record.instruments": "Instruments used (type, serial number, calibration due date)",
+    "record.remarks": "Remarks"}
+VERDICT_CHOICES = ("pass", "fail")  # the values of each verdict's one-choice (radio) group
+TUNED_KEYS = ("f0", "f_low", "f_high", "bandwidth", "q_loaded")  # measured before and after
+
+
+def form_field_names(record: tuple[RecordRow, ...]) -> tuple[str, ...]:
+    """Every fillable field of a test record, by its stable name: as-found values (trimmed
+    units), measured (as-left) values, one verdict group per row with a window, the overall
+    verdict and the record's text fields."""
+    return (tuple(row.as_found_field for row in record if row.as_found_field)
+            + tuple(row.measurement.field for row in record)
+            + tuple(row.verdict_field for row in record if row.verdict_field)
+            + (OVERALL_VERDICT,) + RECORD_TEXT_FIELDS)
 
 
 def record_rows(design: Design) -> tuple[RecordRow, ...]:
@@ -126,13 +150,17 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
         "bandwidth": range_text(lim.bandwidth_min_hz, lim.bandwidth_max_hz, 'Hz'),
         "q_loaded": f"{format_number(lim.q_loaded_min, 4)} to {format_number(lim.q_loaded_max, 4)}",
     }
-    return tuple(RecordRow(m, expected[m.key], limits.get(m.key, "—")) for m in MEASUREMENTS)
+    tuned = design.capacitor_choice.trimmer_setting_f is not None
+    return tuple(RecordRow(m, expected[m.key], limits.get(m.key, NO_WINDOW),
+                           m.field.replace("measured.", "as_found.")
+                           if tuned and m.key in TUNED_KEYS else None)
+                 for m in MEASUREMENTS)
 
 
 def _tolerance(nominal: float, fraction: float | None, unit: str) -> str:
     """A part's window as the meter reads it: nominal ± tolerance, and the tolerance."""
     if not fraction:
-        return "—"
+        return NO_WINDOW
     return (f"{range_text(nominal * (1 - fraction), nominal * (1 + fraction), unit)} "
             f"({tolerance_text(fraction)})")
 
@@ -182,7 +210,8 @@ def _trim_step(design: Design, repeat_from: int, repeat_to: int) -> tuple[str, s
                         f"maximum at {quantity_text(design.resonance.f_peak_hz, 'Hz')} (expected "
                         f"setting {quantity_text(choice.trimmer_setting_f, 'F')} of its "
                         f"{range_text(trimmer.minimum, trimmer.maximum, 'F', 3)}), then repeat "
-                        f"steps {repeat_from} and {repeat_to}.")
+                        f"steps {repeat_from} and {repeat_to}, recording the values as left "
+                        "in the measured column.")
     return "Trim if needed", ("If the maximum is off frequency, change the capacitance to C × "
                               "(f measured / f wanted)² (from f0 = 1/(2π√(LC))) and repeat "
                               f"from step {repeat_from}.")
@@ -206,6 +235,7 @@ def procedure(design: Design) -> Procedure:
     trimmer = choice.trimmer_setting_f is not None
     names = design.designators
     fixed = " + ".join(names.fixed_capacitors)
+    first_reading = "as_found" if trimmer else "measured"  # trimmed: measured, tuned, measured
     coil_name = names.coil
     # (key, title, text, settings, records); numbered from this list, so a step that
     # refers to another names it by its key.
@@ -242,16 +272,17 @@ def procedure(design: Design) -> Procedure:
               + " peak"),
          ), ()),
         ("maximum", "Find the response maximum",
-         "Sweep and find the maximum of the response; record its frequency. Expected "
+         "Sweep and find the maximum of the response; record its frequency"
+         + (" in the as-found column" if trimmer else "") + ". Expected "
          f"{quantity_text(r.f_peak_hz, 'Hz')}; the test record gives the pass window.",
-         (), ("measured.f0_hz",)),
+         (), (f"{first_reading}.f0_hz",)),
         ("half_power", "Find the half-power points",
          f"Find the frequencies either side where the response is {-HALF_POWER_DB:.1f} dB "
          f"below the maximum; record both, their difference (the bandwidth) and f0 divided "
          f"by the bandwidth (the loaded Q). Expected {quantity_text(r.f_low_hz, 'Hz')} and "
          f"{quantity_text(r.f_high_hz, 'Hz')}.", (),
-         ("measured.f_low_hz", "measured.f_high_hz", "measured.bandwidth_hz",
-          "measured.q_loaded")),
+         tuple(f"{first_reading}.{name}" for name in ("f_low_hz", "f_high_hz", "bandwidth_hz",
+                                                 "q_loaded"))),
         ("tune", "", "", (), ()),
         ("verdict", "Record the verdict",
          "Mark pass or fail for each value against the pass window printed in the test "
@@ -261,7 +292,10 @@ def procedure(design: Design) -> Procedure:
     ]
     number = {key: index + 1 for index, (key, *_rest) in enumerate(plan)}
     tune_title, tune_text = _trim_step(design, number["maximum"], number["half_power"])
+    as_left = (("measured.f0_hz", "measured.f_low_hz", "measured.f_high_hz",
+                "measured.bandwidth_hz", "measured.q_loaded") if trimmer else ())
     steps = tuple(TestStep(number[key], tune_title if key == "tune" else title,
-                           tune_text if key == "tune" else text, settings, records)
+                           tune_text if key == "tune" else text, settings,
+                           as_left if key == "tune" else records)
                   for key, title, text, settings, records in plan)
     return Procedure(sweep, drive, found, steps, record_rows(design))

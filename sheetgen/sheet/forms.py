@@ -1,6 +1,6 @@
 """Fillable AcroForm fields as platypus flowables, placed wherever a table cell puts them.
 
-The field names are the record's stable names from sheetgen.report.procedure (FORM_FIELD_NAMES);
+The field names are the record's stable names from sheetgen.report.procedure (form_field_names);
 work-order systems read a filled sheet by those names. Fields print with a border so a
 sheet printed blank is filled by hand in the same boxes.
 """
@@ -37,6 +37,30 @@ class TextField(Flowable):
             self.multiline else 8, borderWidth=0.6, borderColor=FIELD_BORDER,
             fillColor=FIELD_FILL, textColor=black, maxlen=self.max_length,
             fieldFlags="multiline" if self.multiline else "", forceBorder=True)
+
+
+class RadioChoice(Flowable):
+    """One choice of a one-choice group (pass or fail: choosing one clears the other),
+    followed by its word; the group is the field `name`, the choice its `value`."""
+
+    SIZE = 11.0
+
+    def __init__(self, name: str, value: str, tooltip: str):
+        super().__init__()
+        self.name, self.value, self.tooltip = name, value, tooltip
+
+    def wrap(self, available_width, available_height):
+        self.width, self.height = min(available_width, 48.0), self.SIZE
+        return self.width, self.height
+
+    def draw(self):
+        self.canv.acroForm.radio(
+            name=self.name, tooltip=self.tooltip, value=self.value, selected=False, x=0, y=0,
+            size=self.SIZE, relative=True, buttonStyle="check", shape="square",
+            borderWidth=0.8, borderColor=black, fillColor=white, textColor=black,
+            forceBorder=True)
+        self.canv.setFont(fonts.REGULAR, 8.5)
+        self.canv.drawString(self.SIZE + 3, 2.2, self.value)
 
 
 class CheckBox(Flowable):

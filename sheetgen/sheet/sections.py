@@ -34,6 +34,7 @@ from sheetgen.report.parts import PART_COLUMNS, PartRow, part_rows
 from sheetgen.report.procedure import (
     OVERALL_VERDICT,
     RECORD_TEXT_FIELDS,
+    RECORD_TEXT_LABELS,
     VERDICT_CHOICES,
     Procedure,
 )
@@ -49,7 +50,7 @@ from sheetgen.report.rows import (
 )
 from sheetgen.report.winding import winding_steps
 from sheetgen.sheet import fonts
-from sheetgen.sheet.forms import CheckBox, TextField
+from sheetgen.sheet.forms import RadioChoice, TextField
 from sheetgen.sheet.plots import coil_q_drawing, impedance_phase_drawing, response_drawing
 from sheetgen.sheet.schematic import schematic_drawing, schematic_of
 from sheetgen.sheet.winding_drawing import SolenoidView, winding_drawing, winding_view_of
@@ -317,28 +318,38 @@ def procedure_section(design: Design, kit: Kit) -> SectionContent:
 
 
 def record_section(design: Design, kit: Kit) -> SectionContent:
+    """The test record: one row per measured value (as found and as left for a trimmed
+    unit), one pass/fail choice per row with a window, the overall verdict, and the unit's
+    identity and test conditions."""
     rows = kit.procedure.record
-    heads = ("Measurement", "Expected", "Pass window", "Measured (with unit)", "Verdict", "")
+    tuned = any(row.as_found_field for row in rows)
+    heads = (["Measurement", "Expected", "Pass window"]
+             + (["As found", "As left (with unit)"] if tuned else ["Measured (with unit)"])
+             + ["Verdict", ""])
     data = [[para(h, kit.cell_bold) for h in heads]]
     for row in rows:
         m = row.measurement
-        verdict = ([CheckBox(f"{m.verdict}.{c}", c, f"{m.label}: {c}") for c in VERDICT_CHOICES]
-                   if m.verdict else ["", ""])
+        verdict = ([RadioChoice(row.verdict_field, c, f"{m.label}: {c}")
+                    for c in VERDICT_CHOICES] if row.verdict_field else ["", ""])
+        found = ([TextField(row.as_found_field, f"{m.label}, as found")
+                  if row.as_found_field else ""] if tuned else [])
         data.append([para(m.label, kit.cell), para(row.expected, kit.cell_bold),
-                     para(row.limits, kit.cell), TextField(m.field, m.label), *verdict])
-    data.append([para("Overall", kit.cell_bold), para("every value in its window", kit.cell), "", "",
-                 *[CheckBox(f"{OVERALL_VERDICT}.{c}", c, f"overall: {c}")
-                   for c in VERDICT_CHOICES]])
-    widths = [kit.width * f for f in (0.25, 0.13, 0.20, 0.22, 0.10, 0.10)]
-    table = Table(data, colWidths=widths, repeatRows=1)
-    table.setStyle(TableStyle(_grid_style() + [("VALIGN", (0, 1), (-1, -1), "MIDDLE"),
-                                               ("SPAN", (4, 0), (5, 0))]))
-    labels = {"record.technician": "Technician", "record.date": "Date tested",
-              "record.instruments": "Instruments used (type, serial, calibration due)",
-              "record.remarks": "Remarks"}
-    people = [[para(labels[name], kit.cell_bold),
-               TextField(name, labels[name], height=34 if name == "record.remarks" else 15,
-                         multiline=name == "record.remarks", max_length=2000)]
+                     para(row.limits, kit.cell), *found, TextField(m.field, m.label), *verdict])
+    data.append([para("Overall", kit.cell_bold), para("every value in its window", kit.cell),
+                 "", *([""] if tuned else []), "",
+                 *[RadioChoice(OVERALL_VERDICT, c, f"overall: {c}") for c in VERDICT_CHOICES]])
+    fractions = ((0.21, 0.12, 0.18, 0.14, 0.15, 0.10, 0.10) if tuned else
+                 (0.25, 0.13, 0.20, 0.22, 0.10, 0.10))
+    table = Table(data, colWidths=[kit.width * f for f in fractions], repeatRows=1)
+    verdict_column = len(heads) - 2
+    table.setStyle(TableStyle(_grid_style() + [
+        ("VALIGN", (0, 1), (-1, -1), "MIDDLE"),
+        ("SPAN", (verdict_column, 0), (verdict_column + 1, 0))]))
+    people = [[para(RECORD_TEXT_LABELS[name], kit.cell_bold),
+               TextField(name, RECORD_TEXT_LABELS[name],
+                         height=34 if name in ("record.remarks", "record.instruments") else 15,
+                         multiline=name in ("record.remarks", "record.instruments"),
+                         max_length=2000)]
               for name in RECORD_TEXT_FIELDS]
     signature = [[para("Technician's signature", kit.cell_bold), ""]]
     sign = Table(people + signature, colWidths=[kit.width * 0.36, kit.width * 0.64],
@@ -353,10 +364,11 @@ def rework_section(design: Design, kit: Kit) -> SectionContent:
     data = [[para(h, kit.cell_bold) for h in ("Value that fails", "Likely causes", "Rework")]]
     data += [[para(r.label, kit.cell), para(r.causes, kit.cell), para(r.actions, kit.cell)]
              for r in rows]
+    data.append([para(RETURN_TO_ENGINEERING, kit.cell_bold), "", ""])  # the stop rule, last
     table = Table(data, colWidths=[kit.width * f for f in (0.2, 0.33, 0.47)], repeatRows=1)
-    table.setStyle(TableStyle(_grid_style()))
-    return SectionContent("If a value fails", [table, Spacer(1, 4),
-                                               para(RETURN_TO_ENGINEERING, kit.body)])
+    table.setStyle(TableStyle(_grid_style() + [("SPAN", (0, len(data) - 1),
+                                                (-1, len(data) - 1))]))
+    return SectionContent("If a value fails", [table])
 
 
 def notes_section(design: Design, kit: Kit) -> SectionContent | None:

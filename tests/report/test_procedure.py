@@ -18,7 +18,7 @@ import pytest
 from sheetgen.design.pipeline import design_from_file
 from sheetgen.engine import bench
 from sheetgen.engine.bench import HALF_POWER_DB, dbm_from_emf, nice_at_least, nice_at_most
-from sheetgen.report.procedure import FORM_FIELD_NAMES, procedure
+from sheetgen.report.procedure import form_field_names, procedure
 from sheetgen.report.results import results_document
 from tests.support import assert_close
 
@@ -162,24 +162,36 @@ def test_steps_are_numbered_and_name_the_settings(tmp_path):
     assert settings["Start"] == format_quantity(sweep.start_hz, "Hz", 4)
     assert settings["Stop"] == format_quantity(sweep.stop_hz, "Hz", 4)
     recorded = {field for step in plan.steps for field in step.records}
-    assert recorded == {name for name in FORM_FIELD_NAMES if name.startswith("measured.")}
+    value_fields = {name for name in form_field_names(plan.record)
+                    if name.startswith(("measured.", "as_found."))}
+    assert recorded == value_fields, "every value field is filled by a step, and no other"
     windows = {row.measurement.key: row.limits for row in plan.record}
     lim = res["limits"]
     assert windows["f0"] == (f"{format_quantity(lim['f_peak_min_hz'], 'Hz', 6)} to "
                              f"{format_quantity(lim['f_peak_max_hz'], 'Hz', 6)}")
 
 
-def test_form_field_names_are_stable():
-    assert FORM_FIELD_NAMES == (
-        "measured.inductance_h", "measured.capacitance_f", "measured.f0_hz",
-        "measured.f_low_hz", "measured.f_high_hz", "measured.bandwidth_hz", "measured.q_loaded",
-        "verdict.inductance.pass", "verdict.inductance.fail", "verdict.capacitance.pass",
-        "verdict.capacitance.fail", "verdict.f0.pass", "verdict.f0.fail", "verdict.f_low.pass",
-        "verdict.f_low.fail", "verdict.f_high.pass", "verdict.f_high.fail",
-        "verdict.bandwidth.pass", "verdict.bandwidth.fail", "verdict.q_loaded.pass",
-        "verdict.q_loaded.fail", "verdict.overall.pass", "verdict.overall.fail",
-        "record.technician", "record.date", "record.instruments", "record.remarks")
-    assert len(set(FORM_FIELD_NAMES)) == len(FORM_FIELD_NAMES)
+def test_a_trimmed_unit_is_recorded_as_found_and_as_left(tmp_path):
+    """Measure, tune, measure again: the record keeps both readings of every value the
+    trimmer moves; the steps say which column each reading goes in."""
+    d, _ = _design(tmp_path, "demo")
+    assert d.capacitor_choice.trimmer_setting_f is not None, "the demo has a trimmer"
+    plan = procedure(d)
+    names = form_field_names(plan.record)
+    for quantity in ("f0_hz", "f_low_hz", "f_high_hz", "bandwidth_hz", "q_loaded"):
+        assert f"as_found.{quantity}" in names and f"measured.{quantity}" in names
+    tune = next(step for step in plan.steps if step.title == "Tune")
+    assert "recording the values as left" in tune.text
+    assert set(tune.records) == {f"measured.{q}" for q in ("f0_hz", "f_low_hz", "f_high_hz",
+                                                           "bandwidth_hz", "q_loaded")}
+    assert len(set(names)) == len(names)
+
+
+def test_an_untrimmed_unit_has_no_as_found_column(tmp_path):
+    d, _ = _design(tmp_path, "series")
+    names = form_field_names(procedure(d).record)
+    assert not [n for n in names if n.startswith("as_found.")]
+    assert "record.serial" in names and "record.work_order" in names
 
 
 def test_part_windows_are_absolute_values_a_meter_reads():
