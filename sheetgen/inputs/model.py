@@ -109,6 +109,15 @@ def exactly_one(model: BaseModel, names: tuple[str, ...], what: str) -> None:
                                   f"({found})")
 
 
+class RevisionEntry(Section):
+    """One earlier revision of the sheet: what changed, when and by whom."""
+
+    revision: Text = Field(description="the revision, e.g. A")
+    date: Text = Field(description="its date, e.g. 2026-10-14")
+    change: Text = Field(description="what changed in it, in a line or two")
+    by: Text = Field(description="who made the change")
+
+
 class SheetIdentity(Section):
     """Who and what the sheet is: printed on every page and kept in the results."""
 
@@ -124,6 +133,8 @@ class SheetIdentity(Section):
                               "the sheet: a name (style-NAME.yaml in the parts library folder, "
                               "else in sheetgen's templates) or a path to a style file relative "
                               "to this job file")
+    history: tuple[RevisionEntry, ...] = Field((), description="earlier revisions, oldest "
+                                               "first; the sheet prints them with this one")
 
 
 class DesignTargets(Section):

@@ -26,7 +26,7 @@ PAGE_SIZES = ("A4", "Letter")
 # every page) is not a section: it is always there.
 SectionName = Literal["checks", "cautions", "notes", "schematic", "parts", "values", "coil",
                       "performance", "limits", "stress", "ratings", "response", "procedure",
-                      "record", "rework"]
+                      "record", "rework", "history"]
 SECTION_NAMES: tuple[str, ...] = typing.get_args(SectionName)
 DEFAULT_STYLE_NAME = "style-default"
 MAX_STYLE_BYTES = 100_000

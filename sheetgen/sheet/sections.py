@@ -371,6 +371,22 @@ def rework_section(design: Design, kit: Kit) -> SectionContent:
     return SectionContent("If a value fails", [table])
 
 
+def history_section(design: Design, kit: Kit) -> SectionContent:
+    """The revisions of the sheet, oldest first, ending with this one."""
+    sheet = design.job.sheet
+    data = [[para(h, kit.cell_bold) for h in ("Revision", "Date", "What changed", "By")]]
+    data += [[para(e.revision, kit.cell), para(e.date, kit.cell), para(e.change, kit.cell),
+              para(e.by, kit.cell)] for e in sheet.history]
+    if not any(e.revision == sheet.revision for e in sheet.history):
+        data.append([para(sheet.revision, kit.cell_bold), para(sheet.date, kit.cell),
+                     para("this revision" if sheet.history else "first issue", kit.cell),
+                     para(sheet.designer, kit.cell)])
+    table = Table(data, colWidths=[kit.width * f for f in (0.12, 0.16, 0.52, 0.2)],
+                  repeatRows=1)
+    table.setStyle(TableStyle(_grid_style()))
+    return SectionContent("Revision history", [table])
+
+
 def notes_section(design: Design, kit: Kit) -> SectionContent | None:
     notes = design.job.sheet.notes
     if not notes or not notes.strip():
@@ -395,6 +411,7 @@ SECTIONS: dict[str, Callable[[Design, Kit], SectionContent | None]] = {
     "procedure": procedure_section,
     "record": record_section,
     "rework": rework_section,
+    "history": history_section,
     "notes": notes_section,
 }
 
