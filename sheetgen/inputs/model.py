@@ -23,6 +23,11 @@ from pydantic import (
 from pydantic_core import PydanticCustomError
 
 from sheetgen import quantities
+from sheetgen.engine.insulation import (
+    DEFAULT_ALTITUDE_M,
+    DEFAULT_MATERIAL_GROUP,
+    DEFAULT_POLLUTION_DEGREE,
+)
 from sheetgen.engine.ratings import DEFAULT_CURRENT_DERATING, DEFAULT_VOLTAGE_DERATING
 from sheetgen.engine.standard_values import SERIES_TOLERANCE
 from sheetgen.engine.variation import DEFAULT_COVERAGE, DEFAULT_SEED, DEFAULT_TRIALS
@@ -508,6 +513,19 @@ class RatingsSection(Section):
     accept: tuple[Acceptance, ...] = Field((), description="failed checks accepted on purpose")
 
 
+class InsulationSection(Section):
+    """Where the circuit works, for the insulation distances of its kilovolt points."""
+
+    pollution_degree: Literal[1, 2, 3] = Field(
+        DEFAULT_POLLUTION_DEGREE, description="IEC 60664-1 pollution degree of the place the "
+        "circuit works in (1 sealed, 2 ordinary indoor, 3 conductive dust or condensation)")
+    material_group: Literal["I", "II", "III"] = Field(
+        DEFAULT_MATERIAL_GROUP, description="IEC 60664-1 material group of the insulating "
+        "parts by their tracking index (III, the worst, when not known)")
+    altitude: Length = Field(DEFAULT_ALTITUDE_M, description="altitude of use; above 2000 m "
+                             "clearances grow (IEC 60664-1)")
+
+
 class SweepSection(Section):
     """Frequency range of the response plot and tables (defaults: around f0)."""
 
@@ -540,3 +558,4 @@ class Job(Section):
     variation: VariationSection = VariationSection()
     test: TestSection = TestSection()
     ratings: RatingsSection = RatingsSection()
+    insulation: InsulationSection = InsulationSection()

@@ -18,6 +18,12 @@ from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Literal
 
+from sheetgen.engine.insulation import (
+    CLEARANCE_MM_PER_KV_PEAK,
+    KILOVOLT_POINT_V,
+    InsulationDistances,
+    insulation_distances,
+)
 from sheetgen.engine.ratings import discharge_time_s, stored_charge_c, stored_energy_j
 from sheetgen.engine.resonance import Circuit
 from sheetgen.engine.stress import Stress
@@ -321,8 +327,8 @@ def _no_hazard_notice(parts: Iterable[PartHazard]) -> Caution:
         "A higher drive, a fault or mistuning can give more; check before raising the drive."))
 
 
-_ORDER = ("covers-interlocks", "hv-capacitor", "hv-coil", "dc-supply", "stored-energy", "rf-burn",
-          "hot-core", "hot-capacitor", "rf-exposure", "flux-near-limit", "srf-near-f0",
+_ORDER = ("covers-interlocks", "hv-capacitor", "hv-coil", "insulation-distances", "dc-supply",
+          "stored-energy", "rf-burn", "hot-core", "hot-capacitor", "rf-exposure", "flux-near-limit", "srf-near-f0",
           "no-hazardous-voltage")
 
 
@@ -370,7 +376,43 @@ def design_cautions(design: Design) -> tuple[Caution, ...]:
                      dc_voltage_v=design.job.circuit.dc_voltage)
     found += coil_cautions(result, design.resonance.f0_hz, names.coil,
                            coil.flux_density_max_t if coil is not None else None)
+    found += insulation_cautions(design)
     return tuple(sorted(found, key=lambda c: (-SEVERITY[c.level], _ORDER.index(c.code))))
+
+
+def kilovolt_distances(design: Design) -> tuple[str, InsulationDistances] | None:
+    """The highest RF point of the design and the distances it needs, from 1 kV peak."""
+    stress, names = design.stress, design.designators
+    part, peak = max(((names_text(names.capacitors), stress.capacitor_voltage_peak_v),
+                      (names.coil, stress.inductor_voltage_peak_v)), key=lambda p: p[1])
+    if peak < KILOVOLT_POINT_V:
+        return None
+    where = design.job.insulation
+    return part, insulation_distances(peak, pollution_degree=where.pollution_degree,
+                                      material_group=where.material_group,
+                                      altitude_m=where.altitude)
+
+
+def insulation_cautions(design: Design) -> tuple[Caution, ...]:
+    """Creepage, clearance and corona for a kilovolt point (IEC 60664-1; common practice)."""
+    found = kilovolt_distances(design)
+    if found is None:
+        return ()
+    part, d = found
+    creepage = (f"at least {format_quantity(d.creepage_mm * 1e-3, 'm', 2)} along insulating "
+                f"surfaces (creepage, IEC 60664-1 for {format_quantity(d.voltage_rms_v, 'V')} "
+                f"rms, pollution degree {d.pollution_degree}, material group "
+                f"{d.material_group})" if d.creepage_mm is not None else
+                "creepage beyond IEC 60664-1's tables: have the layout reviewed")
+    altitude = (f", ×{d.altitude_factor:.2f} for the altitude" if d.altitude_factor > 1 else "")
+    return (Caution("warning", "insulation-distances", _text(
+        f"{_volts(d.voltage_peak_v)} on {part}: keep {creepage}, and at least "
+        f"{format_quantity(d.clearance_mm * 1e-3, 'm', 2)} through air to every other "
+        f"conductor (clearance, {CLEARANCE_MM_PER_KV_PEAK:g} mm per kV peak at RF, common "
+        f"practice{altitude}).",
+        "Above about 1 kV peak, sharp wire ends and pointed solder joints can glow (corona) "
+        "and erode insulation: round the joints, trim wire ends flush and keep the high-"
+        "voltage leads short and clear of other parts.")),)
 
 
 def coil_cautions(coil, f0_hz: float, designator: str,

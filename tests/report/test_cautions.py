@@ -207,3 +207,27 @@ def test_several_capacitors_are_named_together_with_their_connections():
     parts = ca.parts_from_stress(circuit, stress, capacitors=("C1", "C2", "C3"))
     text = _by_code(ca.cautions(parts, stress.f_hz, 0.001))["hv-capacitor"].text
     assert "on C1, C2 and C3 at" in text and "or their connections" in text
+
+
+def test_a_kilovolt_tank_states_creepage_clearance_and_corona(tmp_path):
+    """The power-tank starter at 1 kW: 2.01 kV peak = 1.42 kV rms on the capacitors, which
+    IEC 60664-1 Table F.5 (from memory) rounds up to its 1600 V row: 16 mm creepage at
+    pollution degree 2, material group III; clearance 2 mm per kV peak (common practice)."""
+    from pathlib import Path
+
+    from sheetgen.design.pipeline import design_from_file
+    root = Path(__file__).resolve().parents[2]
+    text = (root / "templates" / "power-tank.yaml").read_text(encoding="utf-8")
+    job = tmp_path / "tank.yaml"
+    job.write_text(text.replace("available_power: 100 W", "available_power: 1 kW"),
+                   encoding="utf-8")
+    design = design_from_file(job)
+    peak = design.stress.capacitor_voltage_peak_v
+    assert 1131.0 < peak / SQRT2 <= 1600.0, "between Table F.5's 1250 V and 1600 V rows"
+    found = _by_code(ca.design_cautions(design))
+    text = found["insulation-distances"].text
+    assert "at least 16 mm along insulating surfaces" in text
+    assert f"at least {peak * 2e-3:.1f} mm through air" in text
+    assert "corona" in text
+    low = _by_code(ca.design_cautions(design_from_file(root / "templates" / "demo.yaml")))
+    assert "insulation-distances" not in low, "below 1 kV peak nothing is said"
