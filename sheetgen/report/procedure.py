@@ -52,6 +52,8 @@ class RecordRow:
     expected: str
     limits: str = NO_WINDOW
     as_found_field: str | None = None
+    minimum: float | None = None  # the window in SI units, exactly as printed
+    maximum: float | None = None
 
     @property
     def verdict_field(self) -> str | None:
@@ -141,9 +143,18 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
         "bandwidth": quantity_text(r.bandwidth_hz, "Hz"),
         "q_loaded": format_number(r.q_loaded, 4),
     }
+    windows = {
+        "inductance": _part_window(c.inductance_h, a.inductance_tolerance),
+        "capacitance": _part_window(design.capacitor_choice.fixed_f, a.capacitor_tolerance),
+        "f0": (lim.f_peak_min_hz, lim.f_peak_max_hz),
+        "f_low": (lim.f_low_min_hz, lim.f_low_max_hz),
+        "f_high": (lim.f_high_min_hz, lim.f_high_max_hz),
+        "bandwidth": (lim.bandwidth_min_hz, lim.bandwidth_max_hz),
+        "q_loaded": (lim.q_loaded_min, lim.q_loaded_max),
+    }
     limits = {
-        "inductance": _tolerance(c.inductance_h, a.inductance_tolerance, "H"),
-        "capacitance": _tolerance(design.capacitor_choice.fixed_f, a.capacitor_tolerance, "F"),
+        "inductance": _tolerance(windows["inductance"], a.inductance_tolerance, "H"),
+        "capacitance": _tolerance(windows["capacitance"], a.capacitor_tolerance, "F"),
         "f0": range_text(lim.f_peak_min_hz, lim.f_peak_max_hz, 'Hz', 6),
         "f_low": range_text(lim.f_low_min_hz, lim.f_low_max_hz, 'Hz', 6),
         "f_high": range_text(lim.f_high_min_hz, lim.f_high_max_hz, 'Hz', 6),
@@ -151,18 +162,42 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
         "q_loaded": f"{format_number(lim.q_loaded_min, 4)} to {format_number(lim.q_loaded_max, 4)}",
     }
     tuned = design.capacitor_choice.trimmer_setting_f is not None
-    return tuple(RecordRow(m, expected[m.key], limits.get(m.key, NO_WINDOW),
-                           m.field.replace("measured.", "as_found.")
-                           if tuned and m.key in TUNED_KEYS else None)
-                 for m in MEASUREMENTS)
+    rows = []
+    for m in MEASUREMENTS:
+        window = windows.get(m.key)
+        low, high = window if window else (None, None)
+        rows.append(RecordRow(m, expected[m.key], limits.get(m.key, NO_WINDOW),
+                              m.field.replace("measured.", "as_found.")
+                              if tuned and m.key in TUNED_KEYS else None, low, high))
+    return tuple(rows)
 
 
-def _tolerance(nominal: float, fraction: float | None, unit: str) -> str:
-    """A part's window as the meter reads it: nominal ± tolerance, and the tolerance."""
+PART_WINDOW_DIGITS = 4  # significant figures of a part's window as printed
+
+
+def _part_window(nominal: float, fraction: float | None) -> tuple[float, float] | None:
+    """nominal × (1 ± tolerance), each edge rounded inward to the printed figures, so the
+    window printed and the window graded are the same numbers."""
     if not fraction:
+        return None
+    low, high = nominal * (1 - fraction), nominal * (1 + fraction)
+    return _round_to_figures(low, PART_WINDOW_DIGITS, up=True), \
+        _round_to_figures(high, PART_WINDOW_DIGITS, up=False)
+
+
+def _round_to_figures(value: float, digits: int, up: bool) -> float:
+    """`value` rounded up (or down) to `digits` significant figures."""
+    import math
+    step = 10.0 ** (math.floor(math.log10(abs(value))) - digits + 1)
+    units = value / step
+    return float(f"{(math.ceil(units - 1e-9) if up else math.floor(units + 1e-9)) * step:.{digits}g}")
+
+
+def _tolerance(window: tuple[float, float] | None, fraction: float | None, unit: str) -> str:
+    """A part's window as the meter reads it: nominal ± tolerance, and the tolerance."""
+    if window is None:
         return NO_WINDOW
-    return (f"{range_text(nominal * (1 - fraction), nominal * (1 + fraction), unit)} "
-            f"({tolerance_text(fraction)})")
+    return f"{range_text(*window, unit)} ({tolerance_text(fraction)})"
 
 
 def _hookup_text(design: Design, drive: BenchDrive) -> str:

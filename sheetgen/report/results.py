@@ -15,6 +15,7 @@ from sheetgen.design.records import Design
 from sheetgen.report.advice import rating_advice
 from sheetgen.report.cautions import DEFERRAL, design_cautions
 from sheetgen.report.checks import failed_checks
+from sheetgen.report.procedure import record_rows
 from sheetgen.report.winding import coil_check, winding_steps
 
 RESULTS_FORMAT = "sheetgen.results/1"
@@ -101,7 +102,28 @@ def results_document(design: Design) -> dict:
         "cautions": [{"level": c.level, "code": c.code, "text": c.text}
                      for c in design_cautions(design)],
         "cautions_deferral": DEFERRAL,
+        "test_record": test_record_section(design),
     })
+
+
+def test_record_section(design: Design) -> dict:
+    """What the bench measures and the windows each value of the test record is graded
+    against (`sheetgen grade` reads these, attached to the sheet, and recomputes nothing)."""
+    from sheetgen.engine.bench import bench_drive, detector
+    found = detector(design.circuit, design.resonance)
+    drive = bench_drive(design.circuit, design.resonance, design.stress, design.drive)
+    values = []
+    for row in record_rows(design):
+        m = row.measurement
+        shown = row.expected.split(" ")
+        values.append({
+            "field": m.field, "quantity": m.field.removeprefix("measured."), "unit": m.unit,
+            "display_unit": shown[1] if len(shown) == 2 else m.unit, "label": m.label,
+            "min": row.minimum, "max": row.maximum, "verdict_field": row.verdict_field,
+            "as_found_field": row.as_found_field, "required": row.verdict_field is not None})
+    return {"measurement": {"response": "transmission magnitude, S21 (through the test set-up)",
+                            "detector": found.place, "source_hookup": drive.hookup},
+            "values": values}
 
 
 def _inductor(design: Design) -> dict:

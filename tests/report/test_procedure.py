@@ -195,10 +195,17 @@ def test_an_untrimmed_unit_has_no_as_found_column(tmp_path):
 
 
 def test_part_windows_are_absolute_values_a_meter_reads():
-    """L and C windows are nominal × (1 ± tolerance), shown as values as well as percent."""
-    from sheetgen.quantities import format_quantity
+    """L and C windows are nominal × (1 ± tolerance), shown as values as well as percent,
+    each edge rounded inward to the 4 figures printed: the window graded is the one printed."""
+    import math
     d = design_from_file(TEMPLATES / "demo.yaml", SHARED)
     rows = {row.measurement.key: row for row in procedure(d).record}
     L, tol = d.circuit.inductance_h, d.assessment.inductance_tolerance
-    assert rows["inductance"].limits.startswith(
-        f"{format_quantity(L * (1 - tol), 'H', 4)} to {format_quantity(L * (1 + tol), 'H', 4)}")
+    row = rows["inductance"]
+    low_uh, high_uh = L * (1 - tol) * 1e6, L * (1 + tol) * 1e6  # 2.1... and 2.4... µH
+    assert_close(row.minimum * 1e6, math.ceil(low_uh * 1000 - 1e-9) / 1000, abs=1e-12,
+                 what="lower edge rounded up to 4 figures, µH")
+    assert_close(row.maximum * 1e6, math.floor(high_uh * 1000 + 1e-9) / 1000, abs=1e-12,
+                 what="upper edge rounded down to 4 figures, µH")
+    assert row.limits.startswith(f"{row.minimum * 1e6:.3f} µH to {row.maximum * 1e6:.3f} µH")
+    assert "± 5.00 %" in row.limits
