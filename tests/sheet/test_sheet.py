@@ -120,6 +120,15 @@ def shown(path: str, key: str, value, results: dict) -> str | None:
         if entry["unit"] == "A/m²":
             return format_number(value * 1e-6, 3) + " A/mm²"
         return format_quantity(value, entry["unit"], 3)
+    record = re.fullmatch(r"test_record\.values\[(\d+)\]\.(\w+)", path)
+    if path.startswith("test_record.measurement.") or (record and key not in ("min", "max")):
+        return None  # names and units for machines; the labels wrap in the record's cells
+    if record and key in ("min", "max"):
+        entry = results["test_record"]["values"][int(record.group(1))]
+        if not entry["unit"]:
+            return format_number(value, 4)
+        digits = 6 if entry["unit"] == "Hz" and entry["quantity"] != "bandwidth_hz" else 4
+        return format_quantity(value, entry["unit"], digits)
     if path == "inductor.core_loss_resistance_ohm" and results["inductor"]["form"] != "toroid":
         return None  # an air-core coil has no core loss to print
     if key == "ae_m2":
