@@ -1,0 +1,31 @@
+"""The content hash that ties a sheet to the job and results attached to it.
+
+`sheetgen build` records it in the PDF's metadata; whoever reads a sheet back recomputes it
+from the attachments and refuses the sheet when the two differ. The sheet writer and the
+sheet reader both call `content_sha256`, so the byte sequence is defined here only.
+"""
+
+from __future__ import annotations
+
+import hashlib
+
+FORMAT = "sheetgen.content-sha256/1"
+
+
+def content_sha256(job_bytes: bytes, results_bytes: bytes) -> str:
+    """SHA-256 (FIPS 180-4) of the attachments, as 64 lowercase hexadecimal digits.
+
+    The hashed byte sequence is
+
+        len(job) ‖ job ‖ len(results) ‖ results
+
+    where `job` is exactly the bytes attached as job.yaml, `results` exactly the bytes
+    attached as results.json, and each length is an unsigned 64-bit big-endian integer
+    (8 bytes) counting the bytes that follow it. The lengths keep the boundary between
+    the two files from moving: no other pair of files gives the same sequence.
+    """
+    digest = hashlib.sha256()
+    for part in (job_bytes, results_bytes):
+        digest.update(len(part).to_bytes(8, "big"))
+        digest.update(part)
+    return digest.hexdigest()
