@@ -1,15 +1,22 @@
 """The content hash that ties a sheet to the job and results attached to it.
 
 `sheetgen build` records it in the PDF's metadata; whoever reads a sheet back recomputes it
-from the attachments and refuses the sheet when the two differ. The sheet writer and the
-sheet reader both call `content_sha256`, so the byte sequence is defined here only.
+from the attachments and refuses the sheet when the two differ. The sheet writer
+(sheet/layout.py) and the sheet reader (bench/sheet_file.py) both use this module, so the
+byte sequence and the places it is recorded are defined here only.
 """
 
 from __future__ import annotations
 
 import hashlib
 
-FORMAT = "sheetgen.content-sha256/1"
+# Where a sheet records it (and its identity): keys of the PDF document information
+# dictionary, and the namespace of the same properties in the XMP packet.
+INFO_CONTENT_SHA256 = "SheetgenContentSHA256"
+INFO_SHEET_ID = "SheetgenSheetId"
+INFO_REVISION = "SheetgenRevision"
+INFO_TOOL_VERSION = "SheetgenToolVersion"
+XMP_NAMESPACE = "https://sheetgen.invalid/ns/sheet/1.0/"  # .invalid: reserved, RFC 2606
 
 
 def content_sha256(job_bytes: bytes, results_bytes: bytes) -> str:

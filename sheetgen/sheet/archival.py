@@ -21,10 +21,11 @@ from dataclasses import dataclass
 from functools import cache
 from xml.sax.saxutils import escape
 
+from ..content_hash import XMP_NAMESPACE
+
 PDFA_PART = 3
 PDFA_CONFORMANCE = "B"
 OUTPUT_CONDITION = "sRGB IEC61966-2.1"
-XMP_NAMESPACE = "https://sheetgen.invalid/ns/sheet/1.0/"  # .invalid: reserved, RFC 2606
 XMP_PREFIX = "sheetgen"
 # Our XMP properties and what each means (they go into the PDF/A extension schema too).
 XMP_PROPERTIES = (

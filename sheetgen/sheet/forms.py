@@ -77,13 +77,32 @@ def _field_font_dictionary(doc):
         "FontBBox": PDFArray(list(font.bbox)), "ItalicAngle": font.italic_angle,
         "Ascent": font.ascent, "Descent": font.descent, "CapHeight": font.cap_height,
         "StemV": font.stem_v, "FontFile2": doc.Reference(program)})
+    to_unicode = PDFStream(PDFDictionary({}), _to_unicode_cmap(font.base_font))
     dictionary = PDFDictionary({
         "Type": PDFName("Font"), "Subtype": PDFName("TrueType"),
+        "ToUnicode": doc.Reference(to_unicode),
         "BaseFont": PDFName(font.base_font), "FirstChar": fonts.FIELD_FIRST_CHAR,
         "LastChar": 255, "Widths": PDFArray(list(font.widths)),
         "Encoding": PDFName("WinAnsiEncoding"), "FontDescriptor": doc.Reference(descriptor)})
     doc._sheetgen_field_font = dictionary
     return dictionary
+
+
+def _to_unicode_cmap(name: str) -> bytes:
+    """A ToUnicode CMap (ISO 32000-1, 9.10.3) for the WinAnsi codes the field font has."""
+    pairs = [(code, fonts.winansi_unicode(code)) for code in range(fonts.FIELD_FIRST_CHAR, 256)]
+    pairs = [(code, u) for code, u in pairs if u is not None]
+    blocks = []
+    for start in range(0, len(pairs), 100):  # at most 100 entries per beginbfchar
+        chunk = pairs[start:start + 100]
+        blocks.append(f"{len(chunk)} beginbfchar\n" + "".join(
+            f"<{code:02X}> <{u:04X}>\n" for code, u in chunk) + "endbfchar\n")
+    return ("/CIDInit /ProcSet findresource begin\n12 dict begin\nbegincmap\n"
+            "/CIDSystemInfo << /Registry (Adobe) /Ordering (UCS) /Supplement 0 >> def\n"
+            f"/CMapName /{name.replace('+', '-')}-UCS def\n/CMapType 2 def\n"
+            "1 begincodespacerange\n<00> <FF>\nendcodespacerange\n" + "".join(blocks)
+            + "endcmap\nCMapName currentdict /CMap defineresource pop\nend\nend\n"
+            ).encode("ascii")
 
 
 class TextField(Flowable):

@@ -29,7 +29,8 @@ from reportlab.pdfgen.canvas import Canvas
 from reportlab.platypus import BaseDocTemplate, Frame, PageTemplate, Spacer
 
 from .. import __version__
-from ..content_hash import content_sha256
+from ..content_hash import (INFO_CONTENT_SHA256, INFO_REVISION, INFO_SHEET_ID,
+                            INFO_TOOL_VERSION, content_sha256)
 from ..design import Design
 from . import archival, fonts
 from .rows import headline
@@ -46,11 +47,6 @@ ATTACHMENTS = (("job.yaml", "application/x-yaml", "the job file this sheet was m
                ("results.json", "application/json", "the computed results (sheetgen.results/1)"))
 # How each attachment relates to the sheet (ISO 32000-2, 14.13.2; required by PDF/A-3).
 AF_RELATIONSHIP = {"job.yaml": "Source", "results.json": "Data"}
-# Our keys in the document information dictionary (the XMP carries the same values).
-INFO_CONTENT_SHA256 = "SheetgenContentSHA256"
-INFO_SHEET_ID = "SheetgenSheetId"
-INFO_REVISION = "SheetgenRevision"
-INFO_TOOL_VERSION = "SheetgenToolVersion"
 
 
 # --- identity on every page ---------------------------------------------------------------

@@ -1,0 +1,1 @@
+"""Bench: grading filled test records and measured sweeps against a sheet's archived windows."""
