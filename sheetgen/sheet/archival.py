@@ -7,9 +7,9 @@ kind, each named in an /AF array with its /AFRelationship. The sheet therefore d
 PDF/A-3, conformance level B (`PDFA_PART`, `PDFA_CONFORMANCE`).
 
 The sRGB profile is computed here (`srgb_icc_profile`) from the published definition of
-sRGB (IEC 61966-2-1): no installed sheetgen dependency ships one, and the one littleCMS
-makes through Pillow is stamped with the current time, which would make the sheet's
-bytes depend on the clock.
+sRGB (IEC 61966-2-1): none of sheetgen's dependencies ships one (pikepdf does, but the
+sheet writer does not depend on pikepdf), and the one littleCMS makes through Pillow is
+stamped with the current time, which would make the sheet's bytes depend on the clock.
 """
 
 from __future__ import annotations
@@ -32,8 +32,8 @@ XMP_PROPERTIES = (
     ("SheetId", "the sheet's identifier (sheet.id in the job file)"),
     ("Revision", "the sheet's revision (sheet.revision in the job file)"),
     ("ToolVersion", "the sheetgen version that built the sheet"),
-    ("ContentSHA256", "SHA-256 over the attached job.yaml and results.json, as "
-                      "sheetgen.content_hash defines it (64 lowercase hexadecimal digits)"),
+    ("ContentSHA256", ("SHA-256 over the attached job.yaml and results.json, as "
+                       "sheetgen.content_hash defines it (64 lowercase hexadecimal digits)")),
 )
 
 # --- sRGB (IEC 61966-2-1) as an ICC version 2 display profile -------------------------------

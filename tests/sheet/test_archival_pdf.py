@@ -12,6 +12,7 @@ from __future__ import annotations
 import datetime as dt
 import hashlib
 import io
+import json
 import shutil
 import struct
 import subprocess
@@ -102,7 +103,7 @@ def test_every_font_is_embedded(built, name):
         assert not missing, missing
         # the fields type in the embedded font: the form's and each field's /DA name it
         form = pdf.Root.AcroForm
-        names = {str(k)[1:] for k in form.DR.Font.keys()}
+        names = {str(k)[1:] for k in form.DR.Font}
         assert str(form.DA).split()[0][1:] in names
         for field in form.Fields:
             if field.get("/FT") == "/Tx":
@@ -116,13 +117,13 @@ def test_every_font_is_embedded(built, name):
 
 def _pdf_date(text: str) -> dt.datetime:
     """A PDF date (ISO 32000-1, 7.9.4) in UTC ('Z' or +HH'mm')."""
-    text = str(text)[2:] if str(text).startswith("D:") else str(text)
+    text = str(text).removeprefix("D:")
     moment = dt.datetime.strptime(text[:14], "%Y%m%d%H%M%S")
     zone = text[14:].replace("'", "")
     if zone and zone[0] in "+-":
         sign = 1 if zone[0] == "+" else -1
         moment -= sign * dt.timedelta(hours=int(zone[1:3]), minutes=int(zone[3:5] or 0))
-    return moment.replace(tzinfo=dt.timezone.utc)
+    return moment.replace(tzinfo=dt.UTC)
 
 
 def test_xmp_identifies_pdfa_and_agrees_with_the_document_information(built):
@@ -140,13 +141,13 @@ def test_xmp_identifies_pdfa_and_agrees_with_the_document_information(built):
         assert meta["xmp:CreatorTool"] == str(info.Creator)
         for xmp_key, info_key in (("xmp:CreateDate", "/CreationDate"),
                                   ("xmp:ModifyDate", "/ModDate")):
-            assert dt.datetime.fromisoformat(meta[xmp_key].replace("Z", "+00:00")) == \
+            assert dt.datetime.fromisoformat(meta[xmp_key]) == \
                 _pdf_date(info[info_key]), xmp_key
         assert _pdf_date(info.CreationDate).date().isoformat() == "2026-12-01"  # demo's date
         ns = "{https://sheetgen.invalid/ns/sheet/1.0/}"
         recorded = str(info["/SheetgenContentSHA256"])
         assert meta[ns + "ContentSHA256"] == recorded
-        sheet = __import__("json").loads(results.read_text(encoding="utf-8"))["sheet"]
+        sheet = json.loads(results.read_text(encoding="utf-8"))["sheet"]
         assert meta[ns + "SheetId"] == sheet["id"] == str(info["/SheetgenSheetId"])
         assert meta[ns + "Revision"] == sheet["revision"]
         # FIPS 180-4 via hashlib over the documented sequence (sheetgen/content_hash.py):
@@ -207,7 +208,7 @@ def test_output_intent_carries_an_srgb_icc_profile(built):
 @pytest.mark.parametrize("name", JOBS)
 def test_qpdf_check_passes(built, name):
     done = subprocess.run([_need("qpdf"), "--check", str(built[name][0])],
-                          capture_output=True, text=True)
+                          capture_output=True, text=True, check=False)
     assert done.returncode == 0, done.stdout + done.stderr
     assert "No syntax or stream encoding errors" in done.stdout
 
@@ -229,7 +230,7 @@ def test_pdfa_rule_checker_finds_no_violation_but_our_own_xmp_schema(built):
     """pikepdf's allow-list checker (veraPDF's rules) for PDF/A-3b. It does not follow
     forms, attachments or XMP extension schemas (it says so); every other rule passes."""
     try:
-        import pikepdf.pdfa as pdfa
+        from pikepdf import pdfa
     except ImportError as error:
         pytest.skip(f"pikepdf.pdfa is not available: {error}")
     report = pdfa.validate_written(str(built["demo"][0]), "3b")
