@@ -23,7 +23,7 @@ THIRD_PARTY = {  # beyond the standard library; None = anything
     "inputs": {"numpy", "yaml", "pydantic", "pydantic_core", "quantiphy"},
     "design": {"numpy"},
     "report": {"numpy"},
-    "sheet": {"numpy", "reportlab", "matplotlib", "PIL"},
+    "sheet": {"numpy", "reportlab", "matplotlib", "PIL", "fontTools"},
     "bench": {"numpy", "skrf", "pypdf", "pikepdf", "reportlab", "matplotlib"},
 }
 FORBIDDEN_ROOMS = {"sheet": {"engine"}}  # the sheet draws what the design gives

@@ -5,6 +5,11 @@ page carries the identity and signature block and "page x of y" (the total is a 
 XObject filled in when the document closes, so one pass suffices). The
 output is byte-identical for the same inputs: invariant mode, a content-derived /ID, and a
 creation date taken from the sheet's own date.
+
+The sheet is an archival record (archival.py: PDF/A-3b, XMP, sRGB output intent): every
+font is embedded, the page content starts in DejaVu rather than reportlab's default
+Helvetica, and the content hash of the attachments (sheetgen.report.content_hash) is recorded in
+the XMP and in the document information as /SheetgenContentSHA256.
 """
 
 from __future__ import annotations
@@ -12,6 +17,7 @@ from __future__ import annotations
 import datetime as _dt
 import hashlib
 import io
+from contextlib import contextmanager
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -25,9 +31,16 @@ from reportlab.platypus import BaseDocTemplate, Frame, PageTemplate, Spacer
 from sheetgen import __version__
 from sheetgen.design.records import Design
 from sheetgen.inputs.style import HouseStyle, check_logo_inside, default_style
+from sheetgen.report.content_hash import (
+    INFO_CONTENT_SHA256,
+    INFO_REVISION,
+    INFO_SHEET_ID,
+    INFO_TOOL_VERSION,
+    content_sha256,
+)
 from sheetgen.report.parts import headline
 from sheetgen.report.procedure import procedure
-from sheetgen.sheet import fonts
+from sheetgen.sheet import archival, fonts
 from sheetgen.sheet.sections import SECTIONS, make_kit, para, with_heading
 
 PAGE_SIZES = {"A4": A4, "Letter": letter}
@@ -38,6 +51,8 @@ GAP = 8.0
 PAGE_TOTAL_FORM = "sheetgenPageTotal"
 ATTACHMENTS = (("job.yaml", "application/x-yaml", "the job file this sheet was made from"),
                ("results.json", "application/json", "the computed results (sheetgen.results/1)"))
+# How each attachment relates to the sheet (ISO 32000-2, 14.13.2; required by PDF/A-3).
+AF_RELATIONSHIP = {"job.yaml": "Source", "results.json": "Data"}
 
 
 # --- identity on every page ---------------------------------------------------------------
@@ -191,9 +206,21 @@ def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size) -> None:
     canvas.restoreState()
 
 
+@dataclass(frozen=True)
+class _Archive:
+    """What the archival metadata records besides the document information's own strings."""
+
+    moment: _dt.datetime
+    sheet_id: str
+    revision: str
+    content_sha256: str
+
+
 def _canvas_class(attachments: list[tuple[str, bytes, str, str]], document_id: bytes,
-                  pdf_date: str):
-    """A Canvas that defines the page-total form, sets the /ID and embeds the files on save."""
+                  archive: _Archive):
+    """A Canvas that defines the page-total form, sets the /ID, embeds the files and writes
+    the archival metadata on save."""
+    pdf_date = archival.pdf_date(archive.moment)
 
     class SheetCanvas(Canvas):
         def __init__(self, *args, **kwargs):
@@ -206,7 +233,16 @@ def _canvas_class(attachments: list[tuple[str, bytes, str, str]], document_id: b
             self.setFont(fonts.BOLD, 9)
             self.drawString(0, 0, str(total))
             self.endForm()
-            _embed_files(self._doc, attachments)
+            specs = _embed_files(self._doc, attachments, pdf_date)
+            info = self._doc.info
+            own = {INFO_SHEET_ID: archive.sheet_id, INFO_REVISION: archive.revision,
+                   INFO_TOOL_VERSION: __version__, INFO_CONTENT_SHA256: archive.content_sha256}
+            self._doc.info = _info_with(info, own)
+            archival.add_archival_objects(self._doc, archival.Record(
+                title=info.title, author=info.author, subject=info.subject,
+                keywords=info.keywords, creator_tool=info.creator, producer=info.producer,
+                date=archive.moment, sheet_id=archive.sheet_id, revision=archive.revision,
+                tool_version=__version__, content_sha256=archive.content_sha256), specs)
             from reportlab.pdfbase.pdfdoc import DummyDoc, PDFText
             hexed = PDFText(document_id, enc="raw").format(DummyDoc())
             self._doc._ID = b"\n[" + hexed + hexed + b"]\n"
@@ -215,32 +251,73 @@ def _canvas_class(attachments: list[tuple[str, bytes, str, str]], document_id: b
     return SheetCanvas
 
 
-def _embed_files(doc, attachments) -> None:
-    """Embedded files (PDF 1.7, 7.11.4) in the catalog's /Names /EmbeddedFiles tree."""
+def _embed_files(doc, attachments, pdf_date: str) -> list:
+    """Embedded files (PDF 1.7, 7.11.4) in the catalog's /Names /EmbeddedFiles tree.
+
+    Each file specification says how the file relates to the sheet (/AFRelationship) and
+    is returned, for the catalog's /AF array (associated files, PDF/A-3)."""
     from reportlab.pdfbase.pdfdoc import PDFArray, PDFDictionary, PDFName, PDFStream, PDFString
-    names = []
+    names, specs = [], []
     for name, data, mime, description in sorted(attachments):
         stream = PDFStream(PDFDictionary({
             "Type": PDFName("EmbeddedFile"),
             "Subtype": PDFName(mime.replace("/", "#2F")),
-            "Params": PDFDictionary({"Size": len(data),
+            "Params": PDFDictionary({"Size": len(data), "ModDate": PDFString(pdf_date),
                                      "CheckSum": PDFString(hashlib.md5(data).digest(),
                                                            enc="raw")}),
         }), data)
         spec = PDFDictionary({"Type": PDFName("Filespec"), "F": PDFString(name),
                               "UF": PDFString(name), "Desc": PDFString(description),
+                              "AFRelationship": PDFName(AF_RELATIONSHIP[name]),
                               "EF": PDFDictionary({"F": doc.Reference(stream)})})
-        names += [PDFString(name), doc.Reference(spec)]
+        specs.append(doc.Reference(spec))
+        names += [PDFString(name), specs[-1]]
     doc.Catalog.Names = PDFDictionary({"EmbeddedFiles": PDFDictionary({"Names": PDFArray(names)})})
+    return specs
 
 
-def _pdf_date(text: str) -> str:
-    """The sheet's date as a PDF date when it is an ISO date, else a fixed date."""
+def _info_with(info, own: dict[str, str]):
+    """A copy of reportlab's document information that also writes our keys `own`."""
+    from reportlab.pdfbase.pdfdoc import PDFDate, PDFDictionary, PDFInfo, PDFName, PDFString
+
+    class SheetInfo(PDFInfo):
+        def format(self, document):
+            date = PDFDate(ts=document._timeStamp, dateFormatter=self._dateFormatter)
+            entries = {"Title": PDFString(self.title), "Author": PDFString(self.author),
+                       "CreationDate": date, "ModDate": date,
+                       "Producer": PDFString(self.producer), "Creator": PDFString(self.creator),
+                       "Subject": PDFString(self.subject), "Keywords": PDFString(self.keywords),
+                       "Trapped": PDFName(self.trapped)}
+            entries.update((key, PDFString(value)) for key, value in own.items())
+            return PDFDictionary(entries).format(document)
+
+    copy = SheetInfo()
+    copy.__dict__.update(info.__dict__)
+    return copy
+
+
+def _sheet_moment(text: str) -> _dt.datetime:
+    """The sheet's date (midnight UTC) when it is an ISO date, else a fixed date."""
     try:
         day = _dt.date.fromisoformat(text.strip())
     except ValueError:
         day = _dt.date(2000, 1, 1)
-    return f"D:{day:%Y%m%d}000000Z"
+    return _dt.datetime(day.year, day.month, day.day)
+
+
+@contextmanager
+def _reportlab_defaults_in_dejavu():
+    """reportlab's table cells and drawings select its default font (Helvetica, never
+    embedded) before they draw, even when all their text is in DejaVu; while the sheet is
+    made, that default is DejaVu Sans, so no page names a font that is not embedded."""
+    from reportlab.graphics import shapes
+    from reportlab.platypus import tables
+    saved = tables.CellStyle.fontname, shapes.STATE_DEFAULTS["fontName"]
+    tables.CellStyle.fontname = shapes.STATE_DEFAULTS["fontName"] = fonts.REGULAR
+    try:
+        yield
+    finally:
+        tables.CellStyle.fontname, shapes.STATE_DEFAULTS["fontName"] = saved
 
 
 def render_sheet(design: Design, job_text: str, results_text: str, job_dir: Path | None = None,
@@ -251,6 +328,12 @@ def render_sheet(design: Design, job_text: str, results_text: str, job_dir: Path
     the job's folder, inside which a style's logo must lie.
     """
     fonts.register_fonts()
+    with _reportlab_defaults_in_dejavu():
+        return _render(design, job_text, results_text, job_dir, style)
+
+
+def _render(design: Design, job_text: str, results_text: str, job_dir: Path | None,
+            style: HouseStyle | None) -> bytes:
     style = style or default_style()
     check_logo_inside(style, job_dir)
     page_size = PAGE_SIZES[style.page_size]
@@ -276,6 +359,8 @@ def render_sheet(design: Design, job_text: str, results_text: str, job_dir: Path
     job_bytes, results_bytes = job_text.encode("utf-8"), results_text.encode("utf-8")
     attachments = [(name, data, mime, description) for (name, mime, description), data
                    in zip(ATTACHMENTS, (job_bytes, results_bytes))]
+    archive = _Archive(_sheet_moment(sheet.date), sheet.id, sheet.revision,
+                       content_sha256(job_bytes, results_bytes))
     digest = hashlib.sha256()
     for part in (__version__, repr(style), job_text, results_text):
         digest.update(part.encode("utf-8") + b"\0")
@@ -286,11 +371,10 @@ def render_sheet(design: Design, job_text: str, results_text: str, job_dir: Path
         subject=f"Build-and-test sheet: {headline(design)}",
         keywords=", ".join(["tuned circuit", design.circuit.topology, "build-and-test sheet",
                             sheet.id, f"rev {sheet.revision}"]),
-        creator=f"sheetgen {__version__}", lang="en",
+        creator=f"sheetgen {__version__}", lang="en", initialFontName=fonts.REGULAR,
         leftMargin=MARGIN, rightMargin=MARGIN, topMargin=MARGIN, bottomMargin=MARGIN)
     doc.addPageTemplates([PageTemplate(
         "sheet", [frame], pagesize=page_size,
         onPage=lambda canvas, _doc: _draw_page_frame(canvas, identity, page_size))])
-    doc.build(story, canvasmaker=_canvas_class(attachments, digest.digest()[:16],
-                                               _pdf_date(sheet.date)))
+    doc.build(story, canvasmaker=_canvas_class(attachments, digest.digest()[:16], archive))
     return buffer.getvalue()

@@ -1,0 +1,153 @@
+"""Reading a sheet back: its attached job and results, the recorded content hash, the form.
+
+`read_sheet` accepts only a sheet that `sheetgen build` wrote and whose attachments still
+match the content hash recorded at build (sheetgen.report.content_hash); anything else is an
+`InputError` naming the file. Form values are the strings a PDF viewer saved, untouched.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+from dataclasses import dataclass
+from pathlib import Path
+
+from sheetgen.errors import InputError, Problem
+from sheetgen.report import content_hash
+from sheetgen.report.content_hash import XMP_NAMESPACE, content_sha256
+
+JOB_ATTACHMENT = "job.yaml"
+RESULTS_ATTACHMENT = "results.json"
+INFO_CONTENT_SHA256 = "/" + content_hash.INFO_CONTENT_SHA256
+INFO_SHEET_ID = "/" + content_hash.INFO_SHEET_ID
+INFO_REVISION = "/" + content_hash.INFO_REVISION
+INFO_TOOL_VERSION = "/" + content_hash.INFO_TOOL_VERSION
+EXPECTED = "a build-and-test sheet PDF written by `sheetgen build`"
+
+
+@dataclass(frozen=True)
+class SheetFile:
+    """A sheet read back. `fields` maps each form field's name to what was typed in it
+    (text fields) or its state name (check boxes: "Yes" or "Off"); "" when never filled."""
+
+    path: str
+    job_text: str
+    results: dict
+    content_sha256_recorded: str
+    content_sha256_computed: str
+    fields: dict[str, str]
+    sheet_id: str
+    revision: str
+    tool_version: str
+
+
+def _fail(path: str, field: str, message: str, expected: str = EXPECTED) -> InputError:
+    return InputError([Problem(path, 1, 1, field, message, expected)])
+
+
+def _xmp_values(reader) -> dict[str, str]:
+    """Our properties in the sheet's XMP packet (empty when there is none)."""
+    import xml.etree.ElementTree as ET
+    try:
+        stream = reader.trailer["/Root"].get("/Metadata")
+        if stream is None:
+            return {}
+        root = ET.fromstring(stream.get_object().get_data())
+    except Exception:  # noqa: BLE001 - any unreadable packet counts as absent
+        return {}
+    values = {}
+    for element in root.iter():
+        if isinstance(element.tag, str) and element.tag.startswith("{" + XMP_NAMESPACE):
+            values[element.tag[len(XMP_NAMESPACE) + 1:]] = (element.text or "").strip()
+    return values
+
+
+def _attachment(reader, path: str, name: str) -> tuple[bytes, bytes | None]:
+    """The attached file's bytes and the MD5 checksum its /Params recorded (if any)."""
+    names = reader.trailer["/Root"].get("/Names", {}).get("/EmbeddedFiles", {}).get("/Names", [])
+    for index in range(0, len(names) - 1, 2):
+        if str(names[index]) == name:
+            stream = names[index + 1].get_object()["/EF"]["/F"].get_object()
+            params = stream.get("/Params", {})
+            checksum = params.get("/CheckSum")
+            return stream.get_data(), (bytes(checksum.original_bytes)
+                                       if checksum is not None else None)
+    raise _fail(path, f"attachments.{name}",
+                f"the sheet has no attached {name}; a sheet made by `sheetgen build` carries "
+                f"{JOB_ATTACHMENT} and {RESULTS_ATTACHMENT}")
+
+
+def _field_values(reader) -> dict[str, str]:
+    values = {}
+    for name, field in (reader.get_fields() or {}).items():
+        value = field.get("/V")
+        if value is None:
+            values[name] = "Off" if field.get("/FT") == "/Btn" else ""
+        elif field.get("/FT") == "/Btn":
+            values[name] = str(value).lstrip("/")
+        else:
+            values[name] = str(value)
+    return values
+
+
+def read_sheet(path: str | Path) -> SheetFile:
+    """Read the sheet at `path`; raise InputError unless it is an intact sheetgen sheet."""
+    shown = str(path)
+    try:
+        data = Path(path).read_bytes()
+    except OSError as error:
+        raise _fail(shown, "", f"cannot be read ({error.strerror or error})") from None
+    if b"%PDF-" not in data[:1024]:
+        raise _fail(shown, "", "is not a PDF file (no %PDF- header)")
+    import io
+
+    from pypdf import PdfReader
+    try:
+        reader = PdfReader(io.BytesIO(data))
+        info = reader.metadata or {}
+        xmp = _xmp_values(reader)
+    except Exception as error:  # noqa: BLE001 - pypdf raises many kinds on a damaged file
+        raise _fail(shown, "", f"cannot be read as a PDF ({error})") from None
+    recorded = str(info.get(INFO_CONTENT_SHA256, "")) or xmp.get("ContentSHA256", "")
+    if not recorded:
+        raise _fail(shown, "", "is a PDF but not a sheetgen sheet (its metadata records no "
+                               "sheetgen content hash)")
+    if xmp.get("ContentSHA256", recorded) != recorded:
+        raise _fail(shown, "content_sha256", "the content hash in the XMP metadata differs "
+                    "from the one in the document information: the metadata was edited",
+                    "the two to agree, as `sheetgen build` writes them")
+    try:
+        job, job_checksum = _attachment(reader, shown, JOB_ATTACHMENT)
+        results, results_checksum = _attachment(reader, shown, RESULTS_ATTACHMENT)
+        fields = _field_values(reader)
+    except InputError:
+        raise
+    except Exception as error:  # noqa: BLE001
+        raise _fail(shown, "", f"cannot be read as a PDF ({error})") from None
+    computed = content_sha256(job, results)
+    if computed != recorded:
+        changed = [label for label, blob, checksum in (("job file", job, job_checksum),
+                                                       ("results", results, results_checksum))
+                   if checksum is not None and hashlib.md5(blob).digest() != checksum]
+        what = (" and ".join(f"the attached {label}" for label in changed)
+                if changed else "the attached job file or results")
+        raise _fail(shown, "content_sha256",
+                    f"{what} {'was' if len(changed) == 1 else 'were'} changed after the build "
+                    f"(content hash differs: recorded {recorded}, computed {computed})",
+                    "the attachments exactly as `sheetgen build` wrote them")
+    try:
+        job_text = job.decode("utf-8")
+        results_data = json.loads(results.decode("utf-8"))
+    except (UnicodeDecodeError, json.JSONDecodeError) as error:
+        raise _fail(shown, f"attachments.{RESULTS_ATTACHMENT}",
+                    f"the attachments cannot be read ({error})") from None
+    sheet = results_data.get("sheet", {}) if isinstance(results_data, dict) else {}
+    return SheetFile(
+        path=shown, job_text=job_text, results=results_data,
+        content_sha256_recorded=recorded, content_sha256_computed=computed, fields=fields,
+        sheet_id=str(info.get(INFO_SHEET_ID, "")) or xmp.get("SheetId", "")
+        or str(sheet.get("id", "")),
+        revision=str(info.get(INFO_REVISION, "")) or xmp.get("Revision", "")
+        or str(sheet.get("revision", "")),
+        tool_version=str(info.get(INFO_TOOL_VERSION, "")) or xmp.get("ToolVersion", "")
+        or str(results_data.get("tool_version", "") if isinstance(results_data, dict) else ""))
