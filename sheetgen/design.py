@@ -13,7 +13,7 @@ import numpy as np
 
 from .engine import resonance as rz
 from .engine.standard_values import StandardPair, best_parallel_pair, nearest_standard
-from .assessment import Assessment, UnknownAcceptance, assess
+from .assessment import SERIES_TOLERANCE, Assessment, UnknownAcceptance, assess
 from .designators import Designators, designators
 from .engine.stress import Drive, DriveError, Stress, part_stress
 from .library import PartsLibrary
@@ -307,7 +307,9 @@ def _capacitor_choice(job: Job, required_c: float) -> CapacitorChoice:
     series = job.capacitor.preferred_series
     trimmer = job.capacitor.trimmer
     nearest = nearest_standard(required_c, series)
-    pair = best_parallel_pair(required_c, series)
+    tolerance = (job.capacitor.tolerance if job.capacitor.tolerance is not None
+                 else SERIES_TOLERANCE[series])
+    pair = best_parallel_pair(required_c, series, tolerance)
     if job.capacitor.capacitance is not None:
         return CapacitorChoice(required_c, series, nearest, pair, required_c, None, None,
                                required_c, False)
@@ -319,7 +321,7 @@ def _capacitor_choice(job: Job, required_c: float) -> CapacitorChoice:
         raise DesignError("capacitor.trimmer", f"the trimmer's mid-range ({middle:.4g} F) "
                           f"exceeds the whole capacitance needed ({required_c:.4g} F); "
                           "choose a smaller trimmer")
-    fixed = best_parallel_pair(required_c - middle, series)
+    fixed = best_parallel_pair(required_c - middle, series, tolerance)
     setting = required_c - fixed.total
     in_range = trimmer.minimum <= setting <= trimmer.maximum
     clamped = min(max(setting, trimmer.minimum), trimmer.maximum)
