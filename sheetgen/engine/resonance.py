@@ -22,8 +22,12 @@ import numpy as np
 
 Topology = Literal["series", "parallel"]
 
-# Search bracket for the response maximum and the half-power points, in ln(f/f0).
+# Search bracket for the response maximum, in ln(f/f0); the half-power points are looked
+# for from there outwards, the bracket's span doubled (in ln f) up to _EXPANSIONS times,
+# i.e. as far as f0·10^±12 (a Q of about 1e-12).
 _BRACKET_LN = math.log(50.0)
+_EXPANSIONS = 3
+_FARTHEST_LN = 12.0 * math.log(10.0)
 _MAX_ITERATIONS = 200
 _TOLERANCE_LN = 1e-14
 
@@ -187,6 +191,20 @@ def _safe_newton(function, low, high, guess):
     return x
 
 
+def _outer_edge(excess, u_peak, edge):
+    """The bracket end beyond a half-power point: `edge` (ln f/f0, on one side of the peak)
+    with its span doubled, at most _EXPANSIONS times and to ±_FARTHEST_LN, for the
+    elements where |D|² has not yet passed the half-power target there."""
+    edge = np.asarray(edge, dtype=float)
+    for _ in range(_EXPANSIONS):
+        short = ~(excess(edge)[0] > 0)
+        if not np.any(short):
+            break
+        wider = np.clip(2.0 * edge, -_FARTHEST_LN, _FARTHEST_LN)
+        edge = np.where(short, wider, edge)
+    return edge
+
+
 @dataclass(frozen=True)
 class ResponseFeatures:
     """Peak and half-power frequencies of the response, arrays, NaN where absent."""
@@ -201,8 +219,10 @@ def response_features(circuit: Circuit) -> ResponseFeatures:
     """Maximum of |response| and its half-power points, from the exact complex response.
 
     The maximum of 1/|D| is where d|D|²/dω = 2 Re(D* · dD/dω) changes sign; the half-power
-    points are where |D|² = 2 |D(ω_peak)|². Both are bracketed within ln(f/f0) = ±ln 50 and
-    found by safeguarded Newton iteration, element by element when the values are arrays.
+    points are where |D|² = 2 |D(ω_peak)|². The peak is bracketed within ln(f/f0) = ±ln 50,
+    each half-power point by widening that bracket geometrically until |D|² exceeds the
+    target there (to f0·10^±12 at most); both are found by safeguarded Newton iteration,
+    element by element when the values are arrays.
     """
     f0 = np.asarray(resonant_frequency_hz(circuit.inductance_h, circuit.capacitance_f),
                     dtype=float)
@@ -225,7 +245,7 @@ def response_features(circuit: Circuit) -> ResponseFeatures:
     curvature = 2.0 * omega_peak * slope(u_peak)[1]
     with np.errstate(divide="ignore", invalid="ignore"):
         offset = np.sqrt(np.abs(target) / np.where(curvature > 0, curvature, np.inf))
-    offset = np.clip(np.nan_to_num(offset, nan=0.1), 1e-9, _BRACKET_LN)
+    offset = np.clip(np.nan_to_num(offset, nan=0.1), 1e-9, _FARTHEST_LN)
 
     def excess(u):
         """|D|² − 2|D_p|² and its derivative in u, 2ω·Re(D* D')."""
@@ -233,10 +253,14 @@ def response_features(circuit: Circuit) -> ResponseFeatures:
         d, d1, _ = _response_denominator(circuit, omega)
         return np.abs(d) ** 2 - target, 2.0 * omega * np.real(np.conj(d) * d1)
 
-    has_low = excess(-edge)[0] > 0
-    has_high = excess(edge)[0] > 0
-    u_low = _safe_newton(excess, -edge, u_peak, np.maximum(u_peak - offset, -edge * 0.999))
-    u_high = _safe_newton(excess, u_peak, edge, np.minimum(u_peak + offset, edge * 0.999))
+    low_edge = _outer_edge(excess, u_peak, -edge)
+    high_edge = _outer_edge(excess, u_peak, edge)
+    has_low = excess(low_edge)[0] > 0
+    has_high = excess(high_edge)[0] > 0
+    u_low = _safe_newton(excess, low_edge, u_peak,
+                         np.maximum(u_peak - offset, u_peak + 0.999 * (low_edge - u_peak)))
+    u_high = _safe_newton(excess, u_peak, high_edge,
+                          np.minimum(u_peak + offset, u_peak + 0.999 * (high_edge - u_peak)))
     nan = np.nan
     return ResponseFeatures(
         f0_hz=f0,
