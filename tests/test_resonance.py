@@ -193,3 +193,26 @@ def test_sweep_is_zero_db_at_the_peak_and_minus_3_at_the_edges():
     for edge in (0, 2):
         assert_close(sweep.response_db[edge], -10 * math.log10(2), abs=1e-7, what="edge")
 
+
+@pytest.mark.parametrize("q, share_l", [(2.0, 0.5), (2.0, 0.8), (5.0, 0.3), (100.0, 0.5)])
+def test_dynamic_resistance_is_the_tank_impedance_at_zero_phase(q, share_l):
+    """Dynamic resistance: |Z| of the tank where its phase is zero. Reference: the branch
+    impedances written out here, Z = 1/(1/(rL + jωL) + 1/(rC + 1/(jωC))), numpy, its zero of
+    Im Z found by brentq. At Q = 2 with both losses the textbook X0²/(rL + rC) (Hughes) is
+    several per cent off; at Q = 100 it agrees to ~1/Q²."""
+    L, C = 1e-6, 25.33e-9  # invented, f0 ≈ 1 MHz
+    f0 = 1 / (2 * math.pi * math.sqrt(L * C))
+    x0 = 2 * math.pi * f0 * L
+    r_l, r_c = share_l * x0 / q, (1 - share_l) * x0 / q
+
+    def z(f):
+        w = 2 * np.pi * f
+        return 1 / (1 / (r_l + 1j * w * L) + 1 / (r_c + 1 / (1j * w * C)))
+
+    zero = brentq(lambda f: z(f).imag, 0.3 * f0, 3 * f0, xtol=1e-9, rtol=1e-15)
+    exact = abs(z(zero))
+    got = rz.analyse(rz.Circuit("parallel", L, r_l, C, r_c, None, 1e9))
+    assert_close(got.dynamic_resistance_ohm, exact, rel=1e-9, what="|Z| at zero phase")
+    approximation = x0 * x0 / (r_l + r_c)
+    if q == 2.0 and share_l == 0.5:
+        assert abs(approximation / exact - 1) > 0.05, "premise: X0²/(rL + rC) is > 5 % off"

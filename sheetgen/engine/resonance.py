@@ -135,6 +135,16 @@ def terminal_impedance(circuit: Circuit, f_hz):
     return 1.0 / admittance
 
 
+def dynamic_resistance_ohm(circuit: Circuit, f_unity_pf_hz):
+    """Dynamic resistance: |Z| of the two-branch tank alone (no load) at its zero-phase
+    frequency, where Z = 1/(1/(rL + jωL) + 1/(rC + 1/(jωC))) is purely resistive. Exact;
+    the textbook X0²/(rL + rC) (Hughes, ch. 15) is its high-Q approximation."""
+    tank = Circuit("parallel", circuit.inductance_h, circuit.inductor_resistance_ohm,
+                   circuit.capacitance_f, circuit.capacitor_esr_ohm)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return _finite_or_none(np.abs(terminal_impedance(tank, f_unity_pf_hz)))
+
+
 def _or_zero(resistance_ohm):
     return 0.0 if resistance_ohm is None else resistance_ohm
 
@@ -298,15 +308,16 @@ def analyse(circuit: Circuit) -> Resonance:
             "the response has no maximum within a factor of 50 of f0: the losses swamp "
             "the resonance (raise Q or the load resistance)")
     f_low, f_high = _float_or_none(features.f_low_hz), _float_or_none(features.f_high_hz)
+    f_unity = (_float_or_none(unity_power_factor_hz(
+        circuit.inductance_h, circuit.capacitance_f, circuit.inductor_resistance_ohm,
+        circuit.capacitor_esr_ohm)) if circuit.topology == "parallel" else None)
     bandwidth = None if f_low is None or f_high is None else f_high - f_low
     x0 = float(reactance_ohm(circuit.inductance_h, f0))
     r_l, r_c = circuit.inductor_resistance_ohm, circuit.capacitor_esr_ohm
-    parallel = circuit.topology == "parallel"
     return Resonance(
         f0_hz=f0,
         f_peak_hz=f_peak,
-        f_unity_pf_hz=_float_or_none(unity_power_factor_hz(
-            circuit.inductance_h, circuit.capacitance_f, r_l, r_c)) if parallel else None,
+        f_unity_pf_hz=f_unity,
         reactance_ohm=x0,
         q_inductor=_finite_or_none(_ratio(x0, r_l)),
         q_capacitor=_finite_or_none(_ratio(x0, r_c)),
@@ -316,8 +327,8 @@ def analyse(circuit: Circuit) -> Resonance:
         f_low_hz=f_low,
         f_high_hz=f_high,
         impedance_at_peak_ohm=float(np.abs(terminal_impedance(circuit, f_peak))),
-        dynamic_resistance_ohm=(_finite_or_none(_ratio(x0 * x0, r_l + r_c))
-                                if parallel else None),
+        dynamic_resistance_ohm=(None if f_unity is None or r_l + r_c <= 0
+                                else dynamic_resistance_ohm(circuit, f_unity)),
     )
 
 
