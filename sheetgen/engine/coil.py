@@ -356,6 +356,7 @@ class SolenoidCoil:
     length_m: float  # winding length, turns × pitch
     pitch_m: float
     nagaoka: float
+    round_wire_correction_h: float  # Rosa's ΔL: inductance_built_h = current sheet − this
     wheeler_inductance_h: float  # Wheeler's 1928 formula, a cross-check
     wire: Wire
     wire_length_m: float  # helix plus both leads
@@ -386,7 +387,7 @@ def design_solenoid(target_inductance_h: float, f_hz: float,
               else SolenoidFormer(diameter_m=former_diameter_m))
     diameter = former.diameter_m + wire.overall_diameter_m
     wound = solenoid_turns_for_inductance(target_inductance_h, diameter, pitch_m=pitch_m,
-                                          length_m=length_m)
+                                          length_m=length_m, wire_diameter_m=wire.diameter_m)
     n, length, pitch = wound.turns, wound.length_m, wound.pitch_m
     rho = copper_resistivity_ohm_m(temperature_c)
     helix = n * math.hypot(math.pi * diameter, pitch)
@@ -404,6 +405,7 @@ def design_solenoid(target_inductance_h: float, f_hz: float,
     return SolenoidCoil(
         turns=n, inductance_built_h=wound.inductance_built_h, diameter_m=diameter,
         length_m=length, pitch_m=pitch, nagaoka=wound.nagaoka,
+        round_wire_correction_h=wound.round_wire_correction_h,
         wheeler_inductance_h=wheeler_inductance_h(n, diameter, length), wire=wire,
         wire_length_m=helix + 2.0 * lead_length_m,
         dc_resistance_ohm=dc_resistance_ohm(helix + 2.0 * lead_length_m, wire.diameter_m, rho),
