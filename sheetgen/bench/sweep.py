@@ -30,9 +30,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..errors import InputError, Problem
-from ..quantities import format_number, format_quantity
-from .sweep_files import MeasuredSweep
+from sheetgen.bench.sweep_files import MeasuredSweep
+from sheetgen.errors import InputError, Problem
+from sheetgen.quantities import format_number, format_quantity
 
 HALF_POWER_DB = 10.0 * math.log10(2.0)  # 3.0103 dB: |H| = peak/√2
 PEAK_FIT_DB = 1.0  # samples within 1 dB of the largest take part in the peak fit

@@ -17,8 +17,8 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import InputError, Problem
-from ..quantities import FREQUENCY, QuantityError, format_quantity, parse_quantity
+from sheetgen.errors import InputError, Problem
+from sheetgen.quantities import FREQUENCY, QuantityError, format_quantity, parse_quantity
 
 MAX_SWEEP_BYTES = 64 * 1024 * 1024
 MIN_POINTS = 5  # a parabola through the top needs 3; a handful more to see a response at all

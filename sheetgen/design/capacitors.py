@@ -4,7 +4,7 @@ setting for the capacitance the design needs."""
 from __future__ import annotations
 
 from sheetgen.design.records import CapacitorChoice
-from sheetgen.engine.standard_values import best_parallel_pair, nearest_standard
+from sheetgen.engine.standard_values import SERIES_TOLERANCE, best_parallel_pair, nearest_standard
 from sheetgen.errors import FieldError
 from sheetgen.inputs.model import Job
 
@@ -14,7 +14,9 @@ def capacitor_choice(job: Job, required_c: float) -> CapacitorChoice:
     series = job.capacitor.preferred_series
     trimmer = job.capacitor.trimmer
     nearest = nearest_standard(required_c, series)
-    pair = best_parallel_pair(required_c, series)
+    tolerance = (job.capacitor.tolerance if job.capacitor.tolerance is not None
+                 else SERIES_TOLERANCE[series])
+    pair = best_parallel_pair(required_c, series, tolerance)
     if job.capacitor.capacitance is not None:
         return CapacitorChoice(required_c, series, nearest, pair, required_c, None, None,
                                required_c, False)
@@ -26,7 +28,7 @@ def capacitor_choice(job: Job, required_c: float) -> CapacitorChoice:
         raise FieldError("capacitor.trimmer", f"the trimmer's mid-range ({middle:.4g} F) "
                           f"exceeds the whole capacitance needed ({required_c:.4g} F); "
                           "choose a smaller trimmer")
-    fixed = best_parallel_pair(required_c - middle, series)
+    fixed = best_parallel_pair(required_c - middle, series, tolerance)
     setting = required_c - fixed.total
     in_range = trimmer.minimum <= setting <= trimmer.maximum
     clamped = min(max(setting, trimmer.minimum), trimmer.maximum)

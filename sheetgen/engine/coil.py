@@ -247,7 +247,8 @@ def design_toroid(target_inductance_h: float, f_hz: float, core: ToroidCore,
     """Turns, wire, losses, Q, flux density and fit of a winding on a ring core at f.
 
     lead_length_m is the length of each of the two leads; voltage_rms_v is the rms voltage
-    across the coil (None when not known: current, flux density and losses are then None).
+    across the coil's terminals (None when not known: current, flux density and losses are
+    then None); the flux density is from the part across the inductance alone.
     If the winding does not fit in one layer, the remedy is the better-Q of a thinner wire
     that fits and two layers (when two suffice); a larger core hole when neither is possible.
     """
@@ -311,9 +312,12 @@ def _toroid_build(target_inductance_h, f_hz, core, material, wire, lead_length_m
 
     current = density = flux = flux_ok = copper_w = core_w = rise = None
     if voltage_rms_v is not None:
-        current = voltage_rms_v / reactance_ohm(l_built, f_hz)
+        # voltage_rms_v is across the coil's terminals, |rs + jX|·I; the flux links only the
+        # inductive part, V_L = X·I (Faraday's law), the loss resistance rs carries the rest.
+        x_l = reactance_ohm(l_built, f_hz)
+        current = voltage_rms_v / math.hypot(r_ac + r_core, x_l)
         density = current_density_a_per_m2(current, wire.diameter_m)
-        flux = peak_flux_density_t(voltage_rms_v, f_hz, turns, effective.ae_m2)
+        flux = peak_flux_density_t(current * x_l, f_hz, turns, effective.ae_m2)
         flux_ok = flux <= material.flux_density_max_t
         copper_w = current**2 * r_ac
         if material.has_steinmetz:
@@ -353,6 +357,7 @@ class SolenoidCoil:
     length_m: float  # winding length, turns × pitch
     pitch_m: float
     nagaoka: float
+    round_wire_correction_h: float  # Rosa's ΔL: inductance_built_h = current sheet − this
     wheeler_inductance_h: float  # Wheeler's 1928 formula, a cross-check
     wire: Wire
     wire_length_m: float  # helix plus both leads
@@ -389,7 +394,7 @@ def design_solenoid(target_inductance_h: float, f_hz: float,
               else SolenoidFormer(diameter_m=former_diameter_m))
     diameter = former.diameter_m + wire.overall_diameter_m
     wound = solenoid_turns_for_inductance(target_inductance_h, diameter, pitch_m=pitch_m,
-                                          length_m=length_m)
+                                          length_m=length_m, wire_diameter_m=wire.diameter_m)
     n, length, pitch = wound.turns, wound.length_m, wound.pitch_m
     rho = copper_resistivity_ohm_m(temperature_c)
     helix = n * math.hypot(math.pi * diameter, pitch)
@@ -407,6 +412,7 @@ def design_solenoid(target_inductance_h: float, f_hz: float,
     return SolenoidCoil(
         turns=n, inductance_built_h=wound.inductance_built_h, diameter_m=diameter,
         length_m=length, pitch_m=pitch, nagaoka=wound.nagaoka,
+        round_wire_correction_h=wound.round_wire_correction_h,
         wheeler_inductance_h=wheeler_inductance_h(n, diameter, length), wire=wire,
         wire_length_m=helix + 2.0 * lead_length_m,
         dc_resistance_ohm=dc_resistance_ohm(helix + 2.0 * lead_length_m, wire.diameter_m, rho),

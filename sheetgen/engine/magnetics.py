@@ -222,14 +222,47 @@ def nagaoka_coefficient(diameter_m, length_m):
 def solenoid_inductance_h(turns, diameter_m, length_m):
     """L = µ0 π r² N² K_L / l, the current-sheet inductance of a single-layer solenoid.
 
-    D is the diameter to the wire centres and l the winding length (N turns × pitch). No
-    round-wire correction (Rosa's) is applied: its tabulated constants are not to hand, and
-    for spaced windings of more than a few turns it is a few percent at most.
+    D is the diameter to the wire centres and l the winding length (N turns × pitch). This
+    is the current sheet; a winding of round wire is less by rosa_correction_h.
     """
     r = np.asarray(diameter_m, dtype=float) / 2.0
     value = mu_0 * math.pi * r**2 * np.asarray(turns, dtype=float) ** 2 * nagaoka_coefficient(
         diameter_m, length_m) / np.asarray(length_m, dtype=float)
     return float(value) if np.ndim(value) == 0 else value
+
+
+def rosa_mutual_constant(turns: int) -> float:
+    """Rosa's B(N): the mutual-inductance part of the round-wire correction (Rosa 1906).
+
+    B = −(2/N) Σ_{k=1}^{N−1} (N − k) ln(g_k / (k p)), where g_k is the geometric mean
+    distance of two strips of width p whose centres are k p apart,
+    ln(g_k/p) = ½[(k+1)² ln(k+1) + (k−1)² ln(k−1) − 2k² ln k] − 3/2: the difference between
+    the mutual inductances of thin turns and of the current sheet's bands.
+    """
+    n = int(turns)
+    if n < 1:
+        raise ValueError("a winding has at least one turn")
+    k = np.arange(1, n, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        lower = np.where(k > 1, (k - 1) ** 2 * np.log(np.where(k > 1, k - 1, 1.0)), 0.0)
+    ln_ratio = (0.5 * ((k + 1) ** 2 * np.log(k + 1) + lower - 2 * k * k * np.log(k))
+                - 1.5 - np.log(k))
+    return float(-2.0 / n * np.sum((n - k) * ln_ratio))
+
+
+def rosa_correction_h(turns: int, diameter_m: float, pitch_m: float,
+                      wire_diameter_m: float) -> float:
+    """Rosa's round-wire correction ΔL = µ0 a N (A + B), L = L_sheet − ΔL (Rosa, Bull.
+    Bureau of Standards 2, 1906; Grover, Inductance Calculations, 1946).
+
+    a is the radius to the wire centres, A = 5/4 − ln(2p/d) the self-inductance part (round
+    wire of copper diameter d with uniform current, against a band of width p; negative
+    for a spaced winding) and B = rosa_mutual_constant(N).
+    """
+    if not (pitch_m > 0.0 and wire_diameter_m > 0.0 and diameter_m > 0.0):
+        raise ValueError("diameter, pitch and wire diameter must be positive")
+    a_self = 1.25 - math.log(2.0 * pitch_m / wire_diameter_m)
+    return mu_0 * 0.5 * diameter_m * int(turns) * (a_self + rosa_mutual_constant(turns))
 
 
 def wheeler_inductance_h(turns, diameter_m, length_m):
@@ -250,16 +283,20 @@ class SolenoidTurns:
     length_m: float
     pitch_m: float
     nagaoka: float
-    inductance_built_h: float
+    inductance_built_h: float  # with the round-wire correction when the wire is known
+    round_wire_correction_h: float = 0.0  # Rosa's ΔL, subtracted from the current sheet
 
 
 def solenoid_turns_for_inductance(inductance_h: float, diameter_m: float, *,
                                   pitch_m: float | None = None,
-                                  length_m: float | None = None) -> SolenoidTurns:
+                                  length_m: float | None = None,
+                                  wire_diameter_m: float | None = None) -> SolenoidTurns:
     """Whole turns (nearest, at least 1) for L at a given pitch (l = N·p) or a given length.
 
     At a fixed length K_L is fixed, so N = √(L l/(µ0 π r² K_L)); at a fixed pitch L grows
-    monotonically with N and is solved for with Brent's method.
+    monotonically with N and is solved for with Brent's method. With the copper diameter
+    of the wire, L is the current sheet less Rosa's correction (rosa_correction_h), and
+    the whole number of turns nearest in ln L to the target is taken around that solution.
     """
     if (pitch_m is None) == (length_m is None):
         raise ValueError("give exactly one of pitch_m and length_m")
@@ -269,8 +306,7 @@ def solenoid_turns_for_inductance(inductance_h: float, diameter_m: float, *,
         if not length_m > 0.0:
             raise ValueError("winding length must be positive")
         per_turn2 = solenoid_inductance_h(1.0, diameter_m, length_m)
-        turns = max(1, round(math.sqrt(inductance_h / per_turn2)))
-        length, pitch = length_m, length_m / turns
+        exact = math.sqrt(inductance_h / per_turn2)
     else:
         if not pitch_m > 0.0:
             raise ValueError("winding pitch must be positive")
@@ -283,11 +319,26 @@ def solenoid_turns_for_inductance(inductance_h: float, diameter_m: float, *,
             high *= 2.0
         from scipy.optimize import brentq  # imported on first use
         exact = brentq(excess, 1e-6, high, xtol=1e-9, rtol=1e-12)
-        turns = max(1, round(exact))
-        length, pitch = turns * pitch_m, pitch_m
-    return SolenoidTurns(turns=turns, length_m=length, pitch_m=pitch,
-                         nagaoka=nagaoka_coefficient(diameter_m, length),
-                         inductance_built_h=solenoid_inductance_h(turns, diameter_m, length))
+
+    def wound(turns: int) -> SolenoidTurns:
+        length = length_m if length_m is not None else turns * pitch_m
+        pitch = length / turns
+        sheet = solenoid_inductance_h(turns, diameter_m, length)
+        correction = (0.0 if wire_diameter_m is None
+                      else rosa_correction_h(turns, diameter_m, pitch, wire_diameter_m))
+        return SolenoidTurns(turns=turns, length_m=length, pitch_m=pitch,
+                             nagaoka=nagaoka_coefficient(diameter_m, length),
+                             inductance_built_h=sheet - correction,
+                             round_wire_correction_h=correction)
+
+    nearest = max(1, round(exact))
+    if wire_diameter_m is None:
+        return wound(nearest)
+    # Rosa's correction is a few per cent of L, so the answer lies within a few turns.
+    spread = max(3, math.ceil(0.1 * exact))
+    options = [wound(n) for n in range(max(1, nearest - spread), nearest + spread + 1)]
+    options = [o for o in options if o.inductance_built_h > 0.0]
+    return min(options, key=lambda o: abs(math.log(o.inductance_built_h / inductance_h)))
 
 
 def medhurst_self_capacitance_f(diameter_m: float, length_m: float) -> float:

@@ -22,8 +22,12 @@ import numpy as np
 
 Topology = Literal["series", "parallel"]
 
-# Search bracket for the response maximum and the half-power points, in ln(f/f0).
+# Search bracket for the response maximum, in ln(f/f0); the half-power points are looked
+# for from there outwards, the bracket's span doubled (in ln f) up to _EXPANSIONS times,
+# i.e. as far as f0·10^±12 (a Q of about 1e-12).
 _BRACKET_LN = math.log(50.0)
+_EXPANSIONS = 3
+_FARTHEST_LN = 12.0 * math.log(10.0)
 _MAX_ITERATIONS = 200
 _TOLERANCE_LN = 1e-14
 
@@ -126,6 +130,16 @@ def terminal_impedance(circuit: Circuit, f_hz):
     return 1.0 / admittance
 
 
+def dynamic_resistance_ohm(circuit: Circuit, f_unity_pf_hz):
+    """Dynamic resistance: |Z| of the two-branch tank alone (no load) at its zero-phase
+    frequency, where Z = 1/(1/(rL + jωL) + 1/(rC + 1/(jωC))) is purely resistive. Exact;
+    the textbook X0²/(rL + rC) (Hughes, ch. 15) is its high-Q approximation."""
+    tank = Circuit("parallel", circuit.inductance_h, circuit.inductor_resistance_ohm,
+                   circuit.capacitance_f, circuit.capacitor_esr_ohm)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return _finite_or_none(np.abs(terminal_impedance(tank, f_unity_pf_hz)))
+
+
 def _or_zero(resistance_ohm):
     return 0.0 if resistance_ohm is None else resistance_ohm
 
@@ -182,6 +196,20 @@ def _safe_newton(function, low, high, guess):
     return x
 
 
+def _outer_edge(excess, u_peak, edge):
+    """The bracket end beyond a half-power point: `edge` (ln f/f0, on one side of the peak)
+    with its span doubled, at most _EXPANSIONS times and to ±_FARTHEST_LN, for the
+    elements where |D|² has not yet passed the half-power target there."""
+    edge = np.asarray(edge, dtype=float)
+    for _ in range(_EXPANSIONS):
+        short = ~(excess(edge)[0] > 0)
+        if not np.any(short):
+            break
+        wider = np.clip(2.0 * edge, -_FARTHEST_LN, _FARTHEST_LN)
+        edge = np.where(short, wider, edge)
+    return edge
+
+
 @dataclass(frozen=True)
 class ResponseFeatures:
     """Peak and half-power frequencies of the response, arrays, NaN where absent."""
@@ -196,8 +224,10 @@ def response_features(circuit: Circuit) -> ResponseFeatures:
     """Maximum of |response| and its half-power points, from the exact complex response.
 
     The maximum of 1/|D| is where d|D|²/dω = 2 Re(D* · dD/dω) changes sign; the half-power
-    points are where |D|² = 2 |D(ω_peak)|². Both are bracketed within ln(f/f0) = ±ln 50 and
-    found by safeguarded Newton iteration, element by element when the values are arrays.
+    points are where |D|² = 2 |D(ω_peak)|². The peak is bracketed within ln(f/f0) = ±ln 50,
+    each half-power point by widening that bracket geometrically until |D|² exceeds the
+    target there (to f0·10^±12 at most); both are found by safeguarded Newton iteration,
+    element by element when the values are arrays.
     """
     f0 = np.asarray(resonant_frequency_hz(circuit.inductance_h, circuit.capacitance_f),
                     dtype=float)
@@ -220,7 +250,7 @@ def response_features(circuit: Circuit) -> ResponseFeatures:
     curvature = 2.0 * omega_peak * slope(u_peak)[1]
     with np.errstate(divide="ignore", invalid="ignore"):
         offset = np.sqrt(np.abs(target) / np.where(curvature > 0, curvature, np.inf))
-    offset = np.clip(np.nan_to_num(offset, nan=0.1), 1e-9, _BRACKET_LN)
+    offset = np.clip(np.nan_to_num(offset, nan=0.1), 1e-9, _FARTHEST_LN)
 
     def excess(u):
         """|D|² − 2|D_p|² and its derivative in u, 2ω·Re(D* D')."""
@@ -228,10 +258,14 @@ def response_features(circuit: Circuit) -> ResponseFeatures:
         d, d1, _ = _response_denominator(circuit, omega)
         return np.abs(d) ** 2 - target, 2.0 * omega * np.real(np.conj(d) * d1)
 
-    has_low = excess(-edge)[0] > 0
-    has_high = excess(edge)[0] > 0
-    u_low = _safe_newton(excess, -edge, u_peak, np.maximum(u_peak - offset, -edge * 0.999))
-    u_high = _safe_newton(excess, u_peak, edge, np.minimum(u_peak + offset, edge * 0.999))
+    low_edge = _outer_edge(excess, u_peak, -edge)
+    high_edge = _outer_edge(excess, u_peak, edge)
+    has_low = excess(low_edge)[0] > 0
+    has_high = excess(high_edge)[0] > 0
+    u_low = _safe_newton(excess, low_edge, u_peak,
+                         np.maximum(u_peak - offset, u_peak + 0.999 * (low_edge - u_peak)))
+    u_high = _safe_newton(excess, u_peak, high_edge,
+                          np.minimum(u_peak + offset, u_peak + 0.999 * (high_edge - u_peak)))
     nan = np.nan
     return ResponseFeatures(
         f0_hz=f0,
@@ -269,15 +303,16 @@ def analyse(circuit: Circuit) -> Resonance:
             "the response has no maximum within a factor of 50 of f0: the losses swamp "
             "the resonance (raise Q or the load resistance)")
     f_low, f_high = _float_or_none(features.f_low_hz), _float_or_none(features.f_high_hz)
+    f_unity = (_float_or_none(unity_power_factor_hz(
+        circuit.inductance_h, circuit.capacitance_f, circuit.inductor_resistance_ohm,
+        circuit.capacitor_esr_ohm)) if circuit.topology == "parallel" else None)
     bandwidth = None if f_low is None or f_high is None else f_high - f_low
     x0 = float(reactance_ohm(circuit.inductance_h, f0))
     r_l, r_c = circuit.inductor_resistance_ohm, circuit.capacitor_esr_ohm
-    parallel = circuit.topology == "parallel"
     return Resonance(
         f0_hz=f0,
         f_peak_hz=f_peak,
-        f_unity_pf_hz=_float_or_none(unity_power_factor_hz(
-            circuit.inductance_h, circuit.capacitance_f, r_l, r_c)) if parallel else None,
+        f_unity_pf_hz=f_unity,
         reactance_ohm=x0,
         q_inductor=_finite_or_none(_ratio(x0, r_l)),
         q_capacitor=_finite_or_none(_ratio(x0, r_c)),
@@ -287,8 +322,8 @@ def analyse(circuit: Circuit) -> Resonance:
         f_low_hz=f_low,
         f_high_hz=f_high,
         impedance_at_peak_ohm=float(np.abs(terminal_impedance(circuit, f_peak))),
-        dynamic_resistance_ohm=(_finite_or_none(_ratio(x0 * x0, r_l + r_c))
-                                if parallel else None),
+        dynamic_resistance_ohm=(None if f_unity is None or r_l + r_c <= 0
+                                else dynamic_resistance_ohm(circuit, f_unity)),
     )
 
 

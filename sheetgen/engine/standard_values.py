@@ -47,6 +47,11 @@ def _clean(value: float) -> float:
     return float(f"{value:.6g}")
 
 
+# Smallest second part worth fitting in parallel: below about half a picofarad the strays
+# of the layout and the leads (a few tenths of a pF) dominate it (common practice).
+MIN_SECOND_PART_F = 0.5e-12
+
+
 @dataclass(frozen=True)
 class StandardPair:
     """Two standard parts whose sum (capacitors in parallel) approaches a target."""
@@ -57,22 +62,29 @@ class StandardPair:
     error_rel: float
 
 
-def best_parallel_pair(target: float, name: str = "E12") -> StandardPair:
+def best_parallel_pair(target: float, name: str = "E12", tolerance_rel: float = 0.0,
+                       min_second: float = MIN_SECOND_PART_F) -> StandardPair:
     """Best one or two standard capacitors in parallel for `target` (C adds in parallel).
 
-    A single part wins when it is at least as close as the best pair.
+    The pair replaces the nearest single part only when it comes closer to the target by
+    more than the parts' own ± tolerance_rel, and its smaller part is at least min_second;
+    otherwise a second part buys nothing a technician could measure.
     """
     single = nearest_standard(target, name)
     best = StandardPair(single, None, single, single / target - 1.0)
+    needed = abs(best.error_rel) - tolerance_rel
     decade = math.floor(math.log10(target))
     larger = [m * 10.0 ** (decade + k) for k in (-3, -2, -1, 0) for m in series_values(name)]
-    for first in (_clean(v) for v in larger if v < target):
-        second = nearest_standard(target - first, name)
-        if second > first:
+    for first in (_clean(v) for v in larger):
+        remainder = target - first  # compared after rounding: m·10^k carries binary noise
+        if remainder < 0.5 * min_second:
+            continue
+        second = nearest_standard(remainder, name)
+        if second > first or second < min_second:
             continue
         total = first + second
         error = total / target - 1.0
-        if abs(error) < abs(best.error_rel) - 1e-12:
+        if abs(error) < needed - 1e-12 and abs(error) < abs(best.error_rel) - 1e-12:
             best = StandardPair(first, second, total, error)
     return best
 

@@ -22,17 +22,17 @@ AWG_MIN = -3  # 0000 ("4/0"); 000 = -2, 00 = -1, 0 = 0
 AWG_MAX = 56
 METRIC_DIAMETER_MIN_M = 0.010e-3
 METRIC_DIAMETER_MAX_M = 12.0e-3
-ENAMEL_GRADES = (1, 2)
+ENAMEL_GRADES = (1, 2, 3)
 
-# Maximum overall diameter of enamelled round copper wire, IEC 60317-0-1 (grades 1 and 2),
-# a few nominal sizes (from memory; see tests/reference/enamel_build.md). Columns: nominal
-# copper diameter, grade 1 and grade 2 maximum overall diameter, all in mm.
+# Maximum overall diameter of enamelled round copper wire, IEC 60317-0-1 (grades 1, 2
+# and 3), a few nominal sizes (from memory; see tests/reference/enamel_build.md). Columns:
+# nominal copper diameter, grade 1, grade 2 and grade 3 maximum overall diameter, in mm.
 _ENAMEL_TABLE_MM = (
-    (0.100, 0.117, 0.125),
-    (0.200, 0.226, 0.239),
-    (0.500, 0.544, 0.566),
-    (1.000, 1.062, 1.093),
-    (2.000, 2.074, 2.112),
+    (0.100, 0.117, 0.125, 0.132),
+    (0.200, 0.226, 0.239, 0.252),
+    (0.500, 0.544, 0.566, 0.587),
+    (1.000, 1.062, 1.093, 1.124),
+    (2.000, 2.074, 2.112, 2.150),
 )
 
 # Above this x = √2·r/δ the Kelvin-function products approach overflow (ber ~ e^(x/√2));
@@ -87,17 +87,18 @@ def awg_name(gauge: int) -> str:
 
 
 def enamelled_overall_diameter_m(diameter_m: float, grade: int = 2) -> float:
-    """Maximum overall diameter over the enamel for grade 1 or 2 (IEC 60317-0-1, from memory).
+    """Maximum overall diameter over the enamel for grade 1, 2 or 3 (IEC 60317-0-1, from
+    memory).
 
     The increase (overall − copper) is interpolated in log–log between the table rows above
     and extended beyond its ends along the end rows' power law. Using the maximum makes a
     fit check conservative.
     """
     if grade not in ENAMEL_GRADES:
-        raise ValueError(f"enamel grade must be 1 or 2, not {grade!r}")
+        raise ValueError(f"enamel grade must be 1, 2 or 3, not {grade!r}")
     if not diameter_m > 0.0:
         raise ValueError(f"wire diameter must be positive, not {diameter_m!r} m")
-    column = grade  # grade 1 → column 1, grade 2 → column 2
+    column = grade  # grade n → column n
     log_d = [math.log(row[0]) for row in _ENAMEL_TABLE_MM]
     log_inc = [math.log(row[column] - row[0]) for row in _ENAMEL_TABLE_MM]
     x = math.log(diameter_m * 1e3)

@@ -302,7 +302,7 @@ class ToroidInductor(Section):
         None, description="inductance wanted; omit to have it computed from targets.f0 and C")
     core: name_or(CoreSpec) = Field(description="a core of the parts library by name, or inline")
     wire: WireSize
-    enamel_grade: Literal[1, 2] = Field(2, description="enamel build grade 1 (thin) or 2")
+    enamel_grade: Literal[1, 2, 3] = Field(2, description="enamel build grade 1 (thin), 2 or 3 (thick)")
     lead_length: LeadLength = Field(0.025, description="length of each lead beyond the core")
     link: LinkWinding | None = Field(None, description="a link winding (optional)")
     tap: Tap | None = Field(None, description="a tap on the winding instead of a link "
@@ -335,7 +335,7 @@ class SolenoidInductor(Section):
         None, description="inductance wanted; omit to have it computed from targets.f0 and C")
     former_diameter: Length = Field(description="outside diameter of the former (or mandrel)")
     wire: WireSize
-    enamel_grade: Literal[1, 2] = Field(2, description="enamel build grade 1 (thin) or 2")
+    enamel_grade: Literal[1, 2, 3] = Field(2, description="enamel build grade 1 (thin), 2 or 3 (thick)")
     pitch: Length | None = Field(None, description="turn-to-turn spacing (centre to centre)")
     length: Length | None = Field(None, description="winding length (instead of pitch)")
     former_length: Length | None = Field(None, description="usable length of the former")

@@ -174,6 +174,7 @@ def _inductor(design: Design) -> dict:
         "pitch_m": None if toroid else r.pitch_m,
         "nagaoka_coefficient": None if toroid else r.nagaoka,
         "wheeler_inductance_h": None if toroid else r.wheeler_inductance_h,
+        "round_wire_correction_h": None if toroid else r.round_wire_correction_h,
         "fits": r.fits,
         "remedy": r.remedy if toroid else None,
         "link_turns": coil.link_turns,

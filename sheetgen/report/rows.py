@@ -126,6 +126,8 @@ def coil_rows(design: Design) -> list[Row]:
             Row("Winding length", quantity_text(r.length_m, "m", 3), f"pitch {quantity_text(r.pitch_m, 'm', 3)}"),
             Row("Coil diameter", quantity_text(r.diameter_m, "m", 3), "to the wire centres"),
             Row("Nagaoka coefficient", format_number(r.nagaoka, 4)),
+            Row("Round-wire correction", quantity_text(r.round_wire_correction_h, "H"),
+                "Rosa: round wires instead of a current sheet"),
             Row("Wheeler's formula gives", quantity_text(r.wheeler_inductance_h, "H"), "cross-check"),
             Row("Self-capacitance", quantity_text(r.self_capacitance_f, "F", 3), "Medhurst (1947)"),
         ]
@@ -189,7 +191,7 @@ def performance_rows(design: Design) -> list[Row]:
     ]
     if parallel:
         rows.append(Row("Dynamic resistance of the tank", quantity_text(r.dynamic_resistance_ohm, "Ω"),
-                        "X0²/(rL + rC)"))
+                        "|Z| at zero phase (exact)"))
     return rows
 
 

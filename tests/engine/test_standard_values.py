@@ -48,3 +48,48 @@ def test_best_pair_is_the_exhaustive_optimum(target):
     pick = best_parallel_pair(target, "E12")
     assert abs(pick.total / target - 1) <= best + 1e-9
     assert_close(pick.total, pick.first + (pick.second or 0.0), rel=1e-12, what="sum")
+
+
+# Every value of E6 … E48 (the lists above, typed from IEC 60063) over fourteen decades,
+# 1 pF … 10 mF: 90 (series, value) entries a decade, 1 260 in all.
+EVERY_LISTED_VALUE = [(name, float(m) * 10.0 ** k) for name, text in IEC_60063.items()
+                      for m in text.split() for k in range(-12, 2)]
+
+
+def test_every_listed_standard_value_is_its_own_single_part():
+    """A target that is itself a standard value is fitted as that one part (IEC 60063: it is
+    in the list), exact, with no second part; m·10^k's binary noise must not ask for a
+    second part of zero."""
+    assert len(EVERY_LISTED_VALUE) == 1260
+    for name, target in EVERY_LISTED_VALUE:  # m·10^k as computed, binary noise and all
+        pick = best_parallel_pair(target, name, 0.0)
+        assert pick.second is None, (name, target, pick)
+        assert_close(pick.total, target, rel=1e-12, what=f"{name} {target!r}")
+
+
+@pytest.mark.parametrize("tolerance", [0.0, 0.02, 0.10])
+def test_pair_only_when_it_beats_the_single_part_by_more_than_the_tolerance(tolerance):
+    """Brute force over E12 pairs from 0.1 pF: the pick is the single nearest part unless some
+    pair with a second part of at least 0.5 pF (below that strays dominate, common practice)
+    comes closer by more than the parts' tolerance, and then no such pair beats the pick."""
+    values = [m * 10.0 ** k for k in range(-13, -8) for m in series_values("E12")]
+    for target in [1.37e-12, 2.05e-12, 13.78e-12, 228.4e-12, 556.2e-12, 1.234e-9, 4.3e-9]:
+        single = nearest_standard(target, "E12")
+        single_error = abs(single / target - 1)
+        pairs = [abs((a + b) / target - 1) for a, b in itertools.combinations_with_replacement(
+            values, 2) if min(a, b) >= 0.5e-12]
+        best_pair = min(pairs)
+        pick = best_parallel_pair(target, "E12", tolerance)
+        if single_error - best_pair > tolerance + 1e-9:
+            assert pick.second is not None and pick.second >= 0.5e-12
+            assert abs(pick.total / target - 1) <= best_pair + 1e-9
+        elif single_error - best_pair < tolerance - 1e-9:
+            assert pick.second is None and pick.first == single
+
+
+def test_second_part_never_below_half_a_picofarad():
+    """Targets a fraction of a picofarad above a standard value: the remainder is not worth
+    a part (strays of a few tenths of a pF, common practice), so no second part under 0.5 pF."""
+    for target in [10.2e-12, 100.3e-12, 1.0004e-9, 47.4e-12]:
+        pick = best_parallel_pair(target, "E24")
+        assert pick.second is None or pick.second >= 0.5e-12, (target, pick)

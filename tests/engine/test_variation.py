@@ -234,22 +234,34 @@ def test_result_arrays_are_read_only():
         result.f0_hz[0] = 0.0
 
 
-def test_trials_without_half_power_points_are_counted():
-    # A heavily damped series circuit: f_high = f0(√(1 + 1/4Q²) + 1/2Q) (Alexander & Sadiku
-    # §14.5) leaves the engine's documented search span of 50·f0 when Q < 0.020008
-    # (solving √(1 + a²) + a = 50 for a = 1/2Q); those trials have no bandwidth.
+def test_heavily_damped_series_trials_keep_their_bandwidth():
+    # f_high = f0(√(1 + 1/4Q²) + 1/2Q) (Alexander & Sadiku §14.5) passes 50·f0 when
+    # Q < 0.020008; the edges are still there and the bandwidth is R/(2πL) exactly.
     L, C = 1e-6, 1e-9
     x0 = math.sqrt(L / C)
     a = (50.0**2 - 1.0) / (2 * 50.0)
-    r_boundary = x0 * 2.0 * a
-    circuit = Circuit("series", L, r_boundary, C, 0.0, None, None)
+    circuit = Circuit("series", L, x0 * 2.0 * a, C, 0.0, None, None)
     result = monte_carlo(circuit, VariationSpec(inductor_resistance=Spread(0.2), trials=4_000))
-    expected = int(np.count_nonzero(result.parts.inductor_resistance_ohm > r_boundary))
-    assert 1_000 < expected < 3_000  # the spread straddles the boundary
-    assert result.nan_trials == expected
+    assert result.nan_trials == 0 and result.summary.bandwidth_hz.nan_trials == 0
+    assert_close(result.summary.bandwidth_hz.maximum,
+                 float(result.parts.inductor_resistance_ohm.max()) / (2 * math.pi * L),
+                 rel=1e-8, what="widest bandwidth vs R/(2πL)")
+
+
+def test_trials_without_half_power_points_are_counted():
+    # A tank on an ideal current source whose coil loss rL is near X0: |Z| tends to rL at
+    # low frequency, so there is no lower half-power point when rL ≥ max|Z|/√2. Reference:
+    # |Z| = |1/(1/(rL + jωL) + jωC)| written out here on a fine grid, per trial.
+    L, C = 10e-6, 100e-12
+    circuit = Circuit("parallel", L, 322.0, C, 0.0, None, None)
+    result = monte_carlo(circuit, VariationSpec(inductor_resistance=Spread(0.15), trials=400))
+    f = np.geomspace(5e4, 5e8, 20001)
+    r = result.parts.inductor_resistance_ohm[:, None]
+    z_max = np.abs(1 / (1 / (r + 2j * np.pi * f * L) + 2j * np.pi * f * C)).max(axis=1)
+    expected = int(np.count_nonzero(r[:, 0] >= z_max / math.sqrt(2)))
+    assert 50 < expected < 350  # the spread straddles the boundary
     assert result.summary.bandwidth_hz.nan_trials == expected
-    assert result.summary.bandwidth_hz.finite_trials == 4_000 - expected
-    assert result.summary.f_peak_hz.nan_trials == 0  # a series loop always has its peak
+    assert result.summary.bandwidth_hz.finite_trials == 400 - expected
 
 
 def test_parallel_tank_spread_of_dynamic_resistance_and_peak():

@@ -138,9 +138,24 @@ def test_enamel_grades_are_ordered_and_of_plausible_thickness(diameter_m):
     assert 0.01 < (g2 - diameter_m) / diameter_m < 0.5
 
 
-def test_enamel_grade_must_be_one_or_two():
+@pytest.mark.parametrize("gauge, triple_max_in", [(20, 0.0364), (24, 0.0233), (30, 0.0123)])
+def test_enamel_grade_3_against_nema_triple_build(gauge, triple_max_in):
+    """NEMA MW 1000 triple build maximum overall diameter (from memory), ≈ IEC grade 3; a
+    different standard, so 0.015 mm allowed as for grades 1 and 2."""
+    got = enamelled_overall_diameter_m(awg_diameter_m(gauge), 3)
+    assert_close(got, triple_max_in * INCH_M, abs=0.015e-3, what=f"AWG {gauge} grade 3")
+
+
+@pytest.mark.parametrize("diameter_m", [0.02e-3, 0.3e-3, 0.71e-3, 4.0e-3])
+def test_grade_3_is_thicker_than_grade_2(diameter_m):
+    assert (enamelled_overall_diameter_m(diameter_m, 2)
+            < enamelled_overall_diameter_m(diameter_m, 3))
+
+
+@pytest.mark.parametrize("grade", [0, 4, 2.5])
+def test_enamel_grade_outside_1_to_3_is_refused(grade):
     with pytest.raises(ValueError, match="grade"):
-        enamelled_overall_diameter_m(0.5e-3, 3)
+        enamelled_overall_diameter_m(0.5e-3, grade)
 
 
 # --------------------------------------------------------------------------- skin depth

@@ -276,7 +276,7 @@ def test_parts_list_shows_the_dielectric_and_ratings_the_job_gives():
         assert rows[fixed].material == "C0G (class 1)"
         assert rows[fixed].rating == (f"{format_quantity(2e3, 'V', 3)} peak; "
                                       f"{format_quantity(5.0, 'A', 3)} rms")
-        assert rows[fixed].tolerance == "± 5.00 % (job)"
+        assert rows[fixed].tolerance == "± 2.00 % (job)"
     assert rows["C3"].rating == format_quantity(3e3, "V", 3) + " peak"
     assert rows["C3"].material == NO_DATA, "the job gives no trimmer dielectric"
     assert "air core" in rows["L1"].material and "AWG 10" in rows["L1"].material
@@ -311,7 +311,7 @@ def test_parts_list_on_the_sheet(tmp_path):
                   "power-tank")
     text = page_text(built.pdf_path)
     for words in ("C0G (class 1)", "2.00 kV peak; 5.00 A rms", "3.00 kV peak",
-                  "± 5.00 % (job)"):
+                  "± 2.00 % (job)"):
         assert words in text, words
 
 
