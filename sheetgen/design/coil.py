@@ -120,6 +120,15 @@ def design_coil(inductor: ToroidInductor | SolenoidInductor, parts: ResolvedToro
         raise FieldError("inductor", str(error)) from None
 
 
+def coil_at_voltage(coil: ToroidCoil | SolenoidCoil, parts: ResolvedToroid | None,
+                    voltage_rms_v: float, f_hz: float) -> ToroidCoil | SolenoidCoil:
+    """The designed coil carrying its stress: a ring core's current, flux and heat at the
+    coil's rms voltage (a solenoid's figures do not depend on it)."""
+    if parts is None or not isinstance(coil, ToroidCoil):
+        return coil
+    return coil_engine.toroid_at_voltage(coil, parts.core, parts.material, voltage_rms_v, f_hz)
+
+
 def coil_loss(inductor: ToroidInductor | SolenoidInductor, coil: ToroidCoil | SolenoidCoil,
               x0: float, f0: float) -> tuple[float, float, str]:
     """A designed coil's series loss resistance at f0, its Q, and whether the job (a

@@ -84,9 +84,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     response = resonance.sweep(circuit, np.linspace(start, stop, job.sweep.points))
     coil_result = None
     if coil is not None:
-        from sheetgen.design.coil import coil_design
-        loaded_coil = design_coil(job.inductor, parts, target_l, f_design,
-                                  stress.inductor_voltage_rms_v)
+        from sheetgen.design.coil import coil_at_voltage, coil_design
+        loaded_coil = coil_at_voltage(coil, parts, stress.inductor_voltage_rms_v, f_design)
         coil_result = coil_design(job, parts, loaded_coil, target_l, circuit, q_used, q_source,
                                   f0)
     fixed = choice.fixed_parts_f

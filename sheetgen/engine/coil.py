@@ -253,14 +253,16 @@ def design_toroid(target_inductance_h: float, f_hz: float, core: ToroidCore,
     that fits and two layers (when two suffice); a larger core hole when neither is possible.
     """
     coil = _toroid_build(target_inductance_h, f_hz, core, material, wire, lead_length_m,
-                         voltage_rms_v, temperature_c)
+                         temperature_c)
+    if voltage_rms_v is not None:
+        coil = toroid_at_voltage(coil, core, material, voltage_rms_v, f_hz)
     if coil.fits:
         return coil
     thinner = _thickest_fitting_awg(coil.turns, core.inner_diameter_m, wire)
     options: list[tuple[float, WindingRemedy]] = []
     if thinner is not None:
         options.append((_toroid_build(target_inductance_h, f_hz, core, material, thinner,
-                                      lead_length_m, voltage_rms_v, temperature_c).q_estimated,
+                                      lead_length_m, temperature_c).q_estimated,
                         "thinner_wire"))
     if coil.layers_needed == 2:
         options.append((coil.q_estimated, "two_layers"))
@@ -268,6 +270,33 @@ def design_toroid(target_inductance_h: float, f_hz: float, core: ToroidCore,
     hole = toroid_inner_diameter_for_turns_m(coil.turns, wire.overall_diameter_m)
     hole = math.ceil(hole / LARGER_CORE_STEP_M + 1e-9) * LARGER_CORE_STEP_M
     return replace(coil, remedy=remedy, remedy_wire=thinner, remedy_inner_diameter_m=hole)
+
+
+def toroid_at_voltage(coil: ToroidCoil, core: ToroidCore, material: CoreMaterial,
+                      voltage_rms_v: float, f_hz: float) -> ToroidCoil:
+    """The wound coil with an rms voltage across its terminals: current, current density,
+    peak flux density, copper and core loss and the temperature rise (the winding itself is
+    the same, so it is designed once and evaluated here for the stress)."""
+    effective, turns, l_built = coil.effective, coil.turns, coil.inductance_built_h
+    r_ac, r_core, wire = coil.ac_resistance_ohm, coil.core_loss_resistance_ohm, coil.wire
+    core_w = rise = None
+    # voltage_rms_v is across the coil's terminals, |rs + jX|·I; the flux links only the
+    # inductive part, V_L = X·I (Faraday's law), the loss resistance rs carries the rest.
+    x_l = reactance_ohm(l_built, f_hz)
+    current = voltage_rms_v / math.hypot(r_ac + r_core, x_l)
+    density = current_density_a_per_m2(current, wire.diameter_m)
+    flux = peak_flux_density_t(current * x_l, f_hz, turns, effective.ae_m2)
+    flux_ok = flux <= material.flux_density_max_t
+    copper_w = current**2 * r_ac
+    if material.has_steinmetz:
+        core_w = steinmetz_core_loss_w(f_hz, flux, material.steinmetz_k,
+                                       material.steinmetz_alpha, material.steinmetz_beta,
+                                       effective.ve_m3)
+        rise = temperature_rise_k(copper_w + core_w, toroid_surface_area_m2(
+            core.outer_diameter_m, core.inner_diameter_m, core.height_m))
+    return replace(coil, current_rms_a=current, current_density_a_per_m2=density,
+                   flux_density_peak_t=flux, flux_density_within_limit=flux_ok,
+                   copper_loss_w=copper_w, core_loss_w=core_w, temperature_rise_k=rise)
 
 
 def _thickest_fitting_awg(turns: int, inner_diameter_m: float, wire: Wire) -> Wire | None:
@@ -285,7 +314,7 @@ def _thickest_fitting_awg(turns: int, inner_diameter_m: float, wire: Wire) -> Wi
 
 
 def _toroid_build(target_inductance_h, f_hz, core, material, wire, lead_length_m,
-                  voltage_rms_v, temperature_c) -> ToroidCoil:
+                  temperature_c) -> ToroidCoil:
     effective = toroid_effective_parameters(core.outer_diameter_m, core.inner_diameter_m,
                                             core.height_m, core.chamfer_m)
     from_geometry = core.al_h_per_turn2 is None
@@ -310,22 +339,6 @@ def _toroid_build(target_inductance_h, f_hz, core, material, wire, lead_length_m
     r_ac = float(coil_ac_resistance_ohm(model, f_hz))
     r_core = float(coil_core_resistance_ohm(model, f_hz))
 
-    current = density = flux = flux_ok = copper_w = core_w = rise = None
-    if voltage_rms_v is not None:
-        # voltage_rms_v is across the coil's terminals, |rs + jX|·I; the flux links only the
-        # inductive part, V_L = X·I (Faraday's law), the loss resistance rs carries the rest.
-        x_l = reactance_ohm(l_built, f_hz)
-        current = voltage_rms_v / math.hypot(r_ac + r_core, x_l)
-        density = current_density_a_per_m2(current, wire.diameter_m)
-        flux = peak_flux_density_t(current * x_l, f_hz, turns, effective.ae_m2)
-        flux_ok = flux <= material.flux_density_max_t
-        copper_w = current**2 * r_ac
-        if material.has_steinmetz:
-            core_w = steinmetz_core_loss_w(f_hz, flux, material.steinmetz_k,
-                                           material.steinmetz_alpha, material.steinmetz_beta,
-                                           effective.ve_m3)
-            rise = temperature_rise_k(copper_w + core_w, toroid_surface_area_m2(
-                core.outer_diameter_m, core.inner_diameter_m, core.height_m))
     return ToroidCoil(
         turns=turns, al_h_per_turn2=al, al_from_geometry=from_geometry,
         inductance_built_h=l_built, wire=wire,
@@ -334,9 +347,9 @@ def _toroid_build(target_inductance_h, f_hz, core, material, wire, lead_length_m
         series_resistance_ohm=r_ac + r_core, q_estimated=coil_q_sweep(model, f_hz),
         self_capacitance_f=None, srf_hz=None, srf_basis="not_estimated",
         core_loss_table_extrapolated=not material.loss_table.covers(f_hz),
-        current_rms_a=current, current_density_a_per_m2=density, flux_density_peak_t=flux,
-        flux_density_within_limit=flux_ok, copper_loss_w=copper_w, core_loss_w=core_w,
-        temperature_rise_k=rise,
+        current_rms_a=None, current_density_a_per_m2=None, flux_density_peak_t=None,
+        flux_density_within_limit=None, copper_loss_w=None, core_loss_w=None,
+        temperature_rise_k=None,
         turns_per_layer=toroid_turns_per_layer(core.inner_diameter_m, d_over),
         layers_needed=layers, winding_angle_deg=angle.spread_deg,
         close_wound_angle_deg=angle.close_wound_deg, fits=angle.fits_single_layer,
