@@ -5,7 +5,7 @@ import math
 
 import pytest
 
-from sheetgen.engine import resonance as rz
+from sheetgen.engine import resonance
 from tests import spice
 from tests.support import assert_close
 
@@ -23,7 +23,7 @@ def test_dynamic_resistance_at_q_2_with_both_losses_against_ngspice():
                                 measured.f_zero_phase_hz + half),
         {"zmag": f"mag({bench.port_voltage}/{bench.port_current})"},
         {"zzero": f"FIND zmag AT={measured.f_zero_phase_hz!r}"})["zzero"]
-    got = rz.analyse(rz.Circuit("parallel", L, r_l, C, r_c))
+    got = resonance.analyse(resonance.Circuit("parallel", L, r_l, C, r_c))
     where = spice.ngspice_version()
     assert_close(got.f_unity_pf_hz, measured.f_zero_phase_hz, rel=1e-5,
                  what=f"f zero phase, {where}")

@@ -16,7 +16,7 @@ import numpy as np
 import pytest
 from scipy.optimize import brentq, minimize_scalar
 
-from sheetgen.engine import resonance as rz
+from sheetgen.engine import resonance
 from tests.support import assert_close
 
 TIGHT = 1e-9  # bisection to ~1e-15 in ln f; 1e-9 leaves room for float round-off
@@ -32,8 +32,8 @@ SERIES = [  # L, rL, C, rC, Rs, RL  (invented)
 @pytest.mark.parametrize("L, r_l, C, r_c, r_s, r_load", SERIES)
 def test_series_half_power_points_match_the_closed_form(L, r_l, C, r_c, r_s, r_load):
     """Alexander & Sadiku §14.5: f1,2 = f0(√(1 + 1/(4Q²)) ∓ 1/(2Q)), Q = ω0L/R."""
-    circuit = rz.Circuit("series", L, r_l, C, r_c, r_s, r_load)
-    got = rz.analyse(circuit)
+    circuit = resonance.Circuit("series", L, r_l, C, r_c, r_s, r_load)
+    got = resonance.analyse(circuit)
     resistance = r_l + r_c + (r_s or 0.0) + (r_load or 0.0)
     f0 = 1 / (2 * math.pi * math.sqrt(L * C))
     q = 2 * math.pi * f0 * L / resistance
@@ -59,7 +59,7 @@ def test_series_half_power_points_wherever_they_are(q):
     C = 1 / ((2 * math.pi * f0) ** 2 * L)
     f0 = 1 / (2 * math.pi * math.sqrt(L * C))
     resistance = 2 * math.pi * f0 * L / q
-    got = rz.analyse(rz.Circuit("series", L, 0.75 * resistance, C, 0.25 * resistance))
+    got = resonance.analyse(resonance.Circuit("series", L, 0.75 * resistance, C, 0.25 * resistance))
     qm = mpmath.mpf(2 * math.pi * f0 * L) / mpmath.mpf(resistance)
     root = mpmath.sqrt(1 + 1 / (4 * qm * qm))
     assert got.f_low_hz is not None and got.f_high_hz is not None, f"Q = {q:.4g}: no edges"
@@ -80,7 +80,7 @@ PARALLEL_LOSSY_COIL = [  # L, rL, C (invented); rC = 0, no source or load resist
 def test_parallel_unity_power_factor_frequency(L, r, C):
     """Hughes: f_upf = f0 √(1 − r²C/L), and the phase of Z is zero there (brentq on
     Z = (r + jωL) ∥ 1/(jωC) written out here)."""
-    got = rz.analyse(rz.Circuit("parallel", L, r, C, 0.0, None, None))
+    got = resonance.analyse(resonance.Circuit("parallel", L, r, C, 0.0, None, None))
     f0 = 1 / (2 * math.pi * math.sqrt(L * C))
     assert_close(got.f_unity_pf_hz, f0 * math.sqrt(1 - r * r * C / L), rel=1e-12,
                  what="f_upf closed form")
@@ -98,7 +98,7 @@ def test_parallel_unity_power_factor_frequency(L, r, C):
 def test_parallel_peak_is_the_maximum_of_the_impedance(L, r, C):
     """The frequency of maximum |Z| found by scipy's bounded minimiser on -|Z| (written
     out here), and |Z| there; for high Q, |Z| → L/(Cr) (Hughes)."""
-    got = rz.analyse(rz.Circuit("parallel", L, r, C, 0.0, None, None))
+    got = resonance.analyse(resonance.Circuit("parallel", L, r, C, 0.0, None, None))
     f0 = 1 / (2 * math.pi * math.sqrt(L * C))
 
     def minus_z(u):
@@ -116,14 +116,14 @@ def test_parallel_peak_is_the_maximum_of_the_impedance(L, r, C):
 def test_parallel_frequencies_part_at_low_q():
     """At Q ≈ 3 the unity-pf frequency lies below f0 and the |Z| maximum between them
     (Hughes; the ordering is the textbook's, the values from the cases above)."""
-    got = rz.analyse(rz.Circuit("parallel", 10e-6, 60.0, 100e-12, 0.0, None, None))
+    got = resonance.analyse(resonance.Circuit("parallel", 10e-6, 60.0, 100e-12, 0.0, None, None))
     assert got.f_unity_pf_hz < got.f_peak_hz < got.f0_hz
     assert (got.f0_hz - got.f_unity_pf_hz) / got.f0_hz > 0.01
 
 
 def test_lossless_limit():
     """rL = rC = 0 and no resistances: Q is unbounded and reported as not applicable."""
-    got = rz.analyse(rz.Circuit("series", 1e-6, 0.0, 1e-9, 0.0, None, 10.0))
+    got = resonance.analyse(resonance.Circuit("series", 1e-6, 0.0, 1e-9, 0.0, None, 10.0))
     assert got.q_unloaded is None and got.q_inductor is None
     assert_close(got.q_loaded, 2 * math.pi * got.f0_hz * 1e-6 / 10.0, rel=1e-8, what="Q")
 
@@ -131,10 +131,10 @@ def test_lossless_limit():
 def test_vectorised_equals_one_at_a_time():
     """Arrays in, one result per element, each equal to the scalar analysis."""
     L = np.array([1e-6, 2e-6, 4e-6])
-    circuit = rz.Circuit("parallel", L, 0.2, 100e-12, 0.01, 20e3, None)
-    features = rz.response_features(circuit)
+    circuit = resonance.Circuit("parallel", L, 0.2, 100e-12, 0.01, 20e3, None)
+    features = resonance.response_features(circuit)
     for i, inductance in enumerate(L):
-        single = rz.analyse(rz.Circuit("parallel", float(inductance), 0.2, 100e-12, 0.01,
+        single = resonance.analyse(resonance.Circuit("parallel", float(inductance), 0.2, 100e-12, 0.01,
                                        20e3, None))
         assert_close(features.f_peak_hz[i], single.f_peak_hz, rel=1e-12, what="f_peak")
         assert_close(features.f_high_hz[i], single.f_high_hz, rel=1e-12, what="f_high")
@@ -143,8 +143,8 @@ def test_vectorised_equals_one_at_a_time():
 def test_no_resonance_is_reported():
     """A coil whose loss dwarfs its reactance (rL = 10 kΩ ≫ X0 = 316 Ω): |Z| only falls
     with frequency, so there is no maximum to report."""
-    with pytest.raises(rz.NoResonanceError):
-        rz.analyse(rz.Circuit("parallel", 10e-6, 10e3, 100e-12, 0.0, None, None))
+    with pytest.raises(resonance.NoResonanceError):
+        resonance.analyse(resonance.Circuit("parallel", 10e-6, 10e3, 100e-12, 0.0, None, None))
 
 
 def test_heavily_shunted_tank_has_its_half_power_points_far_out():
@@ -155,7 +155,7 @@ def test_heavily_shunted_tank_has_its_half_power_points_far_out():
     (Hughes), |D|'s minimum. So flat a response (|D| within 1e-5 of 1/Rs over a decade)
     has its maximum located only to that level, hence 1e-4 on the edges."""
     L, r, C, r_s = 10e-6, 1.0, 100e-12, 1.0
-    got = rz.analyse(rz.Circuit("parallel", L, r, C, 0.0, r_s, None))
+    got = resonance.analyse(resonance.Circuit("parallel", L, r, C, 0.0, r_s, None))
 
     def d2(f):
         w = 2 * math.pi * f
@@ -176,7 +176,7 @@ def test_half_power_points_absent_where_the_response_never_falls_3_db():
     at any frequency; the search reports none rather than one at its far end."""
     # rL = 400 Ω > X0 (316 Ω): |Z| at dc is 400 Ω, its maximum about 448 Ω (|Z| written out).
     L, r, C = 10e-6, 400.0, 100e-12
-    got = rz.response_features(rz.Circuit("parallel", L, r, C, 0.0, None, None))
+    got = resonance.response_features(resonance.Circuit("parallel", L, r, C, 0.0, None, None))
     f = np.geomspace(1.0, 1e12, 200001)
     z = np.abs(1 / (1 / (r + 2j * np.pi * f * L) + 2j * np.pi * f * C))
     assert z[0] > z.max() / math.sqrt(2), "premise: dc |Z| above the half-power level"
@@ -186,9 +186,9 @@ def test_half_power_points_absent_where_the_response_never_falls_3_db():
 
 def test_sweep_is_zero_db_at_the_peak_and_minus_3_at_the_edges():
     """−10·log10(2) = −3.0103 dB at the half-power points (definition)."""
-    circuit = rz.Circuit("series", 1e-6, 1.0, 1e-9, 0.0, 50.0, None)
-    got = rz.analyse(circuit)
-    sweep = rz.sweep(circuit, np.array([got.f_low_hz, got.f_peak_hz, got.f_high_hz]))
+    circuit = resonance.Circuit("series", 1e-6, 1.0, 1e-9, 0.0, 50.0, None)
+    got = resonance.analyse(circuit)
+    sweep = resonance.sweep(circuit, np.array([got.f_low_hz, got.f_peak_hz, got.f_high_hz]))
     assert_close(sweep.response_db[1], 0.0, abs=1e-9, what="peak")
     for edge in (0, 2):
         assert_close(sweep.response_db[edge], -10 * math.log10(2), abs=1e-7, what="edge")
@@ -211,7 +211,7 @@ def test_dynamic_resistance_is_the_tank_impedance_at_zero_phase(q, share_l):
 
     zero = brentq(lambda f: z(f).imag, 0.3 * f0, 3 * f0, xtol=1e-9, rtol=1e-15)
     exact = abs(z(zero))
-    got = rz.analyse(rz.Circuit("parallel", L, r_l, C, r_c, None, 1e9))
+    got = resonance.analyse(resonance.Circuit("parallel", L, r_l, C, r_c, None, 1e9))
     assert_close(got.dynamic_resistance_ohm, exact, rel=1e-9, what="|Z| at zero phase")
     approximation = x0 * x0 / (r_l + r_c)
     if q == 2.0 and share_l == 0.5:

@@ -10,53 +10,53 @@ import math
 
 import pytest
 
-from sheetgen import quantities as qty
+from sheetgen import quantities
 from tests.support import assert_close
 
 PARSED = [
-    ("4.7 uH", qty.INDUCTANCE, 4.7e-6), ("4.7 µH", qty.INDUCTANCE, 4.7e-6),
-    ("4.7 μH", qty.INDUCTANCE, 4.7e-6), ("150pF", qty.CAPACITANCE, 150e-12),
-    ("7.1 MHz", qty.FREQUENCY, 7.1e6), ("2.2 kohm", qty.RESISTANCE, 2200.0),
-    ("2.2 kΩ", qty.RESISTANCE, 2200.0), ("2.2 kΩ", qty.RESISTANCE, 2200.0),  # ohm sign U+2126
-    ("100 mohm", qty.RESISTANCE, 0.1), ("5 %", qty.FRACTION, 0.05),
-    ("0.1 %", qty.FRACTION, 0.001), ("1e-6 F", qty.CAPACITANCE, 1e-6),
-    ("1 T", qty.FLUX_DENSITY, 1.0), ("200 G", qty.FLUX_DENSITY, 0.02),
-    ("20 mT", qty.FLUX_DENSITY, 0.02), ("10 mil", qty.LENGTH, 254e-6),
-    ("0.5 in", qty.LENGTH, 0.0127), ("12.5 mm", qty.LENGTH, 0.0125),
-    ("30 dBm", qty.POWER, 1.0), ("0 dBm", qty.POWER, 1e-3), ("5 W", qty.POWER, 5.0),
-    ("-30 ppm/K", qty.TEMPERATURE_COEFFICIENT, -30e-6), ("-40 °C", qty.TEMPERATURE, -40.0),
-    ("49 nH/turn²", qty.INDUCTANCE_FACTOR, 49e-9),
-    ("4.9 µH/100 turns", qty.INDUCTANCE_FACTOR, 4.9e-10),
-    ("49 mH/1000 turns", qty.INDUCTANCE_FACTOR, 49e-9),
-    (150, qty.DIMENSIONLESS, 150.0), (2200, qty.RESISTANCE, 2200.0),
+    ("4.7 uH", quantities.INDUCTANCE, 4.7e-6), ("4.7 µH", quantities.INDUCTANCE, 4.7e-6),
+    ("4.7 μH", quantities.INDUCTANCE, 4.7e-6), ("150pF", quantities.CAPACITANCE, 150e-12),
+    ("7.1 MHz", quantities.FREQUENCY, 7.1e6), ("2.2 kohm", quantities.RESISTANCE, 2200.0),
+    ("2.2 kΩ", quantities.RESISTANCE, 2200.0), ("2.2 kΩ", quantities.RESISTANCE, 2200.0),  # ohm sign U+2126
+    ("100 mohm", quantities.RESISTANCE, 0.1), ("5 %", quantities.FRACTION, 0.05),
+    ("0.1 %", quantities.FRACTION, 0.001), ("1e-6 F", quantities.CAPACITANCE, 1e-6),
+    ("1 T", quantities.FLUX_DENSITY, 1.0), ("200 G", quantities.FLUX_DENSITY, 0.02),
+    ("20 mT", quantities.FLUX_DENSITY, 0.02), ("10 mil", quantities.LENGTH, 254e-6),
+    ("0.5 in", quantities.LENGTH, 0.0127), ("12.5 mm", quantities.LENGTH, 0.0125),
+    ("30 dBm", quantities.POWER, 1.0), ("0 dBm", quantities.POWER, 1e-3), ("5 W", quantities.POWER, 5.0),
+    ("-30 ppm/K", quantities.TEMPERATURE_COEFFICIENT, -30e-6), ("-40 °C", quantities.TEMPERATURE, -40.0),
+    ("49 nH/turn²", quantities.INDUCTANCE_FACTOR, 49e-9),
+    ("4.9 µH/100 turns", quantities.INDUCTANCE_FACTOR, 4.9e-10),
+    ("49 mH/1000 turns", quantities.INDUCTANCE_FACTOR, 49e-9),
+    (150, quantities.DIMENSIONLESS, 150.0), (2200, quantities.RESISTANCE, 2200.0),
 ]
 
 
 @pytest.mark.parametrize("text, dimension, expected", PARSED)
 def test_parse(text, dimension, expected):
-    assert_close(qty.parse_quantity(text, dimension), expected, rel=1e-12, what=str(text))
+    assert_close(quantities.parse_quantity(text, dimension), expected, rel=1e-12, what=str(text))
 
 
 def test_al_units_agree_with_each_other():
     """Common practice: 1 mH/1000 turns = 1 nH/turn², 1 µH/100 turns = 0.1 nH/turn²."""
-    one = qty.parse_quantity("1 nH/turn²", qty.INDUCTANCE_FACTOR)
-    assert_close(qty.parse_quantity("1 mH/1000 turns", qty.INDUCTANCE_FACTOR), one, rel=1e-12)
-    assert_close(qty.parse_quantity("10 µH/100 turns", qty.INDUCTANCE_FACTOR), one, rel=1e-12)
+    one = quantities.parse_quantity("1 nH/turn²", quantities.INDUCTANCE_FACTOR)
+    assert_close(quantities.parse_quantity("1 mH/1000 turns", quantities.INDUCTANCE_FACTOR), one, rel=1e-12)
+    assert_close(quantities.parse_quantity("10 µH/100 turns", quantities.INDUCTANCE_FACTOR), one, rel=1e-12)
 
 
 @pytest.mark.parametrize("text, dimension, fragment", [
-    ("40 pH", qty.CAPACITANCE, '"40 pH" is not a capacitance (expected farads, e.g. 40 pF)'),
-    ("1 T", qty.FREQUENCY, "is not a frequency"),
-    ("1 mil", qty.FREQUENCY, "is not a frequency"),
-    ("banana", qty.RESISTANCE, '"banana" is not a resistance'),
-    (True, qty.RESISTANCE, "True is not a resistance"),
-    (float("nan"), qty.RESISTANCE, "not a finite resistance"),
-    ("1e999 F", qty.CAPACITANCE, "not a finite capacitance"),
-    (49, qty.INDUCTANCE_FACTOR, "has no unit"),
+    ("40 pH", quantities.CAPACITANCE, '"40 pH" is not a capacitance (expected farads, e.g. 40 pF)'),
+    ("1 T", quantities.FREQUENCY, "is not a frequency"),
+    ("1 mil", quantities.FREQUENCY, "is not a frequency"),
+    ("banana", quantities.RESISTANCE, '"banana" is not a resistance'),
+    (True, quantities.RESISTANCE, "True is not a resistance"),
+    (float("nan"), quantities.RESISTANCE, "not a finite resistance"),
+    ("1e999 F", quantities.CAPACITANCE, "not a finite capacitance"),
+    (49, quantities.INDUCTANCE_FACTOR, "has no unit"),
 ])
 def test_refused(text, dimension, fragment):
-    with pytest.raises(qty.QuantityError) as caught:
-        qty.parse_quantity(text, dimension)
+    with pytest.raises(quantities.QuantityError) as caught:
+        quantities.parse_quantity(text, dimension)
     assert fragment in str(caught.value)
 
 
@@ -65,18 +65,18 @@ def test_refused(text, dimension, fragment):
     (7.1e6, "Hz", 4, "7.100 MHz"), (0.02, "T", 3, "20.0 mT"), (None, "V", 3, "—"),
 ])
 def test_format(value, unit, digits, expected):
-    assert qty.format_quantity(value, unit, digits) == expected
+    assert quantities.format_quantity(value, unit, digits) == expected
 
 
 @pytest.mark.parametrize("value, expected", [(180.0, "180"), (47.3333, "47.3"), (0.5, "0.500"),
                                              (4907.2, "4907"), (None, "—")])
 def test_format_number(value, expected):
-    assert qty.format_number(value, 3) == expected
+    assert quantities.format_number(value, 3) == expected
 
 
 def test_round_trip_of_formatted_values():
     """What the sheet prints, a job file can read back (within the printed precision)."""
-    for value, dimension in [(4.7e-6, qty.INDUCTANCE), (228.4e-12, qty.CAPACITANCE),
-                             (17.67e3, qty.RESISTANCE), (7.1e6, qty.FREQUENCY)]:
-        text = qty.format_quantity(value, dimension.si_unit, 4)
-        assert math.isclose(qty.parse_quantity(text, dimension), value, rel_tol=5e-4), text
+    for value, dimension in [(4.7e-6, quantities.INDUCTANCE), (228.4e-12, quantities.CAPACITANCE),
+                             (17.67e3, quantities.RESISTANCE), (7.1e6, quantities.FREQUENCY)]:
+        text = quantities.format_quantity(value, dimension.si_unit, 4)
+        assert math.isclose(quantities.parse_quantity(text, dimension), value, rel_tol=5e-4), text

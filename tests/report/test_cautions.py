@@ -23,18 +23,18 @@ import pytest
 
 from sheetgen.engine.resonance import Circuit, analyse
 from sheetgen.engine.stress import Drive, part_stress
-from sheetgen.report import cautions as ca
+from sheetgen.report import cautions
 
 BELOW, ABOVE = 1.0 - 1e-6, 1.0 + 1e-6
 SQRT2 = math.sqrt(2.0)
 
 
 def _capacitor(peak_v, capacitance_f=100e-12, bleeder_ohm=None, rise_k=None):
-    return ca.PartHazard("C1", "capacitor", peak_v, 0.5, capacitance_f, bleeder_ohm, rise_k)
+    return cautions.PartHazard("C1", "capacitor", peak_v, 0.5, capacitance_f, bleeder_ohm, rise_k)
 
 
 def _coil(peak_v, rise_k=None):
-    return ca.PartHazard("L1", "inductor", peak_v, 0.5, temperature_rise_k=rise_k)
+    return cautions.PartHazard("L1", "inductor", peak_v, 0.5, temperature_rise_k=rise_k)
 
 
 def _by_code(found):
@@ -55,7 +55,7 @@ VOLTAGE_BOUNDARIES = [
 @pytest.mark.parametrize("rms_v, level", VOLTAGE_BOUNDARIES)
 def test_voltage_levels_at_the_iec_61140_limits(rms_v, level):
     peak_v = rms_v * SQRT2  # the limits are rms; RF on a part is sinusoidal
-    found = _by_code(ca.cautions([_capacitor(peak_v), _coil(peak_v)], 1e6, 0.001))
+    found = _by_code(cautions.cautions([_capacitor(peak_v), _coil(peak_v)], 1e6, 0.001))
     if level is None:
         assert "hv-capacitor" not in found and "hv-coil" not in found
         assert found["no-hazardous-voltage"].level == "notice"
@@ -72,14 +72,14 @@ def test_voltage_levels_at_the_iec_61140_limits(rms_v, level):
 ])
 def test_covers_and_interlocks_for_power_or_above_low_voltage(power_w, level, enclosed):
     rms_v = {"warning": 100.0, "danger": 1200.0}[level]
-    found = _by_code(ca.cautions([_capacitor(rms_v * SQRT2), _coil(rms_v * SQRT2)], 1e6,
+    found = _by_code(cautions.cautions([_capacitor(rms_v * SQRT2), _coil(rms_v * SQRT2)], 1e6,
                                  power_w))
     assert found["hv-capacitor"].level == level
     assert ("covers-interlocks" in found) == enclosed
 
 
 def test_hazardous_figures_are_stated_peak_and_rms():
-    found = _by_code(ca.cautions([_capacitor(1420.0), _coil(35.0)], 7.1e6, 0.001))
+    found = _by_code(cautions.cautions([_capacitor(1420.0), _coil(35.0)], 7.1e6, 0.001))
     text = found["hv-capacitor"].text
     assert "1.42 kV peak (1.00 kV rms) on C1 at 7.10 MHz" in text
     assert found["hv-capacitor"].signal_word == "DANGER"  # 1004 V rms > 1000 V (IEC 61140)
@@ -89,19 +89,19 @@ def test_hazardous_figures_are_stated_peak_and_rms():
 def test_cautions_come_most_severe_first_and_defer_once():
     """The deferral to local codes is the box's (printed once), not each caution's."""
     parts = [_capacitor(5000.0, 1e-6, 1e6, rise_k=60.0), _coil(5000.0, rise_k=60.0)]
-    found = ca.cautions(parts, 13.56e6, 50.0, ambient_max_c=40.0, dc_voltage_v=2000.0)
+    found = cautions.cautions(parts, 13.56e6, 50.0, ambient_max_c=40.0, dc_voltage_v=2000.0)
     assert {c.code for c in found} >= {"hv-capacitor", "hv-coil", "stored-energy", "rf-burn",
                                        "hot-core", "hot-capacitor", "rf-exposure",
                                        "covers-interlocks", "dc-supply"}
     for caution in found:
         assert "local codes" not in caution.text, caution.code
-    assert "local codes and licensed practice" in ca.DEFERRAL
-    severities = [ca.SEVERITY[c.level] for c in found]
+    assert "local codes and licensed practice" in cautions.DEFERRAL
+    severities = [cautions.SEVERITY[c.level] for c in found]
     assert severities == sorted(severities, reverse=True)  # most severe first
 
 
 def test_a_low_level_design_still_carries_a_notice():
-    found = ca.cautions([_capacitor(3.0), _coil(3.0)], 10.7e6, 0.005)
+    found = cautions.cautions([_capacitor(3.0), _coil(3.0)], 10.7e6, 0.005)
     assert [c.code for c in found] == ["no-hazardous-voltage"]
     assert found[0].signal_word == "NOTICE"
     assert found[0].text.startswith("No hazardous voltage was computed at the given drive")
@@ -118,7 +118,7 @@ def test_a_low_level_design_still_carries_a_notice():
     pytest.param(2 * 0.35 / 20e3**2 * ABOVE, 20e3, "warning", id="IEC61010-350mJ-just-above"),
 ])
 def test_stored_energy_levels(capacitance_f, peak_v, level):
-    found = _by_code(ca.cautions([_capacitor(peak_v, capacitance_f)], 1e6, 0.001))
+    found = _by_code(cautions.cautions([_capacitor(peak_v, capacitance_f)], 1e6, 0.001))
     if level is None:
         assert "stored-energy" not in found
     else:
@@ -127,10 +127,10 @@ def test_stored_energy_levels(capacitance_f, peak_v, level):
 
 def test_stored_energy_states_energy_charge_and_bleeder_time():
     # 1 µF at 100 V: ½CV² = 5.00 mJ, CV = 100 µC; 100 kΩ takes RC ln(100/60) = 51.1 ms
-    found = _by_code(ca.cautions([_capacitor(100.0, 1e-6, 100e3)], 1e6, 0.001))
+    found = _by_code(cautions.cautions([_capacitor(100.0, 1e-6, 100e3)], 1e6, 0.001))
     text = found["stored-energy"].text
     assert "5.00 mJ" in text and "100 µC" in text and "51.1 ms" in text
-    without = _by_code(ca.cautions([_capacitor(100.0, 1e-6)], 1e6, 0.001))
+    without = _by_code(cautions.cautions([_capacitor(100.0, 1e-6)], 1e6, 0.001))
     assert "insulated shorting tool" in without["stored-energy"].text
 
 
@@ -141,7 +141,7 @@ def test_stored_energy_states_energy_charge_and_bleeder_time():
     pytest.param(25.0 * ABOVE, "warning", id="ISO13732-65C-just-above"),
 ])
 def test_hot_core_levels_in_a_40_degree_ambient(rise_k, level):
-    found = _by_code(ca.cautions([_capacitor(3.0), _coil(3.0, rise_k)], 1e6, 0.001,
+    found = _by_code(cautions.cautions([_capacitor(3.0), _coil(3.0, rise_k)], 1e6, 0.001,
                                  ambient_max_c=40.0))
     if level is None:
         assert "hot-core" not in found
@@ -156,13 +156,13 @@ def test_hot_core_levels_in_a_40_degree_ambient(rise_k, level):
     pytest.param(10.0 * ABOVE, "caution", id="10W-common-practice-just-above"),
 ])
 def test_rf_exposure_levels(power_w, level):
-    found = _by_code(ca.cautions([_capacitor(3.0), _coil(3.0)], 1e6, power_w))
+    found = _by_code(cautions.cautions([_capacitor(3.0), _coil(3.0)], 1e6, power_w))
     assert (found["rf-exposure"].level if "rf-exposure" in found else None) == level
 
 
 @pytest.mark.parametrize("f_hz, burns", [(99e3, False), (101e3, True)])
 def test_rf_burn_from_100_khz(f_hz, burns):
-    found = _by_code(ca.cautions([_capacitor(200.0), _coil(200.0)], f_hz, 0.001))
+    found = _by_code(cautions.cautions([_capacitor(200.0), _coil(200.0)], f_hz, 0.001))
     assert ("rf-burn" in found) == burns
 
 
@@ -171,8 +171,8 @@ def test_series_circuit_capacitor_carries_q_times_the_source_voltage():
     # 10 V rms gives 198.7 V rms = 281 V peak on C1 (Alexander & Sadiku §14.5)
     circuit = Circuit("series", 10e-6, 4.0, 253.3e-12, 0.0, 6.0, None)
     stress = part_stress(circuit, Drive("voltage", 10.0), analyse(circuit).f_peak_hz)
-    parts = ca.parts_from_stress(circuit, stress)
-    found = _by_code(ca.cautions(parts, stress.f_hz, stress.drive_power_w))
+    parts = cautions.parts_from_stress(circuit, stress)
+    found = _by_code(cautions.cautions(parts, stress.f_hz, stress.drive_power_w))
     assert "281 V peak (199 V rms) on C1" in found["hv-capacitor"].text
     assert found["hv-capacitor"].level == "warning"  # 199 V rms > 50 V (IEC 61140)
 
@@ -184,7 +184,7 @@ def test_series_circuit_capacitor_carries_q_times_the_source_voltage():
     pytest.param(1500.0 * ABOVE, "danger", id="IEC61140-LV-1500V-DC-just-above"),
 ])
 def test_a_dc_supply_on_the_tank_is_cautioned_by_its_level(dc_v, level):
-    found = _by_code(ca.cautions([_capacitor(3.0), _coil(3.0)], 1e6, 0.001, dc_voltage_v=dc_v))
+    found = _by_code(cautions.cautions([_capacitor(3.0), _coil(3.0)], 1e6, 0.001, dc_voltage_v=dc_v))
     assert found["dc-supply"].level == (level or "notice")
     assert "live whenever the supply is on" in found["dc-supply"].text
 
@@ -194,8 +194,8 @@ def test_a_parallel_tank_coil_discharges_its_capacitor_unless_dc_blocked():
     the circuit is broken, unless a blocking capacitor is in series with the coil."""
     circuit = Circuit("parallel", 10e-6, 4.0, 253.3e-12, 0.0, 5e3, None)
     stress = part_stress(circuit, Drive("voltage", 100.0), analyse(circuit).f_peak_hz)
-    plain = _by_code(ca.cautions(ca.parts_from_stress(circuit, stress), 1e6, 0.001))
-    blocked = _by_code(ca.cautions(ca.parts_from_stress(circuit, stress, dc_blocked=True), 1e6,
+    plain = _by_code(cautions.cautions(cautions.parts_from_stress(circuit, stress), 1e6, 0.001))
+    blocked = _by_code(cautions.cautions(cautions.parts_from_stress(circuit, stress, dc_blocked=True), 1e6,
                                    0.001))
     assert stress.capacitor_voltage_peak_v > 60.0  # above the DC limit that calls for it
     assert "stored-energy" not in plain and "stored-energy" in blocked
@@ -204,8 +204,8 @@ def test_a_parallel_tank_coil_discharges_its_capacitor_unless_dc_blocked():
 def test_several_capacitors_are_named_together_with_their_connections():
     circuit = Circuit("series", 10e-6, 4.0, 253.3e-12, 0.0, 6.0, None)
     stress = part_stress(circuit, Drive("voltage", 10.0), analyse(circuit).f_peak_hz)
-    parts = ca.parts_from_stress(circuit, stress, capacitors=("C1", "C2", "C3"))
-    text = _by_code(ca.cautions(parts, stress.f_hz, 0.001))["hv-capacitor"].text
+    parts = cautions.parts_from_stress(circuit, stress, capacitors=("C1", "C2", "C3"))
+    text = _by_code(cautions.cautions(parts, stress.f_hz, 0.001))["hv-capacitor"].text
     assert "on C1, C2 and C3 at" in text and "or their connections" in text
 
 
@@ -224,10 +224,10 @@ def test_a_kilovolt_tank_states_creepage_clearance_and_corona(tmp_path):
     design = design_from_file(job)
     peak = design.stress.capacitor_voltage_peak_v
     assert 1131.0 < peak / SQRT2 <= 1600.0, "between Table F.5's 1250 V and 1600 V rows"
-    found = _by_code(ca.design_cautions(design))
+    found = _by_code(cautions.design_cautions(design))
     text = found["insulation-distances"].text
     assert "at least 16 mm along insulating surfaces" in text
     assert f"at least {peak * 2e-3:.1f} mm through air" in text
     assert "corona" in text
-    low = _by_code(ca.design_cautions(design_from_file(root / "templates" / "demo.yaml")))
+    low = _by_code(cautions.design_cautions(design_from_file(root / "templates" / "demo.yaml")))
     assert "insulation-distances" not in low, "below 1 kV peak nothing is said"
