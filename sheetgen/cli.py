@@ -50,6 +50,8 @@ def build_parser() -> argparse.ArgumentParser:
     build.add_argument("--library", type=Path, help="parts library folder (default: see README)")
     build.add_argument("--style", type=Path, help="house style file (default: the job's "
                        "sheet.style, else the default style)")
+    build.add_argument("--force", action="store_true", help="replace a sheet of the same id "
+                       "and revision whose content differs")
 
     limits = commands.add_parser("limits", help="write the test limits for a work order")
     limits.add_argument("job", type=Path, help="YAML job file")
@@ -61,6 +63,8 @@ def build_parser() -> argparse.ArgumentParser:
     demo = commands.add_parser("demo", help="build the bundled demo job's sheet")
     demo.add_argument("-o", "--output", type=Path, default=Path("demo.pdf"),
                       help="PDF to write (default: demo.pdf)")
+    demo.add_argument("--force", action="store_true", help="replace a sheet of the same id "
+                      "and revision whose content differs")
 
     new = commands.add_parser("new", help="print a starter job file")
     new.add_argument("kind", choices=TEMPLATE_NAMES, help="which starter")
@@ -136,23 +140,29 @@ def _limits(args) -> int:
 
 
 def _build_command(args) -> int:
-    return _build_sheet(args.job, args.output, args.results, args.style, args.library)
+    return _build_sheet(args.job, args.output, args.results, args.style, args.library,
+                        args.force)
 
 
 def _demo(args) -> int:
-    return _build_sheet(demo_job_path(), args.output, None, None, None)
+    return _build_sheet(demo_job_path(), args.output, None, None, None, args.force)
 
 
 def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
-                 style_path: Path | None, library_folder: Path | None) -> int:
+                 style_path: Path | None, library_folder: Path | None,
+                 force: bool = False) -> int:
     from sheetgen.inputs.style import resolve_style
     design = design_from_file(job_path, library_folder)
     output = output or job_path.with_suffix(".pdf")
     style = resolve_style(job_path, design.job, style_path, library_folder)
     from sheetgen.sheet.glyphs import check_printable
     check_printable(design.job, job_path, style)
-    _build(design, job_path, output, results_path, style)
-    print(f"wrote {output}")
+    if _build(design, job_path, output, results_path, style, force):
+        print(f"wrote {output}")
+    else:
+        sheet = design.job.sheet
+        print(f"{output} already holds {sheet.id} rev {sheet.revision} with this content; "
+              "nothing written")
     return _exit_for(design)
 
 
@@ -169,16 +179,25 @@ def _exit_for(result: Design) -> int:
 
 
 def _build(result: Design, job_path: Path, output: Path, results_path: Path | None,
-           style=None) -> None:
+           style=None, force: bool = False) -> bool:
+    """Write the sheet (and the results); False when the output already held this sheet."""
+    from sheetgen.bench.release import SheetStamp, release_decision
+    from sheetgen.report.content_hash import content_sha256
     from sheetgen.report.results import results_json
     from sheetgen.sheet import render_sheet
     job_text = job_path.read_text(encoding="utf-8")
     results_text = results_json(result)
+    sheet = result.job.sheet
+    stamp = SheetStamp(sheet.id, sheet.revision, content_sha256(job_text.encode("utf-8"),
+                                                                results_text.encode("utf-8")))
+    if release_decision(output, stamp, force) == "same":
+        return False
     pdf = render_sheet(result, job_text=job_text, results_text=results_text,
                        job_dir=job_path.resolve().parent, style=style)
     if results_path is not None:
         write_atomically(results_path, results_text.encode("utf-8"))
     write_atomically(output, pdf)
+    return True
 
 
 def _file_mode(path: Path) -> int:
