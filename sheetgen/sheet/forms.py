@@ -51,10 +51,6 @@ def _make_field_form(canvas):
                     {FIELD_FONT: doc.Reference(_field_font_dictionary(doc))})})
             return PDFDictionary(entries).format(doc)
 
-        def checkbox(self, **kwargs):
-            super().checkbox(**kwargs)
-            _normal_appearance_only(self.canv._doc.idToObject[self.fields[-1].name])
-
         def radio(self, **kwargs):
             super().radio(**kwargs)
             widget_ref = self._radios[kwargs["name"]].kids[-1]
@@ -156,25 +152,3 @@ class RadioChoice(Flowable):
             forceBorder=True)
         self.canv.setFont(fonts.REGULAR, 8.5)
         self.canv.drawString(self.SIZE + 3, 2.2, self.value)
-
-
-class CheckBox(Flowable):
-    """A check box followed by its word (pass / fail): the meaning is in the text."""
-
-    SIZE = 11.0
-
-    def __init__(self, name: str, word: str, tooltip: str):
-        super().__init__()
-        self.name, self.word, self.tooltip = name, word, tooltip
-
-    def wrap(self, available_width, available_height):
-        self.width, self.height = min(available_width, 48.0), self.SIZE
-        return self.width, self.height
-
-    def draw(self):
-        field_form(self.canv).checkbox(
-            name=self.name, tooltip=self.tooltip, x=0, y=0, size=self.SIZE, relative=True,
-            buttonStyle="cross", borderWidth=0.8, borderColor=black, fillColor=white,
-            textColor=black, fieldFlags="", forceBorder=True)
-        self.canv.setFont(fonts.REGULAR, 8.5)
-        self.canv.drawString(self.SIZE + 3, 2.2, self.word)
