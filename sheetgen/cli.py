@@ -12,12 +12,11 @@ from pathlib import Path
 
 from sheetgen import __version__
 from sheetgen.batch.outputs import OutputFolderError, write_atomically, write_sheet
-from sheetgen.design.pipeline import design_from_file
-from sheetgen.design.records import Design
 from sheetgen.errors import InputError
 from sheetgen.inputs.starters import TEMPLATE_NAMES, demo_job_path, template_text
-from sheetgen.report.checks import failed_checks
-from sheetgen.report.summary import summary_text
+
+# The design and report rooms (pydantic, numpy, scipy) are imported by the commands that
+# use them, so `new`, `--version` and argument errors start at once.
 
 EXIT_OK, EXIT_CHECK_FAILED, EXIT_BAD_INPUT = 0, 1, 2
 
@@ -134,6 +133,8 @@ def _schema(args) -> int:
 def _check(args) -> int:
     if _is_batch(args):
         return _batch(args, "check")
+    from sheetgen.design.pipeline import design_from_file
+    from sheetgen.report.summary import summary_text
     design = design_from_file(args.job, args.library)
     if args.json:
         from sheetgen.report.results import results_json
@@ -146,6 +147,7 @@ def _check(args) -> int:
 def _limits(args) -> int:
     if _is_batch(args):
         return _batch(args, "limits")
+    from sheetgen.design.pipeline import design_from_file
     from sheetgen.report.results import limits_csv, limits_json
     design = design_from_file(args.job, args.library)
     text = limits_csv(design) if args.format == "csv" else limits_json(design)
@@ -169,6 +171,7 @@ def _demo(args) -> int:
 
 def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
                  style_path: Path | None, library_folder: Path | None) -> int:
+    from sheetgen.design.pipeline import design_from_file
     from sheetgen.inputs.style import resolve_style
     design = design_from_file(job_path, library_folder)
     output = output or job_path.with_suffix(".pdf")
@@ -234,6 +237,7 @@ def _diff_side(path: Path, library_folder: Path | None) -> tuple[object, dict]:
         sheet = read_sheet(path)
         job_text, results = sheet if isinstance(sheet, tuple) else (sheet.job_text, sheet.results)
         return compose_located(job_text, str(path)).data, results
+    from sheetgen.design.pipeline import design_from_file
     from sheetgen.report.results import results_document
     design = design_from_file(path, library_folder)
     return compose_located(path.read_text(encoding="utf-8"), str(path)).data, results_document(design)
@@ -243,8 +247,9 @@ COMMANDS = {"check": _check, "build": _build_command, "limits": _limits, "diff":
             "demo": _demo, "new": _new, "schema": _schema}
 
 
-def _exit_for(result: Design) -> int:
+def _exit_for(result) -> int:
     """1 when the design fails one of its checks (each printed to stderr), else 0."""
+    from sheetgen.report.checks import failed_checks
     failures = failed_checks(result)
     for failure in failures:
         print(f"check failed: {failure.field}: {failure.text}", file=sys.stderr)
