@@ -192,6 +192,8 @@ def _in_workers(tasks: Sequence[JobTask], workers: int):
                 broken.append(index)
     for index in sorted(broken):
         task = tasks[index]
+        if task.output is not None:  # what the dead worker may have left half-written
+            remove_leftovers(task.output)
         try:
             with ProcessPoolExecutor(max_workers=1, mp_context=context) as alone:
                 outcome = alone.submit(run_job, task).result()

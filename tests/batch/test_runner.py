@@ -69,3 +69,19 @@ def test_leftovers_of_a_killed_writer_are_removed_and_the_output_kept(tmp_path):
     remove_leftovers(out)
     assert [p.name for p in tmp_path.iterdir()] == ["job.pdf"]
     assert out.read_bytes() == b"%PDF-whole"
+
+
+def test_on_a_terminal_a_progress_bar_replaces_the_job_lines(tmp_path):
+    import io
+    good = tmp_path / "good.yaml"
+    good.write_text((TEMPLATES / "series.yaml").read_text())
+    bad = tmp_path / "bad.yaml"
+    bad.write_text("sheet: {}\ncircuit: {}\n")
+    stderr = io.StringIO()
+    tasks = [JobTask("limits", job, tmp_path / f"{job.stem}.csv") for job in (good, bad)]
+    code = run_batch(tasks, 1, progress=True, stderr=stderr)
+    text = stderr.getvalue()
+    assert code == 2
+    assert f"wrote {tmp_path / 'good.csv'}" not in text  # good jobs: only the bar moves
+    assert f"bad input: {bad}" in text and "job/s" in text  # tqdm's rate unit
+    assert text.rstrip().endswith("wrote 1, failed checks 0, bad input 1")
