@@ -174,13 +174,30 @@ def _in_process(tasks: Sequence[JobTask]):
         yield index, run_job(task)
 
 
+# Imported once by the fork server, so every worker starts with them loaded (the imports
+# cost more than a job); where there is no fork server, workers are spawned and import them.
+PRELOAD = ("sheetgen.batch.runner", "sheetgen.design.pipeline", "sheetgen.report.results",
+           "sheetgen.report.summary", "sheetgen.inputs.style")
+PRELOAD_SHEET = ("sheetgen.sheet",)
+
+
+def _worker_context(multiprocessing, command: str):
+    """A fork server with the job modules preloaded where the platform has one, else spawn.
+    Either way a worker runs run_job, a top-level function (spawn-safe)."""
+    if "forkserver" not in multiprocessing.get_all_start_methods():
+        return multiprocessing.get_context("spawn")
+    context = multiprocessing.get_context("forkserver")
+    context.set_forkserver_preload(list(PRELOAD + (PRELOAD_SHEET if command == "build" else ())))
+    return context
+
+
 def _in_workers(tasks: Sequence[JobTask], workers: int):
     """(index, outcome) as jobs finish. A job whose worker died is run again alone in a
     fresh worker; if that one dies too the job is reported as crashed."""
     import multiprocessing
     from concurrent.futures import ProcessPoolExecutor, as_completed
     from concurrent.futures.process import BrokenProcessPool
-    context = multiprocessing.get_context("spawn")
+    context = _worker_context(multiprocessing, tasks[0].command)
     broken = []
     with ProcessPoolExecutor(max_workers=workers, mp_context=context) as pool:
         futures = {pool.submit(run_job, task): index for index, task in enumerate(tasks)}
