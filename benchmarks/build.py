@@ -49,11 +49,13 @@ def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("job", nargs="?", type=Path, default=REPO / "templates" / "demo.yaml")
     parser.add_argument("--runs", type=int, default=5)
+    parser.add_argument("--style", type=Path, default=REPO / "templates" / "style-default.yaml",
+                        help="house style of the checkout (not the installed package's)")
     args = parser.parse_args()
     with tempfile.TemporaryDirectory(prefix="sheetgen-bench-") as tmp:
         out = Path(tmp) / "sheet.pdf"
         build = [sys.executable, "-m", "sheetgen", "build", str(args.job.resolve()), "-o",
-                 str(out)]
+                 str(out), "--style", str(args.style.resolve())]
         started = time.perf_counter()
         floor_s, floor_mb, _ = measure(FLOOR, args.runs)
         build_s, build_mb, code = measure(build, args.runs)

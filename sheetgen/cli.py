@@ -7,18 +7,16 @@ printed one a line, never as a traceback; an output file is written whole or not
 from __future__ import annotations
 
 import argparse
-import os
 import sys
-import tempfile
 from pathlib import Path
 
 from sheetgen import __version__
-from sheetgen.design.pipeline import design_from_file
-from sheetgen.design.records import Design
+from sheetgen.batch.outputs import OutputFolderError, write_atomically, write_sheet
 from sheetgen.errors import InputError
 from sheetgen.inputs.starters import TEMPLATE_NAMES, demo_job_path, template_text
-from sheetgen.report.checks import failed_checks
-from sheetgen.report.summary import summary_text
+
+# The design and report rooms (pydantic, numpy, scipy) are imported by the commands that
+# use them, so `new`, `--version` and argument errors start at once.
 
 EXIT_OK, EXIT_CHECK_FAILED, EXIT_BAD_INPUT = 0, 1, 2
 
@@ -39,12 +37,12 @@ def build_parser() -> argparse.ArgumentParser:
     commands = parser.add_subparsers(dest="command", required=True, parser_class=_Parser)
 
     check = commands.add_parser("check", help="compute the design and print a summary")
-    check.add_argument("job", type=Path, help="YAML job file")
+    _job_arguments(check)
     check.add_argument("--json", action="store_true", help="print the results as JSON")
     check.add_argument("--library", type=Path, help="parts library folder (default: see README)")
 
     build = commands.add_parser("build", help="write the PDF build-and-test sheet")
-    build.add_argument("job", type=Path, help="YAML job file")
+    _job_arguments(build)
     build.add_argument("-o", "--output", type=Path, help="PDF to write (default: JOB.pdf)")
     build.add_argument("--results", type=Path, help="also write the results JSON here")
     build.add_argument("--library", type=Path, help="parts library folder (default: see README)")
@@ -54,11 +52,18 @@ def build_parser() -> argparse.ArgumentParser:
                        "and revision whose content differs")
 
     limits = commands.add_parser("limits", help="write the test limits for a work order")
-    limits.add_argument("job", type=Path, help="YAML job file")
+    _job_arguments(limits)
     limits.add_argument("--format", choices=("csv", "json"), default="csv",
                         help="csv (default) or json")
     limits.add_argument("-o", "--output", type=Path, help="file to write (default: print)")
     limits.add_argument("--library", type=Path, help="parts library folder (default: see README)")
+
+    diff = commands.add_parser("diff", help="what changed between two revisions of a job")
+    diff.add_argument("a", type=Path, help="the earlier job file (or built sheet .pdf)")
+    diff.add_argument("b", type=Path, help="the later job file (or built sheet .pdf)")
+    diff.add_argument("--json", action="store_true",
+                      help="print the changes as JSON: a list of {section, key, a, b}")
+    diff.add_argument("--library", type=Path, help="parts library folder (default: see README)")
 
     demo = commands.add_parser("demo", help="build the bundled demo job's sheet")
     demo.add_argument("-o", "--output", type=Path, default=Path("demo.pdf"),
@@ -75,6 +80,18 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
+def _job_arguments(command: argparse.ArgumentParser) -> None:
+    """JOB [JOB ...]: one job file runs as always; several, or a folder, run as a batch."""
+    command.add_argument("job", type=Path, metavar="JOB",
+                         help="YAML job file, or a folder of job files")
+    command.add_argument("more_jobs", type=Path, nargs="*", metavar="JOB",
+                         help="more job files or folders: run as a batch")
+    command.add_argument("-j", "--jobs", type=int, metavar="N", dest="workers",
+                         help="batch: worker processes (default: the number of CPUs)")
+    command.add_argument("--out-dir", type=Path, metavar="DIR",
+                         help="batch: write each job's output here, named after the job")
+
+
 def main(argv: list[str] | None = None) -> int:
     try:
         args = build_parser().parse_args(argv)
@@ -89,7 +106,7 @@ def main(argv: list[str] | None = None) -> int:
         for problem in error.problems:
             print(problem, file=sys.stderr)
         return EXIT_BAD_INPUT
-    except UsageError as error:
+    except (UsageError, OutputFolderError) as error:
         print(f"sheetgen: {error}", file=sys.stderr)
         return EXIT_BAD_INPUT
     except OSError as error:
@@ -118,6 +135,10 @@ def _schema(args) -> int:
 
 
 def _check(args) -> int:
+    if _is_batch(args):
+        return _batch(args, "check")
+    from sheetgen.design.pipeline import design_from_file
+    from sheetgen.report.summary import summary_text
     design = design_from_file(args.job, args.library)
     if args.json:
         from sheetgen.report.results import results_json
@@ -128,6 +149,9 @@ def _check(args) -> int:
 
 
 def _limits(args) -> int:
+    if _is_batch(args):
+        return _batch(args, "limits")
+    from sheetgen.design.pipeline import design_from_file
     from sheetgen.report.results import limits_csv, limits_json
     design = design_from_file(args.job, args.library)
     text = limits_csv(design) if args.format == "csv" else limits_json(design)
@@ -140,6 +164,8 @@ def _limits(args) -> int:
 
 
 def _build_command(args) -> int:
+    if _is_batch(args):
+        return _batch(args, "build")
     return _build_sheet(args.job, args.output, args.results, args.style, args.library,
                         args.force)
 
@@ -151,13 +177,12 @@ def _demo(args) -> int:
 def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
                  style_path: Path | None, library_folder: Path | None,
                  force: bool = False) -> int:
+    from sheetgen.design.pipeline import design_from_file
     from sheetgen.inputs.style import resolve_style
     design = design_from_file(job_path, library_folder)
     output = output or job_path.with_suffix(".pdf")
     style = resolve_style(job_path, design.job, style_path, library_folder)
-    from sheetgen.sheet.glyphs import check_printable
-    check_printable(design.job, job_path, style)
-    if _build(design, job_path, output, results_path, style, force):
+    if write_sheet(design, job_path, output, results_path, style, force):
         print(f"wrote {output}")
     else:
         sheet = design.job.sheet
@@ -166,65 +191,79 @@ def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
     return _exit_for(design)
 
 
-COMMANDS = {"check": _check, "build": _build_command, "limits": _limits, "demo": _demo,
-            "new": _new, "schema": _schema}
+def _is_batch(args) -> bool:
+    """Several jobs, a folder of job files, or --out-dir: a batch; else the single-job
+    command (which reports a folder without job files as not a job file)."""
+    if args.more_jobs or args.out_dir is not None:
+        return True
+    if args.job.is_dir():
+        from sheetgen.batch.runner import collect_jobs
+        return bool(collect_jobs([args.job]))
+    return False
 
 
-def _exit_for(result: Design) -> int:
+def _batch(args, command: str) -> int:
+    from sheetgen.batch.runner import JobTask, collect_jobs, default_workers, output_path, run_batch
+    for option in ("output", "results"):
+        if getattr(args, option, None) is not None:
+            raise UsageError(f"--{option} names one file; for several jobs use --out-dir")
+    if args.workers is not None and args.workers < 1:
+        raise UsageError("-j needs at least 1 worker")
+    if args.out_dir is not None and not args.out_dir.is_dir():
+        raise UsageError(f"--out-dir {args.out_dir}: no such folder")
+    jobs = collect_jobs([args.job, *args.more_jobs])
+    if not jobs:
+        raise UsageError("no job files found (a job file has top-level sheet: and circuit:)")
+    suffix = {"build": ".pdf", "limits": "." + getattr(args, "format", "csv")}.get(command)
+    tasks, seen = [], {}
+    for job in jobs:
+        output = None if suffix is None else output_path(job, args.out_dir, suffix)
+        if output is not None and output.resolve() in seen:
+            raise UsageError(f"{job} and {seen[output.resolve()]} would both write {output}")
+        if output is not None:
+            seen[output.resolve()] = job
+        tasks.append(JobTask(command, job, output, args.library, getattr(args, "style", None),
+                             getattr(args, "json", False), getattr(args, "format", "csv")))
+    return run_batch(tasks, args.workers or default_workers())
+
+
+def _diff(args) -> int:
+    from sheetgen.report.diff import diff_json, diff_rows, diff_table
+    rows = diff_rows(*_diff_side(args.a, args.library), *_diff_side(args.b, args.library))
+    sys.stdout.write(diff_json(rows) if args.json else diff_table(rows, args.a, args.b))
+    return EXIT_CHECK_FAILED if rows else EXIT_OK
+
+
+def _diff_side(path: Path, library_folder: Path | None) -> tuple[object, dict]:
+    """(job data, results document) of a job file, or of a built sheet's attachments."""
+    from sheetgen.inputs.reader import compose_located
+    if path.suffix.lower() == ".pdf":
+        # Built sheets: read the attached job and results (sheetgen.bench.sheet_file).
+        try:
+            from sheetgen.bench.sheet_file import read_sheet
+        except ImportError:
+            raise UsageError(f"{path}: reading a built sheet needs sheetgen.bench.sheet_file, "
+                             "which this version lacks; compare the job files instead") from None
+        sheet = read_sheet(path)
+        job_text, results = sheet if isinstance(sheet, tuple) else (sheet.job_text, sheet.results)
+        return compose_located(job_text, str(path)).data, results
+    from sheetgen.design.pipeline import design_from_file
+    from sheetgen.report.results import results_document
+    design = design_from_file(path, library_folder)
+    return compose_located(path.read_text(encoding="utf-8"), str(path)).data, results_document(design)
+
+
+COMMANDS = {"check": _check, "build": _build_command, "limits": _limits, "diff": _diff,
+            "demo": _demo, "new": _new, "schema": _schema}
+
+
+def _exit_for(result) -> int:
     """1 when the design fails one of its checks (each printed to stderr), else 0."""
+    from sheetgen.report.checks import failed_checks
     failures = failed_checks(result)
     for failure in failures:
         print(f"check failed: {failure.field}: {failure.text}", file=sys.stderr)
     return EXIT_CHECK_FAILED if failures else EXIT_OK
-
-
-def _build(result: Design, job_path: Path, output: Path, results_path: Path | None,
-           style=None, force: bool = False) -> bool:
-    """Write the sheet (and the results); False when the output already held this sheet."""
-    from sheetgen.bench.release import SheetStamp, release_decision
-    from sheetgen.report.content_hash import content_sha256
-    from sheetgen.report.results import results_json
-    from sheetgen.sheet import render_sheet
-    job_text = job_path.read_text(encoding="utf-8")
-    results_text = results_json(result)
-    sheet = result.job.sheet
-    stamp = SheetStamp(sheet.id, sheet.revision, content_sha256(job_text.encode("utf-8"),
-                                                                results_text.encode("utf-8")))
-    if release_decision(output, stamp, force) == "same":
-        return False
-    pdf = render_sheet(result, job_text=job_text, results_text=results_text,
-                       job_dir=job_path.resolve().parent, style=style)
-    if results_path is not None:
-        write_atomically(results_path, results_text.encode("utf-8"))
-    write_atomically(output, pdf)
-    return True
-
-
-def _file_mode(path: Path) -> int:
-    """The mode of the file being replaced, else what a new file gets under the umask."""
-    if path.exists():
-        return path.stat().st_mode & 0o777
-    mask = os.umask(0)
-    os.umask(mask)
-    return 0o666 & ~mask
-
-
-def write_atomically(path: Path, data: bytes) -> None:
-    """Write to a temporary file beside `path`, then rename over it: whole or not at all."""
-    directory = path.resolve().parent
-    if not directory.is_dir():
-        raise UsageError(f"cannot write {path}: the folder {directory} does not exist")
-    handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=directory)
-    try:
-        os.chmod(temporary, _file_mode(path))  # mkstemp makes 0600; a sheet is for sharing
-        with os.fdopen(handle, "wb") as stream:
-            stream.write(data)
-            stream.flush()
-            os.fsync(stream.fileno())
-        os.replace(temporary, path)
-    except BaseException:
-        Path(temporary).unlink(missing_ok=True)
-        raise
 
 
 if __name__ == "__main__":

@@ -15,7 +15,7 @@ import pytest
 PACKAGE = Path(__file__).resolve().parents[1] / "sheetgen"
 
 # Rooms from the bottom up; a room may import the top-level helpers and lower rooms.
-ORDER = ("engine", "inputs", "design", "report", "sheet", "bench")
+ORDER = ("engine", "inputs", "design", "report", "sheet", "bench", "batch")
 TOP_LEVEL = {"cli", "__main__", "errors", "quantities", "__init__"}
 HELPERS = {"errors", "quantities"}
 THIRD_PARTY = {  # beyond the standard library; None = anything
@@ -25,6 +25,7 @@ THIRD_PARTY = {  # beyond the standard library; None = anything
     "report": {"numpy"},
     "sheet": {"numpy", "reportlab", "matplotlib", "PIL", "fontTools"},
     "bench": {"numpy", "skrf", "pypdf", "pikepdf", "reportlab", "matplotlib"},
+    "batch": {"tqdm"},
 }
 FORBIDDEN_ROOMS = {"sheet": {"engine"}}  # the sheet draws what the design gives
 

@@ -10,9 +10,16 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
+from functools import partial
 
 from sheetgen.design.designators import Designators
-from sheetgen.engine.limits import TestLimits, TrimmerCheck, test_limits, trimmer_check
+from sheetgen.engine.limits import (
+    TestLimits,
+    TrimmerCheck,
+    settled_monte_carlo,
+    test_limits,
+    trimmer_check,
+)
 from sheetgen.engine.ratings import (
     RatingCheck,
     capacitor_current_check,
@@ -31,7 +38,6 @@ from sheetgen.engine.variation import (
     VariationResult,
     VariationSpec,
     dielectric,
-    monte_carlo,
     response_envelope,
     sample_parts,
     worst_case,
@@ -107,9 +113,10 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
            fixed_parts_f: tuple[float, ...] = ()) -> Assessment:
     """Limits, trimmer range and rating checks for the nominal design."""
     spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc)
-    method = monte_carlo if job.variation.method == "monte-carlo" else worst_case
     resolution = (job.test.frequency_resolution
                   or default_resolution_hz(resonance.bandwidth_hz, resonance.f0_hz))
+    method = (partial(settled_monte_carlo, resolution_hz=resolution)  # stops once settled
+              if job.variation.method == "monte-carlo" else worst_case)
     trimmer = job.capacitor.trimmer
     tuned = trimmer is not None and f0_target_hz is not None
     trim = None

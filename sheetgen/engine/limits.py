@@ -13,7 +13,14 @@ from dataclasses import dataclass
 import numpy as np
 
 from sheetgen.engine.resonance import capacitance_for_f0
-from sheetgen.engine.variation import Method, SampledParts, VariationResult, central_interval
+from sheetgen.engine.variation import (
+    MONTE_CARLO_BLOCK,
+    Method,
+    SampledParts,
+    VariationResult,
+    central_interval,
+    monte_carlo_blocks,
+)
 
 DEFAULT_Q_RESOLUTION = 0.1  # loaded Q is read from f0/bandwidth; one decimal place (ours)
 
@@ -199,3 +206,40 @@ def trimmer_check(variation: VariationResult | SampledParts, target_f0_hz: float
         margin_low_f=interval.low - trimmer_min_f, margin_high_f=trimmer_max_f - interval.high,
         fraction_tunable=float(tunable.mean()), needed_f=needed)
 
+
+
+def settled_monte_carlo(circuit, spec, resolution_hz: float, *,
+                        q_resolution: float = DEFAULT_Q_RESOLUTION,
+                        block: int = MONTE_CARLO_BLOCK) -> VariationResult:
+    """A Monte Carlo run in blocks of `block` trials that stops when two successive
+    estimates of every window edge (test_limits) agree within that window's resolution
+    (resolution_hz, q_resolution, the |Z| window's 3-figure step), never beyond
+    spec.trials. The same seed gives the same trials, so the result is that of
+    monte_carlo with the trials used."""
+    def edges(variation):
+        lim = test_limits(variation, resolution_hz=resolution_hz, q_resolution=q_resolution)
+        high = lim.impedance_max_ohm
+        z_step = (10.0 ** (math.floor(math.log10(high)) - IMPEDANCE_DIGITS + 1)
+                  if math.isfinite(high) and high > 0.0 else 0.0)
+        steps = {"hz": resolution_hz, "q": q_resolution, "ohm": z_step}
+        return [(getattr(lim, name), steps["hz" if name.endswith("_hz") else
+                                          "ohm" if name.endswith("_ohm") else "q"])
+                for name in ("f0_min_hz", "f0_max_hz", "f_peak_min_hz", "f_peak_max_hz",
+                             "bandwidth_min_hz", "bandwidth_max_hz", "f_low_min_hz",
+                             "f_low_max_hz", "f_high_min_hz", "f_high_max_hz", "q_loaded_min",
+                             "q_loaded_max", "q_unloaded_min", "q_unloaded_max",
+                             "impedance_min_ohm", "impedance_max_ohm")]
+
+    def agree(a, b, step):
+        if math.isnan(a) or math.isnan(b):
+            return math.isnan(a) and math.isnan(b)
+        return abs(a - b) <= step * (1.0 + 1e-9)
+
+    previous = None
+    for variation in monte_carlo_blocks(circuit, spec, block):
+        now = edges(variation)
+        if previous is not None and all(agree(a, b, step) for (a, step), (b, _)
+                                        in zip(now, previous)):
+            break
+        previous = now
+    return variation

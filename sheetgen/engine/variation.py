@@ -569,3 +569,46 @@ def response_envelope(circuit: Circuit, variation: VariationResult, sweep_f_hz: 
         tail = 100.0 * (1.0 - coverage) / 2.0
         low, high = np.percentile(relative, [tail, 100.0 - tail], axis=0)
     return Envelope(f_hz, low, high)
+
+
+MONTE_CARLO_BLOCK = 10_000  # trials per block of a Monte Carlo that stops once settled
+
+
+def monte_carlo_blocks(circuit: Circuit, spec: VariationSpec, block: int = MONTE_CARLO_BLOCK):
+    """The Monte Carlo of the first `block`, 2·`block`, … trials, the last of spec.trials.
+
+    Each is the result monte_carlo gives for that many trials (numpy's generators deliver
+    a stream's first n values the same however many are drawn): only each new block is
+    evaluated, and the trials so far are joined.
+    """
+    import dataclasses
+    if block < 2:
+        raise ValueError("a block needs at least 2 trials")
+    draws = _monte_carlo_draws(spec)
+    names = ("f0_hz", "f_peak_hz", "f_low_hz", "f_high_hz", "bandwidth_hz", "q_loaded",
+             "impedance_at_peak_ohm")
+    done: list[VariationResult] = []
+    for start in range(0, spec.trials, block):
+        stop = min(start + block, spec.trials)
+        if spec.trials - stop < 2:  # never leave a last block too small to summarise
+            stop = spec.trials
+        piece = _Draws(*(getattr(draws, f.name)[start:stop] for f in dataclasses.fields(_Draws)))
+        done.append(_evaluate("monte-carlo", circuit, spec, piece, spec.seed, spec.coverage))
+        if len(done) == 1:
+            yield done[0]
+        else:
+            joined = {name: _frozen(np.concatenate([getattr(r, name) for r in done]))
+                      for name in names}
+            parts = TrialParts(**{
+                f.name: (None if getattr(done[0].parts, f.name) is None else _frozen(
+                    np.concatenate([getattr(r.parts, f.name) for r in done])))
+                for f in dataclasses.fields(TrialParts)})
+            summary = VariationSummary(**{
+                f.name: percentiles(joined[f.name], spec.coverage)
+                for f in dataclasses.fields(VariationSummary)})
+            yield VariationResult(method="monte-carlo", trials=stop, seed=spec.seed,
+                                  coverage=spec.coverage,
+                                  nan_trials=sum(r.nan_trials for r in done), nominal=circuit,
+                                  parts=parts, summary=summary, **joined)
+        if stop == spec.trials:
+            return

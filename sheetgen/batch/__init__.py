@@ -1,0 +1,1 @@
+"""Many jobs at once: collect job files, run each in isolation (worker processes), report."""

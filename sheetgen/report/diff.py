@@ -1,0 +1,174 @@
+"""What changed between two revisions of a design: inputs, derived values, limits, ratings
+and cautions, from two job documents and two results documents (sheetgen.results/1).
+
+Pure: plain data in, rows out. Numbers are equal within a relative tolerance of 1e-9; a
+value is shown in engineering notation with the unit its key's suffix names.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from dataclasses import dataclass
+
+from sheetgen.errors import field_path
+from sheetgen.report.formatting import quantity_text
+
+REL_TOL = 1e-9
+UNIT_SUFFIXES = (("_hz", "Hz"), ("_f", "F"), ("_h", "H"), ("_ohm", "Ω"), ("_v", "V"),
+                 ("_a", "A"), ("_w", "W"), ("_t", "T"), ("_m", "m"))
+DERIVED = ("components", "resonance", "stress", "inductor")
+MISSING = "—"
+
+
+@dataclass(frozen=True)
+class DiffRow:
+    """One changed value: its section, field path, and the value in A and in B (None where
+    absent or not applicable)."""
+
+    section: str
+    key: str
+    a: object
+    b: object
+
+
+def _flatten(value, prefix: tuple = ()) -> dict[str, object]:
+    """{'a.b[0].c': leaf} of nested mappings and lists."""
+    if isinstance(value, dict):
+        if not value and prefix:
+            return {field_path(prefix): value}
+        out = {}
+        for key, item in value.items():
+            out.update(_flatten(item, (*prefix, str(key))))
+        return out
+    if isinstance(value, (list, tuple)):
+        if not value and prefix:
+            return {field_path(prefix): None}
+        out = {}
+        for index, item in enumerate(value):
+            out.update(_flatten(item, (*prefix, index)))
+        return out
+    return {field_path(prefix): value}
+
+
+def same(a, b) -> bool:
+    """Equal values; numbers (not booleans) equal within a relative tolerance of 1e-9."""
+    numbers = (int, float)
+    if (isinstance(a, numbers) and isinstance(b, numbers)
+            and not isinstance(a, bool) and not isinstance(b, bool)):
+        return math.isclose(a, b, rel_tol=REL_TOL, abs_tol=0.0)
+    return a == b
+
+
+def _by_name(items: list[dict], name) -> dict[str, dict]:
+    """Items keyed by name(item), a repeated name numbered name[1], name[2] …"""
+    out: dict[str, dict] = {}
+    for item in items or ():
+        key = name(item)
+        if key in out:
+            count = 1
+            while f"{key}[{count}]" in out:
+                count += 1
+            key = f"{key}[{count}]"
+        out[key] = item
+    return out
+
+
+def _sections(job: object, results: dict) -> dict[str, dict[str, object]]:
+    """Each section's flat {key: value} for one revision."""
+    derived = {}
+    for name in DERIVED:
+        derived.update(_flatten(results.get(name), (name,)))
+    # the tolerances the variation used; its statistics are summed up by the limits
+    derived.update({f"variation.{key}": value for key, value in
+                    (results.get("variation") or {}).items() if not isinstance(value, dict)})
+    ratings = {}
+    for key, rating in _by_name(results.get("ratings", []),
+                                lambda r: f"{r.get('part')}.{r.get('quantity')}").items():
+        ratings.update({f"{key}.{field}": value for field, value in rating.items()
+                        if field != "advice"})
+    for key, check in _by_name(results.get("checks", []),
+                               lambda c: f"{c.get('code')}.{c.get('field')}").items():
+        ratings[f"check.{key}"] = check.get("text")
+    cautions = {key: f"{c.get('level', '').upper()}: {c.get('text')}"
+                for key, c in _by_name(results.get("cautions", []),
+                                       lambda c: str(c.get("code"))).items()}
+    return {
+        "inputs": _flatten(job),
+        "derived": derived,
+        "limits": _flatten(results.get("limits"), ("limits",)),
+        "ratings": ratings,
+        "cautions": cautions,
+    }
+
+
+def diff_rows(job_a: object, results_a: dict, job_b: object, results_b: dict) -> list[DiffRow]:
+    """Every value that differs between revision A and revision B, section by section, in
+    the order of A's keys (keys only in B after them)."""
+    a_sections, b_sections = _sections(job_a, results_a), _sections(job_b, results_b)
+    rows = []
+    for section, a_values in a_sections.items():
+        b_values = b_sections[section]
+        for key in [*a_values, *(k for k in b_values if k not in a_values)]:
+            a, b = a_values.get(key), b_values.get(key)
+            if not same(a, b):
+                rows.append(DiffRow(section, key, a, b))
+    return rows
+
+
+def unit_of(key: str) -> str | None:
+    """The unit the suffix of a key names ('limits.f0_min_hz' → 'Hz'), else of the key
+    holding it ('variation.f0_hz.low' → 'Hz'), else None."""
+    for part in reversed(key.split(".")):
+        name = part.split("[", 1)[0]
+        for suffix, unit in UNIT_SUFFIXES:
+            if name.endswith(suffix):
+                return unit
+    return None
+
+
+def _shown(value, unit: str | None, digits: int) -> str:
+    if value is None:
+        return MISSING
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        return str(value)
+    if not math.isfinite(value):
+        return str(value)
+    if unit is not None:
+        return quantity_text(float(value), unit, digits)
+    if isinstance(value, int):
+        return str(value)
+    return f"{value:.{digits}g}"
+
+
+def shown_pair(row: DiffRow) -> tuple[str, str]:
+    """A and B as written for people: engineering notation, with as many figures as it
+    takes (4 to 12) for two different numbers to read differently."""
+    unit = unit_of(row.key)
+    digits = 4
+    a, b = _shown(row.a, unit, digits), _shown(row.b, unit, digits)
+    while a == b and digits < 12:
+        digits += 1
+        a, b = _shown(row.a, unit, digits), _shown(row.b, unit, digits)
+    return a, b
+
+
+def diff_table(rows: list[DiffRow], name_a: object = "A", name_b: object = "B") -> str:
+    """The changes as an aligned table (section, field, A, B), or a line saying there are
+    none."""
+    if not rows:
+        return f"no differences between {name_a} and {name_b}\n"
+    cells = [("section", "field", str(name_a), str(name_b))]
+    cells += [(row.section, row.key, *shown_pair(row)) for row in rows]
+    widths = [max(len(line[k]) for line in cells) for k in range(3)]
+    lines = []
+    for line in cells:
+        lines.append("  ".join(text.ljust(width) for text, width in zip(line[:3], widths))
+                     + "  " + line[3])
+    return "\n".join(line.rstrip() for line in lines) + "\n"
+
+
+def diff_json(rows: list[DiffRow]) -> str:
+    """The changes as a JSON list of {section, key, a, b} (SI values, null where absent)."""
+    return json.dumps([{"section": r.section, "key": r.key, "a": r.a, "b": r.b} for r in rows],
+                      indent=2, ensure_ascii=False, default=str) + "\n"
