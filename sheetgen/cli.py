@@ -65,6 +65,12 @@ def build_parser() -> argparse.ArgumentParser:
                       help="print the changes as JSON: a list of {section, key, a, b}")
     diff.add_argument("--library", type=Path, help="parts library folder (default: see README)")
 
+    verify = commands.add_parser("verify", help="check that archived sheets are intact and "
+                                 "still reproduce with this version")
+    verify.add_argument("sheets", type=Path, nargs="+", help="built sheets (.pdf)")
+    verify.add_argument("--library", type=Path, help="parts library folder for jobs that name "
+                        "cores (default: found from the sheet's folder, as for a job)")
+
     demo = commands.add_parser("demo", help="build the bundled demo job's sheet")
     demo.add_argument("-o", "--output", type=Path, default=Path("demo.pdf"),
                       help="PDF to write (default: demo.pdf)")
@@ -237,23 +243,45 @@ def _diff(args) -> int:
 def _diff_side(path: Path, library_folder: Path | None) -> tuple[object, dict]:
     """(job data, results document) of a job file, or of a built sheet's attachments."""
     from sheetgen.inputs.reader import compose_located
-    if path.suffix.lower() == ".pdf":
-        # Built sheets: read the attached job and results (sheetgen.bench.sheet_file).
-        try:
-            from sheetgen.bench.sheet_file import read_sheet
-        except ImportError:
-            raise UsageError(f"{path}: reading a built sheet needs sheetgen.bench.sheet_file, "
-                             "which this version lacks; compare the job files instead") from None
+    if path.suffix.lower() == ".pdf":  # a built sheet: its attached job and results
+        from sheetgen.bench.sheet_file import read_sheet
         sheet = read_sheet(path)
-        job_text, results = sheet if isinstance(sheet, tuple) else (sheet.job_text, sheet.results)
-        return compose_located(job_text, str(path)).data, results
+        return compose_located(sheet.job_text, str(path)).data, sheet.results
     from sheetgen.design.pipeline import design_from_file
     from sheetgen.report.results import results_document
     design = design_from_file(path, library_folder)
     return compose_located(path.read_text(encoding="utf-8"), str(path)).data, results_document(design)
 
 
+def _verify(args) -> int:
+    """Each sheet: reproduces (0), drifted (1, values listed) or not a sound sheet (2)."""
+    from sheetgen.bench.verify import verify_sheet
+    from sheetgen.report.diff import diff_table
+    from sheetgen.report.formatting import plural
+    worst = EXIT_OK
+    for path in args.sheets:
+        try:
+            result = verify_sheet(path, args.library)
+        except InputError as error:
+            for problem in error.problems:
+                print(problem, file=sys.stderr)
+            worst = EXIT_BAD_INPUT
+            continue
+        versions = (f"built by sheetgen {result.archived_version}, checked with "
+                    f"{result.checked_version}")
+        sheet = result.sheet
+        if result.reproduces:
+            print(f"{path}: {sheet.sheet_id} rev {sheet.revision} reproduces ({versions})")
+            continue
+        print(f"{path}: {sheet.sheet_id} rev {sheet.revision} does NOT reproduce ({versions}); "
+              f"{plural(len(result.drift), 'value')} moved:")
+        sys.stdout.write(diff_table(list(result.drift), "archived", "now"))
+        worst = max(worst, EXIT_CHECK_FAILED)
+    return worst
+
+
 COMMANDS = {"check": _check, "build": _build_command, "limits": _limits, "diff": _diff,
+            "verify": _verify,
             "demo": _demo, "new": _new, "schema": _schema}
 
 

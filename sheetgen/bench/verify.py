@@ -1,0 +1,63 @@
+"""Does an archived sheet still reproduce? Its attachments are checked against the content
+hash recorded at build (bench/sheet_file.py), then the attached job is designed again with
+the installed sheetgen and every value that moved is listed (report/diff.py compares).
+
+Numbers agree within the diff's relative tolerance of 1e-9; a frequency window edge agrees
+when it moved by no more than the window's resolution (limits.resolution_hz), since edges
+are rounded outward to it.
+"""
+
+from __future__ import annotations
+
+import tempfile
+from dataclasses import dataclass
+from pathlib import Path
+
+from sheetgen import __version__
+from sheetgen.bench.sheet_file import SheetFile, read_sheet
+from sheetgen.report.diff import DiffRow, diff_rows
+
+COMPARED = ("derived", "limits", "ratings", "cautions")  # the inputs are the same job
+
+
+@dataclass(frozen=True)
+class Verification:
+    """One sheet checked: who built it, who checked it, and what moved."""
+
+    sheet: SheetFile
+    archived_version: str
+    checked_version: str
+    drift: tuple[DiffRow, ...]
+
+    @property
+    def reproduces(self) -> bool:
+        return not self.drift
+
+
+def _within_resolution(row: DiffRow, resolution_hz: float | None) -> bool:
+    if row.section != "limits" or not row.key.endswith("_hz") or not resolution_hz:
+        return False
+    if not all(isinstance(v, (int, float)) for v in (row.a, row.b)):
+        return False
+    return abs(row.a - row.b) <= resolution_hz * (1 + 1e-9)
+
+
+def verify_sheet(path: Path, library_folder: Path | None = None) -> Verification:
+    """Check one sheet; InputError when it is not a sheetgen sheet or was altered."""
+    from sheetgen.design.pipeline import design_from_file
+    from sheetgen.inputs.library import find_library_folder
+    from sheetgen.inputs.reader import compose_located
+    from sheetgen.report.results import results_document
+    sheet = read_sheet(path)
+    job = compose_located(sheet.job_text, str(path)).data
+    named = job.get("library") if isinstance(job, dict) else None
+    with tempfile.TemporaryDirectory(prefix="sheetgen-verify-") as folder:
+        job_path = Path(folder) / "job.yaml"
+        job_path.write_text(sheet.job_text, encoding="utf-8")
+        library = library_folder or find_library_folder(Path(path), named, None)
+        fresh = results_document(design_from_file(job_path, library))
+    archived = sheet.results
+    resolution = (archived.get("limits") or {}).get("resolution_hz")
+    drift = tuple(row for row in diff_rows(job, archived, job, fresh)
+                  if row.section in COMPARED and not _within_resolution(row, resolution))
+    return Verification(sheet, str(archived.get("tool_version", "unknown")), __version__, drift)
