@@ -8,6 +8,7 @@ edge by quantities.parse_quantity.
 from __future__ import annotations
 
 import datetime as _dt
+import re
 from typing import Annotated, Literal
 
 from pydantic import (
@@ -80,6 +81,26 @@ def _text(value: object) -> object:
 Text = Annotated[str, BeforeValidator(_text), Field(min_length=1, max_length=2000)]
 
 
+def _iso_date(value: object) -> object:
+    """A calendar date written YYYY-MM-DD (ISO 8601), kept as the text written."""
+    text = _text(value)
+    if not isinstance(text, str):
+        return text
+    expected = "expected the date as YYYY-MM-DD, e.g. 2026-12-01"
+    if not re.fullmatch(r"\d{4}-\d{2}-\d{2}", text.strip()):
+        raise PydanticCustomError("date", f"{quantities.shown_input(text)} is not a date; "
+                                  f"{expected}")
+    try:
+        _dt.date.fromisoformat(text.strip())
+    except ValueError as error:
+        raise PydanticCustomError("date", f"{quantities.shown_input(text)} is not a date "
+                                  f"({error}); {expected}") from None
+    return text.strip()
+
+
+IsoDate = Annotated[str, BeforeValidator(_iso_date)]
+
+
 # Tags of the "a name, or the thing inline" unions; they appear in error locations only.
 BY_NAME, INLINE = "by-name", "inline"
 
@@ -116,7 +137,7 @@ class SheetIdentity(Section):
     title: Text = Field(description="what the circuit is, in a line")
     revision: Text = Field(description="revision letter or number, e.g. B")
     designer: Text = Field(description="who designed it")
-    date: Text = Field(description="date of this revision, e.g. 2026-12-01")
+    date: IsoDate = Field(description="date of this revision, YYYY-MM-DD, e.g. 2026-12-01")
     checker: Text | None = Field(None, description="who checked the design (optional)")
     approver: Text | None = Field(None, description="who approved it for build (optional)")
     notes: str | None = Field(None, max_length=20000, description="free text for the sheet")
