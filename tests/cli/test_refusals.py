@@ -40,3 +40,17 @@ def test_a_date_that_is_no_date_is_bad_input(tmp_path, capsys, written, fragment
     line, column, rest = _located(lines, job)
     assert (line, column) == (8, 9) and rest.startswith("sheet.date: "), lines
     assert fragment in rest and "YYYY-MM-DD" in rest, rest
+
+
+def test_output_naming_a_folder_says_so_and_leaves_nothing(tmp_path, capsys):
+    """An output path that is a folder is a usage error naming the folder, not a temporary file."""
+    job = _write(tmp_path, _edit("date: 2026-12-01", "date: 2026-12-01"))
+    folder = tmp_path / "out"
+    folder.mkdir()
+    code, lines = _run(capsys, "limits", job, "-o", folder)
+    assert code == 2
+    assert lines == [f"sheetgen: cannot write {folder}: it is a folder; give a file name "
+                     "inside it"], lines
+    assert ".part" not in lines[0]
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["job.yaml", "out"]
+    assert list(folder.iterdir()) == []
