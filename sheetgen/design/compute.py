@@ -11,6 +11,7 @@ import numpy as np
 from sheetgen.design.assessment import assess
 from sheetgen.design.capacitors import capacitor_choice
 from sheetgen.design.designators import designators
+from sheetgen.design.plausibility import plausibility_findings
 from sheetgen.design.records import CoilDesign, Derivation, Design
 from sheetgen.engine import resonance
 from sheetgen.engine.stress import Drive, DriveError, part_stress
@@ -102,7 +103,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
         raise FieldError("variation", str(error)) from None
     return Design(job, circuit, drive, analysed, stress, response, choice, tuple(derived),
-                  coil_result, names, assessment)
+                  coil_result, names, assessment,
+                  plausibility_findings(job, circuit, analysed, stress, fixed))
 
 
 def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]:
