@@ -6,7 +6,7 @@ is wrong; what is expected; exit 2; never a traceback.
 
 import pytest
 
-from tests.cli.test_bad_input import LOCATED, _edit, _run, _write
+from tests.cli.test_bad_input import GOOD, LOCATED, TEMPLATES, _edit, _run, _write
 
 
 def _located(lines, job):
@@ -54,3 +54,29 @@ def test_output_naming_a_folder_says_so_and_leaves_nothing(tmp_path, capsys):
     assert ".part" not in lines[0]
     assert sorted(p.name for p in tmp_path.iterdir()) == ["job.yaml", "out"]
     assert list(folder.iterdir()) == []
+
+
+TOROID = (TEMPLATES / "toroid.yaml").read_text(encoding="utf-8")
+
+
+@pytest.mark.parametrize("text, field, line, fragment", [
+    (_edit("  esr: 0.05 ohm", "  esr: 0.05 ohm\n  tolerance: 100 %"), "capacitor.tolerance", 22,
+     '"100 %" must be below 100 %'),
+    (_edit("  esr: 0.05 ohm", "  esr: 0.05 ohm\n  tolerance: 150 %"), "capacitor.tolerance", 22,
+     "must be below 100 %"),
+    (GOOD + "ratings:\n  voltage_derating: 200 %\n", "ratings.voltage_derating", 31,
+     '"200 %" must be at most 100 %'),
+    (GOOD + "ratings:\n  current_derating: 0 %\n", "ratings.current_derating", 31,
+     "must be greater than 0"),
+    (TOROID.replace("lead_length: 30 mm", "lead_length: 5 m"), "inductor.lead_length", 21,
+     '"5 m" must be at most 300 mm'),
+], ids=["tolerance 100 %", "tolerance 150 %", "derating 200 %", "derating 0 %", "lead 5 m"])
+def test_out_of_range_value_is_reported_at_its_own_field(tmp_path, capsys, text, field, line,
+                                                         fragment):
+    """A tolerance of ±100 % lets a part be zero (a spread must stay below it); a derating
+    is a share of the rating, in (0, 100 %]; a lead is centimetres (common practice)."""
+    job = _write(tmp_path, text)
+    code, lines = _run(capsys, "check", job)
+    assert code == 2, lines
+    row, _, rest = _located(lines, job)
+    assert row == line and rest.startswith(f"{field}: ") and fragment in rest, lines
