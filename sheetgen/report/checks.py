@@ -33,16 +33,8 @@ def failed_checks(design: Design) -> list[CheckFailure]:
             failures.append(CheckFailure("rating", _rating_field(design, check), rating_advice(check)))
     trim = design.assessment.trimmer
     if trim is not None and not trim.covers and design.capacitor_choice.trimmer_in_range:
-        share = "all" if trim.coverage is None else f"{trim.coverage * 100:.2f} %"
-        failures.append(CheckFailure(
-            "trimmer-coverage", "capacitor.trimmer",
-            f"to tune {share} of builds to f0 the trimmer must span "
-            f"{format_quantity(trim.needed_min_f, 'F', 3)} to "
-            f"{format_quantity(trim.needed_max_f, 'F', 3)}, but it spans "
-            f"{format_quantity(trim.trimmer_min_f, 'F', 3)} to "
-            f"{format_quantity(trim.trimmer_max_f, 'F', 3)} (it tunes "
-            f"{trim.fraction_tunable * 100:.1f} % of builds); choose a wider trimmer or a "
-            "closer-tolerance capacitor and coil"))
+        failures.append(CheckFailure("trimmer-coverage", "capacitor.trimmer",
+                                     _trimmer_coverage_text(trim)))
     choice = design.capacitor_choice
     if choice.trimmer_in_range is False:
         trimmer = design.job.capacitor.trimmer
@@ -54,6 +46,28 @@ def failed_checks(design: Design) -> list[CheckFailure]:
             f"{format_quantity(trimmer.maximum, 'F', 3)}; choose a trimmer whose range "
             "includes it"))
     return failures
+
+
+def _trimmer_coverage_text(trim) -> str:
+    """Why the trimmer does not tune every build, never as a negative capacitance."""
+    share = "all" if trim.coverage is None else f"{trim.coverage * 100:.2f} %"
+    spans = (f"the trimmer spans {format_quantity(trim.trimmer_min_f, 'F', 3)} to "
+             f"{format_quantity(trim.trimmer_max_f, 'F', 3)} (it tunes "
+             f"{trim.fraction_tunable * 100:.1f} % of builds)")
+    if trim.needed_min_f < 0:
+        over = float((trim.needed_f < 0).mean()) * 100
+        smaller = trim.trimmer_min_f - trim.needed_min_f
+        span = trim.needed_max_f - trim.needed_min_f
+        return (f"to tune {share} of builds to f0: in {over:.1f} % of builds the fixed "
+                "capacitors alone already exceed the capacitance for f0, by up to "
+                f"{format_quantity(-trim.needed_min_f, 'F', 3)}, which no trimmer can take "
+                f"away; {spans}; choose a smaller fixed part (about "
+                f"{format_quantity(smaller, 'F', 3)} less) with a trimmer spanning at least "
+                f"{format_quantity(span, 'F', 3)}, or closer-tolerance parts")
+    return (f"to tune {share} of builds to f0 the trimmer must span "
+            f"{format_quantity(trim.needed_min_f, 'F', 3)} to "
+            f"{format_quantity(trim.needed_max_f, 'F', 3)}, but {spans}; choose a wider "
+            "trimmer or a closer-tolerance capacitor and coil")
 
 
 def _rating_field(design: Design, check) -> str:
