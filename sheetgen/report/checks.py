@@ -29,7 +29,10 @@ def failed_checks(design: Design) -> list[CheckFailure]:
                 for f in design.plausibility]
     failures += _coil_failures(design)
     for check in design.assessment.ratings:
-        if check.status == "fail":
+        if check.status == "fail" and check.rating is None:
+            failures.append(CheckFailure("rating-not-given", _unrated_field(design, check),
+                                         _unrated_text(design, check)))
+        elif check.status == "fail":
             failures.append(CheckFailure("rating", _rating_field(design, check), rating_advice(check)))
     trim = design.assessment.trimmer
     if trim is not None and not trim.covers and design.capacitor_choice.trimmer_in_range:
@@ -68,6 +71,28 @@ def _trimmer_coverage_text(trim) -> str:
             f"{format_quantity(trim.needed_min_f, 'F', 3)} to "
             f"{format_quantity(trim.needed_max_f, 'F', 3)}, but {spans}; choose a wider "
             "trimmer or a closer-tolerance capacitor and coil")
+
+
+def _unrated_field(design: Design, check) -> str:
+    if check.part == design.designators.trimmer:
+        return "capacitor.trimmer.rated_voltage"
+    return "capacitor.rated_voltage" if check.quantity == "peak voltage" else "capacitor.rated_power"
+
+
+def _unrated_text(design: Design, check) -> str:
+    """A stress above extra-low voltage on a part whose rating the job does not give."""
+    from sheetgen.engine.ratings import EXTRA_LOW_VOLTAGE_PEAK_V
+    elv = (f"{format_quantity(check.peak_voltage_v, 'V', 3)} peak is on it, above the "
+           f"{format_quantity(EXTRA_LOW_VOLTAGE_PEAK_V, 'V', 3)} peak extra-low-voltage "
+           "limit of IEC 61140")
+    field = _unrated_field(design, check)
+    if check.quantity == "peak voltage":
+        derating = design.job.ratings.voltage_derating
+        need = format_quantity(check.actual / derating, "V", 3)
+        return (f"{check.part}: no voltage rating is given and {elv}; give {field} (at least "
+                f"{need} at the {derating * 100:g} % derating)")
+    return (f"{check.part}: no power rating is given for the "
+            f"{format_quantity(check.actual, 'W', 3)} in its ESR and {elv}; give {field}")
 
 
 def _rating_field(design: Design, check) -> str:

@@ -293,6 +293,13 @@ def rating_rows(design: Design) -> list[Row]:
     """Each rating check: the stress against the derated rating, and its status."""
     rows = []
     for check in design.assessment.ratings:
+        if check.rating is None:  # a rating the job does not give
+            rows.append(Row(f"{check.part} {check.quantity}",
+                            f"{stress_text(check.actual, check.unit)}, rating not given",
+                            {"not rated": "NOT RATED: give the rating (warning)",
+                             "fail": "FAIL: rating not given, above extra-low voltage",
+                             "accepted": "ACCEPTED without a rating"}[check.status]))
+            continue
         status = {"pass": "pass", "fail": "FAIL", "accepted": "ACCEPTED"}[check.status]
         rows.append(Row(f"{check.part} {check.quantity}", f"{stress_text(check.actual, check.unit)} of "
                         f"{stress_text(check.allowed, check.unit)} allowed", f"{status}, margin "
