@@ -332,6 +332,9 @@ def default_sweep_range_hz(resonance: Resonance) -> tuple[float, float]:
     half_span = 4.0 * (resonance.bandwidth_hz or resonance.f0_hz / 2.0)
     low = max(resonance.f_peak_hz - half_span, resonance.f0_hz / 3.0)
     high = min(resonance.f_peak_hz + half_span, resonance.f0_hz * 3.0)
+    if not low < resonance.f_peak_hz < high:  # a peak far from f0: span both, a decade out
+        low = min(resonance.f0_hz, resonance.f_peak_hz) / 3.0
+        high = max(resonance.f0_hz, resonance.f_peak_hz) * 3.0
     return low, high
 
 

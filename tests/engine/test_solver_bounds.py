@@ -35,3 +35,14 @@ def test_a_root_newton_cannot_reach_is_found_by_bisection_within_its_bound():
     x = resonance._safe_newton(function, np.array([-4.0]), np.array([4.0]), np.array([3.9]))
     assert abs(float(x[0]) - 1.0) < 1e-12
     assert calls[0] <= 1 + 2 + 60, calls[0]
+
+
+def test_default_sweep_spans_the_peak_even_far_from_f0():
+    """A heavily loaded parallel tank can peak far from Thomson's f0 (its peak moves with the
+    losses); the default sweep must still be a range (start below stop) holding the peak."""
+    fields = dict(f0_hz=726.0, f_peak_hz=3000.0, f_unity_pf_hz=None, reactance_ohm=1.0,
+                  q_inductor=None, q_capacitor=None, q_unloaded=None, q_loaded=None,
+                  bandwidth_hz=None, f_low_hz=None, f_high_hz=None, impedance_at_peak_ohm=1.0,
+                  dynamic_resistance_ohm=None)
+    low, high = resonance.default_sweep_range_hz(resonance.Resonance(**fields))
+    assert low < 3000.0 < high and low < 726.0 < high
