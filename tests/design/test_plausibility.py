@@ -68,3 +68,19 @@ def test_implausible_design_fails_its_checks(tmp_path, capsys, case, text, field
 def test_the_starters_are_plausible(name):
     """The shipped starters describe buildable circuits: none crosses a bound."""
     assert design_from_file(TEMPLATES / f"{name}.yaml").plausibility == ()
+
+
+def test_coil_above_its_self_resonance_is_refused_at_the_inductor(tmp_path, capsys):
+    """Above its self-resonance a coil is capacitive and its Q is zero (Medhurst's
+    self-capacitance, engine/coil.py); a 1.8 µH single-layer coil self-resonates well below
+    500 MHz, so the loss X0/Q cannot be formed: refused, naming the coil, no traceback."""
+    text = (TEMPLATES / "solenoid.yaml").read_text(encoding="utf-8")
+    assert "    f0: 14.2 MHz" in text and "  trimmer:" in text
+    text = "".join(line for line in text.splitlines(keepends=True)
+                   if not line.startswith("  trimmer:"))
+    job = tmp_path / "job.yaml"
+    job.write_text(text.replace("    f0: 14.2 MHz", "    f0: 500 MHz"), encoding="utf-8")
+    code = main(["check", str(job)])
+    err = capsys.readouterr().err
+    assert code == 2 and "Traceback" not in err
+    assert " inductor: " in err and "self-resonance" in err, err
