@@ -17,7 +17,7 @@ from hypothesis import strategies as st
 from sheetgen.cli import main
 from tests.cli.test_bad_input import TEMPLATES
 
-NEGATIVE_CAPACITANCE = re.compile(r"[-\u2212]\s*\d[\d.,]*(?:e[-+]?\d+)?\s*[yzafpnuµm]?F\b")
+NEGATIVE_CAPACITANCE = re.compile(r"(?<![\deE])[-\u2212]\s*\d[\d.,]*(?:e[-+]?\d+)?\s*[yzafpnuµm]?F\b")
 
 
 def _decades(low: int, high: int):

@@ -11,7 +11,7 @@ import re
 from sheetgen.cli import main
 from tests.cli.test_bad_input import TEMPLATES
 
-NEGATIVE_CAPACITANCE = re.compile(r"[-\u2212]\s*\d[\d.,]*(?:e[-+]?\d+)?\s*[afpnuµm]?F\b")
+NEGATIVE_CAPACITANCE = re.compile(r"(?<![\deE])[-\u2212]\s*\d[\d.,]*(?:e[-+]?\d+)?\s*[afpnuµm]?F\b")
 
 
 def test_fixed_part_beyond_f0_is_worded_not_negative(tmp_path, capsys):
