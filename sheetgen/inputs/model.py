@@ -82,6 +82,7 @@ LeadRun = _quantity(quantities.LENGTH, minimum=0.0, inclusive=True, maximum=0.3,
 # then always positive; engine/variation.py Spread).
 Tolerance = _quantity(quantities.FRACTION, minimum=0.0, inclusive=True, maximum=1.0,
                       maximum_inclusive=False, why=" (at ±100 % a part could be zero)")
+NORMAL_BAND_MAX = 0.5  # engine/variation.py Spread: a normal band is at most ±50 %
 # A derating is the share of a rating a part may carry: above 0, at most all of it.
 Derating = _quantity(quantities.FRACTION, minimum=0.0, inclusive=False, maximum=1.0,
                      why=" (a derating is the share of the rating a part may carry)")
@@ -569,3 +570,21 @@ class Job(Section):
     variation: VariationSection = VariationSection()
     test: TestSection = TestSection()
     ratings: RatingsSection = RatingsSection()
+
+    @model_validator(mode="after")
+    def _normal_bands(self):
+        """A band read as normal (±3σ) is at most ±50 %, so no draw is ever ≤ 0."""
+        if self.variation.distribution != "normal":
+            return self
+        bands = {"inductor.tolerance": self.inductor.tolerance,
+                 "capacitor.tolerance": self.capacitor.tolerance,
+                 "load.tolerance": self.load.tolerance if self.load is not None else None,
+                 "variation.loss_tolerance": self.variation.loss_tolerance}
+        for field, band in bands.items():
+            if band is not None and band > NORMAL_BAND_MAX:
+                raise PydanticCustomError(
+                    "normal_band", f"±{band * 100:g} % is wider than ±{NORMAL_BAND_MAX * 100:g} %, "
+                    "the widest tolerance read as a normal band (±3σ) whose draws stay "
+                    "positive; give at most that, or variation.distribution: uniform",
+                    {"field": field})
+        return self

@@ -186,6 +186,9 @@ def validate_located(located: Located, shown: str, model: type[BaseModel], expec
 def _problem(shown: str, located: Located, error: dict, root: type[BaseModel]) -> Problem:
     """One pydantic error → a Problem at the right node, with a message a person can act on."""
     path = _data_path(located.data, error["loc"])
+    named = (error.get("ctx") or {}).get("field")
+    if isinstance(named, str) and not error["loc"]:  # a whole-file check naming its field
+        path = field_parts(named)
     kind = error["type"]
     field = field_path(path)
     if kind == "extra_forbidden":

@@ -80,3 +80,17 @@ def test_out_of_range_value_is_reported_at_its_own_field(tmp_path, capsys, text,
     assert code == 2, lines
     row, _, rest = _located(lines, job)
     assert row == line and rest.startswith(f"{field}: ") and fragment in rest, lines
+
+
+def test_tolerance_too_wide_for_a_normal_band_is_reported_at_the_tolerance(tmp_path, capsys):
+    """A band read as normal is ±3σ; the engine takes at most ±50 % (σ ≈ 16.7 %, zero 6σ
+    away, about 1e-9 of draws; engine/variation.py Spread). ±60 % is refused at the
+    tolerance the user wrote, not at the variation section."""
+    text = _edit("  esr: 0.05 ohm", "  esr: 0.05 ohm\n  tolerance: 60 %") + (
+        "variation:\n  distribution: normal\n")
+    job = _write(tmp_path, text)
+    code, lines = _run(capsys, "check", job)
+    assert code == 2
+    row, column, rest = _located(lines, job)
+    assert (row, column) == (22, 14) and rest.startswith("capacitor.tolerance: "), lines
+    assert "50 %" in rest and "normal" in rest
