@@ -45,6 +45,7 @@ class Dimension:
     units: Mapping[str, float] = field(default_factory=dict)
     whole_units: Mapping[str, Callable[[float], float]] = field(default_factory=dict)
     allow_bare_number: bool = True
+    large_prefixes: Mapping[str, float] = field(default_factory=dict)
 
 
 def _scale(factor: float) -> Callable[[float], float]:
@@ -61,7 +62,10 @@ OHM_SPELLINGS = {"\u03a9": 1.0, "\u2126": 1.0, "ohm": 1.0, "ohms": 1.0, "Ohm": 1
 INDUCTANCE = Dimension("inductance", "H", "henries", "4.7 µH", {"H": 1.0})
 CAPACITANCE = Dimension("capacitance", "F", "farads", "150 pF", {"F": 1.0})
 RESISTANCE = Dimension("resistance", "Ω", "ohms", "2.2 kΩ", OHM_SPELLINGS)
-FREQUENCY = Dimension("frequency", "Hz", "hertz", "7.1 MHz", {"Hz": 1.0, "hz": 1.0})
+# Only a frequency takes tera and peta (BIPM SI Brochure table 7): "100 PF" or "1 TH" is
+# far likelier a slip of the shift key than a real value.
+FREQUENCY = Dimension("frequency", "Hz", "hertz", "7.1 MHz", {"Hz": 1.0, "hz": 1.0},
+                      large_prefixes={"T": 1e12, "P": 1e15})
 VOLTAGE = Dimension("voltage", "V", "volts", "10 V", {"V": 1.0, "Vrms": 1.0})
 CURRENT = Dimension("current", "A", "amperes", "100 mA", {"A": 1.0, "Arms": 1.0})
 POWER = Dimension("power", "W", "watts", "5 W (or 37 dBm)", {"W": 1.0}, {"dBm": dbm_to_w})
@@ -125,8 +129,12 @@ def parse_quantity(value: object, dimension: Dimension) -> float:
     if unit in dimension.units:
         return _finite(number * dimension.units[unit], value, dimension)
     prefix, rest = unit[0], unit[1:]
-    if prefix in SI_PREFIXES and rest in dimension.units:
-        return _finite(number * SI_PREFIXES[prefix] * dimension.units[rest], value, dimension)
+    if dimension is FREQUENCY and unit == "mhz":
+        raise QuantityError(f"{shown_input(value)} is ambiguous: did you mean "
+                            f"{match.group(1)} MHz? write mHz for millihertz")
+    factor = SI_PREFIXES.get(prefix, dimension.large_prefixes.get(prefix))
+    if factor is not None and rest in dimension.units:
+        return _finite(number * factor * dimension.units[rest], value, dimension)
     raise QuantityError(f"{shown_input(value)} is not a {dimension.name} "
                         f"(expected {dimension.unit_name}, e.g. {_example(match, dimension)})")
 

@@ -27,6 +27,8 @@ def _file_mode(path: Path) -> int:
 
 def write_atomically(path: Path, data: bytes) -> None:
     """Write to a temporary file beside `path`, then rename over it: whole or not at all."""
+    if path.is_dir():
+        raise OutputFolderError(f"cannot write {path}: it is a folder; give a file name inside it")
     directory = path.resolve().parent
     if not directory.is_dir():
         raise OutputFolderError(f"cannot write {path}: the folder {directory} does not exist")

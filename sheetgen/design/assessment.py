@@ -22,11 +22,13 @@ from sheetgen.engine.limits import (
 )
 from sheetgen.engine.ratings import (
     RatingCheck,
+    UnratedCheck,
     capacitor_current_check,
     capacitor_voltage_check,
     current_density_check,
     esr_power_check,
     flux_density_check,
+    unrated_check,
 )
 from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import SERIES_TOLERANCE
@@ -142,9 +144,10 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
 def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators,
                   fixed_parts_f: tuple[float, ...], *, flux: float | None,
                   flux_limit_t: float | None, wire_diameter_m: float | None
-                  ) -> tuple[RatingCheck, ...]:
+                  ) -> tuple[RatingCheck | UnratedCheck, ...]:
     """Every rating the job gives, against the computed stress (parallel parts share the
-    capacitor current in proportion to their capacitance)."""
+    capacitor current in proportion to their capacitance); a capacitor's voltage and ESR
+    power and the trimmer's voltage without a rating are UnratedChecks, never a pass."""
     ratings = job.ratings
     accepted = {a.check.strip().lower(): a.reason for a in ratings.accept}
     power = stress.drive_power_w
@@ -157,11 +160,15 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
     total_c = circuit.capacitance_f
     for part, c_part in zip(names.fixed_capacitors, fixed_parts_f):
         share = c_part / total_c
+        peak = stress.capacitor_voltage_peak_v
         if cap.rated_voltage is not None:
             checks.append(capacitor_voltage_check(
-                part, stress.capacitor_voltage_peak_v, cap.rated_voltage,
+                part, peak, cap.rated_voltage,
                 derating=ratings.voltage_derating, drive_power_w=power,
                 acceptance=acceptance(part, "peak voltage")))
+        else:  # a missing rating is not a pass
+            checks.append(unrated_check(part, "peak voltage", "V", peak, peak,
+                                        acceptance(part, "peak voltage")))
         if cap.rated_current is not None:
             checks.append(capacitor_current_check(
                 part, stress.capacitor_current_rms_a * share, cap.rated_current,
@@ -172,11 +179,20 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
                 part, stress.capacitor_loss_w * share, cap.rated_power,
                 esr_ohm=circuit.capacitor_esr_ohm, drive_power_w=power,
                 acceptance=acceptance(part, "power in ESR")))
+        elif stress.capacitor_loss_w > 0:
+            checks.append(unrated_check(part, "power in ESR", "W",
+                                        stress.capacitor_loss_w * share, peak,
+                                        acceptance(part, "power in ESR")))
     if names.trimmer and cap.trimmer is not None and cap.trimmer.rated_voltage is not None:
         checks.append(capacitor_voltage_check(
             names.trimmer, stress.capacitor_voltage_peak_v, cap.trimmer.rated_voltage,
             derating=ratings.voltage_derating, drive_power_w=power,
             acceptance=acceptance(names.trimmer, "peak voltage")))
+    elif names.trimmer and cap.trimmer is not None:
+        checks.append(unrated_check(names.trimmer, "peak voltage", "V",
+                                    stress.capacitor_voltage_peak_v,
+                                    stress.capacitor_voltage_peak_v,
+                                    acceptance(names.trimmer, "peak voltage")))
     if wire_diameter_m is not None:
         checks.append(current_density_check(
             names.coil, stress.inductor_current_rms_a, wire_diameter_m, drive_power_w=power,

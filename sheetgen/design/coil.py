@@ -136,6 +136,9 @@ def coil_loss(inductor: ToroidInductor | SolenoidInductor, coil: ToroidCoil | So
     if inductor.q is not None:
         return x0 / inductor.q, inductor.q, "job"
     q = float(coil_engine.coil_q_sweep(coil, f0))
+    if not q > 0:  # at or above its self-resonance the coil is no longer an inductor
+        raise FieldError("inductor", f"the coil's estimated Q at f0 ({f0:.4g} Hz) is 0: f0 is "
+                         "at or above its self-resonance; use fewer turns or a lower f0")
     return x0 / q, q, "estimate"
 
 

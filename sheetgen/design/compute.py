@@ -11,6 +11,7 @@ import numpy as np
 from sheetgen.design.assessment import assess
 from sheetgen.design.capacitors import capacitor_choice
 from sheetgen.design.designators import designators
+from sheetgen.design.plausibility import LOADED_Q_MIN, plausibility_findings
 from sheetgen.design.records import CoilDesign, Derivation, Design
 from sheetgen.engine import resonance
 from sheetgen.engine.stress import Drive, DriveError, part_stress
@@ -55,6 +56,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     circuit = resonance.Circuit(job.circuit.topology, inductance, coil_r, capacitance, esr,
                                 job.source.resistance, load_r)
     wanted_q = _wanted_loaded_q(targets, f0)
+    if wanted_q is not None and wanted_q < LOADED_Q_MIN:
+        wanted_q = None  # no resonance to load down to it: the plausibility check says so
     if wanted_q is not None:
         if load_r is not None:
             raise FieldError("load.resistance", "is given and so is a bandwidth or loaded Q "
@@ -101,7 +104,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
         raise FieldError("variation", str(error)) from None
     return Design(job, circuit, drive, analysed, stress, response, choice, tuple(derived),
-                  coil_result, names, assessment)
+                  coil_result, names, assessment,
+                  plausibility_findings(job, circuit, analysed, stress, fixed))
 
 
 def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]:

@@ -11,6 +11,7 @@ import numpy as np
 
 from sheetgen.design.assessment import Assessment
 from sheetgen.design.designators import Designators
+from sheetgen.design.plausibility import Finding
 from sheetgen.engine.coil import SolenoidCoil, ToroidCoil
 from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import StandardPair
@@ -103,3 +104,4 @@ class Design:
     coil: CoilDesign | None
     designators: Designators
     assessment: Assessment
+    plausibility: tuple[Finding, ...] = ()  # values beyond what can be built (plausibility.py)

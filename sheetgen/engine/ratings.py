@@ -76,6 +76,59 @@ class RatingCheck:
         return "pass" if self.passed else ("accepted" if self.accepted else "fail")
 
 
+# IEC 61140: extra-low voltage is up to 50 V a.c. rms (from memory); the RF on a part is
+# sinusoidal, so its peak is √2 times that, about 70.7 V. report/cautions.py words it.
+EXTRA_LOW_VOLTAGE_RMS_V = 50.0
+EXTRA_LOW_VOLTAGE_PEAK_V = EXTRA_LOW_VOLTAGE_RMS_V * math.sqrt(2.0)
+
+
+@dataclass(frozen=True)
+class UnratedCheck:
+    """A stress on a part whose rating the job does not give: never a pass.
+
+    Where the part's peak voltage is within the extra-low-voltage limit it is a warning
+    ("not rated"); above it a failure, unless accepted with a written reason. Has the
+    fields of a RatingCheck, None where there is no rating.
+    """
+
+    part: str
+    quantity: CheckQuantity
+    unit: str
+    actual: float
+    peak_voltage_v: float
+    acceptance_reason: str | None = None
+    rating: None = None
+    derating: None = None
+    allowed: None = None
+    margin: None = None
+    remedy: None = None
+    passed: bool = False
+
+    @property
+    def hazardous(self) -> bool:
+        """The part's peak voltage is above the extra-low-voltage limit."""
+        return self.peak_voltage_v > EXTRA_LOW_VOLTAGE_PEAK_V
+
+    @property
+    def accepted(self) -> bool:
+        return self.hazardous and self.acceptance_reason is not None
+
+    @property
+    def status(self) -> Literal["not rated", "accepted", "fail"]:
+        if not self.hazardous:
+            return "not rated"
+        return "accepted" if self.accepted else "fail"
+
+
+def unrated_check(part: str, quantity: CheckQuantity, unit: str, actual: float,
+                  peak_voltage_v: float, acceptance: str | None = None) -> UnratedCheck:
+    """The check of a stress whose rating is not given (see UnratedCheck)."""
+    if acceptance is not None and not acceptance.strip():
+        raise ValueError(f"{part}: an acceptance needs a written reason")
+    return UnratedCheck(part, quantity, unit, actual, peak_voltage_v,
+                        acceptance.strip() if acceptance is not None else None)
+
+
 def _validate(part: str, actual: float, rating: float, derating: float,
               acceptance: str | None) -> None:
     if not part.strip():

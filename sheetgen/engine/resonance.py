@@ -177,22 +177,29 @@ def _safe_newton(function, low, high, guess):
     """Vectorised Newton's method kept inside a bracket, bisecting where Newton would leave it
     (the 'rtsafe' scheme, Press et al., Numerical Recipes, 3rd ed., section 9.4).
 
-    `function(x)` returns (f, df/dx); f(low) and f(high) must differ in sign.
+    `function(x)` returns (f, df/dx). Where f(low) and f(high) do not differ in sign there
+    is no root to find: that element is left at `guess` and not iterated. Bisection halves
+    the bracket each step, so every element stops within ~log2(width/tolerance) steps.
     """
     f_low, _ = function(low)
+    f_high, _ = function(high)
+    done = np.sign(f_low) == np.sign(f_high)
     x = guess.copy()
     for _ in range(_MAX_ITERATIONS):
+        if np.all(done):
+            break
         f, df = function(x)
         below = np.sign(f) == np.sign(f_low)
         low, f_low = np.where(below, x, low), np.where(below, f, f_low)
         high = np.where(below, high, x)
         with np.errstate(divide="ignore", invalid="ignore"):
             newton = x - f / df
-        converged = np.abs(newton - x) <= _TOLERANCE_LN * (1.0 + np.abs(x))
+        scale = _TOLERANCE_LN * (1.0 + np.abs(x))
+        small_step = np.abs(newton - x) <= scale
         inside = (newton > np.minimum(low, high)) & (newton < np.maximum(low, high))
-        x = np.where(inside | converged, newton, 0.5 * (low + high))
-        if np.all(converged):
-            break
+        step = np.where(inside | small_step, newton, 0.5 * (low + high))
+        x = np.where(done, x, step)
+        done = done | small_step | (np.abs(high - low) <= scale) | (f == 0)
     return x
 
 
@@ -360,6 +367,9 @@ def default_sweep_range_hz(resonance: Resonance) -> tuple[float, float]:
     half_span = 4.0 * (resonance.bandwidth_hz or resonance.f0_hz / 2.0)
     low = max(resonance.f_peak_hz - half_span, resonance.f0_hz / 3.0)
     high = min(resonance.f_peak_hz + half_span, resonance.f0_hz * 3.0)
+    if not low < resonance.f_peak_hz < high:  # a peak far from f0: span both, a decade out
+        low = min(resonance.f0_hz, resonance.f_peak_hz) / 3.0
+        high = max(resonance.f0_hz, resonance.f_peak_hz) * 3.0
     return low, high
 
 

@@ -8,6 +8,7 @@ edge by quantities.parse_quantity.
 from __future__ import annotations
 
 import datetime as _dt
+import re
 from typing import Annotated, Literal
 
 from pydantic import (
@@ -33,8 +34,10 @@ from sheetgen.engine.standard_values import SERIES_TOLERANCE
 from sheetgen.engine.variation import DEFAULT_COVERAGE, DEFAULT_SEED, DEFAULT_TRIALS
 
 
-def _quantity(dimension: quantities.Dimension, minimum: float | None = 0.0, inclusive: bool = False):
-    """A float field read from engineering notation, checked finite and above `minimum`."""
+def _quantity(dimension: quantities.Dimension, minimum: float | None = 0.0, inclusive: bool = False,
+              maximum: float | None = None, maximum_inclusive: bool = True, why: str = ""):
+    """A float field read from engineering notation, checked finite and above `minimum`
+    (and not beyond `maximum`; `why` says what the maximum stands for)."""
 
     def parse(value: object) -> float:
         try:
@@ -46,6 +49,13 @@ def _quantity(dimension: quantities.Dimension, minimum: float | None = 0.0, incl
             raise PydanticCustomError(
                 "quantity", f"{quantities.shown_input(value)} must be {bound} {minimum:g} "
                 f"{dimension.si_unit}".rstrip())
+        if maximum is not None and (number > maximum
+                                    or (number == maximum and not maximum_inclusive)):
+            bound = "at most" if maximum_inclusive else "below"
+            limit = (f"{maximum * 100:g} %" if dimension is quantities.FRACTION
+                     else quantities.format_quantity(maximum, dimension.si_unit))
+            raise PydanticCustomError(
+                "quantity", f"{quantities.shown_input(value)} must be {bound} {limit}{why}")
         return number
 
     schema = {
@@ -68,6 +78,19 @@ Fraction = _quantity(quantities.FRACTION, minimum=0.0, inclusive=True)
 PositiveNumber = _quantity(quantities.DIMENSIONLESS)
 Length = _quantity(quantities.LENGTH)
 LeadLength = _quantity(quantities.LENGTH, minimum=0.0, inclusive=True)
+# Common practice: a tuned circuit's leads are kept to centimetres; 300 mm is already a
+# tenth of the wavelength at 100 MHz, beyond which a lead is a transmission line.
+LeadRun = _quantity(quantities.LENGTH, minimum=0.0, inclusive=True, maximum=0.3,
+                    why=" (a lead runs from the winding to its terminal; a longer run is a "
+                    "cable outside the tank)")
+# A ±100 % tolerance lets a part be zero: every spread stays below it (a uniform band is
+# then always positive; engine/variation.py Spread).
+Tolerance = _quantity(quantities.FRACTION, minimum=0.0, inclusive=True, maximum=1.0,
+                      maximum_inclusive=False, why=" (at ±100 % a part could be zero)")
+NORMAL_BAND_MAX = 0.5  # engine/variation.py Spread: a normal band is at most ±50 %
+# A derating is the share of a rating a part may carry: above 0, at most all of it.
+Derating = _quantity(quantities.FRACTION, minimum=0.0, inclusive=False, maximum=1.0,
+                     why=" (a derating is the share of the rating a part may carry)")
 FluxDensity = _quantity(quantities.FLUX_DENSITY)
 InductanceFactor = _quantity(quantities.INDUCTANCE_FACTOR)
 TemperatureCoefficient = _quantity(quantities.TEMPERATURE_COEFFICIENT, minimum=None)
@@ -83,6 +106,26 @@ def _text(value: object) -> object:
 
 
 Text = Annotated[str, BeforeValidator(_text), Field(min_length=1, max_length=2000)]
+
+
+def _iso_date(value: object) -> object:
+    """A calendar date written YYYY-MM-DD (ISO 8601), kept as the text written."""
+    text = _text(value)
+    if not isinstance(text, str):
+        return text
+    expected = "expected the date as YYYY-MM-DD, e.g. 2026-12-01"
+    if not re.fullmatch(r"\d{4}-\d{2}-\d{2}", text.strip()):
+        raise PydanticCustomError("date", f"{quantities.shown_input(text)} is not a date; "
+                                  f"{expected}")
+    try:
+        _dt.date.fromisoformat(text.strip())
+    except ValueError as error:
+        raise PydanticCustomError("date", f"{quantities.shown_input(text)} is not a date "
+                                  f"({error}); {expected}") from None
+    return text.strip()
+
+
+IsoDate = Annotated[str, BeforeValidator(_iso_date)]
 
 
 # Tags of the "a name, or the thing inline" unions; they appear in error locations only.
@@ -130,7 +173,7 @@ class SheetIdentity(Section):
     title: Text = Field(description="what the circuit is, in a line")
     revision: Text = Field(description="revision letter or number, e.g. B")
     designer: Text = Field(description="who designed it")
-    date: Text = Field(description="date of this revision, e.g. 2026-12-01")
+    date: IsoDate = Field(description="date of this revision, YYYY-MM-DD, e.g. 2026-12-01")
     checker: Text | None = Field(None, description="who checked the design (optional)")
     approver: Text | None = Field(None, description="who approved it for build (optional)")
     notes: str | None = Field(None, max_length=20000, description="free text for the sheet")
@@ -181,7 +224,7 @@ class GivenInductor(Section):
     q: PositiveNumber | None = Field(None, description="the coil's unloaded Q at f0")
     resistance: LossResistance | None = Field(
         None, description="the coil's series loss resistance at f0 (instead of q)")
-    tolerance: Fraction | None = Field(None, description="± tolerance of the inductance, e.g. "
+    tolerance: Tolerance | None = Field(None, description="± tolerance of the inductance, e.g. "
                                        "5 % (omit: taken as exact)")
     temperature_coefficient: TemperatureCoefficient | None = Field(
         None, description="temperature coefficient of the inductance, e.g. 50 ppm/K")
@@ -220,7 +263,7 @@ class MaterialSpec(Section):
 
     description: str | None = Field(None, max_length=500, description="what it is for")
     mu_i: PositiveNumber = Field(description="initial permeability µi")
-    mu_i_tolerance: Fraction | None = Field(None, description="tolerance of µi (and of AL), e.g. 5 %")
+    mu_i_tolerance: Tolerance | None = Field(None, description="tolerance of µi (and of AL), e.g. 5 %")
     mu_tc: TemperatureCoefficient | None = Field(
         None, description="temperature coefficient of µi (and of AL), e.g. 150 ppm/K")
     flux_density_max: FluxDensity = Field(
@@ -255,7 +298,7 @@ class CoreSpec(Section):
         None, description="inductance factor AL when the core's data gives one; in nH/turn², "
         "µH/100 turns or mH/1000 turns. Without it AL follows from µi and the geometry "
         "(IEC 60205)")
-    al_tolerance: Fraction | None = Field(None, description="tolerance of AL (default: µi's)")
+    al_tolerance: Tolerance | None = Field(None, description="tolerance of AL (default: µi's)")
 
     @model_validator(mode="after")
     def _geometry(self):
@@ -303,7 +346,8 @@ class ToroidInductor(Section):
     core: name_or(CoreSpec) = Field(description="a core of the parts library by name, or inline")
     wire: WireSize
     enamel_grade: Literal[1, 2, 3] = Field(2, description="enamel build grade 1 (thin), 2 or 3 (thick)")
-    lead_length: LeadLength = Field(0.025, description="length of each lead beyond the core")
+    lead_length: LeadRun = Field(0.025, description="length of each lead beyond the core "
+                                 "(at most 300 mm)")
     link: LinkWinding | None = Field(None, description="a link winding (optional)")
     tap: Tap | None = Field(None, description="a tap on the winding instead of a link "
                             "(optional)")
@@ -313,7 +357,7 @@ class ToroidInductor(Section):
         "its Q near it")
     q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
                                      "the estimate (optional)")
-    tolerance: Fraction | None = Field(None, description="± tolerance of the wound inductance "
+    tolerance: Tolerance | None = Field(None, description="± tolerance of the wound inductance "
                                        "(default: the core's AL tolerance, else its material's "
                                        "µi tolerance)")
 
@@ -340,10 +384,11 @@ class SolenoidInductor(Section):
     length: Length | None = Field(None, description="winding length (instead of pitch)")
     former_length: Length | None = Field(None, description="usable length of the former")
     tap: Tap | None = Field(None, description="a tap on the winding (optional)")
-    lead_length: LeadLength = Field(0.025, description="length of each lead beyond the winding")
+    lead_length: LeadRun = Field(0.025, description="length of each lead beyond the winding "
+                                 "(at most 300 mm)")
     q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
                                      "the estimate (optional)")
-    tolerance: Fraction | None = Field(None, description="± tolerance of the wound inductance "
+    tolerance: Tolerance | None = Field(None, description="± tolerance of the wound inductance "
                                        "(default 5 %, common practice for hand-wound coils)")
     temperature_coefficient: TemperatureCoefficient | None = Field(
         None, description="temperature coefficient of the inductance (omit: not varied)")
@@ -384,7 +429,7 @@ class CapacitorSection(Section):
         "E12", description="IEC 60063 series that standard values are picked from")
     trimmer: Trimmer | None = Field(None, description="a trimmer in parallel that re-centres "
                                     "f0 (optional)")
-    tolerance: Fraction | None = Field(
+    tolerance: Tolerance | None = Field(
         None, description="± tolerance of the fixed part(s) (default: the one IEC 60063 pairs "
         "with the preferred series: " + ", ".join(f"{name} {share * 100:g} %" for name, share
                                                   in SERIES_TOLERANCE.items()) + ")")
@@ -439,7 +484,7 @@ class LoadSection(Section):
     resistance: Resistance | None = Field(
         None, description="load resistance; omit with circuit.targets.bandwidth or loaded_q to "
         "have it computed")
-    tolerance: Fraction | None = Field(None, description="± tolerance of the load resistance "
+    tolerance: Tolerance | None = Field(None, description="± tolerance of the load resistance "
                                        "(omit: exact)")
 
 
@@ -470,7 +515,7 @@ class VariationSection(Section):
                       "limits")
     coverage: Fraction = Field(DEFAULT_COVERAGE, description="share of correctly built units the limits "
                                "must pass, e.g. 99.73 %")
-    loss_tolerance: Fraction | None = Field(
+    loss_tolerance: Tolerance | None = Field(
         None, description="± spread of the coil's loss resistance and the capacitor's ESR "
         "(omit: exact)")
     temperature: OperatingTemperature = Field(
@@ -506,9 +551,9 @@ class Acceptance(Section):
 class RatingsSection(Section):
     """Derating and recorded acceptances for the component rating checks."""
 
-    voltage_derating: Fraction = Field(DEFAULT_VOLTAGE_DERATING, description="share of a capacitor's rated voltage "
+    voltage_derating: Derating = Field(DEFAULT_VOLTAGE_DERATING, description="share of a capacitor's rated voltage "
                                        "it may carry (default 50 %, common practice)")
-    current_derating: Fraction = Field(DEFAULT_CURRENT_DERATING, description="share of a rated current a part may "
+    current_derating: Derating = Field(DEFAULT_CURRENT_DERATING, description="share of a rated current a part may "
                                        "carry (default 80 %, common practice)")
     accept: tuple[Acceptance, ...] = Field((), description="failed checks accepted on purpose")
 
@@ -559,3 +604,21 @@ class Job(Section):
     test: TestSection = TestSection()
     ratings: RatingsSection = RatingsSection()
     insulation: InsulationSection = InsulationSection()
+
+    @model_validator(mode="after")
+    def _normal_bands(self):
+        """A band read as normal (±3σ) is at most ±50 %, so no draw is ever ≤ 0."""
+        if self.variation.distribution != "normal":
+            return self
+        bands = {"inductor.tolerance": self.inductor.tolerance,
+                 "capacitor.tolerance": self.capacitor.tolerance,
+                 "load.tolerance": self.load.tolerance if self.load is not None else None,
+                 "variation.loss_tolerance": self.variation.loss_tolerance}
+        for field, band in bands.items():
+            if band is not None and band > NORMAL_BAND_MAX:
+                raise PydanticCustomError(
+                    "normal_band", f"±{band * 100:g} % is wider than ±{NORMAL_BAND_MAX * 100:g} %, "
+                    "the widest tolerance read as a normal band (±3σ) whose draws stay "
+                    "positive; give at most that, or variation.distribution: uniform",
+                    {"field": field})
+        return self

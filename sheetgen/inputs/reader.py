@@ -80,7 +80,14 @@ def compose_located(text: str, shown: str) -> Located:
     if not text.strip():
         raise InputError([Problem(shown, 1, 1, "", "the file is empty; expected a mapping with "
                                     "sheet, circuit, inductor, capacitor and source")])
-    loader = yaml.SafeLoader(text)
+    try:
+        loader = yaml.SafeLoader(text)
+    except yaml.reader.ReaderError as error:  # a character YAML does not allow (e.g. NUL)
+        line = text.count("\n", 0, error.position) + 1
+        column = error.position - (text.rfind("\n", 0, error.position) + 1) + 1
+        raise InputError([Problem(shown, line, column, "",
+                                  f"the control character U+{error.character:04X} is not "
+                                  "allowed in a YAML file; remove it")]) from None
     try:
         node = loader.get_single_node()
     except yaml.MarkedYAMLError as error:
@@ -135,6 +142,8 @@ def compose_located(text: str, shown: str) -> Located:
             return result
         if isinstance(n, yaml.SequenceNode):
             return [build(item, path + (index,)) for index, item in enumerate(n.value)]
+        if n.tag == "tag:yaml.org,2002:timestamp":
+            return n.value  # a date is kept as the text written; the model checks it
         return constructor.construct_object(n)
 
     data = build(node, ())
@@ -177,6 +186,9 @@ def validate_located(located: Located, shown: str, model: type[BaseModel], expec
 def _problem(shown: str, located: Located, error: dict, root: type[BaseModel]) -> Problem:
     """One pydantic error → a Problem at the right node, with a message a person can act on."""
     path = _data_path(located.data, error["loc"])
+    named = (error.get("ctx") or {}).get("field")
+    if isinstance(named, str) and not error["loc"]:  # a whole-file check naming its field
+        path = field_parts(named)
     kind = error["type"]
     field = field_path(path)
     if kind == "extra_forbidden":

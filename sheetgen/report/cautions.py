@@ -24,7 +24,12 @@ from sheetgen.engine.insulation import (
     InsulationDistances,
     insulation_distances,
 )
-from sheetgen.engine.ratings import discharge_time_s, stored_charge_c, stored_energy_j
+from sheetgen.engine.ratings import (
+    EXTRA_LOW_VOLTAGE_RMS_V,
+    discharge_time_s,
+    stored_charge_c,
+    stored_energy_j,
+)
 from sheetgen.engine.resonance import Circuit
 from sheetgen.engine.stress import Stress
 from sheetgen.quantities import format_quantity
@@ -66,7 +71,7 @@ THRESHOLDS: tuple[Threshold, ...] = (
               "protection against direct contact in dry conditions",
               "IEC 61140 extra-low voltage with IEC 60364-4-41 §414.4.5: 25 V a.c. rms or "
               "60 V ripple-free d.c. in normal dry conditions; from memory"),
-    Threshold("voltage_rms_v", 50.0, "V", "warning",
+    Threshold("voltage_rms_v", EXTRA_LOW_VOLTAGE_RMS_V, "V", "warning",
               "the {limit} rms ({peak} peak) extra-low-voltage limit of IEC 61140",
               "IEC 61140: extra-low voltage up to 50 V a.c. rms or 120 V ripple-free d.c., "
               "the same as IEC 60449 band I; from memory"),

@@ -7,8 +7,10 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from sheetgen.design import plausibility as bounds
+from sheetgen.design.plausibility import Finding
 from sheetgen.design.records import Design
-from sheetgen.quantities import format_quantity
+from sheetgen.quantities import format_number, format_quantity
 from sheetgen.report.advice import rating_advice
 
 
@@ -23,22 +25,19 @@ class CheckFailure:
 
 def failed_checks(design: Design) -> list[CheckFailure]:
     """Every check the design fails (empty when all pass); accepted ratings do not fail."""
-    failures = _coil_failures(design)
+    failures = [CheckFailure("implausible", f.field, plausibility_text(design, f))
+                for f in design.plausibility]
+    failures += _coil_failures(design)
     for check in design.assessment.ratings:
-        if check.status == "fail":
+        if check.status == "fail" and check.rating is None:
+            failures.append(CheckFailure("rating-not-given", _unrated_field(design, check),
+                                         _unrated_text(design, check)))
+        elif check.status == "fail":
             failures.append(CheckFailure("rating", _rating_field(design, check), rating_advice(check)))
     trim = design.assessment.trimmer
     if trim is not None and not trim.covers and design.capacitor_choice.trimmer_in_range:
-        share = "all" if trim.coverage is None else f"{trim.coverage * 100:.2f} %"
-        failures.append(CheckFailure(
-            "trimmer-coverage", "capacitor.trimmer",
-            f"to tune {share} of builds to f0 the trimmer must span "
-            f"{format_quantity(trim.needed_min_f, 'F', 3)} to "
-            f"{format_quantity(trim.needed_max_f, 'F', 3)}, but it spans "
-            f"{format_quantity(trim.trimmer_min_f, 'F', 3)} to "
-            f"{format_quantity(trim.trimmer_max_f, 'F', 3)} (it tunes "
-            f"{trim.fraction_tunable * 100:.1f} % of builds); choose a wider trimmer or a "
-            "closer-tolerance capacitor and coil"))
+        failures.append(CheckFailure("trimmer-coverage", "capacitor.trimmer",
+                                     _trimmer_coverage_text(trim)))
     choice = design.capacitor_choice
     if choice.trimmer_in_range is False:
         trimmer = design.job.capacitor.trimmer
@@ -50,6 +49,50 @@ def failed_checks(design: Design) -> list[CheckFailure]:
             f"{format_quantity(trimmer.maximum, 'F', 3)}; choose a trimmer whose range "
             "includes it"))
     return failures
+
+
+def _trimmer_coverage_text(trim) -> str:
+    """Why the trimmer does not tune every build, never as a negative capacitance."""
+    share = "all" if trim.coverage is None else f"{trim.coverage * 100:.2f} %"
+    spans = (f"the trimmer spans {format_quantity(trim.trimmer_min_f, 'F', 3)} to "
+             f"{format_quantity(trim.trimmer_max_f, 'F', 3)} (it tunes "
+             f"{trim.fraction_tunable * 100:.1f} % of builds)")
+    if trim.needed_min_f < 0:
+        over = float((trim.needed_f < 0).mean()) * 100
+        smaller = trim.trimmer_min_f - trim.needed_min_f
+        span = trim.needed_max_f - trim.needed_min_f
+        return (f"to tune {share} of builds to f0: in {over:.1f} % of builds the fixed "
+                "capacitors alone already exceed the capacitance for f0, by up to "
+                f"{format_quantity(-trim.needed_min_f, 'F', 3)}, which no trimmer can take "
+                f"away; {spans}; choose a smaller fixed part (about "
+                f"{format_quantity(smaller, 'F', 3)} less) with a trimmer spanning at least "
+                f"{format_quantity(span, 'F', 3)}, or closer-tolerance parts")
+    return (f"to tune {share} of builds to f0 the trimmer must span "
+            f"{format_quantity(trim.needed_min_f, 'F', 3)} to "
+            f"{format_quantity(trim.needed_max_f, 'F', 3)}, but {spans}; choose a wider "
+            "trimmer or a closer-tolerance capacitor and coil")
+
+
+def _unrated_field(design: Design, check) -> str:
+    if check.part == design.designators.trimmer:
+        return "capacitor.trimmer.rated_voltage"
+    return "capacitor.rated_voltage" if check.quantity == "peak voltage" else "capacitor.rated_power"
+
+
+def _unrated_text(design: Design, check) -> str:
+    """A stress above extra-low voltage on a part whose rating the job does not give."""
+    from sheetgen.engine.ratings import EXTRA_LOW_VOLTAGE_PEAK_V
+    elv = (f"{format_quantity(check.peak_voltage_v, 'V', 3)} peak is on it, above the "
+           f"{format_quantity(EXTRA_LOW_VOLTAGE_PEAK_V, 'V', 3)} peak extra-low-voltage "
+           "limit of IEC 61140")
+    field = _unrated_field(design, check)
+    if check.quantity == "peak voltage":
+        derating = design.job.ratings.voltage_derating
+        need = format_quantity(check.actual / derating, "V", 3)
+        return (f"{check.part}: no voltage rating is given and {elv}; give {field} (at least "
+                f"{need} at the {derating * 100:g} % derating)")
+    return (f"{check.part}: no power rating is given for the "
+            f"{format_quantity(check.actual, 'W', 3)} in its ESR and {elv}; give {field}")
 
 
 def _rating_field(design: Design, check) -> str:
@@ -85,3 +128,83 @@ def _coil_failures(design: Design) -> list[CheckFailure]:
             f"the wire's overall diameter {format_quantity(r.wire.overall_diameter_m, 'm', 3)} "
             "and the length within the former's; use a thinner wire or a longer former"))
     return failures
+
+
+def _q(finding: Finding) -> str:
+    return (format_quantity(finding.value, finding.unit, 3) if finding.unit
+            else format_number(finding.value, 3))
+
+
+def _span(low: float, high: float, unit: str) -> str:
+    return f"{format_quantity(low, unit, 3)} to {format_quantity(high, unit, 3)}"
+
+
+def plausibility_text(design: Design, finding: Finding) -> str:
+    """The sentence for a value beyond what a tuned circuit can be built with, with its remedy."""
+    value = _q(finding)
+    bound = (format_quantity(finding.bound, finding.unit, 3) if finding.unit
+             else format_number(finding.bound, 3))
+    kind = finding.quantity
+    if kind == "f0":
+        where = ("the highest frequency a lumped LC tank is built for; above it resonators "
+                 "are lines or cavities" if finding.side == "above" else
+                 "the lowest frequency a tuned LC circuit is built for; below it the parts "
+                 "are henries and hundreds of microfarads")
+        return (f"f0 {value} is {finding.side} {bound}, {where} (common practice); choose an "
+                f"f0 within {_span(bounds.F0_MIN_HZ, bounds.F0_MAX_HZ, 'Hz')} — check the "
+                "unit prefix")
+    if kind == "inductance":
+        what = ("the inductance computed for f0 from the capacitance" if finding.derived
+                else "the inductance")
+        why = ("the leads alone have about 1 nH per millimetre (common practice, from memory)"
+               if finding.side == "below" else
+               "beyond any tuning inductor; such a coil is an iron-cored choke (common practice)")
+        fix = ("choose a capacitance that gives" if finding.derived else "give")
+        return (f"{what}, {value}, is {finding.side} {bound}: {why}; {fix} an inductance within "
+                f"{_span(bounds.INDUCTANCE_MIN_H, bounds.INDUCTANCE_MAX_H, 'H')} — check the "
+                "unit prefix (a bare number is in henries)")
+    if kind in ("capacitance", "fixed capacitance"):
+        if kind == "fixed capacitance":
+            what = "the smallest fixed capacitor of the pair"
+            fix = "choose another preferred_series, or fit one part and a trimmer"
+        elif finding.derived:
+            what = "the capacitance computed for f0 with this inductance"
+            fix = (f"choose an inductance that needs a capacitance within "
+                   f"{_span(bounds.CAPACITANCE_MIN_F, bounds.CAPACITANCE_MAX_F, 'F')}")
+        else:
+            what = "the capacitance"
+            fix = (f"give a capacitance within "
+                   f"{_span(bounds.CAPACITANCE_MIN_F, bounds.CAPACITANCE_MAX_F, 'F')}")
+        why = ("pad, lead and probe strays of 0.1 pF to 1 pF swamp it (common practice)"
+               if finding.side == "below" else
+               "only electrolytic parts are that large, too lossy and loose for a tuned "
+               "circuit (common practice)")
+        return f"{what}, {value}, is {finding.side} {bound}: {why}; {fix} — check the unit prefix"
+    if kind == "loaded Q":
+        return _loaded_q_text(design, finding, value, bound)
+    return (f"the peak RF voltage {value} is above {bound}: air breaks down at about "
+            f"{format_quantity(bounds.AIR_BREAKDOWN_V_PER_M * 1e-3, 'V', 2)}/mm at sea level "
+            f"(from memory), {bound} across terminals "
+            f"{format_quantity(bounds.TERMINAL_GAP_M, 'm', 2)} apart, and no listed part "
+            "withstands more; lower the drive, or check its unit")
+
+
+def _loaded_q_text(design: Design, finding: Finding, value: str, bound: str) -> str:
+    why = (f"below {bound}, critical damping, a second-order circuit is overdamped and "
+           "does not resonate (textbook)")
+    if finding.field == "circuit.targets.loaded_q":
+        return f"a loaded Q of {value} is asked for; {why}; ask for a loaded Q of at least {bound}"
+    f0 = design.resonance.f0_hz
+    if finding.field == "circuit.targets.bandwidth":
+        widest = format_quantity(f0 / bounds.LOADED_Q_MIN, "Hz", 3)
+        return (f"the bandwidth asked for gives a loaded Q of {value} (f0/bandwidth); {why}; "
+                f"ask for a bandwidth of at most {widest} at this f0 — check the unit prefix")
+    x0 = format_quantity(design.resonance.reactance_ohm, "Ω", 3)
+    if design.circuit.topology == "series":
+        fix = (f"the resistances in the loop swamp the reactance X0 = {x0}: lower the source "
+               "or load resistance, or raise the reactance (more inductance, less capacitance)")
+    else:
+        fix = (f"the source and load resistances across the tank are low beside the reactance "
+               f"X0 = {x0}: raise them, or lower the reactance (less inductance, more "
+               "capacitance)")
+    return f"the loaded Q is {value}; {why}; {fix}"

@@ -252,9 +252,14 @@ def limits_rows(design: Design) -> list[Row]:
     ]
     if a.trimmer is not None:
         t = a.trimmer
-        rows.append(Row("Trimmer capacitance needed", f"{quantity_text(t.needed_min_f, 'F')} to "
-                        f"{quantity_text(t.needed_max_f, 'F')}", "covered" if t.covers else
-                        f"NOT COVERED: the trimmer tunes {t.fraction_tunable * 100:.1f} % of builds"))
+        needed = (f"{quantity_text(t.needed_min_f, 'F')} to {quantity_text(t.needed_max_f, 'F')}"
+                  if t.needed_min_f >= 0 else f"up to {quantity_text(t.needed_max_f, 'F')}")
+        note = ("covered" if t.covers else
+                f"NOT COVERED: the trimmer tunes {t.fraction_tunable * 100:.1f} % of builds")
+        if t.needed_min_f < 0:  # never a negative capacitance: say what it means
+            note += (f"; the fixed part alone exceeds f0's capacitance by up to "
+                     f"{quantity_text(-t.needed_min_f, 'F')} in some builds")
+        rows.append(Row("Trimmer capacitance needed", needed, note))
     method = (f"Monte Carlo, {lim.trials:,} trials, seed {lim.seed}, "
               f"{lim.coverage * 100:.2f} % coverage" if lim.method == "monte-carlo"
               else f"worst case over {lim.trials} corners")
@@ -290,6 +295,13 @@ def rating_rows(design: Design) -> list[Row]:
     """Each rating check: the stress against the derated rating, and its status."""
     rows = []
     for check in design.assessment.ratings:
+        if check.rating is None:  # a rating the job does not give
+            rows.append(Row(f"{check.part} {check.quantity}",
+                            f"{stress_text(check.actual, check.unit)}, rating not given",
+                            {"not rated": "NOT RATED: give the rating (warning)",
+                             "fail": "FAIL: rating not given, above extra-low voltage",
+                             "accepted": "ACCEPTED without a rating"}[check.status]))
+            continue
         status = {"pass": "pass", "fail": "FAIL", "accepted": "ACCEPTED"}[check.status]
         rows.append(Row(f"{check.part} {check.quantity}", f"{stress_text(check.actual, check.unit)} of "
                         f"{stress_text(check.allowed, check.unit)} allowed", f"{status}, margin "

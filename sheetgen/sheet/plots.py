@@ -21,7 +21,8 @@ from sheetgen.sheet import drawing
 TICK_SIZE = 7.5
 TITLE_SIZE = 8.0
 MARK_SIZE = 7.5
-_PREFIXES = ((1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""))
+_PREFIXES = ((1e15, "P"), (1e12, "T"), (1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""),
+             (1e-3, "m"), (1e-6, "µ"), (1e-9, "n"), (1e-12, "p"), (1e-15, "f"))
 
 
 @dataclass(frozen=True)
@@ -71,8 +72,12 @@ def linear_ticks(low: float, high: float, count: int,
 
 
 def frequency_axis(low_hz: float, high_hz: float, count: int) -> Axis:
-    """Frequency in the prefix that keeps the labels short (kHz, MHz …)."""
-    scale, prefix = next((s, p) for s, p in _PREFIXES if high_hz >= s)
+    """Frequency in the prefix that keeps the labels short (kHz, MHz …), for any range: an
+    empty or reversed one is widened around its centre."""
+    if not high_hz > low_hz:
+        centre = max(abs(low_hz), abs(high_hz)) or 1.0
+        low_hz, high_hz = centre * (1 - 1e-3), centre * (1 + 1e-3)
+    scale, prefix = next(((s, p) for s, p in _PREFIXES if high_hz >= s), _PREFIXES[-1])
     ticks = linear_ticks(low_hz / scale, high_hz / scale, count)
     decimals = _decimals(nice_step((high_hz - low_hz) / scale, count))
     labels = tuple(f"{t:.{decimals}f}" for t in ticks)

@@ -49,7 +49,7 @@ CASES = [
     ("quantity in the wrong unit", _edit("  esr: 0.05 ohm", "  capacitance: 40 pH\n  esr: 0.05 ohm"),
      [(21, 16, "capacitor.capacitance", '"40 pH" is not a capacitance (expected farads, e.g. 40 pF)')]),
     ("zero", _edit("resistance: 50 ohm\n  available", "resistance: 0 ohm\n  available"),
-     [(25, 15, "source.resistance", "must be greater than 0")]),
+     [(27, 15, "source.resistance", "must be greater than 0")]),
     ("negative", _edit("inductance: 10 uH", "inductance: -10 uH"),
      [(17, 15, "inductor.inductance", "must be greater than 0")]),
     ("not finite", _edit("esr: 0.05 ohm", "esr: .inf"),

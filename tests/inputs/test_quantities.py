@@ -80,3 +80,29 @@ def test_round_trip_of_formatted_values():
                              (17.67e3, quantities.RESISTANCE), (7.1e6, quantities.FREQUENCY)]:
         text = quantities.format_quantity(value, dimension.si_unit, 4)
         assert math.isclose(quantities.parse_quantity(text, dimension), value, rel_tol=5e-4), text
+
+
+
+@pytest.mark.parametrize("text, expected", [("1 THz", 1e12), ("2 PHz", 2e15), ("1e12 Hz", 1e12),
+                                            ("13.56 Mhz", 13.56e6), ("455 khz", 455e3),
+                                            ("10 mHz", 10e-3)])
+def test_frequency_prefixes_up_to_peta(text, expected):
+    """BIPM SI Brochure table 7: T = 10¹², P = 10¹⁵; a frequency takes them as 1e12 Hz is
+    taken (plausibility judges the value, not the parser)."""
+    assert_close(quantities.parse_quantity(text, quantities.FREQUENCY), expected, rel=1e-12, what=text)
+
+
+@pytest.mark.parametrize("text, dimension", [("100 PF", quantities.CAPACITANCE), ("1 TH", quantities.INDUCTANCE)])
+def test_large_prefixes_stay_refused_where_they_are_a_typo(text, dimension):
+    """"100 PF" is a mistyped 100 pF far more often than 0.1 EF: only frequency takes T and P."""
+    with pytest.raises(quantities.QuantityError):
+        quantities.parse_quantity(text, dimension)
+
+
+def test_lower_case_mhz_is_refused_as_ambiguous():
+    """"mhz" reads as millihertz by the SI letter case (BIPM table 7) but is almost always a
+    mistyped MHz: refused with both readings offered."""
+    with pytest.raises(quantities.QuantityError) as caught:
+        quantities.parse_quantity("13.56 mhz", quantities.FREQUENCY)
+    message = str(caught.value)
+    assert "did you mean 13.56 MHz?" in message and "mHz for millihertz" in message

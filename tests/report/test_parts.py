@@ -268,14 +268,15 @@ def test_designators_agree_on_the_printed_sheet(tmp_path):
 # --- the parts list ------------------------------------------------------------------------
 
 def test_parts_list_shows_the_dielectric_and_ratings_the_job_gives():
-    """templates/power-tank.yaml: C0G, 2 kV peak and 5 A rms per fixed part, a 3 kV trimmer,
+    """templates/power-tank.yaml: C0G, 2 kV peak, 5 A rms and 2 W per fixed part, a 3 kV trimmer,
     5 % tolerance. C0G is a class 1 dielectric (EIA-198, IEC 60384-8; from memory)."""
     design = _design("power-tank")
     rows = {row.designator: row for row in part_rows(design)}
     for fixed in ("C1", "C2"):
         assert rows[fixed].material == "C0G (class 1)"
         assert rows[fixed].rating == (f"{format_quantity(2e3, 'V', 3)} peak; "
-                                      f"{format_quantity(5.0, 'A', 3)} rms")
+                                      f"{format_quantity(5.0, 'A', 3)} rms; "
+                                      f"{format_quantity(2.0, 'W', 3)} in its ESR")
         assert rows[fixed].tolerance == "± 2.00 % (job)"
     assert rows["C3"].rating == format_quantity(3e3, "V", 3) + " peak"
     assert rows["C3"].material == NO_DATA, "the job gives no trimmer dielectric"
@@ -356,7 +357,8 @@ def test_negative_percentages_use_the_minus_sign(tmp_path):
     design = _job_design(tmp_path, "series", {
         "  targets:\n    f0: 13.56 MHz\n": "",
         "preferred_series: E24": "preferred_series: E12",
-        "capacitor:\n": "capacitor:\n  capacitance: 125 pF\n  rated_voltage: 100 V\n"})
+        "capacitor:\n": "capacitor:\n  capacitance: 125 pF\n",
+        "rated_voltage: 500 V": "rated_voltage: 100 V"})
     (nearest,) = capacitor_rows(design)
     assert nearest.label == "Nearest E12 value"
     assert nearest.value == "120 pF" and nearest.remark == "\u22124.00 %"

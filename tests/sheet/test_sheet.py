@@ -116,7 +116,8 @@ def shown(path: str, key: str, value, results: dict) -> str | None:
         if key == "margin":  # signed, with the true minus sign U+2212 (Unicode)
             return f"margin {value * 100:+.0f} %".replace("-", "\u2212")
         if key == "status":
-            return {"pass": "pass", "fail": "FAIL", "accepted": "ACCEPTED"}[value]
+            return {"pass": "pass", "fail": "FAIL", "accepted": "ACCEPTED",
+                    "not rated": "NOT RATED"}[value]
         if entry["unit"] == "A/m²":
             return format_number(value * 1e-6, 3) + " A/mm²"
         return format_quantity(value, entry["unit"], 3)

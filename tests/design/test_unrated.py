@@ -1,0 +1,58 @@
+"""A rating the job does not give is not a pass (IEC 61140: extra-low voltage is up to
+50 V a.c. rms, 70.7 V peak for a sinusoid; from memory): within it a warning, above it a
+failed check that says which rating to give."""
+
+import json
+
+from sheetgen.cli import main
+from tests.cli.test_bad_input import GOOD
+
+UNRATED = (GOOD.replace("  rated_voltage: 500 V   # each part; its 165 V peak is above "
+                        "extra-low voltage\n", "").replace("  rated_power: 250 mW\n", ""))
+
+
+def _check(tmp_path, capsys, text):
+    job = tmp_path / "job.yaml"
+    job.write_text(text, encoding="utf-8")
+    code = main(["check", str(job), "--json"])
+    results = json.loads(capsys.readouterr().out)
+    main(["check", str(job)])
+    summary = capsys.readouterr()
+    return code, results, summary.out, summary.err
+
+
+def test_unrated_capacitor_above_extra_low_voltage_fails(tmp_path, capsys):
+    assert "rated_voltage" not in UNRATED and "rated_power" not in UNRATED
+    code, results, out, err = _check(tmp_path, capsys, UNRATED)
+    assert code == 1
+    statuses = {(r["part"], r["quantity"]): r["status"] for r in results["ratings"]}
+    assert statuses[("C1", "peak voltage")] == "fail"
+    assert statuses[("C1", "power in ESR")] == "fail"
+    assert any(c["code"] == "rating-not-given" and c["field"] == "capacitor.rated_voltage"
+               for c in results["checks"])
+    assert "rating not given" in out
+    assert "check failed: capacitor.rated_voltage: C1: no voltage rating is given" in err
+    # 165 V peak / 50 % derating (the default, common practice) = 330 V
+    assert "at least 330 V at the 50 % derating" in err
+
+
+def test_unrated_capacitor_within_extra_low_voltage_is_a_warning(tmp_path, capsys):
+    """At 10 mW available the peak is 165 V × √(10 mW / 1 W) = 16.5 V (stress scales with
+    √P in a linear circuit), within 70.7 V: a warning, not a failure."""
+    code, results, out, _ = _check(tmp_path, capsys,
+                                   UNRATED.replace("available_power: 1 W", "available_power: 10 mW"))
+    assert code == 0
+    statuses = {(r["part"], r["quantity"]): r["status"] for r in results["ratings"]}
+    assert statuses[("C1", "peak voltage")] == "not rated"
+    assert "NOT RATED" in out
+
+
+def test_unrated_trimmer_is_listed(tmp_path, capsys):
+    """The toroid starter's trimmer C3 has no rating; 2 V peak is within 70.7 V."""
+    from tests.cli.test_bad_input import TEMPLATES
+    text = (TEMPLATES / "toroid.yaml").read_text(encoding="utf-8")
+    assert "trimmer: {minimum: 10 pF, maximum: 100 pF}" in text
+    code, results, out, _ = _check(tmp_path, capsys, text)
+    statuses = {(r["part"], r["quantity"]): r["status"] for r in results["ratings"]}
+    assert statuses[("C3", "peak voltage")] == "not rated", statuses
+    assert "C3 peak voltage" in out
