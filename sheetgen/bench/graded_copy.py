@@ -62,11 +62,30 @@ def _all_fields(writer):
         stack.extend(obj.get("/Kids", []))
 
 
+def _own_text_appearances(writer) -> None:
+    """Draw each filled text field's value in an appearance of its own. A form whose text
+    widgets share one appearance dictionary shows the last value typed in every field once
+    a filler writes into it; the copy gives each widget its own and redraws it (pypdf)."""
+    from pypdf.generic import DictionaryObject, NameObject
+    for page in writer.pages:
+        values = {}
+        for annotation in page.get("/Annots", []) or []:
+            widget = annotation.get_object()
+            if widget.get("/FT") != "/Tx" or "/T" not in widget:
+                continue
+            value = widget.get("/V")
+            widget[NameObject("/AP")] = DictionaryObject()
+            values[str(widget["/T"])] = "" if value is None else str(value)
+        if values:
+            writer.update_page_form_field_values(page, values, auto_regenerate=False)
+
+
 def graded_copy(pdf_bytes: bytes, grading: Grading) -> bytes:
     """A copy of the sheet in `pdf_bytes` with `grading`'s verdicts, stamp and locked fields."""
     from pypdf import PdfReader, PdfWriter
     from pypdf.generic import NameObject, NumberObject
     writer = PdfWriter(clone_from=PdfReader(io.BytesIO(pdf_bytes)))
+    _own_text_appearances(writer)
     states = grading.verdict_states()
     stamp_page = None
     lowest: dict[int, float] = {}  # each page's lowest widget edge

@@ -167,6 +167,9 @@ def test_graded_copy(sheets, tmp_path, capsys):
     assert states == {("/pass",): "/Off", ("/fail",): "/fail"}
     text = " ".join(page_text(copy).split())
     assert "GRADED FAIL by sheetgen grade, 2026-12-02" in text
+    # every value typed is drawn in its own field (poppler reads field appearances)
+    for value in ("SN-0042", "WO-881", "A. Tester", IDENTITY["record.instruments"]):
+        assert text.count(value) == 1, value
     # the copy is still the same sheet: its attachments match the recorded hash
     assert main(["grade", str(copy)]) == 1
 
