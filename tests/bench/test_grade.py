@@ -29,9 +29,15 @@ from tests.support import assert_close
 REPO = Path(__file__).resolve().parents[2]
 pytestmark = pytest.mark.pdf
 
-# the rows with a window, in the order the record prints them
-WINDOW_FIELDS = ("measured.capacitance_f", "measured.f0_hz", "measured.f_low_hz",
-                 "measured.f_high_hz", "measured.bandwidth_hz", "measured.q_loaded")
+# the record's rows as printed (label → field), in order
+ROWS = (("Inductance of L1", "measured.inductance_h"),
+        ("Capacitance of the fixed part(s)", "measured.capacitance_f"),
+        ("Frequency of the response maximum", "measured.f0_hz"),
+        ("Lower half-power (−3 dB) point", "measured.f_low_hz"),
+        ("Upper half-power (−3 dB) point", "measured.f_high_hz"),
+        ("Bandwidth (−3 dB), upper −", "measured.bandwidth_hz"),
+        ("Loaded Q, f0 / bandwidth", "measured.q_loaded"))
+WINDOW_FIELDS = tuple(field for _, field in ROWS[1:])  # the rows with a window on every sheet
 _WINDOW = re.compile(r"(\d+(?:\.\d+)?)(?: ([kMGpnuµm]?(?:Hz|F|H)))? to "
                      r"(\d+(?:\.\d+)?)(?: ([kMGpnuµm]?(?:Hz|F|H)))?")
 
@@ -70,11 +76,15 @@ def printed_windows(pdf: Path) -> dict[str, tuple[str, str, str]]:
     """Each window of the test record as poppler reads it: field → (low, high, unit)."""
     text = " ".join(page_text(pdf).split())
     start = text.index("Test record Measurement")
-    record = text[start:text.index("Overall", start)]
-    found = _WINDOW.findall(record)
-    assert len(found) == len(WINDOW_FIELDS), found
-    return {field: (low, high, unit_high or unit_low or "")
-            for field, (low, unit_low, high, unit_high) in zip(WINDOW_FIELDS, found)}
+    ends = [text.index(label, start) for label, _ in ROWS] + [text.index("Overall", start)]
+    windows = {}
+    for (_, field), begin, end in zip(ROWS, ends, ends[1:]):
+        found = _WINDOW.findall(text[begin:end])
+        if found:
+            ((low, unit_low, high, unit_high),) = found
+            windows[field] = (low, high, unit_high or unit_low or "")
+    assert set(WINDOW_FIELDS) <= set(windows), windows
+    return windows
 
 
 def nudged(number: str, steps: int) -> str:
@@ -94,21 +104,34 @@ IDENTITY = {"record.serial": "SN-0042", "record.work_order": "WO-881",
 
 
 @pytest.fixture(scope="module")
-def series(tmp_path_factory):
-    return build_sheet(tmp_path_factory.mktemp("grade"), "series")
+def sheets(tmp_path_factory):
+    folder, built = tmp_path_factory.mktemp("grade"), {}
+
+    def sheet(starter):
+        if starter not in built:
+            built[starter] = build_sheet(folder, starter)
+        return built[starter]
+    return sheet
+
+
+@pytest.fixture(scope="module")
+def series(sheets):
+    return sheets("series")
 
 
 def _verdicts(grading) -> dict[str, str]:
     return {v.field: v.verdict for v in grading.values}
 
 
+@pytest.mark.parametrize("starter", ["series", "parallel", "demo"])
 @pytest.mark.parametrize("edge, steps, verdict", [
     pytest.param(0, 0, "pass", id="at-minimum"), pytest.param(0, -1, "fail", id="below-minimum"),
     pytest.param(1, 0, "pass", id="at-maximum"), pytest.param(1, +1, "fail", id="above-maximum"),
 ])
-def test_every_window_edge(series, tmp_path, edge, steps, verdict):
+def test_every_window_edge(sheets, tmp_path, starter, edge, steps, verdict):
     """Exactly at a printed edge passes; one unit of the last printed digit outside fails,
     for every row with a window (the windows as poppler reads them off the sheet)."""
+    series = sheets(starter)
     windows = printed_windows(series)
     values = {field: typed(nudged(window[edge], steps), window[2])
               for field, window in windows.items()}
@@ -184,3 +207,29 @@ def test_unreadable_value_is_a_problem_at_its_field(series):
     (problem,) = grading.problems
     assert problem.field == "measured.f0_hz"
     assert str(problem).startswith(f'{series}:1:1 measured.f0_hz: "7.1 mH" is not a frequency')
+
+
+def test_as_found_values_are_graded_but_not_required(sheets, tmp_path):
+    """The demo's unit is trimmed: its record has as-found columns. An as-found f0 outside
+    the window (before trimming) is graded fail, yet the unit passes on its as-left values;
+    blank as-found values leave it complete."""
+    demo = sheets("demo")
+    windows = printed_windows(demo)
+    middle = {field: typed(str((Decimal(low) + Decimal(high)) / 2), unit)
+              for field, (low, high, unit) in windows.items()}
+    low, _, unit = windows["measured.f0_hz"]
+    sheet = read_sheet(fill(demo, {**middle, "as_found.f0_hz": typed(nudged(low, -1), unit)},
+                            tmp_path / "f.pdf"))
+    assert "as_found.f0_hz" in sheet.fields  # the demo's record is a trimmed unit's
+    grading = grade_sheet(sheet)
+    found = {v.field: v for v in grading.values if v.as_found}
+    assert found["as_found.f0_hz"].verdict == "fail" and not found["as_found.f0_hz"].required
+    assert found["as_found.bandwidth_hz"].verdict == "not measured"
+    assert grading.verdict == "pass"
+    import csv
+
+    from sheetgen.bench.record import record_csv
+    (row,) = csv.DictReader(record_csv(grading).splitlines())
+    assert row["as_found.f0_hz.verdict"] == "fail" and row["verdict"] == "pass"
+    assert float(row["as_found.f0_hz"]) == float(Decimal(nudged(low, -1))) * {
+        "kHz": 1e3, "MHz": 1e6}[unit]
