@@ -32,7 +32,8 @@ def _overlay(width: float, height: float, text: str, x: float, y: float) -> byte
     from sheetgen.sheet import fonts
     fonts.register_fonts()
     out = io.BytesIO()
-    page = canvas.Canvas(out, pagesize=(width, height), pageCompression=1)
+    page = canvas.Canvas(out, pagesize=(width, height), pageCompression=1, invariant=1,
+                         initialFontName=fonts.BOLD)
     page.setFillColor(black)
     page.setStrokeColor(black)
     page.setFont(fonts.BOLD, STAMP_SIZE)

@@ -138,8 +138,11 @@ def sweep_report(grading: Grading, sweep: MeasuredSweep, features: SweepFeatures
     document = SimpleDocTemplate(out, pagesize=A4, leftMargin=18 * mm, rightMargin=18 * mm,
                                  topMargin=16 * mm, bottomMargin=18 * mm,
                                  title=f"Test report {grading.sheet_id} rev {grading.revision}",
-                                 author="sheetgen grade", invariant=1)
-    document.build(story, onFirstPage=footer, onLaterPages=footer)
+                                 author="sheetgen grade", invariant=1, pageCompression=1,
+                                 initialFontName=fonts.REGULAR)
+    from sheetgen.sheet.layout import _reportlab_defaults_in_dejavu
+    with _reportlab_defaults_in_dejavu():
+        document.build(story, onFirstPage=footer, onLaterPages=footer)
     from pypdf import PdfReader, PdfWriter
     writer = PdfWriter(clone_from=PdfReader(io.BytesIO(out.getvalue())))
     writer.add_attachment(Path(sweep_path).name, Path(sweep_path).read_bytes())

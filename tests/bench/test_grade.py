@@ -72,6 +72,15 @@ def page_text(pdf: Path, layout: bool = False) -> str:
     return subprocess.run(command, capture_output=True, text=True, check=True).stdout
 
 
+def fonts_not_embedded(pdf: Path) -> list[str]:
+    """The fonts poppler's pdffonts lists with "emb" = no."""
+    if shutil.which("pdffonts") is None:
+        pytest.skip("poppler's pdffonts is not installed")
+    listing = subprocess.run(["pdffonts", str(pdf)], capture_output=True, text=True,
+                             check=True).stdout.splitlines()[2:]
+    return [line.split()[0] for line in listing if line.split()[-5] != "yes"]
+
+
 def printed_windows(pdf: Path) -> dict[str, tuple[str, str, str]]:
     """Each window of the test record as poppler reads it: field → (low, high, unit)."""
     text = " ".join(page_text(pdf).split())

@@ -32,7 +32,7 @@ from sheetgen.cli import main
 from sheetgen.design.pipeline import design_from_file
 from sheetgen.report.procedure import procedure
 from tests import spice
-from tests.bench.test_grade import IDENTITY, REPO, build_sheet, fill
+from tests.bench.test_grade import IDENTITY, REPO, build_sheet, fill, fonts_not_embedded
 
 pytestmark = [pytest.mark.ngspice, pytest.mark.pdf]
 Z0_OHM = 50.0
@@ -172,6 +172,7 @@ def test_series_touchstone_passes_and_the_report_is_written(root, tmp_path, caps
                                        text=True, check=True).stdout.split())
         assert "TS-1356" in text and "SN-0042" in text and "Verdicts" in text
         assert "f0 min 13.2200 MHz" in text and "f0 max 13.9000 MHz" in text
+    assert fonts_not_embedded(report) == []
     from pypdf import PdfReader
     reader = PdfReader(report)
     assert 1 <= len(reader.pages) <= 2

@@ -17,7 +17,14 @@ from decimal import Decimal
 import pytest
 
 from sheetgen.cli import main
-from tests.bench.test_grade import IDENTITY, build_sheet, fill, page_text, printed_windows
+from tests.bench.test_grade import (
+    IDENTITY,
+    build_sheet,
+    fill,
+    fonts_not_embedded,
+    page_text,
+    printed_windows,
+)
 
 pytestmark = pytest.mark.pdf
 
@@ -170,6 +177,7 @@ def test_graded_copy(sheets, tmp_path, capsys):
     # every value typed is drawn in its own field (poppler reads field appearances)
     for value in ("SN-0042", "WO-881", "A. Tester", IDENTITY["record.instruments"]):
         assert text.count(value) == 1, value
+    assert fonts_not_embedded(copy) == []  # the stamp in the sheet's embedded DejaVu
     # the copy is still the same sheet: its attachments match the recorded hash
     assert main(["grade", str(copy)]) == 1
 
