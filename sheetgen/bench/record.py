@@ -16,6 +16,7 @@ import math
 import os
 from pathlib import Path
 
+from sheetgen import __version__
 from sheetgen.errors import InputError, Problem
 from sheetgen.report.procedure import MEASUREMENTS, TUNED_KEYS
 
@@ -32,9 +33,10 @@ def record_document(grading: Grading) -> dict:
 
     return {
         "format": RECORD_FORMAT,
-        "tool_version": grading.tool_version,
+        "tool_version": __version__,
         "sheet": {"id": grading.sheet_id, "revision": grading.revision,
-                  "title": grading.title, "content_sha256": grading.content_sha256},
+                  "title": grading.title, "content_sha256": grading.content_sha256,
+                  "tool_version": grading.tool_version},
         "unit": {name: grading.unit.get(name, "") for name in UNIT_FIELDS},
         "source": grading.source,
         "values": [{"field": v.field, "quantity": v.quantity, "unit": v.unit,
@@ -79,7 +81,7 @@ def csv_line(grading: Grading) -> str:
     """The unit as one CSV line (SI values written with repr, empty where not measured)."""
     cells = {"format": RECORD_FORMAT, "sheet_id": grading.sheet_id,
              "revision": grading.revision, "content_sha256": grading.content_sha256,
-             "tool_version": grading.tool_version, "verdict": grading.verdict}
+             "tool_version": __version__, "verdict": grading.verdict}
     cells.update({name: grading.unit.get(name, "") for name in UNIT_FIELDS})
     for v in grading.values:
         cells[v.field] = "" if v.measured is None else repr(float(v.measured))
