@@ -182,7 +182,7 @@ def _grade_arguments(commands) -> None:
 
 
 def _grade(args) -> int:
-    from sheetgen.bench.grade import UNIT_PASS, grade_sheet, grading_table
+    from sheetgen.bench.grade import UNIT_PASS, bandwidth_resolution_hz, grade_sheet, grading_table
     from sheetgen.bench.record import append_record, record_csv, record_json
     from sheetgen.bench.sheet_file import read_sheet
     outputs = [p for p in (args.json, args.csv, args.append, args.output) if p is not None]
@@ -196,7 +196,7 @@ def _grade(args) -> int:
         from sheetgen.bench.sweep import sweep_features
         from sheetgen.bench.sweep_files import read_sweep
         sweep = read_sweep(args.sweep, args.parameter)
-        features = sweep_features(sweep, _bandwidth_resolution_hz(sheet.results))
+        features = sweep_features(sweep, bandwidth_resolution_hz(sheet.results))
     grading = grade_sheet(sheet, features, str(args.sweep) if args.sweep else None)
     sys.stdout.write(grading_table(grading))
     if grading.problems:
@@ -226,15 +226,6 @@ def _grade(args) -> int:
                 print(f"grade: {value.field}: {value.verdict}", file=sys.stderr)
         return EXIT_CHECK_FAILED
     return EXIT_OK
-
-
-def _bandwidth_resolution_hz(results: dict) -> float | None:
-    """Half the width of the sheet's bandwidth window: the step a sweep must resolve."""
-    for row in (results.get("test_record") or {}).get("values", []):
-        if row.get("quantity") == "bandwidth_hz" and row.get("min") is not None \
-                and row.get("max") is not None and row["max"] > row["min"]:
-            return 0.5 * (row["max"] - row["min"])
-    return None
 
 
 # --------------------------------------------------------------------------- commands

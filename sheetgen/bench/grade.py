@@ -122,6 +122,16 @@ def sweep_text(value_si: float, unit: str) -> str:
     return f"sweep: {shown}"
 
 
+def bandwidth_resolution_hz(results: dict) -> float | None:
+    """Half the width of the sheet's bandwidth window: the step a sweep must resolve
+    (None when the record has no bandwidth window)."""
+    for row in (results.get("test_record") or {}).get("values", []):
+        if row.get("quantity") == "bandwidth_hz" and row.get("min") is not None \
+                and row.get("max") is not None and row["max"] > row["min"]:
+            return 0.5 * (row["max"] - row["min"])
+    return None
+
+
 def grade_sheet(sheet: SheetFile, features: SweepFeatures | None = None,
                 sweep_path: str | None = None) -> Grading:
     """Grade the form of `sheet` (and the sweep's `features`, which replace the typed

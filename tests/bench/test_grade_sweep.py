@@ -26,7 +26,7 @@ import subprocess
 import numpy as np
 import pytest
 
-from sheetgen.bench.grade import grade_sheet
+from sheetgen.bench.grade import bandwidth_resolution_hz, grade_sheet
 from sheetgen.bench.sheet_file import read_sheet
 from sheetgen.cli import main
 from sheetgen.design.pipeline import design_from_file
@@ -144,9 +144,8 @@ def test_parallel_detuned_by_twice_the_f0_window_fails(root, tmp_path):
 def _grade(pdf, sweep_path):
     from sheetgen.bench.sweep import sweep_features
     from sheetgen.bench.sweep_files import read_sweep
-    from sheetgen.cli import _bandwidth_resolution_hz
     sheet = read_sheet(pdf)
-    features = sweep_features(read_sweep(sweep_path), _bandwidth_resolution_hz(sheet.results))
+    features = sweep_features(read_sweep(sweep_path), bandwidth_resolution_hz(sheet.results))
     return grade_sheet(sheet, features, str(sweep_path))
 
 

@@ -185,3 +185,11 @@ def test_graded_copy(sheets, tmp_path, capsys):
 def test_output_may_not_replace_the_sheet(sheets, capsys):
     assert main(["grade", str(sheets["good"]), "-o", str(sheets["good"])]) == 2
     assert "may not overwrite" in capsys.readouterr().err
+
+
+def test_usage_errors(sheets, tmp_path, capsys):
+    assert main(["grade", str(sheets["good"]), "--parameter", "s21"]) == 2
+    assert "--parameter needs --sweep" in capsys.readouterr().err
+    assert main(["grade", str(sheets["good"]), "--sweep", str(tmp_path / "none.s2p")]) == 2
+    err = capsys.readouterr().err
+    assert "none.s2p" in err and "Traceback" not in err
