@@ -80,6 +80,8 @@ def build_parser() -> argparse.ArgumentParser:
     new = commands.add_parser("new", help="print a starter job file")
     new.add_argument("kind", choices=TEMPLATE_NAMES, help="which starter")
 
+    _grade_arguments(commands)
+
     schema = commands.add_parser("schema", help="print the JSON Schema of job files")
     schema.add_argument("--markdown", action="store_true",
                         help="print the job file reference in Markdown instead")
@@ -208,6 +210,78 @@ def _is_batch(args) -> bool:
     return False
 
 
+# --------------------------------------------------------------------------- grade
+# (self-contained: the grade command's arguments and handler)
+
+
+def _grade_arguments(commands) -> None:
+    grade = commands.add_parser("grade", help="grade a filled test record or a measured sweep "
+                                "against the sheet's windows, and keep the unit's record")
+    grade.add_argument("sheet", type=Path, help="the build-and-test sheet PDF (filled in)")
+    grade.add_argument("--sweep", type=Path, help="a measured sweep (Touchstone .s1p/.s2p or "
+                       "CSV) whose figures replace the typed f0, half-power points, bandwidth "
+                       "and loaded Q")
+    grade.add_argument("--parameter", choices=("s21", "s11"), help="which parameter of a "
+                       "two-port Touchstone sweep to read (default: s21)")
+    grade.add_argument("--json", type=Path, metavar="FILE", help="write the unit's record "
+                       "(sheetgen.record/1) as JSON")
+    grade.add_argument("--csv", type=Path, metavar="FILE", help="write the unit's record as "
+                       "CSV (header and one line)")
+    grade.add_argument("--append", type=Path, metavar="FILE.csv", help="add the unit's line "
+                       "to a running CSV log")
+    grade.add_argument("-o", "--output", type=Path, metavar="PDF", help="write a graded copy "
+                       "of the sheet (with --sweep: a test report with the measured curve)")
+
+
+def _grade(args) -> int:
+    from sheetgen.bench.grade import UNIT_PASS, bandwidth_resolution_hz, grade_sheet, grading_table
+    from sheetgen.bench.record import append_record, record_csv, record_json
+    from sheetgen.bench.sheet_file import read_sheet
+    outputs = [p for p in (args.json, args.csv, args.append, args.output) if p is not None]
+    if any(p.resolve() == args.sheet.resolve() for p in outputs):
+        raise UsageError(f"{args.sheet}: an output may not overwrite the sheet being graded")
+    if args.parameter and args.sweep is None:
+        raise UsageError("--parameter needs --sweep")
+    sheet = read_sheet(args.sheet)
+    features = sweep = None
+    if args.sweep is not None:
+        from sheetgen.bench.sweep import sweep_features
+        from sheetgen.bench.sweep_files import read_sweep
+        sweep = read_sweep(args.sweep, args.parameter)
+        features = sweep_features(sweep, bandwidth_resolution_hz(sheet.results))
+    grading = grade_sheet(sheet, features, str(args.sweep) if args.sweep else None)
+    sys.stdout.write(grading_table(grading))
+    if grading.problems:
+        raise InputError(list(grading.problems))
+    record_text = record_json(grading)
+    if args.output is not None:
+        if sweep is not None:
+            from sheetgen.bench.report_pdf import sweep_report
+            pdf = sweep_report(grading, sweep, features, record_text, args.sweep)
+        else:
+            from sheetgen.bench.graded_copy import graded_copy
+            pdf = graded_copy(args.sheet.read_bytes(), grading)
+        write_atomically(args.output, pdf)
+        print(f"wrote {args.output}")
+    if args.json is not None:
+        write_atomically(args.json, record_text.encode("utf-8"))
+        print(f"wrote {args.json}")
+    if args.csv is not None:
+        write_atomically(args.csv, record_csv(grading).encode("utf-8"))
+        print(f"wrote {args.csv}")
+    if args.append is not None:
+        append_record(args.append, grading)
+        print(f"added a line to {args.append}")
+    if grading.verdict != UNIT_PASS:
+        for value in grading.as_left:
+            if value.verdict == "fail" or (value.required and value.verdict != "pass"):
+                print(f"grade: {value.field}: {value.verdict}", file=sys.stderr)
+        return EXIT_CHECK_FAILED
+    return EXIT_OK
+
+
+# --------------------------------------------------------------------------- commands
+
 def _batch(args, command: str) -> int:
     from sheetgen.batch.runner import JobTask, collect_jobs, default_workers, output_path, run_batch
     for option in ("output", "results"):
@@ -281,8 +355,7 @@ def _verify(args) -> int:
 
 
 COMMANDS = {"check": _check, "build": _build_command, "limits": _limits, "diff": _diff,
-            "verify": _verify,
-            "demo": _demo, "new": _new, "schema": _schema}
+            "verify": _verify, "grade": _grade, "demo": _demo, "new": _new, "schema": _schema}
 
 
 def _exit_for(result) -> int:
