@@ -51,6 +51,12 @@ def _make_field_form(canvas):
                     {FIELD_FONT: doc.Reference(_field_font_dictionary(doc))})})
             return PDFDictionary(entries).format(doc)
 
+        def textfield(self, **kwargs):
+            # each text field gets appearance streams of its own: shared ones (reportlab
+            # reuses identical streams) would show one field's typed value in every field
+            self._refMap = {}
+            return super().textfield(**kwargs)
+
         def radio(self, **kwargs):
             super().radio(**kwargs)
             widget_ref = self._radios[kwargs["name"]].kids[-1]
