@@ -28,7 +28,7 @@ def _curve_drawing(sweep: MeasuredSweep, features: SweepFeatures, grading: Gradi
     from reportlab.lib.colors import black, white
 
     from sheetgen.quantities import format_quantity
-    from sheetgen.sheet.plots import MARK_SIZE, Box, _curve, _frame, _string, frequency_axis, linear_axis
+    from sheetgen.sheet.plots import MARK_SIZE, Box, frequency_axis, linear_axis, plot_curve, plot_frame, plot_label
     f = np.asarray(sweep.frequency_hz, dtype=float)
     db = 20.0 * np.log10(np.asarray(sweep.magnitude, dtype=float)) - features.response_peak_db
     drawing = Drawing(width, height)
@@ -37,12 +37,12 @@ def _curve_drawing(sweep: MeasuredSweep, features: SweepFeatures, grading: Gradi
     x_axis = frequency_axis(float(f[0]), float(f[-1]), 8)
     floor_db = min(max(math.floor(float(np.min(db)) / 10.0) * 10.0, -80.0), -10.0)
     y_axis = linear_axis(floor_db, 0.0, 6, "dB")
-    _frame(g, box, x_axis, y_axis, y_title_inside=True)
+    plot_frame(g, box, x_axis, y_axis, y_title_inside=True)
     y_hp = box.y + float(y_axis.fraction(-HALF_POWER_DB)) * box.height
     g.add(Line(box.x, y_hp, box.x + box.width, y_hp, strokeColor=black, strokeWidth=0.6,
                strokeDashArray=[1, 2]))
-    _string(g, box.x + box.width + 4, y_hp - 2.6, "\u22123 dB", MARK_SIZE, "start")
-    _curve(g, box, x_axis, y_axis, f, db)
+    plot_label(g, box.x + box.width + 4, y_hp - 2.6, "\u22123 dB", MARK_SIZE, "start")
+    plot_curve(g, box, x_axis, y_axis, f, db)
 
     def x_at(f_hz):
         return box.x + float(x_axis.fraction(f_hz)) * box.width
@@ -55,7 +55,7 @@ def _curve_drawing(sweep: MeasuredSweep, features: SweepFeatures, grading: Gradi
             x = x_at(edge)
             g.add(Line(x, box.y, x, box.y + box.height, strokeColor=black, strokeWidth=0.7,
                        strokeDashArray=[4, 2]))
-            _string(g, x + (-3 if anchor == "end" else 3), box.y + box.height + 5,
+            plot_label(g, x + (-3 if anchor == "end" else 3), box.y + box.height + 5,
                     f"{name} {format_quantity(edge, 'Hz', 6)}", MARK_SIZE, anchor, bold=True)
     for f_hz in (features.f_low_hz, features.f_high_hz):
         if x_axis.low <= f_hz <= x_axis.high:
@@ -140,8 +140,8 @@ def sweep_report(grading: Grading, sweep: MeasuredSweep, features: SweepFeatures
                                  title=f"Test report {grading.sheet_id} rev {grading.revision}",
                                  author="sheetgen grade", invariant=1, pageCompression=1,
                                  initialFontName=fonts.REGULAR)
-    from sheetgen.sheet.layout import _reportlab_defaults_in_dejavu
-    with _reportlab_defaults_in_dejavu():
+    from sheetgen.sheet.layout import reportlab_defaults_in_dejavu
+    with reportlab_defaults_in_dejavu():
         document.build(story, onFirstPage=footer, onLaterPages=footer)
     from pypdf import PdfReader, PdfWriter
     writer = PdfWriter(clone_from=PdfReader(io.BytesIO(out.getvalue())))

@@ -306,7 +306,7 @@ def _sheet_moment(text: str) -> _dt.datetime:
 
 
 @contextmanager
-def _reportlab_defaults_in_dejavu():
+def reportlab_defaults_in_dejavu():
     """reportlab's table cells and drawings select its default font (Helvetica, never
     embedded) before they draw, even when all their text is in DejaVu; while the sheet is
     made, that default is DejaVu Sans, so no page names a font that is not embedded."""
@@ -328,7 +328,7 @@ def render_sheet(design: Design, job_text: str, results_text: str, job_dir: Path
     the job's folder, inside which a style's logo must lie.
     """
     fonts.register_fonts()
-    with _reportlab_defaults_in_dejavu():
+    with reportlab_defaults_in_dejavu():
         return _render(design, job_text, results_text, job_dir, style)
 
 

@@ -117,11 +117,11 @@ class Box:
     height: float
 
 
-def _string(group, x, y, text, size=TICK_SIZE, anchor="middle", bold=False):
+def plot_label(group, x, y, text, size=TICK_SIZE, anchor="middle", bold=False):
     drawing.text(group, x, y, text, size, anchor, bold)
 
 
-def _frame(group, box: Box, x_axis: Axis, y_axis: Axis, y_side: str = "left",
+def plot_frame(group, box: Box, x_axis: Axis, y_axis: Axis, y_side: str = "left",
            y_title_inside: bool = False):
     """Plot border, grid, ticks, tick labels and axis titles."""
     from reportlab.graphics.shapes import Line, Rect
@@ -138,24 +138,24 @@ def _frame(group, box: Box, x_axis: Axis, y_axis: Axis, y_side: str = "left",
     for tick, label in zip(x_axis.ticks, x_axis.labels):
         x = box.x + float(x_axis.fraction(tick)) * box.width
         group.add(Line(x, box.y, x, box.y - 3, strokeColor=black, strokeWidth=0.6))
-        _string(group, x, box.y - 12, label)
-    _string(group, box.x + box.width / 2, box.y - 24, x_axis.title, TITLE_SIZE)
+        plot_label(group, x, box.y - 12, label)
+    plot_label(group, box.x + box.width / 2, box.y - 24, x_axis.title, TITLE_SIZE)
     for tick, label in zip(y_axis.ticks, y_axis.labels):
         y = box.y + float(y_axis.fraction(tick)) * box.height
         if y_side == "left":
             group.add(Line(box.x - 3, y, box.x, y, strokeColor=black, strokeWidth=0.6))
-            _string(group, box.x - 5, y - 2.6, label, anchor="end")
+            plot_label(group, box.x - 5, y - 2.6, label, anchor="end")
         else:
             group.add(Line(box.x + box.width, y, box.x + box.width + 3, y, strokeColor=black,
                            strokeWidth=0.6))
-            _string(group, box.x + box.width + 5, y - 2.6, label, anchor="start")
+            plot_label(group, box.x + box.width + 5, y - 2.6, label, anchor="start")
     if y_title_inside:  # a short unit label above the tick labels, clear of the plot area
-        _string(group, box.x - 5, box.y + box.height + 8, y_axis.title, TITLE_SIZE, "end")
+        plot_label(group, box.x - 5, box.y + box.height + 8, y_axis.title, TITLE_SIZE, "end")
     else:
-        _string(group, box.x, box.y + box.height + 5, y_axis.title, TITLE_SIZE, "start")
+        plot_label(group, box.x, box.y + box.height + 5, y_axis.title, TITLE_SIZE, "start")
 
 
-def _curve(group, box: Box, x_axis: Axis, y_axis: Axis, x, y, dash=None, width=1.1):
+def plot_curve(group, box: Box, x_axis: Axis, y_axis: Axis, x, y, dash=None, width=1.1):
     """A polyline of (x, y), clipped to the axis ranges by clamping."""
     from reportlab.graphics.shapes import PolyLine
     from reportlab.lib.colors import black
@@ -202,13 +202,13 @@ def response_drawing(design: Design, width: float, height: float = 175.0):
     y_axis = linear_axis(floor_db, 0.0, 6, "dB")
     envelope = design.assessment.envelope
     _band(g, box, x_axis, y_axis, envelope.f_hz, envelope.low_db, envelope.high_db)
-    _frame(g, box, x_axis, y_axis, y_title_inside=True)
+    plot_frame(g, box, x_axis, y_axis, y_title_inside=True)
     half_power = 10.0 * math.log10(0.5)
     y_hp = box.y + float(y_axis.fraction(half_power)) * box.height
     g.add(Line(box.x, y_hp, box.x + box.width, y_hp, strokeColor=black, strokeWidth=0.6,
                strokeDashArray=[1, 2]))
-    _string(g, box.x + box.width + 4, y_hp - 2.6, "\u22123 dB", MARK_SIZE, "start")
-    _curve(g, box, x_axis, y_axis, f, sweep.response_db)
+    plot_label(g, box.x + box.width + 4, y_hp - 2.6, "\u22123 dB", MARK_SIZE, "start")
+    plot_curve(g, box, x_axis, y_axis, f, sweep.response_db)
 
     def x_at(f_hz):
         return box.x + float(x_axis.fraction(f_hz)) * box.width
@@ -222,7 +222,7 @@ def response_drawing(design: Design, width: float, height: float = 175.0):
             anchor = "end"
         elif x0 < box.x + 45:
             anchor = "start"
-        _string(g, x0, box.y + box.height + 5, f"f0 {quantity_text(r.f0_hz, 'Hz')}", MARK_SIZE, anchor,
+        plot_label(g, x0, box.y + box.height + 5, f"f0 {quantity_text(r.f0_hz, 'Hz')}", MARK_SIZE, anchor,
                 bold=True)
     for f_hz, side in ((r.f_low_hz, "end"), (r.f_high_hz, "start")):
         if f_hz is None or not x_axis.low <= f_hz <= x_axis.high:
@@ -231,7 +231,7 @@ def response_drawing(design: Design, width: float, height: float = 175.0):
         g.add(Circle(x, y_hp, 2.4, fillColor=white, strokeColor=black, strokeWidth=0.9))
         # outside the half-power points the curve is below the −3 dB line: label above it
         offset = -4 if side == "end" else 4
-        _string(g, x + offset, y_hp + 4, quantity_text(f_hz, "Hz"), MARK_SIZE, side)
+        plot_label(g, x + offset, y_hp + 4, quantity_text(f_hz, "Hz"), MARK_SIZE, side)
     drawing.add(g)
     return drawing
 
@@ -248,12 +248,12 @@ def impedance_phase_drawing(design: Design, width: float, height: float = 155.0)
     left = Box(46.0, 36.0, half - 46.0 - 14.0, height - 36.0 - 16.0)
     x_axis = frequency_axis(float(f[0]), float(f[-1]), 5)
     z_axis = log_axis(float(np.min(z)), float(np.max(z)), "|Z| at the source terminals", "Ω")
-    _frame(g, left, x_axis, z_axis)
-    _curve(g, left, x_axis, z_axis, f, z)
+    plot_frame(g, left, x_axis, z_axis)
+    plot_curve(g, left, x_axis, z_axis, f, z)
     right = Box(half + 40.0, 36.0, half - 40.0 - 8.0, height - 36.0 - 16.0)
     phase_axis = linear_axis(-90.0, 90.0, 4, "Phase of Z", "°", step=45.0)
-    _frame(g, right, x_axis, phase_axis)
-    _curve(g, right, x_axis, phase_axis, f, sweep.phase_deg)
+    plot_frame(g, right, x_axis, phase_axis)
+    plot_curve(g, right, x_axis, phase_axis, f, sweep.phase_deg)
     drawing.add(g)
     return drawing
 
@@ -280,14 +280,14 @@ def coil_q_drawing(design: Design, width: float, height: float = 150.0):
     x_axis = log_frequency_axis(float(f[0]), float(f[-1]))
     top = float(np.nanmax(values))
     y_axis = linear_axis(0.0, nice_step(top, 5) * math.ceil(top / nice_step(top, 5)), 5, "Q")
-    _frame(g, box, x_axis, y_axis, y_title_inside=True)
-    _curve(g, box, x_axis, y_axis, f, values)
+    plot_frame(g, box, x_axis, y_axis, y_title_inside=True)
+    plot_curve(g, box, x_axis, y_axis, f, values)
     f0 = design.resonance.f0_hz
     if f[0] <= f0 <= f[-1]:
         x0 = box.x + float(x_axis.fraction(f0)) * box.width
         g.add(Line(x0, box.y, x0, box.y + box.height, strokeColor=black, strokeWidth=0.7,
                    strokeDashArray=[4, 2]))
-        _string(g, x0, box.y + box.height + 5, f"f0 {quantity_text(f0, 'Hz')}", MARK_SIZE, "middle",
+        plot_label(g, x0, box.y + box.height + 5, f"f0 {quantity_text(f0, 'Hz')}", MARK_SIZE, "middle",
                 bold=True)
     drawing.add(g)
     return drawing
