@@ -111,7 +111,7 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
            sweep: Sweep, names: Designators, *, f0_target_hz: float | None,
            fixed_capacitance_f: float, inductance_tolerance: float | None,
            inductance_tc: float | None, coil=None, flux_limit_t: float | None = None,
-           wire_diameter_m: float | None = None,
+           wire_diameter_m: float | None = None, ac_to_dc_resistance: float = 1.0,
            fixed_parts_f: tuple[float, ...] = ()) -> Assessment:
     """Limits, trimmer range and rating checks for the nominal design."""
     spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc)
@@ -134,7 +134,8 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
                            flux=(coil.flux_density_peak_t if coil is not None
                                  and getattr(coil, "flux_density_peak_t", None) is not None
                                  else None),
-                           flux_limit_t=flux_limit_t, wire_diameter_m=wire_diameter_m)
+                           flux_limit_t=flux_limit_t, wire_diameter_m=wire_diameter_m,
+                           ac_to_dc_resistance=ac_to_dc_resistance)
     return Assessment(spec, variation, limits, tuned, trim, checks,
                       response_envelope(circuit, variation, sweep.f_hz, spec.coverage if
                                job.variation.method == "monte-carlo" else None),
@@ -143,7 +144,8 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
 
 def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators,
                   fixed_parts_f: tuple[float, ...], *, flux: float | None,
-                  flux_limit_t: float | None, wire_diameter_m: float | None
+                  flux_limit_t: float | None, wire_diameter_m: float | None,
+                  ac_to_dc_resistance: float = 1.0
                   ) -> tuple[RatingCheck | UnratedCheck, ...]:
     """Every rating the job gives, against the computed stress (parallel parts share the
     capacitor current in proportion to their capacitance); a capacitor's voltage and ESR
@@ -195,7 +197,8 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
                                     acceptance(names.trimmer, "peak voltage")))
     if wire_diameter_m is not None:
         checks.append(current_density_check(
-            names.coil, stress.inductor_current_rms_a, wire_diameter_m, drive_power_w=power,
+            names.coil, stress.inductor_current_rms_a, wire_diameter_m,
+            ac_to_dc_resistance=ac_to_dc_resistance, drive_power_w=power,
             acceptance=acceptance(names.coil, "current density")))
     if flux is not None and flux_limit_t is not None:
         checks.append(flux_density_check(

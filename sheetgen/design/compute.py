@@ -135,6 +135,7 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
                   inductance_tolerance=coil.inductance_tolerance,
                   inductance_tc=coil.inductance_tc, coil=r,
                   flux_limit_t=coil.flux_density_max_t, wire_diameter_m=r.wire.diameter_m,
+                  ac_to_dc_resistance=max(1.0, r.ac_resistance_ohm / r.dc_resistance_ohm),
                   fixed_parts_f=fixed)
 
 

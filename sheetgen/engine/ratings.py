@@ -219,23 +219,35 @@ def esr_power_check(part: str, power_w: float, rated_power_w: float, *,
 
 
 def current_density_check(part: str, current_rms_a: float, diameter_m: float, *,
+                          ac_to_dc_resistance: float = 1.0,
                           limit_a_per_m2: float = DEFAULT_CURRENT_DENSITY_LIMIT_A_PER_M2,
                           drive_power_w: float | None = None,
                           acceptance: str | None = None) -> RatingCheck:
-    """Current density in the winding wire, J = I/(π d²/4), against a limit.
+    """Current density in the winding wire at the working frequency, against a limit.
 
-    Remedies: a copper diameter d ≥ √(4 I/(π J_limit)); or the drive P·(J_limit/J)².
+    The RF current flows in A_ac = (π d²/4)·R_dc/R_ac, the cross-section whose DC
+    resistance equals the wire's AC resistance (skin and proximity effect), so
+    J = I/A_ac. The limit is a heating limit for DC (common practice): the same heat per
+    metre, I²R_ac = J_limit²·ρ·(π d²/4), allows J_limit·√(R_ac/R_dc) in the smaller area.
+    Remedies: a copper diameter d ≥ √(4 I·√(R_ac/R_dc)/(π J_limit)) (at the same crowding,
+    a first estimate); or the drive P·(allowed/J)².
     """
     if not diameter_m > 0.0:
         raise ValueError(f"{part}: the wire diameter must be positive")
-    density = float(current_density_a_per_m2(current_rms_a, diameter_m))
+    if not ac_to_dc_resistance >= 1.0 - 1e-9:
+        raise ValueError(f"{part}: R_ac/R_dc cannot be below 1")
+    crowding = max(1.0, ac_to_dc_resistance)
+    density = float(current_density_a_per_m2(current_rms_a, diameter_m)) * crowding
+    limit = limit_a_per_m2 * math.sqrt(crowding)
 
     def remedy(allowed):
         return RatingRemedy(required_rating=density,
-                      wire_diameter_min_m=math.sqrt(4.0 * current_rms_a / (math.pi * allowed)),
-                      drive_power_max_w=_drive_scaled(drive_power_w, allowed / density, 2.0))
-    return _make(part, "current density", "A/m²", density, limit_a_per_m2, 1.0, acceptance,
-                 remedy)
+                            wire_diameter_min_m=math.sqrt(4.0 * current_rms_a
+                                                          * math.sqrt(crowding)
+                                                          / (math.pi * limit_a_per_m2)),
+                            drive_power_max_w=_drive_scaled(drive_power_w, allowed / density,
+                                                            2.0))
+    return _make(part, "current density", "A/m²", density, limit, 1.0, acceptance, remedy)
 
 
 def flux_density_check(part: str, flux_density_peak_t: float, limit_t: float, *,

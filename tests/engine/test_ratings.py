@@ -150,3 +150,28 @@ def test_discharge_time_against_an_ode_solution():
     assert_close(ratings.discharge_time_s(c, r, v0, v1), float(solution.t_events[0][0]),
                  rel=1e-6, what="time to fall to 60 V")
     assert ratings.discharge_time_s(c, r, 50.0, 60.0) == 0.0  # already below
+
+
+def test_current_density_at_rf_uses_the_crowded_area_and_the_same_heat_per_metre():
+    """A round wire at 10 MHz: R_ac/R_dc from the exact Bessel solution (checked against
+    Terman's table in tests/engine/test_wire.py). The current flows in A·R_dc/R_ac, and at
+    the allowed current the heat per metre I²·R_ac equals the DC limit's J²·ρ·A (4 A/mm²,
+    common practice): the check passes just below that current and fails just above."""
+    from sheetgen.engine.wire import (
+        COPPER_RESISTIVITY_20C_OHM_M as rho,
+    )
+    from sheetgen.engine.wire import (
+        ac_resistance_ratio,
+    )
+    d = 0.511e-3  # AWG 24
+    area = math.pi * d * d / 4.0
+    ratio = float(ac_resistance_ratio(d, 10e6, rho))
+    assert ratio > 3.0, "skin effect is strong at 10 MHz in AWG 24"
+    limit = ratings.DEFAULT_CURRENT_DENSITY_LIMIT_A_PER_M2
+    # heat per metre of the allowed RF current equals the DC limit's: I²·R_ac = J²·ρ·A
+    i_allowed = math.sqrt(limit**2 * rho * area / (ratio * rho / area))
+    below = ratings.current_density_check("L1", i_allowed * 0.999, d, ac_to_dc_resistance=ratio)
+    above = ratings.current_density_check("L1", i_allowed * 1.001, d, ac_to_dc_resistance=ratio)
+    assert below.passed and not above.passed
+    assert_close(below.actual, i_allowed * 0.999 / (area / ratio), rel=1e-12,
+                 what="current over the crowded area A·R_dc/R_ac, A/m²")

@@ -280,7 +280,7 @@ def test_parts_list_shows_the_dielectric_and_ratings_the_job_gives():
         assert rows[fixed].tolerance == "± 2.00 % (job)"
     assert rows["C3"].rating == format_quantity(3e3, "V", 3) + " peak"
     assert rows["C3"].material == NO_DATA, "the job gives no trimmer dielectric"
-    assert "air core" in rows["L1"].material and "AWG 10" in rows["L1"].material
+    assert "air core" in rows["L1"].material and "AWG 6" in rows["L1"].material
 
 
 def test_parts_list_tolerance_follows_the_series_when_the_job_gives_none():
