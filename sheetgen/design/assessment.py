@@ -28,6 +28,7 @@ from sheetgen.engine.ratings import (
     current_density_check,
     esr_power_check,
     flux_density_check,
+    surface_temperature_check,
     unrated_check,
 )
 from sheetgen.engine.resonance import Circuit, Resonance, Sweep
@@ -135,7 +136,9 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
                                  and getattr(coil, "flux_density_peak_t", None) is not None
                                  else None),
                            flux_limit_t=flux_limit_t, wire_diameter_m=wire_diameter_m,
-                           ac_to_dc_resistance=ac_to_dc_resistance)
+                           ac_to_dc_resistance=ac_to_dc_resistance,
+                           coil_rise_k=getattr(coil, "temperature_rise_k", None)
+                           if coil is not None else None)
     return Assessment(spec, variation, limits, tuned, trim, checks,
                       response_envelope(circuit, variation, sweep.f_hz, spec.coverage if
                                job.variation.method == "monte-carlo" else None),
@@ -145,7 +148,7 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
 def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators,
                   fixed_parts_f: tuple[float, ...], *, flux: float | None,
                   flux_limit_t: float | None, wire_diameter_m: float | None,
-                  ac_to_dc_resistance: float = 1.0
+                  ac_to_dc_resistance: float = 1.0, coil_rise_k: float | None = None
                   ) -> tuple[RatingCheck | UnratedCheck, ...]:
     """Every rating the job gives, against the computed stress (parallel parts share the
     capacitor current in proportion to their capacitance); a capacitor's voltage and ESR
@@ -200,6 +203,10 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
             names.coil, stress.inductor_current_rms_a, wire_diameter_m,
             ac_to_dc_resistance=ac_to_dc_resistance, drive_power_w=power,
             acceptance=acceptance(names.coil, "current density")))
+    if coil_rise_k is not None:
+        checks.append(surface_temperature_check(
+            names.coil, job.variation.temperature.maximum, coil_rise_k, drive_power_w=power,
+            acceptance=acceptance(names.coil, "surface temperature")))
     if flux is not None and flux_limit_t is not None:
         checks.append(flux_density_check(
             names.coil, flux, flux_limit_t, drive_power_w=power,

@@ -122,10 +122,10 @@ def design_coil(inductor: ToroidInductor | SolenoidInductor, parts: ResolvedToro
 
 def coil_at_voltage(coil: ToroidCoil | SolenoidCoil, parts: ResolvedToroid | None,
                     voltage_rms_v: float, f_hz: float) -> ToroidCoil | SolenoidCoil:
-    """The designed coil carrying its stress: a ring core's current, flux and heat at the
-    coil's rms voltage (a solenoid's figures do not depend on it)."""
-    if parts is None or not isinstance(coil, ToroidCoil):
-        return coil
+    """The designed coil carrying its stress at the coil's rms voltage: current, heat and
+    temperature rise (and a ring core's flux density)."""
+    if isinstance(coil, SolenoidCoil):
+        return coil_engine.solenoid_at_voltage(coil, voltage_rms_v, f_hz)
     return coil_engine.toroid_at_voltage(coil, parts.core, parts.material, voltage_rms_v, f_hz)
 
 

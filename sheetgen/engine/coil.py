@@ -193,8 +193,10 @@ class ToroidCoil:
     flux_density_peak_t: float | None
     flux_density_within_limit: bool | None
     copper_loss_w: float | None
-    core_loss_w: float | None  # Steinmetz; None without Steinmetz data
-    temperature_rise_k: float | None  # from copper + core loss; None without Steinmetz data
+    core_loss_w: float | None  # the larger of the two estimates below: the one heat uses
+    core_loss_table_w: float | None  # I²·r_core from the material's loss table (sets the Q)
+    core_loss_steinmetz_w: float | None  # Steinmetz's P = k f^α B̂^β Ve; None without data
+    temperature_rise_k: float | None  # from copper + core loss over the core's surface
     turns_per_layer: int
     layers_needed: int | None  # None: the hole fills before the turns are on
     winding_angle_deg: float
@@ -279,7 +281,6 @@ def toroid_at_voltage(coil: ToroidCoil, core: ToroidCore, material: CoreMaterial
     the same, so it is designed once and evaluated here for the stress)."""
     effective, turns, l_built = coil.effective, coil.turns, coil.inductance_built_h
     r_ac, r_core, wire = coil.ac_resistance_ohm, coil.core_loss_resistance_ohm, coil.wire
-    core_w = rise = None
     # voltage_rms_v is across the coil's terminals, |rs + jX|·I; the flux links only the
     # inductive part, V_L = X·I (Faraday's law), the loss resistance rs carries the rest.
     x_l = reactance_ohm(l_built, f_hz)
@@ -288,15 +289,37 @@ def toroid_at_voltage(coil: ToroidCoil, core: ToroidCore, material: CoreMaterial
     flux = peak_flux_density_t(current * x_l, f_hz, turns, effective.ae_m2)
     flux_ok = flux <= material.flux_density_max_t
     copper_w = current**2 * r_ac
-    if material.has_steinmetz:
-        core_w = steinmetz_core_loss_w(f_hz, flux, material.steinmetz_k,
-                                       material.steinmetz_alpha, material.steinmetz_beta,
-                                       effective.ve_m3)
-        rise = temperature_rise_k(copper_w + core_w, toroid_surface_area_m2(
-            core.outer_diameter_m, core.inner_diameter_m, core.height_m))
+    # One core-loss figure per sheet: the loss table (which sets the Q) and Steinmetz's
+    # law can disagree; the heat takes the larger, and both are kept to be shown.
+    table_w = current**2 * r_core
+    steinmetz_w = (steinmetz_core_loss_w(f_hz, flux, material.steinmetz_k,
+                                         material.steinmetz_alpha, material.steinmetz_beta,
+                                         effective.ve_m3) if material.has_steinmetz else None)
+    core_w = max(table_w, steinmetz_w) if steinmetz_w is not None else table_w
+    rise = temperature_rise_k(copper_w + core_w, toroid_surface_area_m2(
+        core.outer_diameter_m, core.inner_diameter_m, core.height_m))
     return replace(coil, current_rms_a=current, current_density_a_per_m2=density,
                    flux_density_peak_t=flux, flux_density_within_limit=flux_ok,
-                   copper_loss_w=copper_w, core_loss_w=core_w, temperature_rise_k=rise)
+                   copper_loss_w=copper_w, core_loss_w=core_w, core_loss_table_w=table_w,
+                   core_loss_steinmetz_w=steinmetz_w, temperature_rise_k=rise)
+
+
+def solenoid_surface_area_m2(coil: SolenoidCoil) -> float:
+    """The cylinder that envelopes the winding, π (D + d) ℓ: the surface a spaced
+    single-layer coil sheds its heat from by convection and radiation (common practice)."""
+    return math.pi * (coil.diameter_m + coil.wire.overall_diameter_m) * coil.length_m
+
+
+def solenoid_at_voltage(coil: SolenoidCoil, voltage_rms_v: float, f_hz: float) -> SolenoidCoil:
+    """The air-core coil with an rms voltage across its terminals: its current
+    V/|r + jX|, the copper loss I²·R_ac and the temperature rise over its surface (the
+    empirical convection law of magnetics.temperature_rise_k, common practice)."""
+    x_l = reactance_ohm(coil.inductance_built_h, f_hz)
+    current = voltage_rms_v / math.hypot(coil.series_resistance_ohm, x_l)
+    copper_w = current**2 * coil.ac_resistance_ohm
+    rise = temperature_rise_k(copper_w, solenoid_surface_area_m2(coil))
+    return replace(coil, current_rms_a=current, copper_loss_w=copper_w,
+                   temperature_rise_k=rise)
 
 
 def _thickest_fitting_awg(turns: int, inner_diameter_m: float, wire: Wire) -> Wire | None:
@@ -349,7 +372,7 @@ def _toroid_build(target_inductance_h, f_hz, core, material, wire, lead_length_m
         core_loss_table_extrapolated=not material.loss_table.covers(f_hz),
         current_rms_a=None, current_density_a_per_m2=None, flux_density_peak_t=None,
         flux_density_within_limit=None, copper_loss_w=None, core_loss_w=None,
-        temperature_rise_k=None,
+        core_loss_table_w=None, core_loss_steinmetz_w=None, temperature_rise_k=None,
         turns_per_layer=toroid_turns_per_layer(core.inner_diameter_m, d_over),
         layers_needed=layers, winding_angle_deg=angle.spread_deg,
         close_wound_angle_deg=angle.close_wound_deg, fits=angle.fits_single_layer,
@@ -383,6 +406,9 @@ class SolenoidCoil:
     srf_basis: str  # "medhurst_1947"
     fits: bool  # pitch ≥ wire overall diameter and length within the former's
     loss_model: CoilLossModel
+    current_rms_a: float | None = None  # at the coil's voltage (solenoid_at_voltage)
+    copper_loss_w: float | None = None
+    temperature_rise_k: float | None = None  # over the winding's enveloping cylinder
 
     @property
     def former_diameter_m(self) -> float:

@@ -18,7 +18,12 @@ from typing import Literal
 from sheetgen.engine.wire import current_density_a_per_m2
 
 CheckQuantity = Literal["peak voltage", "RF current", "power in ESR", "current density",
-                        "flux density"]
+                        "flux density", "surface temperature"]
+# The thermal class of the usual polyurethane and polyester-imide magnet-wire enamels
+# (IEC 60317, from memory): the hottest a winding may run.
+WINDING_MAX_TEMPERATURE_C = 155.0
+# Natural convection: ΔT ∝ P^0.833 (magnetics.temperature_rise_k, common practice).
+CONVECTION_EXPONENT = 0.833
 
 # Common practice: ceramic and mica capacitors run at no more than half their rated
 # voltage in high-reliability work (e.g. the derating tables of NASA EEE-INST-002 for
@@ -248,6 +253,27 @@ def current_density_check(part: str, current_rms_a: float, diameter_m: float, *,
                             drive_power_max_w=_drive_scaled(drive_power_w, allowed / density,
                                                             2.0))
     return _make(part, "current density", "A/m²", density, limit, 1.0, acceptance, remedy)
+
+
+def surface_temperature_check(part: str, ambient_max_c: float, rise_k: float, *,
+                              limit_c: float = WINDING_MAX_TEMPERATURE_C,
+                              drive_power_w: float | None = None,
+                              acceptance: str | None = None) -> RatingCheck:
+    """The hottest surface, ambient + rise, against a temperature limit.
+
+    The rise goes with the dissipated power as P^0.833 (natural convection, common
+    practice) and the power with the drive, so the drive that just passes is
+    P·((limit − ambient)/rise)^(1/0.833).
+    """
+    surface_c = ambient_max_c + rise_k
+
+    def remedy(allowed):
+        headroom = max(allowed - ambient_max_c, 0.0)
+        return RatingRemedy(required_rating=surface_c,
+                            drive_power_max_w=_drive_scaled(drive_power_w, headroom / rise_k,
+                                                            1.0 / CONVECTION_EXPONENT)
+                            if rise_k > 0 else None)
+    return _make(part, "surface temperature", "°C", surface_c, limit_c, 1.0, acceptance, remedy)
 
 
 def flux_density_check(part: str, flux_density_peak_t: float, limit_t: float, *,

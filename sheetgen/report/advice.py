@@ -62,6 +62,12 @@ def _flux_density(r: RatingRemedy) -> str:
             f"{format_quantity(r.required_rating, 'T')}{_or_drive(r)}")
 
 
+def _surface_temperature(r: RatingRemedy) -> str:
+    drive = _or_drive(r)
+    return ("Use thicker wire or a larger former (less loss per area of surface), spread "
+            f"the turns, or cool it with moving air{drive}")
+
+
 _REMEDIES = {"peak voltage": _peak_voltage, "RF current": _rf_current,
              "power in ESR": _esr_power, "current density": _current_density,
-             "flux density": _flux_density}
+             "flux density": _flux_density, "surface temperature": _surface_temperature}

@@ -334,6 +334,7 @@ def _no_hazard_notice(parts: Iterable[PartHazard]) -> Caution:
 
 _ORDER = ("covers-interlocks", "hv-capacitor", "hv-coil", "insulation-distances", "dc-supply",
           "stored-energy", "rf-burn", "hot-core", "hot-capacitor", "rf-exposure", "flux-near-limit", "srf-near-f0",
+          "core-data-extrapolated",
           "no-hazardous-voltage")
 
 
@@ -442,4 +443,11 @@ def coil_cautions(coil, f0_hz: float, designator: str,
             f"{flux / flux_limit_t * 100:.0f} % of its material's "
             f"{format_quantity(flux_limit_t, 'T', 3)} limit: it heats and its Q falls as the "
             "drive rises. Keep the drive at the design level or use a larger core."))
+    if getattr(coil, "core_loss_table_extrapolated", False):
+        found.append(Caution(
+            "notice", "core-data-extrapolated",
+            f"The core material's loss data do not reach f0 ({format_quantity(f0_hz, 'Hz')}): "
+            f"the core loss and the Q of {designator} are extrapolated from the nearest rows. "
+            "Measure the wound coil's Q at f0 before relying on the bandwidth window, or use "
+            "a material specified at this frequency."))
     return tuple(found)

@@ -141,14 +141,21 @@ def coil_rows(design: Design) -> list[Row]:
             Row("Peak flux density", quantity_text(r.flux_density_peak_t, "T", 3),
                 f"{format_number(r.flux_density_peak_t * 1e4, 3)} G; limit "
                 f"{quantity_text(coil.flux_density_max_t, 'T', 3)}"),
-            Row("Core loss", quantity_text(r.core_loss_w, "W", 3) if r.core_loss_w is not None else "—",
-                "Steinmetz"),
-            Row("Temperature rise", (format_number(r.temperature_rise_k, 3) + " K")
-                if r.temperature_rise_k is not None else "—", "estimate (common practice)"),
+            Row("Core loss (used for heat)", _watts(r.core_loss_w), _core_loss_remark(r)),
+            Row("Core loss from the loss table", _watts(r.core_loss_table_w),
+                "I²·r_core: the loss that sets the Q"
+                + ("; the table is extrapolated to f0" if r.core_loss_table_extrapolated else "")),
+            Row("Core loss by Steinmetz", _watts(r.core_loss_steinmetz_w),
+                "k·f^α·B̂^β·Ve" if r.core_loss_steinmetz_w is not None else "no Steinmetz data"),
             Row("Turns per layer", str(r.turns_per_layer), "on the inner circumference"),
             Row("Winding spread", format_number(r.winding_angle_deg, 3) + "°",
                 f"close-wound {format_number(r.close_wound_angle_deg, 3)}°"),
         ]
+    rows += [Row("Copper loss", _watts(r.copper_loss_w), "I²·R_ac at the design drive"),
+             Row("Temperature rise", (format_number(r.temperature_rise_k, 3) + " K")
+                 if r.temperature_rise_k is not None else "—",
+                 "natural convection from the " + ("core's" if coil.form == "toroid" else
+                                                    "winding's") + " surface (common practice)")]
     rows.append(Row("Winding fits", "yes" if r.fits else "NO"))
     if coil.link_turns is not None:
         rows.append(Row(f"Link winding {design.designators.link or ''}".rstrip(),
@@ -307,3 +314,15 @@ def rating_rows(design: Design) -> list[Row]:
                         f"{stress_text(check.allowed, check.unit)} allowed", f"{status}, margin "
                         f"{signed(check.margin * 100, 0)} %"))
     return rows
+
+
+def _watts(value: float | None) -> str:
+    return quantity_text(value, "W", 3) if value is not None else "—"
+
+
+def _core_loss_remark(r) -> str:
+    """Which of the two core-loss estimates the heat uses (the larger)."""
+    if r.core_loss_steinmetz_w is None:
+        return "from the loss table"
+    larger = "Steinmetz" if r.core_loss_steinmetz_w >= r.core_loss_table_w else "the loss table"
+    return f"the larger estimate: {larger}"

@@ -128,10 +128,21 @@ def test_flux_density_from_the_voltage_across_the_inductance_alone():
     assert coil.flux_density_peak_t < 0.9 * math.sqrt(2) * v / (2 * math.pi * f * coil.turns * ae)
 
 
-def test_toroid_without_steinmetz_data_has_no_temperature_rise():
+def test_toroid_without_steinmetz_data_takes_its_core_loss_from_the_loss_table():
+    """One core-loss figure: with no Steinmetz data it is the loss table's I²·r_core (the
+    same resistance that sets the Q), and the rise follows from it and the copper loss."""
     coil = design_toroid(22e-6, 1e6, RING, LOW_LOSS, awg_wire(24), 0.03, 5.0)
-    assert coil.core_loss_w is None and coil.temperature_rise_k is None
+    assert coil.core_loss_steinmetz_w is None
+    assert_close(coil.core_loss_w, coil.current_rms_a**2 * coil.core_loss_resistance_ohm,
+                 rel=1e-12, what="core loss from the loss table, W")
+    assert coil.temperature_rise_k is not None and coil.temperature_rise_k > 0
     assert coil.srf_hz is None and coil.srf_basis == "not_estimated"
+
+
+def test_the_heat_takes_the_larger_of_the_two_core_loss_estimates():
+    coil = design_toroid(22e-6, 137e3, RING, LOSSY, awg_wire(24), 0.03, 20.0)
+    assert coil.core_loss_steinmetz_w is not None and coil.core_loss_table_w is not None
+    assert coil.core_loss_w == max(coil.core_loss_table_w, coil.core_loss_steinmetz_w)
 
 
 def test_winding_that_fits_has_no_remedy():

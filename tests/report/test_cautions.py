@@ -231,3 +231,16 @@ def test_a_kilovolt_tank_states_creepage_clearance_and_corona(tmp_path):
     assert "corona" in text
     low = _by_code(cautions.design_cautions(design_from_file(root / "templates" / "demo.yaml")))
     assert "insulation-distances" not in low, "below 1 kV peak nothing is said"
+
+
+def test_a_loss_table_used_beyond_its_rows_is_flagged():
+    """A core whose loss rows stop below f0 is extrapolated: said, not hidden."""
+    from types import SimpleNamespace
+    coil = SimpleNamespace(srf_hz=None, flux_density_peak_t=None,
+                           core_loss_table_extrapolated=True)
+    found = _by_code(cautions.coil_cautions(coil, 30e6, "L1", None))
+    assert found["core-data-extrapolated"].level == "notice"
+    assert "extrapolated" in found["core-data-extrapolated"].text
+    inside = SimpleNamespace(srf_hz=None, flux_density_peak_t=None,
+                             core_loss_table_extrapolated=False)
+    assert "core-data-extrapolated" not in _by_code(cautions.coil_cautions(inside, 3e6, "L1"))

@@ -45,7 +45,8 @@ SUFFIX_UNITS = {"_hz": "Hz", "_ohm": "Ω", "_h": "H", "_f": "F", "_v": "V", "_a"
                 "_w": "W", "_t": "T", "_m": "m"}
 THREE_FIGURES = {"nearest_f", "fixed_parts_f", "overall_diameter_m", "diameter_m",
                  "wire_length_m", "lead_length_m", "flux_density_peak_t", "flux_density_max_t",
-                 "core_loss_w", "measure_at_hz", "winding_length_m", "pitch_m",
+                 "core_loss_w", "core_loss_table_w", "core_loss_steinmetz_w", "copper_loss_w",
+                 "measure_at_hz", "winding_length_m", "pitch_m",
                  "self_capacitance_f"}
 PLAIN_NUMBERS = {"q_inductor", "q_capacitor", "q_unloaded", "q_loaded", "q_estimated", "q_used",
                  "nagaoka_coefficient"}
