@@ -6,6 +6,9 @@ functions; it does no I/O and writes no text for people (report/ does).
 
 from __future__ import annotations
 
+import math
+from dataclasses import replace
+
 import numpy as np
 
 from sheetgen.design.assessment import assess
@@ -67,10 +70,32 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                                     job.source.resistance, load_r)
         derived.append(Derivation("load.resistance", load_r, "Ω",
                                   f"gives loaded Q {wanted_q:.4g}"))
+    coupled = coupling = None
+    if coil is not None:  # a link or tap of whole turns presents R·(N/M)², not the aim
+        from sheetgen.design.coil import as_built_coupling
+        coupling = as_built_coupling(job.inductor, coil.turns, circuit)
+        if coupling is not None and not math.isclose(coupling.presented_ohm, load_r,
+                                                     rel_tol=1e-12):
+            coupled = coupling.kind
+            load_r = coupling.presented_ohm
+            circuit = replace(circuit, load_resistance_ohm=load_r)
+            derived[:] = [d for d in derived if d.field != "load.resistance"]
+            derived.append(Derivation(
+                "load.resistance", load_r, "Ω",
+                f"as built: R·(N/M)² with the {coupling.kind} at {coupling.turns} of "
+                f"{coil.turns} turns"))
     try:
         analysed = resonance.analyse(circuit)
     except resonance.NoResonanceError as error:
         raise FieldError("", str(error)) from None
+    if coupled:  # what the rounded coupling does to the selectivity the job asked for
+        aim = (f"; target {targets.bandwidth / 1e3:.6g} kHz" if targets and targets.bandwidth
+               else f"; target loaded Q {targets.loaded_q:.4g}" if targets and targets.loaded_q
+               else "")
+        derived.append(Derivation("resonance.bandwidth", analysed.bandwidth_hz, "Hz",
+                                  f"as built with the whole-turn {coupled}{aim}"))
+        derived.append(Derivation("resonance.q_loaded", analysed.q_loaded, "",
+                                  f"as built with the whole-turn {coupled}"))
     drive = _drive(job)
     try:
         stress = part_stress(circuit, drive, analysed.f_peak_hz)
@@ -88,7 +113,7 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
         loaded_coil = design_coil(job.inductor, parts, target_l, f_design,
                                   stress.inductor_voltage_rms_v)
         coil_result = coil_design(job, parts, loaded_coil, target_l, circuit, q_used, q_source,
-                                  f0)
+                                  f0, coupling)
     fixed = choice.fixed_parts_f
     names = designators(len(fixed), choice.trimmer_setting_f is not None,
                         circuit.source_resistance_ohm is not None,

@@ -63,6 +63,39 @@ class CoilCurve:
 
 
 @dataclass(frozen=True)
+class Coupling:
+    """A link winding or tap of whole turns, and the resistance it presents to the tank.
+
+    An ideal transformer: R at M of N turns looks like R·(N/M)² across the tank.
+    turns_exact is N√(R/R_aimed) before rounding; aimed_ohm the tank load it was for.
+    """
+
+    kind: str  # "link" or "tap"
+    turns: int
+    turns_exact: float
+    tank_turns: int
+    resistance_ohm: float
+    aimed_ohm: float
+    presented_ohm: float
+    reactance_ohm: float  # X0 of the tank, which the presented resistance must exceed
+
+    @property
+    def too_many_turns(self) -> bool:
+        """A link of more turns than the tank winding steps the load up: not a coupling."""
+        return self.turns > self.tank_turns
+
+    @property
+    def swamps_tank(self) -> bool:
+        """The presented resistance is below X0: the load alone holds the Q under 1."""
+        return self.presented_ohm < self.reactance_ohm
+
+    @property
+    def resistance_min_ohm(self) -> float:
+        """The least resistance on the coupling that presents X0 at these turns."""
+        return self.reactance_ohm * (self.turns / self.tank_turns) ** 2
+
+
+@dataclass(frozen=True)
 class CoilDesign:
     """The coil sheetgen designed: the engine's result and what the design made of it."""
 
@@ -86,6 +119,7 @@ class CoilDesign:
     q_used: float
     q_source: str  # "estimate" or "job"
     q_curve: CoilCurve
+    coupling: Coupling | None = None
 
 
 @dataclass(frozen=True)

@@ -64,7 +64,7 @@ def _coil_failures(design: Design) -> list[CheckFailure]:
     if coil is None:
         return []
     r = coil.result
-    failures = []
+    failures = _coupling_failures(coil)
     if not r.fits and coil.form == "toroid":
         remedy = {
             "thinner_wire": f"use {r.remedy_wire.name} wire, which fits in one layer"
@@ -84,4 +84,31 @@ def _coil_failures(design: Design) -> list[CheckFailure]:
             f"over {format_quantity(r.length_m, 'm', 3)} do not fit: the pitch must be at least "
             f"the wire's overall diameter {format_quantity(r.wire.overall_diameter_m, 'm', 3)} "
             "and the length within the former's; use a thinner wire or a longer former"))
+    return failures
+
+
+def _coupling_failures(coil) -> list[CheckFailure]:
+    """A link or tap that cannot present the tank's load: too many turns, or so few ohms
+    that the tank's Q falls below 1."""
+    c = coil.coupling
+    if c is None:
+        return []
+    field = f"inductor.{c.kind}"
+    failures = []
+    if c.too_many_turns:
+        failures.append(CheckFailure(
+            "coupling-turns", field,
+            f"the {c.kind} needs {c.turns_exact:.3g} turns to present "
+            f"{format_quantity(c.aimed_ohm, 'Ω', 4)} from {format_quantity(c.resistance_ohm, 'Ω', 4)}, "
+            f"more than the {c.tank_turns}-turn tank winding: it would step the load up; connect "
+            f"the load across the tank, or make the load resistance at most "
+            f"{format_quantity(c.aimed_ohm, 'Ω', 3)}"))
+    if c.swamps_tank:
+        failures.append(CheckFailure(
+            "coupling-load", field,
+            f"the {c.kind} at {c.turns} of {c.tank_turns} turns presents "
+            f"{format_quantity(c.presented_ohm, 'Ω', 3)} to the tank, below its reactance "
+            f"{format_quantity(c.reactance_ohm, 'Ω', 3)} (loaded Q under 1); the "
+            f"{c.kind} needs a resistance of at least {format_quantity(c.resistance_min_ohm, 'Ω', 3)} "
+            "at these turns, or the tank a higher load resistance"))
     return failures

@@ -154,6 +154,12 @@ def _inductor(design: Design) -> dict:
         "fits": r.fits,
         "remedy": r.remedy if toroid else None,
         "link_turns": coil.link_turns,
+        "link_resistance_ohm": coil.link_resistance_ohm,
+        "coupling": ({"kind": coil.coupling.kind, "turns": coil.coupling.turns,
+                      "resistance_ohm": coil.coupling.resistance_ohm,
+                      "aimed_ohm": coil.coupling.aimed_ohm,
+                      "presented_ohm": coil.coupling.presented_ohm}
+                     if coil.coupling is not None else None),
         "tap_turns": coil.tap_turns,
         "tap_resistance_ohm": coil.tap_resistance_ohm,
         "check": {"inductance_h": check.inductance_h, "tolerance": check.tolerance,

@@ -152,15 +152,31 @@ def coil_rows(design: Design) -> list[Row]:
         rows.append(Row(f"Link winding {design.designators.link or ''}".rstrip(),
                         plural(coil.link_turns, "turn"),
                         f"to {quantity_text(coil.link_resistance_ohm, 'Ω')}: N√(R_link/R_tank) rounded, "
-                        "at least 1"))
+                        "at least 1" + _presented(coil)))
     if coil.tap_turns is not None:
         rows.append(Row("Tap", f"at turn {coil.tap_turns} from the start (cold) end",
-                        f"for {quantity_text(coil.tap_resistance_ohm, 'Ω')}: N√(R_tap/R_tank) rounded"))
+                        f"for {quantity_text(coil.tap_resistance_ohm, 'Ω')}: N√(R_tap/R_tank) rounded"
+                        + _presented(coil)))
     return rows
+
+
+def _presented(coil) -> str:
+    """What the whole-turn link or tap presents to the tank, beside what was aimed at."""
+    c = coil.coupling
+    if c is None:
+        return ""
+    return (f"; presents {quantity_text(c.presented_ohm, 'Ω')} to the tank "
+            f"(aimed at {quantity_text(c.aimed_ohm, 'Ω')})")
 
 
 def _origin(derived: dict, field: str) -> str:
     return f"computed: {derived[field]}" if field in derived else ""
+
+
+def _as_built(design: Design, field: str) -> str:
+    """The reason a figure is the as-built one (a Derivation), with the job's target."""
+    reasons = {d.field: d.reason for d in design.derived}
+    return reasons.get(field, "")
 
 
 def performance_rows(design: Design) -> list[Row]:
@@ -178,12 +194,15 @@ def performance_rows(design: Design) -> list[Row]:
     rows += [
         Row("Lower half-power (−3 dB) point", quantity_text(r.f_low_hz, "Hz")),
         Row("Upper half-power (−3 dB) point", quantity_text(r.f_high_hz, "Hz")),
-        Row("Bandwidth (−3 dB)", quantity_text(r.bandwidth_hz, "Hz")),
+        Row("Bandwidth (−3 dB)", quantity_text(r.bandwidth_hz, "Hz"),
+            _as_built(design, "resonance.bandwidth")),
         Row("Reactance at f0", quantity_text(r.reactance_ohm, "Ω")),
         Row("Coil Q", format_number(r.q_inductor, 4), "X0/rL"),
         Row("Capacitor Q", format_number(r.q_capacitor, 4), "X0/rC"),
         Row("Unloaded Q", format_number(r.q_unloaded, 4), "X0/(rL + rC)"),
-        Row("Loaded Q", format_number(r.q_loaded, 4), "f0/bandwidth"),
+        Row("Loaded Q", format_number(r.q_loaded, 4), "f0/bandwidth"
+            + ("; " + _as_built(design, "resonance.q_loaded")
+               if _as_built(design, "resonance.q_loaded") else "")),
         Row("Impedance at the response maximum", quantity_text(r.impedance_at_peak_ohm, "Ω"),
             "source resistance excluded"),
     ]

@@ -1,0 +1,39 @@
+"""A unit built exactly as its sheet says, as an ngspice netlist (test helper).
+
+The part values come from the results contract's components (the L built, the C fitted);
+a link or tap is modelled as an ideal transformer of the BUILT turns ratio M/N loaded by
+the job's coupling resistance — an E/F controlled-source pair: E makes the secondary
+voltage (M/N)·V_tank, F draws (M/N)·I_secondary from the tank (SPICE's textbook ideal
+transformer, exact at every frequency and with no magnetising inductance). ngspice then
+presents R·(N/M)² to the tank on its own; nothing here takes the engine's load figure.
+"""
+
+from __future__ import annotations
+
+from tests import spice
+
+
+def as_built_bench(results: dict) -> spice.BenchCircuit:
+    """The netlist of the unit as its sheet says to build it."""
+    parts = results["components"]
+    inductor = results["inductor"]
+    turns = inductor.get("turns")
+    coupling = None
+    if inductor.get("link_turns") is not None:
+        coupling = inductor["link_turns"], inductor["link_resistance_ohm"]
+    elif inductor.get("tap_turns") is not None:
+        coupling = inductor["tap_turns"], inductor["tap_resistance_ohm"]
+    load = None if coupling is not None else parts["load_resistance_ohm"]
+    build = spice.series_netlist if results["topology"] == "series" else spice.parallel_netlist
+    bench = build(parts["inductance_h"], parts["inductor_resistance_ohm"],
+                  parts["capacitance_f"], parts["capacitor_esr_ohm"],
+                  parts["source_resistance_ohm"], load)
+    if coupling is None:
+        return bench
+    m, r = coupling
+    ratio = m / turns
+    lines = [f"elink sec 0 out 0 {ratio!r}", "vlinksense sec secx dc 0",
+             f"rlink secx 0 {float(r)!r}", f"flink out 0 vlinksense {ratio!r}"]
+    return spice.BenchCircuit(bench.topology, bench.body + "\n" + "\n".join(lines),
+                              bench.response, bench.port_voltage, bench.port_current,
+                              bench.f_start_hz, bench.f_stop_hz)

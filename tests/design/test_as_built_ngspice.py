@@ -1,0 +1,46 @@
+"""Units built exactly as their sheets say, measured by ngspice, against the sheets' windows.
+
+Source: ngspice AC analysis in batch mode (tests/spice.py); the link or tap is an ideal
+transformer of the built turns ratio (tests/design/as_built.py: an E/F controlled-source
+pair). The engine's own load figure is not used for the coupled load.
+"""
+
+from pathlib import Path
+
+import pytest
+
+from sheetgen.design.pipeline import design_from_file
+from sheetgen.report.results import results_document
+from tests import spice
+from tests.design.as_built import as_built_bench
+from tests.support import assert_close
+
+pytestmark = pytest.mark.ngspice
+
+ROOT = Path(__file__).resolve().parents[2]
+TOROID = (ROOT / "templates" / "toroid.yaml").read_text(encoding="utf-8")
+TAPPED = TOROID.replace("  link:\n    resistance: 50 ohm\n", "  tap:\n    resistance: 2 kohm\n")
+
+
+def _inside(value, low, high, what):
+    assert low <= value <= high, f"{what}: measured {value!r} outside the window {low!r}…{high!r}"
+
+
+@pytest.mark.parametrize("text", [TOROID, TAPPED], ids=["link", "tap"])
+def test_whole_turn_coupling_load_is_the_built_ratio(tmp_path, text):
+    """The rounded link/tap presents R·(N/M)²; the sheet's bandwidth and Q are those of the
+    built unit, and its windows hold what ngspice measures."""
+    job = tmp_path / "job.yaml"
+    job.write_text(text, encoding="utf-8")
+    got = results_document(design_from_file(job, ROOT / "shared"))
+    measured = spice.measure_bench(as_built_bench(got))
+    where = f"vs {spice.ngspice_version()}"
+    res, lim = got["resonance"], got["limits"]
+    assert_close(res["bandwidth_hz"], measured.bandwidth_hz, rel=1e-4,
+                 what=f"as-built bandwidth {where}")
+    assert_close(res["impedance_at_peak_ohm"], measured.impedance_at_peak_ohm, rel=1e-4,
+                 what=f"as-built |Z| at the peak {where}")
+    _inside(measured.bandwidth_hz, lim["bandwidth_min_hz"], lim["bandwidth_max_hz"],
+            "bandwidth")
+    q = measured.f_peak_hz / measured.bandwidth_hz
+    _inside(q, lim["q_loaded_min"], lim["q_loaded_max"], "loaded Q")
