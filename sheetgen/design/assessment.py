@@ -23,7 +23,7 @@ from sheetgen.engine.ratings import (
 )
 from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import SERIES_TOLERANCE
-from sheetgen.engine.stress import Stress
+from sheetgen.engine.stress import Drive, Stress
 from sheetgen.engine.variation import (
     Envelope,
     Spread,
@@ -132,6 +132,17 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
                       c_tol, c_source, inductance_tolerance, resolution)
 
 
+def job_drive(job: Job) -> Drive:
+    """The job's drive as the engine takes it: an open-circuit voltage, a current or an
+    available power."""
+    source = job.source
+    if source.voltage is not None:
+        return Drive("voltage", source.voltage)
+    if source.current is not None:
+        return Drive("current", source.current)
+    return Drive("available_power", source.available_power)
+
+
 def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators,
                   fixed_parts_f: tuple[float, ...], *, flux: float | None,
                   flux_limit_t: float | None, wire_diameter_m: float | None
@@ -141,6 +152,7 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
     ratings = job.ratings
     accepted = {a.check.strip().lower(): a.reason for a in ratings.accept}
     power = stress.drive_power_w
+    drive = job_drive(job)  # remedies name the job's own drive quantity
     cap = job.capacitor
     checks = []
 
@@ -153,30 +165,30 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
         if cap.rated_voltage is not None:
             checks.append(capacitor_voltage_check(
                 part, stress.capacitor_voltage_peak_v, cap.rated_voltage,
-                derating=ratings.voltage_derating, drive_power_w=power,
+                derating=ratings.voltage_derating, drive_power_w=power, drive=drive,
                 acceptance=acceptance(part, "peak voltage")))
         if cap.rated_current is not None:
             checks.append(capacitor_current_check(
                 part, stress.capacitor_current_rms_a * share, cap.rated_current,
-                derating=ratings.current_derating, drive_power_w=power,
+                derating=ratings.current_derating, drive_power_w=power, drive=drive,
                 acceptance=acceptance(part, "RF current")))
         if cap.rated_power is not None:
             checks.append(esr_power_check(
                 part, stress.capacitor_loss_w * share, cap.rated_power,
-                esr_ohm=circuit.capacitor_esr_ohm, drive_power_w=power,
+                esr_ohm=circuit.capacitor_esr_ohm, drive_power_w=power, drive=drive,
                 acceptance=acceptance(part, "power in ESR")))
     if names.trimmer and cap.trimmer is not None and cap.trimmer.rated_voltage is not None:
         checks.append(capacitor_voltage_check(
             names.trimmer, stress.capacitor_voltage_peak_v, cap.trimmer.rated_voltage,
-            derating=ratings.voltage_derating, drive_power_w=power,
+            derating=ratings.voltage_derating, drive_power_w=power, drive=drive,
             acceptance=acceptance(names.trimmer, "peak voltage")))
     if wire_diameter_m is not None:
         checks.append(current_density_check(
-            names.coil, stress.inductor_current_rms_a, wire_diameter_m, drive_power_w=power,
+            names.coil, stress.inductor_current_rms_a, wire_diameter_m, drive_power_w=power, drive=drive,
             acceptance=acceptance(names.coil, "current density")))
     if flux is not None and flux_limit_t is not None:
         checks.append(flux_density_check(
-            names.coil, flux, flux_limit_t, drive_power_w=power,
+            names.coil, flux, flux_limit_t, drive_power_w=power, drive=drive,
             acceptance=acceptance(names.coil, "flux density")))
     known = {f"{c.part} {c.quantity}".lower() for c in checks}
     for index, accepted_check in enumerate(ratings.accept):

@@ -11,12 +11,12 @@ from dataclasses import replace
 
 import numpy as np
 
-from sheetgen.design.assessment import assess
+from sheetgen.design.assessment import assess, job_drive
 from sheetgen.design.capacitors import capacitor_choice
 from sheetgen.design.designators import designators
 from sheetgen.design.records import CoilDesign, Derivation, Design
 from sheetgen.engine import resonance
-from sheetgen.engine.stress import Drive, DriveError, part_stress
+from sheetgen.engine.stress import DriveError, part_stress
 from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import Job
@@ -96,7 +96,7 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                                   f"as built with the whole-turn {coupled}{aim}"))
         derived.append(Derivation("resonance.q_loaded", analysed.q_loaded, "",
                                   f"as built with the whole-turn {coupled}"))
-    drive = _drive(job)
+    drive = job_drive(job)
     try:
         stress = part_stress(circuit, drive, analysed.f_peak_hz)
     except DriveError as error:
@@ -198,12 +198,3 @@ def _wanted_loaded_q(targets, f0_hz: float) -> float | None:
     if targets.bandwidth is not None:
         return f0_hz / targets.bandwidth
     return None
-
-
-def _drive(job: Job) -> Drive:
-    source = job.source
-    if source.voltage is not None:
-        return Drive("voltage", source.voltage)
-    if source.current is not None:
-        return Drive("current", source.current)
-    return Drive("available_power", source.available_power)

@@ -24,10 +24,19 @@ def rating_advice(check: RatingCheck) -> str | None:
             f"{derated}. {_REMEDIES[check.quantity](check.remedy)}.")
 
 
+_DRIVE_WORDS = {"voltage": ("V", " rms open-circuit"), "current": ("A", " rms"),
+                "available_power": ("W", " available")}
+
+
 def _or_drive(remedy: RatingRemedy) -> str:
+    """The drive that passes, in the job's own drive quantity when it is known."""
+    if remedy.drive_max is not None:
+        unit, words = _DRIVE_WORDS[remedy.drive_kind]
+        return f", or lower the drive to at most {format_quantity(remedy.drive_max, unit)}{words}"
     if remedy.drive_power_max_w is None:
         return ""
-    return f", or lower the drive to at most {format_quantity(remedy.drive_power_max_w, 'W')}"
+    return (f", or lower the drive to at most {format_quantity(remedy.drive_power_max_w, 'W')}"
+            " into the circuit")
 
 
 def _peak_voltage(r: RatingRemedy) -> str:
