@@ -104,7 +104,8 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
            fixed_capacitance_f: float, inductance_tolerance: float | None,
            inductance_tc: float | None, coil=None, flux_limit_t: float | None = None,
            wire_diameter_m: float | None = None,
-           fixed_parts_f: tuple[float, ...] = ()) -> Assessment:
+           fixed_parts_f: tuple[float, ...] = (),
+           other_capacitance_f: float = 0.0) -> Assessment:
     """Limits, trimmer range and rating checks for the nominal design."""
     spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc)
     method = monte_carlo if job.variation.method == "monte-carlo" else worst_case
@@ -116,7 +117,7 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
     if tuned:  # the trimmer takes up the tolerances; what is tested is the trimmed unit
         built = sample_parts(circuit, spec, job.variation.method)
         trim = trimmer_check(built, f0_target_hz, fixed_capacitance_f, trimmer.minimum,
-                             trimmer.maximum)
+                             trimmer.maximum, other_capacitance_f=other_capacitance_f)
         variation = method(circuit, replace(spec, tuned_f0_hz=f0_target_hz))
     else:
         variation = method(circuit, spec)

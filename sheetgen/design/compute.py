@@ -12,7 +12,7 @@ from dataclasses import replace
 import numpy as np
 
 from sheetgen.design.assessment import assess, job_drive
-from sheetgen.design.capacitors import capacitor_choice
+from sheetgen.design.capacitors import capacitance_across, capacitor_choice
 from sheetgen.design.designators import designators
 from sheetgen.design.records import CoilDesign, Derivation, Design
 from sheetgen.engine import resonance
@@ -46,8 +46,24 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
             required_c = float(resonance.capacitance_for_f0(f0_target, inductance))
             _replace_derivation(derived, "capacitor.capacitance", required_c,
                                 "for the f0 target with the whole-turn coil")
-    choice = capacitor_choice(job, required_c)
-    capacitance = choice.built_f
+    others = capacitance_across(job, coil)
+    if job.capacitor.capacitance is None:  # fit the total less what is already across it
+        fit_c = required_c - others.total_f
+        if fit_c <= 0.0:
+            raise FieldError("capacitor", f"the coil's self-capacitance, the strays and the "
+                             f"probe ({others.total_f:.4g} F) already exceed the "
+                             f"{required_c:.4g} F the f0 target needs; use a smaller coil "
+                             "(fewer turns) and a larger capacitor")
+        if others.total_f > 0.0:
+            reason = next(d.reason for d in derived if d.field == "capacitor.capacitance")
+            _replace_derivation(derived, "capacitor.capacitance", fit_c,
+                                f"{reason}, less the capacitance already across it")
+    else:
+        fit_c = required_c
+    derived.append(Derivation("capacitor.across", others.total_f, "F",
+                              "coil self-capacitance, strays and probe, counted in C"))
+    choice = capacitor_choice(job, fit_c, others)
+    capacitance = choice.built_f + others.total_f
     f0 = float(resonance.resonant_frequency_hz(inductance, capacitance))
     x0 = float(resonance.reactance_ohm(inductance, f0))
     coil_r, q_used, q_source = _coil_loss(job, coil, x0, f0)
@@ -150,14 +166,19 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
         tc = job.inductor.temperature_coefficient
         return assess(job, circuit, analysed, stress, response, names,
                       f0_target_hz=f0_target, fixed_capacitance_f=choice.fixed_f,
-                      inductance_tolerance=tolerance, inductance_tc=tc, fixed_parts_f=fixed)
+                      inductance_tolerance=tolerance, inductance_tc=tc, fixed_parts_f=fixed,
+                      other_capacitance_f=_across(choice))
     r = coil.result
     return assess(job, circuit, analysed, stress, response, names, f0_target_hz=f0_target,
                   fixed_capacitance_f=choice.fixed_f,
                   inductance_tolerance=coil.inductance_tolerance,
                   inductance_tc=coil.inductance_tc, coil=r,
                   flux_limit_t=coil.flux_density_max_t, wire_diameter_m=r.wire.diameter_m,
-                  fixed_parts_f=fixed)
+                  fixed_parts_f=fixed, other_capacitance_f=_across(choice))
+
+
+def _across(choice) -> float:
+    return choice.across.total_f if choice.across is not None else 0.0
 
 
 def _replace_derivation(derived: list[Derivation], field: str, value: float, reason: str):

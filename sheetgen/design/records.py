@@ -19,6 +19,22 @@ from sheetgen.inputs.model import Job
 
 
 @dataclass(frozen=True)
+class CapacitanceAcross:
+    """Capacitance across the tuning capacitor that is not a part to fit: the coil's own
+    (Medhurst's for a solenoid, the job's for a ring; none for a series circuit, where it
+    is across the coil, not the capacitor), the wiring strays and the test probe's input."""
+
+    self_capacitance_f: float
+    stray_f: float
+    probe_f: float
+    self_source: str  # "medhurst_1947", "job" or "none"
+
+    @property
+    def total_f(self) -> float:
+        return self.self_capacitance_f + self.stray_f + self.probe_f
+
+
+@dataclass(frozen=True)
 class CapacitorChoice:
     """Standard parts for the capacitance the design needs (IEC 60063), and what is fitted.
 
@@ -35,6 +51,7 @@ class CapacitorChoice:
     trimmer_in_range: bool | None
     built_f: float
     from_standard_parts: bool
+    across: CapacitanceAcross | None = None  # subtracted before the parts were picked
 
     @property
     def fixed_parts_f(self) -> tuple[float, ...]:

@@ -166,9 +166,11 @@ class TrimmerCheck:
 
 def trimmer_check(variation: VariationResult | SampledParts, target_f0_hz: float,
                   fixed_capacitance_f: float, trimmer_min_f: float, trimmer_max_f: float,
-                  coverage: float | None = None) -> TrimmerCheck:
-    """C_needed = 1/(ω_target² L_trial) − C_fixed_trial for every trial (Thomson's
-    formula solved for C), its range at `coverage` (default: the variation's own; all
+                  coverage: float | None = None,
+                  other_capacitance_f: float = 0.0) -> TrimmerCheck:
+    """C_needed = 1/(ω_target² L_trial) − C_fixed_trial − C_other for every trial (Thomson's
+    formula solved for C; C_other the coil's self-capacitance, strays and probe already
+    across the trimmer), its range at `coverage` (default: the variation's own; all
     corners for a worst case), and whether [trimmer_min_f, trimmer_max_f] covers it.
 
     The variation's capacitance factor (tolerance and temperature) applies to the fixed
@@ -183,12 +185,12 @@ def trimmer_check(variation: VariationResult | SampledParts, target_f0_hz: float
         coverage = variation.coverage
     parts = variation.parts
     needed = (capacitance_for_f0(target_f0_hz, parts.inductance_h)
-              - fixed_capacitance_f * parts.capacitance_factor)
+              - fixed_capacitance_f * parts.capacitance_factor - other_capacitance_f)
     needed = np.ascontiguousarray(needed, dtype=float)
     needed.setflags(write=False)
     interval = central_interval(needed, coverage)
     nominal = float(capacitance_for_f0(target_f0_hz, variation.nominal.inductance_h)
-                    - fixed_capacitance_f)
+                    - fixed_capacitance_f - other_capacitance_f)
     tunable = (needed >= trimmer_min_f) & (needed <= trimmer_max_f)
     return TrimmerCheck(
         method=variation.method, coverage=coverage, target_f0_hz=target_f0_hz,

@@ -53,6 +53,7 @@ def _quantity(dimension: quantities.Dimension, minimum: float | None = 0.0, incl
 
 Inductance = _quantity(quantities.INDUCTANCE)
 Capacitance = _quantity(quantities.CAPACITANCE)
+SmallCapacitance = _quantity(quantities.CAPACITANCE, minimum=0.0, inclusive=True)
 Resistance = _quantity(quantities.RESISTANCE)
 LossResistance = _quantity(quantities.RESISTANCE, minimum=0.0, inclusive=True)
 Frequency = _quantity(quantities.FREQUENCY)
@@ -383,6 +384,9 @@ class CapacitorSection(Section):
                                       "in its ESR")
     bleeder: Resistance | None = Field(None, description="bleeder resistor across the "
                                        "capacitor, for the discharge time in the cautions")
+    stray: SmallCapacitance = Field(2e-12, description="wiring and layout capacitance across the "
+                               "capacitor, subtracted from the capacitance to fit (default "
+                               "2 pF, common practice for short point-to-point wiring)")
 
     @model_validator(mode="after")
     def _one_loss(self):
@@ -472,6 +476,10 @@ class TestSection(Section):
     frequency_resolution: Frequency | None = Field(
         None, description="frequency resolution of the test set; limits are rounded outward "
         "to it (default: a power of ten near bandwidth/50)")
+    probe_capacitance: SmallCapacitance | None = Field(
+        None, description="input capacitance of the probe put across a parallel tank; it is "
+        "subtracted from the capacitance to fit (default 1 pF, an active probe, common "
+        "practice)")
 
 
 class Acceptance(Section):

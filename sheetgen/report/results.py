@@ -59,6 +59,13 @@ def results_document(design: Design) -> dict:
                 "trimmer_in_range": choice.trimmer_in_range,
                 "built_f": choice.built_f,
             },
+            "capacitance_across": ({
+                "coil_self_f": (None if choice.across.self_source == "none"
+                                else choice.across.self_capacitance_f),
+                "stray_f": choice.across.stray_f,
+                "probe_f": choice.across.probe_f if circuit.topology == "parallel" else None,
+                "total_f": choice.across.total_f,
+            } if choice.across is not None else None),
             "derived": [{"field": d.field, "value": d.value, "unit": d.unit, "reason": d.reason}
                         for d in design.derived],
         },

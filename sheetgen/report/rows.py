@@ -46,9 +46,11 @@ def component_rows(design: Design) -> list[Row]:
         Row("Topology", c.topology),
         Row("Inductance L", quantity_text(c.inductance_h, "H"), inductance_remark),
         Row("Coil loss resistance rL", quantity_text(c.inductor_resistance_ohm, "Ω"), loss_remark),
-        Row("Capacitance C", quantity_text(c.capacitance_f, "F"), "as fitted"),
+        Row("Capacitance C", quantity_text(c.capacitance_f, "F"),
+            "as fitted, with what is already across it"),
     ]
     rows += capacitor_rows(design)
+    rows += across_rows(design)
     rows += [
         Row("Capacitor ESR rC", quantity_text(c.capacitor_esr_ohm, "Ω"), "at f0"),
         Row("Source resistance Rs", quantity_text(c.source_resistance_ohm, "Ω")
@@ -58,6 +60,23 @@ def component_rows(design: Design) -> list[Row]:
             _origin(derived, "load.resistance")),
     ]
     return rows
+
+
+def across_rows(design: Design) -> list[Row]:
+    """The capacitance across C that is not a part to fit, subtracted before choosing."""
+    across = design.capacitor_choice.across
+    if across is None:
+        return []
+    source = {"medhurst_1947": "Medhurst (1947)", "job": "from the job"}.get(across.self_source)
+    parts = [f"strays {quantity_text(across.stray_f, 'F')} (capacitor.stray)"]
+    if design.circuit.topology == "parallel":
+        parts.insert(0, "coil self-capacitance none estimated (give inductor.self_capacitance)"
+                     if across.self_source == "none" else
+                     f"coil self-capacitance {quantity_text(across.self_capacitance_f, 'F')}"
+                     f" ({source})")
+        parts.append(f"probe {quantity_text(across.probe_f, 'F')} (test.probe_capacitance)")
+    return [Row("Capacitance already across C", quantity_text(across.total_f, "F"),
+                "subtracted from the capacitance to fit: " + ", ".join(parts))]
 
 
 def capacitor_rows(design: Design) -> list[Row]:

@@ -6,6 +6,11 @@ the job's coupling resistance — an E/F controlled-source pair: E makes the sec
 voltage (M/N)·V_tank, F draws (M/N)·I_secondary from the tank (SPICE's textbook ideal
 transformer, exact at every frequency and with no magnetising inductance). ngspice then
 presents R·(N/M)² to the tank on its own; nothing here takes the engine's load figure.
+
+The capacitance is what is fitted (fixed parts and the trimmer setting) plus what a built
+unit has across it anyway: in a parallel tank the coil's self-capacitance (the results'
+inductor.self_capacitance_f: Medhurst's for a solenoid, the job's for a ring) and the
+probe; the wiring strays in both topologies.
 """
 
 from __future__ import annotations
@@ -24,9 +29,14 @@ def as_built_bench(results: dict) -> spice.BenchCircuit:
     elif inductor.get("tap_turns") is not None:
         coupling = inductor["tap_turns"], inductor["tap_resistance_ohm"]
     load = None if coupling is not None else parts["load_resistance_ohm"]
+    across = parts.get("capacitance_across") or {}
+    capacitance = parts["capacitor_build"]["built_f"] + (across.get("stray_f") or 0.0)
+    if results["topology"] == "parallel":
+        capacitance += (inductor.get("self_capacitance_f") or 0.0) + (across.get("probe_f")
+                                                                      or 0.0)
     build = spice.series_netlist if results["topology"] == "series" else spice.parallel_netlist
     bench = build(parts["inductance_h"], parts["inductor_resistance_ohm"],
-                  parts["capacitance_f"], parts["capacitor_esr_ohm"],
+                  capacitance, parts["capacitor_esr_ohm"],
                   parts["source_resistance_ohm"], load)
     if coupling is None:
         return bench

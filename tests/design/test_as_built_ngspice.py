@@ -44,3 +44,22 @@ def test_whole_turn_coupling_load_is_the_built_ratio(tmp_path, text):
             "bandwidth")
     q = measured.f_peak_hz / measured.bandwidth_hz
     _inside(q, lim["q_loaded_min"], lim["q_loaded_max"], "loaded Q")
+
+
+SELF_C = TOROID.replace("  link:\n", "  self_capacitance: 100 pF\n  link:\n")
+
+
+@pytest.mark.parametrize("name, text", [("toroid with 100 pF self-capacitance", SELF_C),
+                                        ("solenoid starter (Medhurst)",
+                                         (ROOT / "templates" / "solenoid.yaml").read_text())])
+def test_capacitance_already_across_is_not_fitted_again(tmp_path, name, text):
+    """The parts to fit are the total less the coil's self-capacitance, strays and probe:
+    built with them, the tank peaks inside the sheet's window (ngspice)."""
+    assert "self_capacitance: 100 pF" in SELF_C
+    job = tmp_path / "job.yaml"
+    job.write_text(text, encoding="utf-8")
+    got = results_document(design_from_file(job, ROOT / "shared"))
+    measured = spice.measure_bench(as_built_bench(got))
+    lim = got["limits"]
+    _inside(measured.f_peak_hz, lim["f_peak_min_hz"], lim["f_peak_max_hz"],
+            f"{name}: peak frequency vs {spice.ngspice_version()}")
