@@ -23,7 +23,7 @@ from sheetgen.engine.ratings import (
 )
 from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import SERIES_TOLERANCE
-from sheetgen.engine.stress import Drive, Stress
+from sheetgen.engine.stress import Drive, Stress, worse_stress
 from sheetgen.engine.variation import (
     Envelope,
     Spread,
@@ -105,8 +105,10 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
            inductance_tc: float | None, coil=None, flux_limit_t: float | None = None,
            wire_diameter_m: float | None = None,
            fixed_parts_f: tuple[float, ...] = (),
-           other_capacitance_f: float = 0.0) -> Assessment:
-    """Limits, trimmer range and rating checks for the nominal design."""
+           other_capacitance_f: float = 0.0,
+           open_load_stress: Stress | None = None) -> Assessment:
+    """Limits, trimmer range and rating checks for the nominal design; parts are rated
+    against the worse of the nominal and the open-load stress (B̂ ∝ V scales the flux)."""
     spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc)
     method = monte_carlo if job.variation.method == "monte-carlo" else worst_case
     resolution = (job.test.frequency_resolution
@@ -122,10 +124,13 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
     else:
         variation = method(circuit, spec)
     limits = test_limits(variation, resolution_hz=resolution)
-    checks = rating_checks(job, circuit, stress, names, fixed_parts_f or (circuit.capacitance_f,),
-                           flux=(coil.flux_density_peak_t if coil is not None
-                                 and getattr(coil, "flux_density_peak_t", None) is not None
-                                 else None),
+    rated = worse_stress(stress, open_load_stress)
+    flux = (coil.flux_density_peak_t if coil is not None
+            and getattr(coil, "flux_density_peak_t", None) is not None else None)
+    if flux is not None and stress.inductor_voltage_peak_v > 0:  # Faraday: B̂ ∝ V
+        flux *= rated.inductor_voltage_peak_v / stress.inductor_voltage_peak_v
+    checks = rating_checks(job, circuit, rated, names, fixed_parts_f or (circuit.capacitance_f,),
+                           flux=flux,
                            flux_limit_t=flux_limit_t, wire_diameter_m=wire_diameter_m)
     return Assessment(spec, variation, limits, tuned, trim, checks,
                       response_envelope(circuit, variation, sweep.f_hz, spec.coverage if

@@ -16,7 +16,7 @@ from sheetgen.design.capacitors import capacitance_across, capacitor_choice
 from sheetgen.design.designators import designators
 from sheetgen.design.records import CoilDesign, Derivation, Design
 from sheetgen.engine import resonance
-from sheetgen.engine.stress import DriveError, part_stress
+from sheetgen.engine.stress import DriveError, open_load_stress, part_stress
 from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import Job
@@ -115,8 +115,11 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     drive = job_drive(job)
     try:
         stress = part_stress(circuit, drive, analysed.f_peak_hz)
+        open_stress = open_load_stress(circuit, drive)
     except DriveError as error:
         raise FieldError("source", str(error)) from None
+    except resonance.NoResonanceError:
+        open_stress = None
     start, stop = resonance.default_sweep_range_hz(analysed)
     start = job.sweep.start if job.sweep.start is not None else start
     stop = job.sweep.stop if job.sweep.stop is not None else stop
@@ -137,13 +140,13 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                         coil_result is not None and coil_result.link_turns is not None)
     try:
         assessment = _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-                             coil_result, f0_target)
+                             coil_result, f0_target, open_stress)
     except FieldError:
         raise
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
         raise FieldError("variation", str(error)) from None
     return Design(job, circuit, drive, analysed, stress, response, choice, tuple(derived),
-                  coil_result, names, assessment)
+                  coil_result, names, assessment, open_stress)
 
 
 def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]:
@@ -159,7 +162,7 @@ def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]
 
 
 def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-            coil: CoilDesign | None, f0_target):
+            coil: CoilDesign | None, f0_target, open_stress=None):
     """The limits and rating checks, with the coil's tolerance and temperature data."""
     if coil is None:
         tolerance = job.inductor.tolerance
@@ -167,14 +170,15 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
         return assess(job, circuit, analysed, stress, response, names,
                       f0_target_hz=f0_target, fixed_capacitance_f=choice.fixed_f,
                       inductance_tolerance=tolerance, inductance_tc=tc, fixed_parts_f=fixed,
-                      other_capacitance_f=_across(choice))
+                      other_capacitance_f=_across(choice), open_load_stress=open_stress)
     r = coil.result
     return assess(job, circuit, analysed, stress, response, names, f0_target_hz=f0_target,
                   fixed_capacitance_f=choice.fixed_f,
                   inductance_tolerance=coil.inductance_tolerance,
                   inductance_tc=coil.inductance_tc, coil=r,
                   flux_limit_t=coil.flux_density_max_t, wire_diameter_m=r.wire.diameter_m,
-                  fixed_parts_f=fixed, other_capacitance_f=_across(choice))
+                  fixed_parts_f=fixed, other_capacitance_f=_across(choice),
+                  open_load_stress=open_stress)
 
 
 def _across(choice) -> float:

@@ -154,3 +154,4 @@ class Design:
     coil: CoilDesign | None
     designators: Designators
     assessment: Assessment
+    stress_open_load: Stress | None = None  # the same drive with the load disconnected

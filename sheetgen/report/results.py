@@ -98,6 +98,7 @@ def results_document(design: Design) -> dict:
             "load_power_w": stress.load_power_w,
             "inductor_loss_w": stress.inductor_loss_w,
             "capacitor_loss_w": stress.capacitor_loss_w,
+            **_open_load(design.stress_open_load),
         },
         "inductor": _inductor(design),
         "limits": limits_section(design),
@@ -108,6 +109,17 @@ def results_document(design: Design) -> dict:
         "cautions": [{"level": c.level, "code": c.code, "text": c.text}
                      for c in design_cautions(design)],
     })
+
+
+def _open_load(open_stress) -> dict:
+    """The same drive with the load disconnected (parallel tanks; null otherwise): the
+    parts are rated against the worse of this and the nominal stress."""
+    keys = ("capacitor_voltage_peak_v", "capacitor_current_rms_a", "inductor_voltage_peak_v",
+            "inductor_current_rms_a")
+    section = {f"open_load_{key}": (getattr(open_stress, key) if open_stress else None)
+               for key in keys}
+    section["open_load_at_frequency_hz"] = open_stress.f_hz if open_stress else None
+    return section
 
 
 def _inductor(design: Design) -> dict:

@@ -235,9 +235,19 @@ def stress_rows(design: Design) -> list[Row]:
     """Voltages, currents and powers at the response maximum for the job's drive."""
     s = design.stress
     drive = design.drive
+    o = design.stress_open_load
     drive_text = {"voltage": quantity_text(drive.value, "V") + " rms open-circuit",
                   "current": quantity_text(drive.value, "A") + " rms",
                   "available_power": quantity_text(drive.value, "W") + " available"}[drive.kind]
+    open_rows = [] if o is None else [
+        Row("Capacitor voltage, load open", quantity_text(o.capacitor_voltage_peak_v, "V")
+            + " peak", f"the same drive, load disconnected, at {quantity_text(o.f_hz, 'Hz')}; "
+            "parts are rated against the worse case"),
+        Row("Capacitor current, load open", quantity_text(o.capacitor_current_rms_a, "A")
+            + " rms"),
+        Row("Coil voltage, load open", quantity_text(o.inductor_voltage_peak_v, "V") + " peak"),
+        Row("Coil current, load open", quantity_text(o.inductor_current_rms_a, "A") + " rms"),
+    ]
     return [
         Row("Drive", drive_text, f"at {quantity_text(s.f_hz, 'Hz')}"),
         Row("Power into the circuit", quantity_text(s.drive_power_w, "W")),
@@ -255,7 +265,7 @@ def stress_rows(design: Design) -> list[Row]:
             if design.coil is not None and design.coil.link_turns is not None else
             "across the tank; the tap steps it down to its load"
             if design.coil is not None and design.coil.tap_turns is not None else ""),
-    ]
+    ] + open_rows
 
 
 def limits_rows(design: Design) -> list[Row]:

@@ -63,3 +63,24 @@ def test_capacitance_already_across_is_not_fitted_again(tmp_path, name, text):
     lim = got["limits"]
     _inside(measured.f_peak_hz, lim["f_peak_min_hz"], lim["f_peak_max_hz"],
             f"{name}: peak frequency vs {spice.ngspice_version()}")
+
+
+def test_power_tank_is_rated_for_its_load_disconnected(tmp_path):
+    """A tank whose load comes off sees the whole drive: ngspice measures the unloaded tank's
+    peak voltage per volt of EMF; × √2 × EMF (EMF = 2√(P_av·Rs), the available-power
+    definition) it is the open-load figure, and the capacitor ratings use it (the worse)."""
+    got = results_document(design_from_file(ROOT / "templates" / "power-tank.yaml"))
+    parts, stress = got["components"], got["stress"]
+    build = spice.parallel_netlist(parts["inductance_h"], parts["inductor_resistance_ohm"],
+                                   parts["capacitance_f"], parts["capacitor_esr_ohm"],
+                                   parts["source_resistance_ohm"], None)
+    measured = spice.measure_bench(build)
+    emf = 2.0 * (got["stress"]["drive"]["value"] * parts["source_resistance_ohm"]) ** 0.5
+    open_peak = 2 ** 0.5 * emf * measured.response_peak
+    assert_close(stress["open_load_capacitor_voltage_peak_v"], open_peak, rel=1e-4,
+                 what=f"open-load peak voltage vs {spice.ngspice_version()}")
+    assert open_peak > 1.5 * stress["capacitor_voltage_peak_v"]
+    voltage_checks = [r for r in got["ratings"] if r["quantity"] == "peak voltage"]
+    assert voltage_checks
+    for check in voltage_checks:
+        assert_close(check["actual"], open_peak, rel=1e-4, what=f"{check['part']} rated stress")

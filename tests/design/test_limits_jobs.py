@@ -74,11 +74,12 @@ def test_worst_case_window_holds_the_thomson_corners(tmp_path, capsys):
 
 
 def test_overstressed_capacitor_fails_with_part_and_figures(tmp_path, capsys):
-    job = _job(tmp_path, POWER.replace("rated_voltage: 2 kV", "rated_voltage: 500 V"))
+    job = _job(tmp_path, POWER.replace("rated_voltage: 3 kV ", "rated_voltage: 500 V "))
     code, out, err = _run(capsys, "check", job, "--json")
     assert code == 1
     got = json.loads(out)
-    peak = got["stress"]["capacitor_voltage_peak_v"]
+    # rated against the worse case: the same drive with the load disconnected
+    peak = got["stress"]["open_load_capacitor_voltage_peak_v"]
     failed = [r for r in got["ratings"] if r["status"] == "fail"]
     assert {r["part"] for r in failed} == {"C1", "C2"}
     assert f"C1: peak voltage {format_quantity(peak, 'V')} is" in err
@@ -87,7 +88,7 @@ def test_overstressed_capacitor_fails_with_part_and_figures(tmp_path, capsys):
 
 
 def test_recorded_acceptance_turns_a_failure_into_accepted(tmp_path, capsys):
-    text = POWER.replace("rated_voltage: 2 kV", "rated_voltage: 500 V") + (
+    text = POWER.replace("rated_voltage: 3 kV ", "rated_voltage: 500 V ") + (
         "\nratings:\n  accept:\n"
         "    - {check: C1 peak voltage, reason: 'pulse-rated part, 1 kV for 1 s; R. Example'}\n"
         "    - {check: C2 peak voltage, reason: 'pulse-rated part, 1 kV for 1 s; R. Example'}\n")

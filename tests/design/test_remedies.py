@@ -22,9 +22,9 @@ DRIVE_LINE = re.compile(r"^(  (?:available_power|voltage|current):)\s*[^\n#]*", 
 
 CASES = {
     "power tank, low voltage rating (available power)":
-        POWER_TANK.replace("rated_voltage: 2 kV", "rated_voltage: 400 V"),
+        POWER_TANK.replace("rated_voltage: 3 kV ", "rated_voltage: 400 V "),
     "power tank, low current rating (available power)":
-        POWER_TANK.replace("rated_current: 5 A", "rated_current: 1 A"),
+        POWER_TANK.replace("rated_current: 10 A", "rated_current: 1 A"),
     "power tank, thin wire (available power)":
         POWER_TANK.replace("wire: AWG 10", "wire: AWG 22"),
     "demo, low voltage rating (voltage drive)":

@@ -255,14 +255,14 @@ def test_designators_agree_on_the_printed_sheet(tmp_path):
 # --- the parts list ------------------------------------------------------------------------
 
 def test_parts_list_shows_the_dielectric_and_ratings_the_job_gives():
-    """templates/power-tank.yaml: C0G, 2 kV peak and 5 A rms per fixed part, a 3 kV trimmer,
+    """templates/power-tank.yaml: C0G, 3 kV peak and 10 A rms per fixed part, a 3 kV trimmer,
     5 % tolerance. C0G is a class 1 dielectric (EIA-198, IEC 60384-8; from memory)."""
     design = _design("power-tank")
     rows = {row.designator: row for row in part_rows(design)}
     for fixed in ("C1", "C2"):
         assert rows[fixed].material == "C0G (class 1)"
-        assert rows[fixed].rating == (f"{format_quantity(2e3, 'V', 3)} peak; "
-                                      f"{format_quantity(5.0, 'A', 3)} rms")
+        assert rows[fixed].rating == (f"{format_quantity(3e3, 'V', 3)} peak; "
+                                      f"{format_quantity(10.0, 'A', 3)} rms")
         assert rows[fixed].tolerance == "± 5.00 % (job)"
     assert rows["C3"].rating == format_quantity(3e3, "V", 3) + " peak"
     assert rows["C3"].material == NO_DATA, "the job gives no trimmer dielectric"
@@ -297,7 +297,7 @@ def test_parts_list_on_the_sheet(tmp_path):
     built = build(tmp_path, (TEMPLATES / "power-tank.yaml").read_text(encoding="utf-8"),
                   "power-tank")
     text = page_text(built.pdf_path)
-    for words in ("C0G (class 1)", "2.00 kV peak; 5.00 A rms", "3.00 kV peak",
+    for words in ("C0G (class 1)", "3.00 kV peak; 10.0 A rms", "3.00 kV peak",
                   "± 5.00 % (job)"):
         assert words in text, words
 
