@@ -14,12 +14,16 @@ from dataclasses import dataclass, replace
 from sheetgen.design.designators import Designators
 from sheetgen.engine.limits import TestLimits, TrimmerCheck, test_limits, trimmer_check
 from sheetgen.engine.ratings import (
+    DEFAULT_RESISTOR_POWER_DERATING,
     RatingCheck,
     capacitor_current_check,
     capacitor_voltage_check,
     current_density_check,
     esr_power_check,
     flux_density_check,
+    resistor_power,
+    resistor_power_check,
+    resistor_voltage_check,
 )
 from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import SERIES_TOLERANCE
@@ -132,10 +136,44 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
     checks = rating_checks(job, circuit, rated, names, fixed_parts_f or (circuit.capacitance_f,),
                            flux=flux,
                            flux_limit_t=flux_limit_t, wire_diameter_m=wire_diameter_m)
+    checks += bleeder_checks(job, rated, names, stress.drive_power_w)
     return Assessment(spec, variation, limits, tuned, trim, checks,
                       response_envelope(circuit, variation, sweep.f_hz, spec.coverage if
                                job.variation.method == "monte-carlo" else None),
                       c_tol, c_source, inductance_tolerance, resolution)
+
+
+def bleeder_duty(job: Job, rated: Stress):
+    """What a bleeder across the capacitor dissipates and holds off (None without one)."""
+    from sheetgen.design.records import BleederDuty
+    r = job.capacitor.bleeder
+    if r is None:
+        return None
+    v = rated.capacitor_voltage_peak_v
+    p = resistor_power(v, r)
+    return BleederDuty(r, v, p, p / DEFAULT_RESISTOR_POWER_DERATING, v)
+
+
+def bleeder_checks(job: Job, rated: Stress, names: Designators,
+                   drive_power_w: float) -> tuple[RatingCheck, ...]:
+    """The bleeder's power and working-voltage ratings, when the job gives them."""
+    cap = job.capacitor
+    if cap.bleeder is None or names.bleeder is None:
+        return ()
+    accepted = {a.check.strip().lower(): a.reason for a in job.ratings.accept}
+    duty = bleeder_duty(job, rated)
+    drive = job_drive(job)
+    checks = []
+    if cap.bleeder_rated_power is not None:
+        checks.append(resistor_power_check(
+            names.bleeder, duty.power_w, cap.bleeder_rated_power, drive_power_w=drive_power_w,
+            drive=drive, acceptance=accepted.get(f"{names.bleeder} power".lower())))
+    if cap.bleeder_rated_voltage is not None:
+        checks.append(resistor_voltage_check(
+            names.bleeder, duty.voltage_peak_v, cap.bleeder_rated_voltage,
+            drive_power_w=drive_power_w, drive=drive,
+            acceptance=accepted.get(f"{names.bleeder} working voltage".lower())))
+    return tuple(checks)
 
 
 def job_drive(job: Job) -> Drive:

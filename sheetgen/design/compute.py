@@ -11,12 +11,12 @@ from dataclasses import replace
 
 import numpy as np
 
-from sheetgen.design.assessment import assess, job_drive
+from sheetgen.design.assessment import assess, bleeder_duty, job_drive
 from sheetgen.design.capacitors import capacitance_across, capacitor_choice
 from sheetgen.design.designators import designators
 from sheetgen.design.records import CoilDesign, Derivation, Design
 from sheetgen.engine import resonance
-from sheetgen.engine.stress import DriveError, open_load_stress, part_stress
+from sheetgen.engine.stress import DriveError, open_load_stress, part_stress, worse_stress
 from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import Job
@@ -137,7 +137,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     names = designators(len(fixed), choice.trimmer_setting_f is not None,
                         circuit.source_resistance_ohm is not None,
                         circuit.load_resistance_ohm is not None,  # a link or tap needs one
-                        coil_result is not None and coil_result.link_turns is not None)
+                        coil_result is not None and coil_result.link_turns is not None,
+                        job.capacitor.bleeder is not None)
     try:
         assessment = _assess(job, circuit, analysed, stress, response, names, choice, fixed,
                              coil_result, f0_target, open_stress)
@@ -146,7 +147,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
         raise FieldError("variation", str(error)) from None
     return Design(job, circuit, drive, analysed, stress, response, choice, tuple(derived),
-                  coil_result, names, assessment, open_stress)
+                  coil_result, names, assessment, open_stress,
+                  bleeder_duty(job, worse_stress(stress, open_stress)))
 
 
 def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]:

@@ -62,6 +62,19 @@ class CapacitorChoice:
 
 
 @dataclass(frozen=True)
+class BleederDuty:
+    """The bleeder across the capacitor sees the tank's RF voltage: P = V̂²/(2R) at the
+    worse of the nominal and open-load peak. The minimum ratings to buy are P/derating and
+    V̂ (what the sheet states when the job gives no rating)."""
+
+    resistance_ohm: float
+    voltage_peak_v: float
+    power_w: float
+    power_rating_min_w: float
+    voltage_rating_min_v: float
+
+
+@dataclass(frozen=True)
 class Derivation:
     """A value sheetgen computed rather than read from the job, and from what."""
 
@@ -155,3 +168,4 @@ class Design:
     designators: Designators
     assessment: Assessment
     stress_open_load: Stress | None = None  # the same drive with the load disconnected
+    bleeder: BleederDuty | None = None

@@ -19,7 +19,7 @@ from sheetgen.engine.stress import Drive
 from sheetgen.engine.wire import current_density_a_per_m2
 
 CheckQuantity = Literal["peak voltage", "RF current", "power in ESR", "current density",
-                        "flux density"]
+                        "flux density", "power", "working voltage"]
 
 # Common practice: ceramic and mica capacitors run at no more than half their rated
 # voltage in high-reliability work (e.g. the derating tables of NASA EEE-INST-002 for
@@ -31,6 +31,9 @@ DEFAULT_CURRENT_DERATING = 0.8
 # Common practice: 4 A/mm² for enamelled copper windings cooled by free air (figures of
 # 3 … 5 A/mm² are the usual range; the DC cross-section is used, skin effect aside).
 DEFAULT_CURRENT_DENSITY_LIMIT_A_PER_M2 = 4.0e6
+# Common practice: a resistor dissipates at most half its rated power (it then runs cool
+# enough to keep its value and its neighbours' temperature).
+DEFAULT_RESISTOR_POWER_DERATING = 0.5
 
 
 @dataclass(frozen=True)
@@ -222,6 +225,41 @@ def flux_density_check(part: str, flux_density_peak_t: float, limit_t: float, *,
                       drive_power_max_w=_drive_scaled(drive_power_w, allowed / flux_density_peak_t, 2.0),
                       **_drive_limit(drive, allowed / flux_density_peak_t, 2.0))
     return _make(part, "flux density", "T", flux_density_peak_t, limit_t, derating,
+                 acceptance, remedy)
+
+
+def resistor_power(voltage_peak_v: float, resistance_ohm: float) -> float:
+    """P = V̂²/(2R): the power a resistor dissipates with a sinusoidal voltage of peak V̂."""
+    return voltage_peak_v * voltage_peak_v / (2.0 * resistance_ohm)
+
+
+def resistor_power_check(part: str, power_w: float, rated_power_w: float, *,
+                         derating: float = DEFAULT_RESISTOR_POWER_DERATING,
+                         drive_power_w: float | None = None, acceptance: str | None = None,
+                         drive: Drive | None = None) -> RatingCheck:
+    """Power in a resistor against its rating × derating; remedies: a part rated ≥
+    P/derating, or the drive scaled so that P (∝ drive power) falls to the allowed value."""
+    def remedy(allowed):
+        return RatingRemedy(required_rating=power_w / derating,
+                            drive_power_max_w=_drive_scaled(drive_power_w, allowed / power_w, 1.0),
+                            **_drive_limit(drive, allowed / power_w, 1.0))
+    return _make(part, "power", "W", power_w, rated_power_w, derating, acceptance, remedy)
+
+
+def resistor_voltage_check(part: str, peak_voltage_v: float, rated_voltage_v: float, *,
+                           derating: float = 1.0, drive_power_w: float | None = None,
+                           acceptance: str | None = None,
+                           drive: Drive | None = None) -> RatingCheck:
+    """Peak voltage on a resistor against its working-voltage rating; remedies: a part rated
+    ≥ V̂/derating, n = ⌈V̂/allowed⌉ equal resistors in series (each R/n), or the drive."""
+    def remedy(allowed):
+        return RatingRemedy(required_rating=peak_voltage_v / derating,
+                            parts_needed=math.ceil(peak_voltage_v / allowed),
+                            arrangement="series",
+                            drive_power_max_w=_drive_scaled(drive_power_w,
+                                                            allowed / peak_voltage_v, 2.0),
+                            **_drive_limit(drive, allowed / peak_voltage_v, 2.0))
+    return _make(part, "working voltage", "V", peak_voltage_v, rated_voltage_v, derating,
                  acceptance, remedy)
 
 

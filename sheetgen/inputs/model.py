@@ -384,6 +384,13 @@ class CapacitorSection(Section):
                                       "in its ESR")
     bleeder: Resistance | None = Field(None, description="bleeder resistor across the "
                                        "capacitor, for the discharge time in the cautions")
+    bleeder_rated_power: Power | None = Field(
+        None, description="power rating of the bleeder, checked at half its rating (common "
+        "practice) against V̂²/(2R) at the tank's RF peak (omit: the sheet states the minimum "
+        "to buy)")
+    bleeder_rated_voltage: Voltage | None = Field(
+        None, description="working-voltage rating of the bleeder (peak), checked against the "
+        "tank's RF peak (omit: the sheet states the minimum to buy)")
     stray: SmallCapacitance = Field(2e-12, description="wiring and layout capacitance across the "
                                "capacitor, subtracted from the capacitance to fit (default "
                                "2 pF, common practice for short point-to-point wiring)")

@@ -71,6 +71,18 @@ def _flux_density(r: RatingRemedy) -> str:
             f"{format_quantity(r.required_rating, 'T')}{_or_drive(r)}")
 
 
+def _resistor_power(r: RatingRemedy) -> str:
+    return (f"Fit a resistor rated for at least {format_quantity(r.required_rating, 'W')}"
+            f"{_or_drive(r)}")
+
+
+def _working_voltage(r: RatingRemedy) -> str:
+    return (f"Fit a resistor rated for at least {format_quantity(r.required_rating, 'V')} "
+            f"peak, or {r.parts_needed} in series, each of 1/{r.parts_needed} of the "
+            f"resistance{_or_drive(r)}")
+
+
 _REMEDIES = {"peak voltage": _peak_voltage, "RF current": _rf_current,
              "power in ESR": _esr_power, "current density": _current_density,
-             "flux density": _flux_density}
+             "flux density": _flux_density, "power": _resistor_power,
+             "working voltage": _working_voltage}
