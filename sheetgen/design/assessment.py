@@ -12,7 +12,16 @@ import math
 from dataclasses import dataclass, replace
 
 from sheetgen.design.designators import Designators
-from sheetgen.engine.limits import TestLimits, TrimmerCheck, test_limits, trimmer_check
+from sheetgen.engine.bench import sweep_settings
+from sheetgen.engine.limits import (
+    DEFAULT_TUNING_FRACTION,
+    BenchAllowance,
+    TestLimits,
+    TrimmerCheck,
+    part_window,
+    test_limits,
+    trimmer_check,
+)
 from sheetgen.engine.ratings import (
     DEFAULT_RESISTOR_POWER_DERATING,
     RatingCheck,
@@ -34,6 +43,7 @@ from sheetgen.engine.variation import (
     TemperatureCoefficient,
     VariationResult,
     VariationSpec,
+    central_interval,
     dielectric,
     monte_carlo,
     response_envelope,
@@ -46,9 +56,13 @@ from sheetgen.inputs.model import Job
 
 @dataclass(frozen=True)
 class Assessment:
-    """Limits and rating checks of one design."""
+    """Limits and rating checks of one design.
 
-    spec: VariationSpec
+    limits are the bench windows (test ambient, widened by what the instruments cannot
+    resolve); over_temperature the same figures over the operating range, for the record.
+    """
+
+    spec: VariationSpec  # at the bench ambient
     variation: VariationResult  # of the units as tested (trimmed, when there is a trimmer)
     limits: TestLimits
     tuned: bool  # the windows are for a unit trimmed to the target f0 at 25 °C
@@ -59,11 +73,45 @@ class Assessment:
     capacitor_tolerance_source: str
     inductance_tolerance: float | None
     resolution_hz: float
+    over_temperature: TestLimits | None = None
+    operating_spec: VariationSpec | None = None
+    untrimmed_f0_min_hz: float | None = None  # as assembled, before any trimming
+    untrimmed_f0_max_hz: float | None = None
+    trim_range_needed_f: float | None = None  # capacitance range that retunes every build
+    inductance_window: tuple[float, float] | None = None  # as the LCR meter reads L
+    capacitance_window: tuple[float, float] | None = None  # the fixed part(s) as read
+    capacitor_temperature_assumed: str | None = None  # dielectric assumed (none named)
+    inductance_tc_assumed: float | None = None  # 1/K, a default for the coil's kind
+    loss_spread: float | None = None
+    loss_spread_source: str | None = None  # "job" or "estimate"
+
+    @property
+    def must_trim(self) -> bool:
+        """The untrimmed f0 spread is wider than the bandwidth."""
+        bw = self.limits.bandwidth_min_hz
+        return (self.untrimmed_f0_min_hz is not None and math.isfinite(bw) and
+                self.untrimmed_f0_max_hz - self.untrimmed_f0_min_hz > bw)
+
+
+# Common practice: an air-core copper coil grows with copper's thermal expansion,
+# ~17 ppm/K (from memory), and L scales with its linear size.
+AIR_COIL_TC_PER_K = 17e-6
+# No dielectric named: the parts list allows any, so the widest class is assumed.
+ASSUMED_DIELECTRIC = "Y5V"
+# Common practice: a coil Q estimated from loss tables is good to about ±20 %.
+ESTIMATED_LOSS_SPREAD = 0.20
 
 
 def variation_spec(job: Job, circuit: Circuit, inductance_tolerance: float | None,
-                   inductance_tc: float | None) -> tuple[VariationSpec, float, str]:
-    """The VariationSpec of a job; also the capacitor tolerance used and where it came from."""
+                   inductance_tc: float | None, *, q_estimated: bool = False,
+                   temperature: tuple[float, float] | None = None
+                   ) -> tuple[VariationSpec, float, str]:
+    """The VariationSpec of a job; also the capacitor tolerance used and where it came from.
+
+    temperature: the ambient range (default: the operating range). A capacitor with no
+    dielectric or coefficient is taken as ASSUMED_DIELECTRIC; an estimated coil Q spreads
+    the coil's loss by ESTIMATED_LOSS_SPREAD unless the job gives variation.loss_tolerance.
+    """
     var = job.variation
     distribution = var.distribution
     cap = job.capacitor
@@ -72,26 +120,32 @@ def variation_spec(job: Job, circuit: Circuit, inductance_tolerance: float | Non
     else:
         c_tol = SERIES_TOLERANCE[cap.preferred_series]
         c_source = f"IEC 60063 {cap.preferred_series}"
+    name = cap.dielectric
+    if name is None and cap.temperature_coefficient is None:
+        name = ASSUMED_DIELECTRIC
     c_temperature = None
-    if cap.dielectric is not None:
-        c_temperature = dielectric(cap.dielectric).temperature
+    if name is not None:
+        c_temperature = dielectric(name).temperature
         if isinstance(c_temperature, TemperatureCoefficient):
             c_temperature = replace(c_temperature, distribution=distribution)
     elif cap.temperature_coefficient is not None:
         c_temperature = TemperatureCoefficient(cap.temperature_coefficient)
     loss = (Spread(var.loss_tolerance, distribution) if var.loss_tolerance else None)
+    coil_loss = loss or (Spread(ESTIMATED_LOSS_SPREAD, distribution) if q_estimated else None)
     load_tol = job.load.tolerance if job.load is not None else None
+    low, high = temperature or (var.temperature.minimum, var.temperature.maximum)
     spec = VariationSpec(
         capacitance=Spread(c_tol, distribution),
         inductance=(Spread(inductance_tolerance, distribution)
                     if inductance_tolerance else None),
-        inductor_resistance=loss, capacitor_esr=loss if circuit.capacitor_esr_ohm > 0 else None,
+        inductor_resistance=coil_loss,
+        capacitor_esr=loss if circuit.capacitor_esr_ohm > 0 else None,
         load_resistance=(Spread(load_tol, distribution)
                          if load_tol and circuit.load_resistance_ohm is not None else None),
         capacitor_temperature=c_temperature,
         inductance_temperature=(TemperatureCoefficient(inductance_tc)
                                 if inductance_tc else None),
-        temperature_min_c=var.temperature.minimum, temperature_max_c=var.temperature.maximum,
+        temperature_min_c=low, temperature_max_c=high,
         trials=var.trials, seed=var.seed, coverage=var.coverage)
     return spec, c_tol, c_source
 
@@ -113,21 +167,50 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
            open_load_stress: Stress | None = None) -> Assessment:
     """Limits, trimmer range and rating checks for the nominal design; parts are rated
     against the worse of the nominal and the open-load stress (B̂ ∝ V scales the flux)."""
-    spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc)
+    q_estimated = coil is not None and job.inductor.q is None
+    tc_assumed = None
+    if inductance_tc is None and job.inductor.form == "solenoid":
+        inductance_tc = tc_assumed = AIR_COIL_TC_PER_K
+    bench_range = (job.test.ambient.minimum, job.test.ambient.maximum)
+    spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc,
+                                           q_estimated=q_estimated, temperature=bench_range)
+    operating, _, _ = variation_spec(job, circuit, inductance_tolerance, inductance_tc,
+                                     q_estimated=q_estimated)
     method = monte_carlo if job.variation.method == "monte-carlo" else worst_case
     resolution = (job.test.frequency_resolution
                   or default_resolution_hz(resonance.bandwidth_hz, resonance.f0_hz))
     trimmer = job.capacitor.trimmer
     tuned = trimmer is not None and f0_target_hz is not None
     trim = None
+    untrimmed = method(circuit, spec)
     if tuned:  # the trimmer takes up the tolerances; what is tested is the trimmed unit
         built = sample_parts(circuit, spec, job.variation.method)
         trim = trimmer_check(built, f0_target_hz, fixed_capacitance_f, trimmer.minimum,
                              trimmer.maximum, other_capacitance_f=other_capacitance_f)
         variation = method(circuit, replace(spec, tuned_f0_hz=f0_target_hz))
+        over = method(circuit, replace(operating, tuned_f0_hz=f0_target_hz))
     else:
-        variation = method(circuit, spec)
-    limits = test_limits(variation, resolution_hz=resolution)
+        variation = untrimmed
+        over = method(circuit, operating)
+    bandwidth = resonance.bandwidth_hz
+    step = (sweep_settings(float(sweep.f_hz[0]), float(sweep.f_hz[-1]), bandwidth).step_hz
+            if bandwidth else 0.0)
+    tuning = 0.0
+    if tuned:
+        tuning = (job.test.tuning_tolerance if job.test.tuning_tolerance is not None
+                  else DEFAULT_TUNING_FRACTION * (bandwidth or 0.0))
+    allowance = BenchAllowance(step, job.test.frequency_accuracy, job.test.lcr_accuracy,
+                               tuning)
+    limits = test_limits(variation, resolution_hz=resolution, allowance=allowance)
+    over_limits = test_limits(over, resolution_hz=resolution)
+    spread = central_interval(untrimmed.f0_hz, None if job.variation.method == "worst-case"
+                              else spec.coverage)
+    target = f0_target_hz or resonance.f0_hz
+    needed = trimmer_check(untrimmed, target, fixed_capacitance_f, 0.0, 1.0,
+                           other_capacitance_f=other_capacitance_f)
+    lcr = job.test.lcr_accuracy
+    c_window = part_window(fixed_capacitance_f, c_tol, lcr)
+    l_window = part_window(circuit.inductance_h, inductance_tolerance, lcr)
     rated = worse_stress(stress, open_load_stress)
     flux = (coil.flux_density_peak_t if coil is not None
             and getattr(coil, "flux_density_peak_t", None) is not None else None)
@@ -137,10 +220,22 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
                            flux=flux,
                            flux_limit_t=flux_limit_t, wire_diameter_m=wire_diameter_m)
     checks += bleeder_checks(job, rated, names, stress.drive_power_w)
+    loss_spread = job.variation.loss_tolerance or (ESTIMATED_LOSS_SPREAD if q_estimated
+                                                   else None)
     return Assessment(spec, variation, limits, tuned, trim, checks,
                       response_envelope(circuit, variation, sweep.f_hz, spec.coverage if
                                job.variation.method == "monte-carlo" else None),
-                      c_tol, c_source, inductance_tolerance, resolution)
+                      c_tol, c_source, inductance_tolerance, resolution,
+                      over_temperature=over_limits, operating_spec=operating,
+                      untrimmed_f0_min_hz=spread.low, untrimmed_f0_max_hz=spread.high,
+                      trim_range_needed_f=needed.needed_max_f - needed.needed_min_f,
+                      inductance_window=l_window, capacitance_window=c_window,
+                      capacitor_temperature_assumed=(
+                          ASSUMED_DIELECTRIC if job.capacitor.dielectric is None
+                          and job.capacitor.temperature_coefficient is None else None),
+                      inductance_tc_assumed=tc_assumed, loss_spread=loss_spread,
+                      loss_spread_source=("job" if job.variation.loss_tolerance else
+                                          "estimate" if loss_spread else None))
 
 
 def bleeder_duty(job: Job, rated: Stress):

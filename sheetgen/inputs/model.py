@@ -23,6 +23,10 @@ from pydantic import (
 from pydantic_core import PydanticCustomError
 
 from sheetgen import quantities
+from sheetgen.engine.limits import (
+    DEFAULT_FREQUENCY_ACCURACY,
+    DEFAULT_LCR_ACCURACY,
+)
 from sheetgen.engine.ratings import DEFAULT_CURRENT_DERATING, DEFAULT_VOLTAGE_DERATING
 from sheetgen.engine.standard_values import SERIES_TOLERANCE
 from sheetgen.engine.variation import DEFAULT_COVERAGE, DEFAULT_SEED, DEFAULT_TRIALS
@@ -447,6 +451,13 @@ class OperatingTemperature(Section):
         return self
 
 
+class BenchAmbient(OperatingTemperature):
+    """The ambient range of the bench test."""
+
+    minimum: Temperature = Field(20.0, description="lowest bench ambient temperature")
+    maximum: Temperature = Field(30.0, description="highest bench ambient temperature")
+
+
 class VariationSection(Section):
     """How part tolerances and temperature turn into test limits."""
 
@@ -483,6 +494,21 @@ class TestSection(Section):
     frequency_resolution: Frequency | None = Field(
         None, description="frequency resolution of the test set; limits are rounded outward "
         "to it (default: a power of ten near bandwidth/50)")
+    frequency_accuracy: Fraction = Field(
+        DEFAULT_FREQUENCY_ACCURACY, description="accuracy of the generator's or analyser's "
+        "frequency (default 10 ppm, an ordinary crystal time base, common practice); windows "
+        "are widened by it")
+    lcr_accuracy: Fraction = Field(
+        DEFAULT_LCR_ACCURACY, description="accuracy of the LCR meter (and of |Z| read on the "
+        "analyser) (default 1 %, common practice); the L, C and impedance windows are "
+        "widened by it")
+    tuning_tolerance: Frequency | None = Field(
+        None, description="how close the technician is asked to trim f0 to its target "
+        "(default 5 % of the bandwidth, common practice); tuned windows are widened by it")
+    ambient: BenchAmbient = Field(
+        BenchAmbient(), description="ambient range of the bench test, which the windows are "
+        "set for (default 20 to 30 °C, a laboratory, common practice); the operating range "
+        "(variation.temperature) gives separate over-temperature figures")
     probe_capacitance: SmallCapacitance | None = Field(
         None, description="input capacitance of the probe put across a parallel tank; it is "
         "subtracted from the capacitance to fit (default 1 pF, an active probe, common "

@@ -118,8 +118,8 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
         "q_loaded": format_number(r.q_loaded, 4),
     }
     limits = {
-        "inductance": _tolerance(c.inductance_h, a.inductance_tolerance, "H"),
-        "capacitance": _tolerance(design.capacitor_choice.fixed_f, a.capacitor_tolerance, "F"),
+        "inductance": _part_window(a.inductance_window, a.inductance_tolerance, "H"),
+        "capacitance": _part_window(a.capacitance_window, a.capacitor_tolerance, "F"),
         "f0": range_text(lim.f_peak_min_hz, lim.f_peak_max_hz, 'Hz', 6),
         "f_low": range_text(lim.f_low_min_hz, lim.f_low_max_hz, 'Hz', 6),
         "f_high": range_text(lim.f_high_min_hz, lim.f_high_max_hz, 'Hz', 6),
@@ -127,6 +127,14 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
         "q_loaded": f"{format_number(lim.q_loaded_min, 4)} to {format_number(lim.q_loaded_max, 4)}",
     }
     return tuple(RecordRow(m, expected[m.key], limits.get(m.key, "—")) for m in MEASUREMENTS)
+
+
+def _part_window(window, fraction: float | None, unit: str) -> str:
+    """A part's window as the meter reads it (tolerance and meter accuracy), and the
+    tolerance."""
+    if not fraction or window is None:
+        return "—"
+    return f"{range_text(window[0], window[1], unit)} ({tolerance_text(fraction)} and the meter)"
 
 
 def _tolerance(nominal: float, fraction: float | None, unit: str) -> str:

@@ -198,10 +198,31 @@ def limits_section(design: Design) -> dict:
         "trials": lim.trials,
         "seed": lim.seed,
         "distribution": design.job.variation.distribution,
-        "temperature_min_c": a.spec.temperature_min_c,
-        "temperature_max_c": a.spec.temperature_max_c,
+        "temperature_min_c": (a.operating_spec or a.spec).temperature_min_c,
+        "temperature_max_c": (a.operating_spec or a.spec).temperature_max_c,
         "f0_for_tuned_unit": a.tuned,
         "resolution_hz": lim.resolution_hz,
+        "sweep_step_hz": lim.allowance.step_hz if lim.allowance else None,
+        "frequency_accuracy": lim.allowance.frequency_accuracy if lim.allowance else None,
+        "lcr_accuracy": lim.allowance.lcr_accuracy if lim.allowance else None,
+        "tuning_tolerance_hz": (lim.allowance.tuning_hz if lim.allowance and a.tuned
+                                else None),
+        "bench_temperature_min_c": a.spec.temperature_min_c,
+        "bench_temperature_max_c": a.spec.temperature_max_c,
+        "f_centre_min_hz": lim.f_centre_min_hz, "f_centre_max_hz": lim.f_centre_max_hz,
+        "inductance_min_h": a.inductance_window[0] if a.inductance_window else None,
+        "inductance_max_h": a.inductance_window[1] if a.inductance_window else None,
+        "capacitance_min_f": a.capacitance_window[0] if a.capacitance_window else None,
+        "capacitance_max_f": a.capacitance_window[1] if a.capacitance_window else None,
+        "untrimmed_f0_min_hz": a.untrimmed_f0_min_hz,
+        "untrimmed_f0_max_hz": a.untrimmed_f0_max_hz,
+        "must_trim": a.must_trim,
+        "trim_range_needed_f": a.trim_range_needed_f,
+        "capacitor_dielectric_assumed": a.capacitor_temperature_assumed,
+        "inductance_tc_assumed_per_k": a.inductance_tc_assumed,
+        "loss_spread": a.loss_spread,
+        "loss_spread_source": a.loss_spread_source,
+        "over_temperature": _over_temperature(a),
         "f0_min_hz": lim.f0_min_hz, "f0_max_hz": lim.f0_max_hz,
         "f_peak_min_hz": lim.f_peak_min_hz, "f_peak_max_hz": lim.f_peak_max_hz,
         "bandwidth_min_hz": lim.bandwidth_min_hz, "bandwidth_max_hz": lim.bandwidth_max_hz,
@@ -217,6 +238,20 @@ def limits_section(design: Design) -> dict:
         "trimmer_fraction_tunable": trim.fraction_tunable if trim else None,
         "nan_trials": lim.nan_trials,
     }
+
+
+def _over_temperature(a) -> dict | None:
+    """The same figures over the operating range (not bench windows: no instrument
+    allowance), for the record and for whoever qualifies the unit over temperature."""
+    o = a.over_temperature
+    if o is None:
+        return None
+    return {"temperature_min_c": a.operating_spec.temperature_min_c,
+            "temperature_max_c": a.operating_spec.temperature_max_c,
+            "f0_min_hz": o.f0_min_hz, "f0_max_hz": o.f0_max_hz,
+            "f_peak_min_hz": o.f_peak_min_hz, "f_peak_max_hz": o.f_peak_max_hz,
+            "bandwidth_min_hz": o.bandwidth_min_hz, "bandwidth_max_hz": o.bandwidth_max_hz,
+            "q_loaded_min": o.q_loaded_min, "q_loaded_max": o.q_loaded_max}
 
 
 def _variation(design: Design) -> dict:

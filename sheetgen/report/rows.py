@@ -305,9 +305,14 @@ def limits_rows(design: Design) -> list[Row]:
               f"{lim.coverage * 100:.2f} % coverage" if lim.method == "monte-carlo"
               else f"worst case over {lim.trials} corners")
     spec = a.spec
+    operating = a.operating_spec or spec
+    rows += _bench_rows(design)
     rows += [
         Row("Method", method, f"bands read as {design.job.variation.distribution}"),
-        Row("Temperature range", f"{spec.temperature_min_c:g} to {spec.temperature_max_c:g} °C"),
+        Row("Bench ambient", f"{spec.temperature_min_c:g} to {spec.temperature_max_c:g} °C",
+            "the windows above are for a test in this range (test.ambient)"),
+        Row("Temperature range", f"{operating.temperature_min_c:g} to "
+            f"{operating.temperature_max_c:g} °C", "operating range: see over temperature"),
         Row("Capacitor tolerance", tolerance_text(a.capacitor_tolerance),
             f"from {a.capacitor_tolerance_source}"),
         Row("Inductance tolerance", tolerance_text(a.inductance_tolerance)
@@ -319,17 +324,71 @@ def limits_rows(design: Design) -> list[Row]:
 
 
 def _loss_spread_row(design: Design) -> Row:
-    """How the coil's and capacitor's losses were varied, and what that means for the
-    bandwidth window when the coil's Q is only an estimate."""
-    spread = design.job.variation.loss_tolerance
-    estimated = design.coil is not None and design.coil.q_source == "estimate"
-    if spread:
-        return Row("Loss resistance spread", tolerance_text(spread),
+    """How the coil's and capacitor's losses were varied: the job's spread, or the stated
+    default for a coil Q that is only an estimate."""
+    a = design.assessment
+    if a.loss_spread_source == "job":
+        return Row("Loss resistance spread", tolerance_text(a.loss_spread),
                    "coil loss and capacitor ESR")
-    return Row("Loss resistance spread", "none given",
-               "the bandwidth and Q windows assume the estimated coil Q; give "
-               "variation.loss_tolerance to widen them" if estimated else
-               "coil loss and ESR taken as exact")
+    if a.loss_spread_source == "estimate":
+        return Row("Loss resistance spread", tolerance_text(a.loss_spread),
+                   "coil loss: the coil Q is an estimate (common practice); give the "
+                   "measured inductor.q or variation.loss_tolerance to change it")
+    return Row("Loss resistance spread", "none given", "coil loss and ESR taken as exact")
+
+
+def _bench_rows(design: Design) -> list[Row]:
+    """What the windows allow for besides the parts, what was assumed, the part windows,
+    whether the unit must be trimmed, and the figures over the operating range."""
+    a = design.assessment
+    lim = a.limits
+    rows = []
+    if lim.allowance is not None:
+        al = lim.allowance
+        text = (f"sweep step {quantity_text(al.step_hz, 'Hz', 3)}, frequency "
+                f"± {format_number(al.frequency_accuracy * 1e6, 3)} ppm, LCR and |Z| "
+                f"{tolerance_text(al.lcr_accuracy)}")
+        if a.tuned:
+            text += f", tuned to within ± {quantity_text(al.tuning_hz, 'Hz', 3)}"
+        rows.append(Row("Windows include", text, "what the bench cannot tell apart "
+                        "(test.frequency_accuracy, test.lcr_accuracy, test.tuning_tolerance)"))
+    rows.append(Row("Centre frequency window",
+                    range_text(lim.f_centre_min_hz, lim.f_centre_max_hz, "Hz", 6),
+                    "midpoint of the −3 dB points; for broad peaks"))
+    if a.inductance_window is not None:
+        rows.append(Row("Inductance window", range_text(*a.inductance_window, "H"),
+                        "as the LCR meter reads L1"))
+    if a.capacitance_window is not None:
+        rows.append(Row("Capacitance window", range_text(*a.capacitance_window, "F"),
+                        "as the LCR meter reads the fixed part(s)"))
+    if a.untrimmed_f0_min_hz is not None:
+        state = ("TRIMMING REQUIRED: wider than the bandwidth" if a.must_trim
+                 else "within the bandwidth")
+        rows.append(Row("Untrimmed f0 spread",
+                        range_text(a.untrimmed_f0_min_hz, a.untrimmed_f0_max_hz, "Hz", 6),
+                        f"as assembled; {state}; retuning every build takes "
+                        f"{quantity_text(a.trim_range_needed_f, 'F')}"))
+    if a.capacitor_temperature_assumed:
+        rows.append(Row("Capacitor dielectric", f"{a.capacitor_temperature_assumed} assumed",
+                        "none named: the widest class; name capacitor.dielectric"))
+    if a.inductance_tc_assumed is not None:
+        rows.append(Row("Coil temperature coefficient",
+                        f"{signed(a.inductance_tc_assumed * 1e6, 0)} ppm/K assumed",
+                        "copper's thermal expansion (air coil); give "
+                        "inductor.temperature_coefficient"))
+    o = a.over_temperature
+    if o is not None:
+        rows += [
+            Row("Over temperature: f0", range_text(o.f0_min_hz, o.f0_max_hz, "Hz", 6),
+                "operating range, not a bench window"),
+            Row("Over temperature: peak frequency",
+                range_text(o.f_peak_min_hz, o.f_peak_max_hz, "Hz", 6)),
+            Row("Over temperature: bandwidth",
+                range_text(o.bandwidth_min_hz, o.bandwidth_max_hz, "Hz")),
+            Row("Over temperature: loaded Q", f"{format_number(o.q_loaded_min, 4)} to "
+                f"{format_number(o.q_loaded_max, 4)}"),
+        ]
+    return rows
 
 
 def rating_rows(design: Design) -> list[Row]:

@@ -61,16 +61,19 @@ def test_worst_case_window_holds_the_thomson_corners(tmp_path, capsys):
             .replace("  inductance: 10 uH", "  inductance: 10 uH\n  tolerance: 5 %")
             .replace("  esr: 0.05 ohm", "  esr: 0.05 ohm\n  tolerance: 5 %")
             + "\nvariation: {method: worst-case, temperature: {minimum: 25 °C, maximum: 25 °C}}"
-              "\ntest: {frequency_resolution: 1 Hz}\n")
+              "\ntest: {frequency_resolution: 1 Hz, frequency_accuracy: 0 %,"
+              " ambient: {minimum: 25 °C, maximum: 25 °C}}\n")
     code, out, _ = _run(capsys, "check", _job(tmp_path, text), "--json")
     got = json.loads(out)
     L, C = got["components"]["inductance_h"], got["components"]["capacitance_f"]
     low = 1 / (2 * math.pi * math.sqrt(L * 1.05 * C * 1.05))
     high = 1 / (2 * math.pi * math.sqrt(L * 0.95 * C * 0.95))
     lim = got["limits"]
+    # the window also holds half a sweep step either side: a reading is the nearest point
+    pad = lim["sweep_step_hz"] / 2
     assert lim["method"] == "worst-case" and lim["coverage"] is None
-    assert lim["f0_min_hz"] <= low < lim["f0_min_hz"] + 1.0
-    assert lim["f0_max_hz"] - 1.0 < high <= lim["f0_max_hz"]
+    assert lim["f0_min_hz"] <= low - pad < lim["f0_min_hz"] + 1.0
+    assert lim["f0_max_hz"] - 1.0 < high + pad <= lim["f0_max_hz"]
 
 
 def test_overstressed_capacitor_fails_with_part_and_figures(tmp_path, capsys):

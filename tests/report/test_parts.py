@@ -313,7 +313,7 @@ def test_parts_list_tolerance_follows_the_series_when_the_job_gives_none():
     design = _design("solenoid")
     rows = {row.designator: row for row in part_rows(design)}
     assert rows["C1"].tolerance == "± 5.00 % (IEC 60063 E24)"
-    assert rows["C1"].material == NO_DATA and rows["C1"].rating == NO_DATA
+    assert rows["C1"].material == "C0G (class 1)" and rows["C1"].rating == NO_DATA
 
 
 def test_parts_list_of_a_ring_coil_names_material_wire_and_flux_limit():

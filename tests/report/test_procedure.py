@@ -183,10 +183,14 @@ def test_form_field_names_are_stable():
 
 
 def test_part_windows_are_absolute_values_a_meter_reads():
-    """L and C windows are nominal × (1 ± tolerance), shown as values as well as percent."""
+    """L and C windows are nominal × (1 ± tolerance) × (1 ± the LCR meter's accuracy, 1 %
+    by default, common practice), shown as values as well as percent."""
     from sheetgen.quantities import format_quantity
     d = design_from_file(TEMPLATES / "demo.yaml", SHARED)
     rows = {row.measurement.key: row for row in procedure(d).record}
     L, tol = d.circuit.inductance_h, d.assessment.inductance_tolerance
+    meter = d.job.test.lcr_accuracy
+    assert meter == 0.01
     assert rows["inductance"].limits.startswith(
-        f"{format_quantity(L * (1 - tol), 'H', 4)} to {format_quantity(L * (1 + tol), 'H', 4)}")
+        f"{format_quantity(L * (1 - tol) * (1 - meter), 'H', 4)} to "
+        f"{format_quantity(L * (1 + tol) * (1 + meter), 'H', 4)}")
