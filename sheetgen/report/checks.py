@@ -39,6 +39,15 @@ def failed_checks(design: Design) -> list[CheckFailure]:
             f"{format_quantity(trim.trimmer_max_f, 'F', 3)} (it tunes "
             f"{trim.fraction_tunable * 100:.1f} % of builds); choose a wider trimmer or a "
             "closer-tolerance capacitor and coil"))
+    a = design.assessment
+    if a.must_trim and not a.tuned:
+        failures.append(CheckFailure(
+            "untrimmed-spread", "capacitor.trimmer",
+            f"as assembled, f0 spreads over {format_quantity(a.untrimmed_f0_min_hz, 'Hz', 4)} "
+            f"to {format_quantity(a.untrimmed_f0_max_hz, 'Hz', 4)}, wider than the "
+            f"{format_quantity(a.limits.bandwidth_min_hz, 'Hz', 3)} bandwidth, and there is no "
+            f"trimmer: add a trimmer of at least {format_quantity(a.trim_range_needed_f, 'F', 3)}"
+            " range (capacitor.trimmer), or choose closer-tolerance parts"))
     choice = design.capacitor_choice
     if choice.trimmer_in_range is False:
         trimmer = design.job.capacitor.trimmer

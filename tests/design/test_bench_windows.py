@@ -11,6 +11,7 @@ from pathlib import Path
 
 import pytest
 
+from sheetgen.cli import main
 from sheetgen.design.pipeline import design_from_file
 from sheetgen.report.results import results_document
 
@@ -47,7 +48,9 @@ def test_no_window_is_narrower_than_the_bench_resolves(name):
 
 
 PARALLEL = (TEMPLATES / "parallel.yaml").read_text(encoding="utf-8")
-TUNED_N750 = (PARALLEL.replace("  dielectric: C0G        # name it: with none, the widest class "
+NO_TRIMMER = "".join(line for line in PARALLEL.splitlines(keepends=True)
+                     if not line.startswith("  trimmer:"))
+TUNED_N750 = (NO_TRIMMER.replace("  dielectric: C0G        # name it: with none, the widest class "
                                "(Y5V) is assumed\n",
                                "  temperature_coefficient: -750 ppm/K\n"
                                "  tolerance: 2 %\n"
@@ -96,3 +99,26 @@ def test_estimated_coil_q_spreads_the_loss_by_default(tmp_path):
     assert measured["loss_spread"] is None
     assert (estimated["q_loaded_max"] - estimated["q_loaded_min"]
             > 3 * (measured["q_loaded_max"] - measured["q_loaded_min"]))
+
+
+def test_untrimmed_spread_wider_than_the_bandwidth_needs_a_trimmer(tmp_path):
+    """E12 (±10 %, IEC 60063) parts spread a 455 kHz tank's f0 by about ±5 % (Thomson:
+    f ∝ C^-½), far more than its 15 kHz bandwidth: without a trimmer the design fails with
+    the trimmer range it needs; with a trimmer of that range (and some room) it passes."""
+    no_trimmer = NO_TRIMMER
+    assert no_trimmer != PARALLEL
+    path = tmp_path / "job.yaml"
+    path.write_text(no_trimmer, encoding="utf-8")
+    code = main(["check", str(path), "--json"])
+    assert code == 1
+    got = results_document(design_from_file(path))
+    (failure,) = [c for c in got["checks"] if c["code"] == "untrimmed-spread"]
+    needed = got["limits"]["trim_range_needed_f"]
+    nominal = got["components"]["capacitance_f"]
+    assert 0.15 * nominal < needed < 0.25 * nominal  # ±10 % of C, most of it
+    assert "add a trimmer of at least" in failure["text"]
+    high = 10e-12 + 1.2 * needed
+    fixed = no_trimmer.replace("  dielectric: C0G", "  trimmer: {minimum: 10 pF, maximum: "
+                               f"{high * 1e12:.0f} pF}}\n  dielectric: C0G")
+    path.write_text(fixed, encoding="utf-8")
+    assert main(["check", str(path)]) == 0
