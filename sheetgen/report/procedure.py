@@ -99,6 +99,18 @@ FORM_FIELD_NAMES: tuple[str, ...] = (
 )
 
 
+# Below this loaded Q the response maximum is too flat to read (a Q 10 tank changes by
+# about 0.001 dB over ±0.5 % of f0): f0 is taken as the midpoint of the −3 dB points
+# instead (common practice).
+BROAD_PEAK_Q = 20.0
+
+
+def broad_peak(design: Design) -> bool:
+    """The peak is too broad to read its maximum: loaded Q below BROAD_PEAK_Q."""
+    q = design.resonance.q_loaded
+    return q is not None and q < BROAD_PEAK_Q and design.resonance.f_low_hz is not None
+
+
 def record_rows(design: Design) -> tuple[RecordRow, ...]:
     """The record's measurements, the values this design expects and the pass windows.
 
@@ -111,7 +123,8 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
     expected = {
         "inductance": quantity_text(c.inductance_h, "H"),
         "capacitance": quantity_text(design.capacitor_choice.fixed_f, "F"),
-        "f0": quantity_text(r.f_peak_hz, "Hz"),
+        "f0": quantity_text(0.5 * (r.f_low_hz + r.f_high_hz) if broad_peak(design)
+                            else r.f_peak_hz, "Hz"),
         "f_low": quantity_text(r.f_low_hz, "Hz"),
         "f_high": quantity_text(r.f_high_hz, "Hz"),
         "bandwidth": quantity_text(r.bandwidth_hz, "Hz"),
@@ -120,7 +133,9 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
     limits = {
         "inductance": _part_window(a.inductance_window, a.inductance_tolerance, "H"),
         "capacitance": _part_window(a.capacitance_window, a.capacitor_tolerance, "F"),
-        "f0": range_text(lim.f_peak_min_hz, lim.f_peak_max_hz, 'Hz', 6),
+        "f0": (range_text(lim.f_centre_min_hz, lim.f_centre_max_hz, 'Hz', 6)
+               + " (centre of the −3 dB points)" if broad_peak(design)
+               else range_text(lim.f_peak_min_hz, lim.f_peak_max_hz, 'Hz', 6)),
         "f_low": range_text(lim.f_low_min_hz, lim.f_low_max_hz, 'Hz', 6),
         "f_high": range_text(lim.f_high_min_hz, lim.f_high_max_hz, 'Hz', 6),
         "bandwidth": range_text(lim.bandwidth_min_hz, lim.bandwidth_max_hz, 'Hz'),
@@ -251,7 +266,13 @@ def procedure(design: Design) -> Procedure:
          ), ()),
         ("maximum", "Find the response maximum",
          "Sweep and find the maximum of the response; record its frequency. Expected "
-         f"{quantity_text(r.f_peak_hz, 'Hz')}; the test record gives the pass window.",
+         f"{quantity_text(r.f_peak_hz, 'Hz')}; the test record gives the pass window."
+         if not broad_peak(design) else
+         f"Sweep and find the maximum of the response. This peak is broad (loaded Q "
+         f"{format_number(r.q_loaded, 3)}, below {BROAD_PEAK_Q:g}): its top is too flat to read, "
+         "so record as f0 the midpoint of the two −3 dB points of the next step, "
+         f"(f low + f high)/2, expected {quantity_text(0.5 * (r.f_low_hz + r.f_high_hz), 'Hz')}"
+         "; the test record gives its window.",
          (), ("measured.f0_hz",)),
         ("half_power", "Find the half-power points",
          f"Find the frequencies either side where the response is {-HALF_POWER_DB:.1f} dB "

@@ -18,6 +18,7 @@ import pytest
 from sheetgen.design.pipeline import design_from_file
 from sheetgen.engine import bench
 from sheetgen.engine.bench import HALF_POWER_DB, dbm_from_emf, nice_at_least, nice_at_most
+from sheetgen.report.formatting import range_text
 from sheetgen.report.procedure import FORM_FIELD_NAMES, procedure
 from sheetgen.report.results import results_document
 from tests.support import assert_close
@@ -194,3 +195,24 @@ def test_part_windows_are_absolute_values_a_meter_reads():
     assert rows["inductance"].limits.startswith(
         f"{format_quantity(L * (1 - tol) * (1 - meter), 'H', 4)} to "
         f"{format_quantity(L * (1 + tol) * (1 + meter), 'H', 4)}")
+
+
+@pytest.mark.parametrize("name, broad", [("series", True), ("power-tank", True),
+                                         ("toroid", False)])
+def test_broad_peaks_are_read_at_the_centre_of_the_half_power_points(name, broad):
+    """Below a loaded Q of 20 (common practice) the top of the response is too flat to read
+    (a Q 8 series circuit changes by ~0.001 dB within ±0.1 % of f0, from |H| =
+    1/√(1 + Q²(f/f0 − f0/f)²)); f0 is then the midpoint of the −3 dB points, and the record
+    windows that midpoint."""
+    d = design_from_file(TEMPLATES / f"{name}.yaml", SHARED)
+    steps = {s.title: s.text for s in procedure(d).steps}
+    rows = {row.measurement.key: row for row in procedure(d).record}
+    lim = d.assessment.limits
+    if broad:
+        assert d.resonance.q_loaded < 20
+        assert "midpoint of the two −3 dB points" in steps["Find the response maximum"]
+        assert rows["f0"].limits.startswith(
+            range_text(lim.f_centre_min_hz, lim.f_centre_max_hz, "Hz", 6))
+    else:
+        assert "midpoint" not in steps["Find the response maximum"]
+        assert rows["f0"].limits == range_text(lim.f_peak_min_hz, lim.f_peak_max_hz, "Hz", 6)
