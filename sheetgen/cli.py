@@ -57,6 +57,8 @@ def build_parser() -> argparse.ArgumentParser:
                         help="csv (default) or json")
     limits.add_argument("-o", "--output", type=Path, help="file to write (default: print)")
     limits.add_argument("--library", type=Path, help="parts library folder (default: see README)")
+    limits.add_argument("--allow-failing", action="store_true",
+                        help="write the limits even when the design fails a check")
 
     demo = commands.add_parser("demo", help="build the bundled demo job's sheet")
     demo.add_argument("-o", "--output", type=Path, default=Path("demo.pdf"),
@@ -126,6 +128,12 @@ def _check(args) -> int:
 def _limits(args) -> int:
     from sheetgen.report.results import limits_csv, limits_json
     design = design_from_file(args.job, args.library)
+    if failed_checks(design) and not args.allow_failing:
+        code = _exit_for(design)
+        print("limits not written: the design fails the checks above, so a unit built to it "
+              "cannot be trusted to its windows; fix the design, or pass --allow-failing",
+              file=sys.stderr)
+        return code
     text = limits_csv(design) if args.format == "csv" else limits_json(design)
     if args.output is None:
         sys.stdout.write(text)

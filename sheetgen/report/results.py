@@ -12,6 +12,7 @@ import math
 
 from sheetgen import __version__
 from sheetgen.design.records import Design
+from sheetgen.engine.limits import round_outward_significant
 from sheetgen.report.advice import rating_advice
 from sheetgen.report.cautions import design_cautions
 from sheetgen.report.checks import failed_checks
@@ -280,45 +281,76 @@ def _rating(check) -> dict:
             "acceptance_reason": check.acceptance_reason, "advice": rating_advice(check)}
 
 
-LIMIT_ROWS = (  # CSV rows: quantity, unit, keys of the minimum and maximum
-    ("f0", "Hz", "f0_min_hz", "f0_max_hz"),
-    ("frequency of maximum response", "Hz", "f_peak_min_hz", "f_peak_max_hz"),
-    ("bandwidth (-3 dB)", "Hz", "bandwidth_min_hz", "bandwidth_max_hz"),
-    ("loaded Q", "", "q_loaded_min", "q_loaded_max"),
-    ("lower half-power point", "Hz", "f_low_min_hz", "f_low_max_hz"),
-    ("upper half-power point", "Hz", "f_high_min_hz", "f_high_max_hz"),
-    ("unloaded Q", "", "q_unloaded_min", "q_unloaded_max"),
-    ("impedance at the response maximum", "ohm", "impedance_at_peak_min_ohm",
-     "impedance_at_peak_max_ohm"),
-    ("trimmer capacitance needed", "F", "trim_capacitance_min_f", "trim_capacitance_max_f"),
+LIMIT_ROWS = (  # CSV rows: machine key, label, unit, keys of the minimum and maximum
+    ("f0_hz", "f0", "Hz", "f0_min_hz", "f0_max_hz"),
+    ("f_peak_hz", "frequency of maximum response", "Hz", "f_peak_min_hz", "f_peak_max_hz"),
+    ("f_centre_hz", "centre of the half-power points", "Hz", "f_centre_min_hz",
+     "f_centre_max_hz"),
+    ("bandwidth_hz", "bandwidth (-3 dB)", "Hz", "bandwidth_min_hz", "bandwidth_max_hz"),
+    ("q_loaded", "loaded Q", "", "q_loaded_min", "q_loaded_max"),
+    ("f_low_hz", "lower half-power point", "Hz", "f_low_min_hz", "f_low_max_hz"),
+    ("f_high_hz", "upper half-power point", "Hz", "f_high_min_hz", "f_high_max_hz"),
+    ("q_unloaded", "unloaded Q", "", "q_unloaded_min", "q_unloaded_max"),
+    ("impedance_at_peak_ohm", "impedance at the response maximum", "ohm",
+     "impedance_at_peak_min_ohm", "impedance_at_peak_max_ohm"),
+    ("inductance_h", "inductance (LCR meter)", "H", "inductance_min_h", "inductance_max_h"),
+    ("capacitance_f", "fixed capacitance (LCR meter)", "F", "capacitance_min_f",
+     "capacitance_max_f"),
+    ("trim_capacitance_f", "trimmer capacitance needed", "F", "trim_capacitance_min_f",
+     "trim_capacitance_max_f"),
 )
+PART_DIGITS = 4  # L and C windows, rounded outward to what an LCR meter shows (ours)
+FIGURES = 6  # significant figures of a nominal whose window has no resolution step (ours)
+
+
+def _nominals(design: Design) -> dict:
+    r = design.resonance
+    centre = (0.5 * (r.f_low_hz + r.f_high_hz)
+              if r.f_low_hz is not None and r.f_high_hz is not None else None)
+    return {"f0_hz": r.f0_hz, "f_peak_hz": r.f_peak_hz, "f_centre_hz": centre,
+            "bandwidth_hz": r.bandwidth_hz, "q_loaded": r.q_loaded, "f_low_hz": r.f_low_hz,
+            "f_high_hz": r.f_high_hz, "q_unloaded": r.q_unloaded,
+            "impedance_at_peak_ohm": r.impedance_at_peak_ohm,
+            "inductance_h": design.circuit.inductance_h,
+            "capacitance_f": design.capacitor_choice.fixed_f,
+            "trim_capacitance_f": design.capacitor_choice.trimmer_setting_f}
+
+
+def _rounded(value, unit: str, lim: dict):
+    """A nominal rounded to the resolution its window is rounded to: the frequency step for
+    frequencies, the Q step for Q, else FIGURES significant figures."""
+    if value is None or not math.isfinite(value):
+        return None
+    step = {"Hz": lim["resolution_hz"], "": 0.1}.get(unit)
+    if step:
+        return float(f"{round(value / step) * step:.12g}")
+    return float(f"{value:.{FIGURES}g}")
 
 
 def limits_csv(design: Design) -> str:
-    """The limits as CSV for a work-order system: one row per tested quantity, SI units."""
+    """The limits as CSV for a work-order system: one row per tested quantity, SI units,
+    a stable machine key beside the label, and whether the design passed its checks."""
     import csv
     import io
     lim = limits_section(design)
-    nominal = {"f0_min_hz": design.resonance.f0_hz, "f_peak_min_hz": design.resonance.f_peak_hz,
-               "bandwidth_min_hz": design.resonance.bandwidth_hz,
-               "q_loaded_min": design.resonance.q_loaded,
-               "f_low_min_hz": design.resonance.f_low_hz,
-               "f_high_min_hz": design.resonance.f_high_hz,
-               "q_unloaded_min": design.resonance.q_unloaded,
-               "impedance_at_peak_min_ohm": design.resonance.impedance_at_peak_ohm,
-               "trim_capacitance_min_f": design.capacitor_choice.trimmer_setting_f}
+    nominal = _nominals(design)
+    passed = "yes" if not failed_checks(design) else "no"
     out = io.StringIO()
     writer = csv.writer(out, lineterminator="\n")
-    writer.writerow(["sheet_id", "revision", "quantity", "unit", "nominal", "minimum",
-                     "maximum", "method", "coverage", "seed"])
+    writer.writerow(["sheet_id", "revision", "key", "quantity", "unit", "nominal", "minimum",
+                     "maximum", "method", "coverage", "seed", "design_passed"])
     sheet = design.job.sheet
-    for quantity, unit, low, high in LIMIT_ROWS:
-        if lim[low] is None:
+    for key, quantity, unit, low, high in LIMIT_ROWS:
+        if lim[low] is None or (isinstance(lim[low], float) and not math.isfinite(lim[low])):
             continue
-        writer.writerow([sheet.id, sheet.revision, quantity, unit,
-                         _csv_number(nominal.get(low)), _csv_number(lim[low]),
-                         _csv_number(lim[high]), lim["method"], _csv_number(lim["coverage"]),
-                         "" if lim["seed"] is None else lim["seed"]])
+        minimum, maximum = lim[low], lim[high]
+        if unit in ("H", "F"):  # part windows: outward to PART_DIGITS figures
+            minimum, maximum = round_outward_significant(minimum, maximum, PART_DIGITS)
+        writer.writerow([sheet.id, sheet.revision, key, quantity, unit,
+                         _csv_number(_rounded(nominal.get(key), unit, lim)),
+                         _csv_number(minimum), _csv_number(maximum), lim["method"],
+                         _csv_number(lim["coverage"]),
+                         "" if lim["seed"] is None else lim["seed"], passed])
     return out.getvalue()
 
 
@@ -333,6 +365,7 @@ def limits_json(design: Design) -> str:
     sheet = design.job.sheet
     return json.dumps(_clean({"format": RESULTS_FORMAT, "tool_version": __version__,
                               "sheet": {"id": sheet.id, "revision": sheet.revision},
+                              "design_passed": not failed_checks(design),
                               "limits": limits_section(design)}),
                       indent=2, ensure_ascii=False) + "\n"
 
