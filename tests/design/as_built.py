@@ -19,7 +19,8 @@ from tests import spice
 
 
 def as_built_bench(results: dict) -> spice.BenchCircuit:
-    """The netlist of the unit as its sheet says to build it."""
+    """The netlist of the unit as its sheet says to build it (results["bleeder_ohm"], when
+    set by the caller from the parts list, adds the bleeder across the tank)."""
     parts = results["components"]
     inductor = results["inductor"]
     turns = inductor.get("turns")
@@ -38,12 +39,18 @@ def as_built_bench(results: dict) -> spice.BenchCircuit:
     bench = build(parts["inductance_h"], parts["inductor_resistance_ohm"],
                   capacitance, parts["capacitor_esr_ohm"],
                   parts["source_resistance_ohm"], load)
-    if coupling is None:
+    lines = []
+    bleeder = results.get("bleeder_ohm")
+    if bleeder is not None:  # across the capacitor, i.e. across the tank
+        assert results["topology"] == "parallel", "a series bleeder is not modelled here"
+        lines.append(f"rbleed out 0 {float(bleeder)!r}")
+    if coupling is not None:
+        m, r = coupling
+        ratio = m / turns
+        lines += [f"elink sec 0 out 0 {ratio!r}", "vlinksense sec secx dc 0",
+                  f"rlink secx 0 {float(r)!r}", f"flink out 0 vlinksense {ratio!r}"]
+    if not lines:
         return bench
-    m, r = coupling
-    ratio = m / turns
-    lines = [f"elink sec 0 out 0 {ratio!r}", "vlinksense sec secx dc 0",
-             f"rlink secx 0 {float(r)!r}", f"flink out 0 vlinksense {ratio!r}"]
     return spice.BenchCircuit(bench.topology, bench.body + "\n" + "\n".join(lines),
                               bench.response, bench.port_voltage, bench.port_current,
                               bench.f_start_hz, bench.f_stop_hz)

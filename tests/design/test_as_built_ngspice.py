@@ -84,3 +84,32 @@ def test_power_tank_is_rated_for_its_load_disconnected(tmp_path):
     assert voltage_checks
     for check in voltage_checks:
         assert_close(check["actual"], open_peak, rel=1e-4, what=f"{check['part']} rated stress")
+
+
+STARTERS = sorted(p.name for p in (ROOT / "templates").glob("*.yaml")
+                  if not p.name.startswith("style"))
+
+
+@pytest.mark.parametrize("name", STARTERS)
+def test_every_starter_built_as_its_sheet_says_meets_its_own_windows(name):
+    """L as built, the C fitted (parts and trimmer setting) with what is across it, the
+    link/tap at its built ratio and the bleeder of the parts list, simulated by ngspice:
+    every figure the bench reads falls inside the sheet's own windows."""
+    design = design_from_file(ROOT / "templates" / name)
+    got = results_document(design)
+    if design.bleeder is not None:
+        got["bleeder_ohm"] = design.bleeder.resistance_ohm
+    measured = spice.measure_bench(as_built_bench(got))
+    lim = got["limits"]
+    where = f"{name} vs {spice.ngspice_version()}"
+    centre = 0.5 * (measured.f_low_hz + measured.f_high_hz)
+    _inside(measured.f_peak_hz, lim["f_peak_min_hz"], lim["f_peak_max_hz"], f"{where} f_peak")
+    _inside(centre, lim["f_centre_min_hz"], lim["f_centre_max_hz"], f"{where} centre")
+    _inside(measured.f_low_hz, lim["f_low_min_hz"], lim["f_low_max_hz"], f"{where} f_low")
+    _inside(measured.f_high_hz, lim["f_high_min_hz"], lim["f_high_max_hz"], f"{where} f_high")
+    _inside(measured.bandwidth_hz, lim["bandwidth_min_hz"], lim["bandwidth_max_hz"],
+            f"{where} bandwidth")
+    _inside(measured.f_peak_hz / measured.bandwidth_hz, lim["q_loaded_min"],
+            lim["q_loaded_max"], f"{where} loaded Q")
+    _inside(measured.impedance_at_peak_ohm, lim["impedance_at_peak_min_ohm"],
+            lim["impedance_at_peak_max_ohm"], f"{where} |Z| at the peak")
