@@ -57,6 +57,8 @@ def build_parser() -> argparse.ArgumentParser:
                         help="csv (default) or json")
     limits.add_argument("-o", "--output", type=Path, help="file to write (default: print)")
     limits.add_argument("--library", type=Path, help="parts library folder (default: see README)")
+    limits.add_argument("--allow-failing", action="store_true",
+                        help="write the limits even when the design fails a check")
 
     diff = commands.add_parser("diff", help="what changed between two revisions of a job")
     diff.add_argument("a", type=Path, help="the earlier job file (or built sheet .pdf)")
@@ -160,8 +162,15 @@ def _limits(args) -> int:
     if _is_batch(args):
         return _batch(args, "limits")
     from sheetgen.design.pipeline import design_from_file
+    from sheetgen.report.checks import failed_checks
     from sheetgen.report.results import limits_csv, limits_json
     design = design_from_file(args.job, args.library)
+    if failed_checks(design) and not args.allow_failing:
+        code = _exit_for(design)
+        print("limits not written: the design fails the checks above, so a unit built to it "
+              "cannot be trusted to its windows; fix the design, or pass --allow-failing",
+              file=sys.stderr)
+        return code
     text = limits_csv(design) if args.format == "csv" else limits_json(design)
     if args.output is None:
         sys.stdout.write(text)

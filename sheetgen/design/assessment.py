@@ -13,14 +13,19 @@ from dataclasses import dataclass, replace
 from functools import partial
 
 from sheetgen.design.designators import Designators
+from sheetgen.engine.bench import sweep_settings
 from sheetgen.engine.limits import (
+    DEFAULT_TUNING_FRACTION,
+    BenchAllowance,
     TestLimits,
     TrimmerCheck,
+    part_window,
     settled_monte_carlo,
     test_limits,
     trimmer_check,
 )
 from sheetgen.engine.ratings import (
+    DEFAULT_RESISTOR_POWER_DERATING,
     RatingCheck,
     UnratedCheck,
     capacitor_current_check,
@@ -28,18 +33,22 @@ from sheetgen.engine.ratings import (
     current_density_check,
     esr_power_check,
     flux_density_check,
+    resistor_power,
+    resistor_power_check,
+    resistor_voltage_check,
     surface_temperature_check,
     unrated_check,
 )
 from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import SERIES_TOLERANCE
-from sheetgen.engine.stress import Stress
+from sheetgen.engine.stress import Drive, Stress, worse_stress
 from sheetgen.engine.variation import (
     Envelope,
     Spread,
     TemperatureCoefficient,
     VariationResult,
     VariationSpec,
+    central_interval,
     dielectric,
     response_envelope,
     sample_parts,
@@ -51,9 +60,13 @@ from sheetgen.inputs.model import Job
 
 @dataclass(frozen=True)
 class Assessment:
-    """Limits and rating checks of one design."""
+    """Limits and rating checks of one design.
 
-    spec: VariationSpec
+    limits are the bench windows (test ambient, widened by what the instruments cannot
+    resolve); over_temperature the same figures over the operating range, for the record.
+    """
+
+    spec: VariationSpec  # at the bench ambient
     variation: VariationResult  # of the units as tested (trimmed, when there is a trimmer)
     limits: TestLimits
     tuned: bool  # the windows are for a unit trimmed to the target f0 at 25 °C
@@ -64,11 +77,45 @@ class Assessment:
     capacitor_tolerance_source: str
     inductance_tolerance: float | None
     resolution_hz: float
+    over_temperature: TestLimits | None = None
+    operating_spec: VariationSpec | None = None
+    untrimmed_f0_min_hz: float | None = None  # as assembled, before any trimming
+    untrimmed_f0_max_hz: float | None = None
+    trim_range_needed_f: float | None = None  # capacitance range that retunes every build
+    inductance_window: tuple[float, float] | None = None  # as the LCR meter reads L
+    capacitance_window: tuple[float, float] | None = None  # the fixed part(s) as read
+    capacitor_temperature_assumed: str | None = None  # dielectric assumed (none named)
+    inductance_tc_assumed: float | None = None  # 1/K, a default for the coil's kind
+    loss_spread: float | None = None
+    loss_spread_source: str | None = None  # "job" or "estimate"
+
+    @property
+    def must_trim(self) -> bool:
+        """The untrimmed f0 spread is wider than the bandwidth."""
+        bw = self.limits.bandwidth_min_hz
+        return (self.untrimmed_f0_min_hz is not None and math.isfinite(bw) and
+                self.untrimmed_f0_max_hz - self.untrimmed_f0_min_hz > bw)
+
+
+# Common practice: an air-core copper coil grows with copper's thermal expansion,
+# ~17 ppm/K (from memory), and L scales with its linear size.
+AIR_COIL_TC_PER_K = 17e-6
+# No dielectric named: the parts list allows any, so the widest class is assumed.
+ASSUMED_DIELECTRIC = "Y5V"
+# Common practice: a coil Q estimated from loss tables is good to about ±20 %.
+ESTIMATED_LOSS_SPREAD = 0.20
 
 
 def variation_spec(job: Job, circuit: Circuit, inductance_tolerance: float | None,
-                   inductance_tc: float | None) -> tuple[VariationSpec, float, str]:
-    """The VariationSpec of a job; also the capacitor tolerance used and where it came from."""
+                   inductance_tc: float | None, *, q_estimated: bool = False,
+                   temperature: tuple[float, float] | None = None
+                   ) -> tuple[VariationSpec, float, str]:
+    """The VariationSpec of a job; also the capacitor tolerance used and where it came from.
+
+    temperature: the ambient range (default: the operating range). A capacitor with no
+    dielectric or coefficient is taken as ASSUMED_DIELECTRIC; an estimated coil Q spreads
+    the coil's loss by ESTIMATED_LOSS_SPREAD unless the job gives variation.loss_tolerance.
+    """
     var = job.variation
     distribution = var.distribution
     cap = job.capacitor
@@ -77,26 +124,32 @@ def variation_spec(job: Job, circuit: Circuit, inductance_tolerance: float | Non
     else:
         c_tol = SERIES_TOLERANCE[cap.preferred_series]
         c_source = f"IEC 60063 {cap.preferred_series}"
+    name = cap.dielectric
+    if name is None and cap.temperature_coefficient is None:
+        name = ASSUMED_DIELECTRIC
     c_temperature = None
-    if cap.dielectric is not None:
-        c_temperature = dielectric(cap.dielectric).temperature
+    if name is not None:
+        c_temperature = dielectric(name).temperature
         if isinstance(c_temperature, TemperatureCoefficient):
             c_temperature = replace(c_temperature, distribution=distribution)
     elif cap.temperature_coefficient is not None:
         c_temperature = TemperatureCoefficient(cap.temperature_coefficient)
     loss = (Spread(var.loss_tolerance, distribution) if var.loss_tolerance else None)
+    coil_loss = loss or (Spread(ESTIMATED_LOSS_SPREAD, distribution) if q_estimated else None)
     load_tol = job.load.tolerance if job.load is not None else None
+    low, high = temperature or (var.temperature.minimum, var.temperature.maximum)
     spec = VariationSpec(
         capacitance=Spread(c_tol, distribution),
         inductance=(Spread(inductance_tolerance, distribution)
                     if inductance_tolerance else None),
-        inductor_resistance=loss, capacitor_esr=loss if circuit.capacitor_esr_ohm > 0 else None,
+        inductor_resistance=coil_loss,
+        capacitor_esr=loss if circuit.capacitor_esr_ohm > 0 else None,
         load_resistance=(Spread(load_tol, distribution)
                          if load_tol and circuit.load_resistance_ohm is not None else None),
         capacitor_temperature=c_temperature,
         inductance_temperature=(TemperatureCoefficient(inductance_tc)
                                 if inductance_tc else None),
-        temperature_min_c=var.temperature.minimum, temperature_max_c=var.temperature.maximum,
+        temperature_min_c=low, temperature_max_c=high,
         trials=var.trials, seed=var.seed, coverage=var.coverage)
     return spec, c_tol, c_source
 
@@ -113,9 +166,20 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
            fixed_capacitance_f: float, inductance_tolerance: float | None,
            inductance_tc: float | None, coil=None, flux_limit_t: float | None = None,
            wire_diameter_m: float | None = None, ac_to_dc_resistance: float = 1.0,
-           fixed_parts_f: tuple[float, ...] = ()) -> Assessment:
-    """Limits, trimmer range and rating checks for the nominal design."""
-    spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc)
+           fixed_parts_f: tuple[float, ...] = (),
+           other_capacitance_f: float = 0.0,
+           open_load_stress: Stress | None = None) -> Assessment:
+    """Limits, trimmer range and rating checks for the nominal design; parts are rated
+    against the worse of the nominal and the open-load stress (B̂ ∝ V scales the flux)."""
+    q_estimated = coil is not None and job.inductor.q is None
+    tc_assumed = None
+    if inductance_tc is None and job.inductor.form == "solenoid":
+        inductance_tc = tc_assumed = AIR_COIL_TC_PER_K
+    bench_range = (job.test.ambient.minimum, job.test.ambient.maximum)
+    spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc,
+                                           q_estimated=q_estimated, temperature=bench_range)
+    operating, _, _ = variation_spec(job, circuit, inductance_tolerance, inductance_tc,
+                                     q_estimated=q_estimated)
     resolution = (job.test.frequency_resolution
                   or default_resolution_hz(resonance.bandwidth_hz, resonance.f0_hz))
     method = (partial(settled_monte_carlo, resolution_hz=resolution)  # stops once settled
@@ -123,26 +187,107 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
     trimmer = job.capacitor.trimmer
     tuned = trimmer is not None and f0_target_hz is not None
     trim = None
+    untrimmed = method(circuit, spec)
     if tuned:  # the trimmer takes up the tolerances; what is tested is the trimmed unit
         built = sample_parts(circuit, spec, job.variation.method)
         trim = trimmer_check(built, f0_target_hz, fixed_capacitance_f, trimmer.minimum,
-                             trimmer.maximum)
+                             trimmer.maximum, other_capacitance_f=other_capacitance_f)
         variation = method(circuit, replace(spec, tuned_f0_hz=f0_target_hz))
+        over = method(circuit, replace(operating, tuned_f0_hz=f0_target_hz))
     else:
-        variation = method(circuit, spec)
-    limits = test_limits(variation, resolution_hz=resolution)
-    checks = rating_checks(job, circuit, stress, names, fixed_parts_f or (circuit.capacitance_f,),
-                           flux=(coil.flux_density_peak_t if coil is not None
-                                 and getattr(coil, "flux_density_peak_t", None) is not None
-                                 else None),
+        variation = untrimmed
+        over = method(circuit, operating)
+    bandwidth = resonance.bandwidth_hz
+    step = (sweep_settings(float(sweep.f_hz[0]), float(sweep.f_hz[-1]), bandwidth).step_hz
+            if bandwidth else 0.0)
+    tuning = 0.0
+    if tuned:
+        tuning = (job.test.tuning_tolerance if job.test.tuning_tolerance is not None
+                  else DEFAULT_TUNING_FRACTION * (bandwidth or 0.0))
+    allowance = BenchAllowance(step, job.test.frequency_accuracy, job.test.lcr_accuracy,
+                               tuning)
+    limits = test_limits(variation, resolution_hz=resolution, allowance=allowance)
+    over_limits = test_limits(over, resolution_hz=resolution)
+    spread = central_interval(untrimmed.f0_hz, None if job.variation.method == "worst-case"
+                              else spec.coverage)
+    target = f0_target_hz or resonance.f0_hz
+    needed = trimmer_check(untrimmed, target, fixed_capacitance_f, 0.0, 1.0,
+                           other_capacitance_f=other_capacitance_f)
+    lcr = job.test.lcr_accuracy
+    c_window = part_window(fixed_capacitance_f, c_tol, lcr)
+    l_window = part_window(circuit.inductance_h, inductance_tolerance, lcr)
+    rated = worse_stress(stress, open_load_stress)
+    flux = (coil.flux_density_peak_t if coil is not None
+            and getattr(coil, "flux_density_peak_t", None) is not None else None)
+    if flux is not None and stress.inductor_voltage_peak_v > 0:  # Faraday: B̂ ∝ V
+        flux *= rated.inductor_voltage_peak_v / stress.inductor_voltage_peak_v
+    checks = rating_checks(job, circuit, rated, names, fixed_parts_f or (circuit.capacitance_f,),
+                           flux=flux,
                            flux_limit_t=flux_limit_t, wire_diameter_m=wire_diameter_m,
                            ac_to_dc_resistance=ac_to_dc_resistance,
                            coil_rise_k=getattr(coil, "temperature_rise_k", None)
                            if coil is not None else None)
+    checks += bleeder_checks(job, rated, names, stress.drive_power_w)
+    loss_spread = job.variation.loss_tolerance or (ESTIMATED_LOSS_SPREAD if q_estimated
+                                                   else None)
     return Assessment(spec, variation, limits, tuned, trim, checks,
                       response_envelope(circuit, variation, sweep.f_hz, spec.coverage if
                                job.variation.method == "monte-carlo" else None),
-                      c_tol, c_source, inductance_tolerance, resolution)
+                      c_tol, c_source, inductance_tolerance, resolution,
+                      over_temperature=over_limits, operating_spec=operating,
+                      untrimmed_f0_min_hz=spread.low, untrimmed_f0_max_hz=spread.high,
+                      trim_range_needed_f=needed.needed_max_f - needed.needed_min_f,
+                      inductance_window=l_window, capacitance_window=c_window,
+                      capacitor_temperature_assumed=(
+                          ASSUMED_DIELECTRIC if job.capacitor.dielectric is None
+                          and job.capacitor.temperature_coefficient is None else None),
+                      inductance_tc_assumed=tc_assumed, loss_spread=loss_spread,
+                      loss_spread_source=("job" if job.variation.loss_tolerance else
+                                          "estimate" if loss_spread else None))
+
+
+def bleeder_duty(job: Job, rated: Stress):
+    """What a bleeder across the capacitor dissipates and holds off (None without one)."""
+    from sheetgen.design.records import BleederDuty
+    r = job.capacitor.bleeder
+    if r is None:
+        return None
+    v = rated.capacitor_voltage_peak_v
+    p = resistor_power(v, r)
+    return BleederDuty(r, v, p, p / DEFAULT_RESISTOR_POWER_DERATING, v)
+
+
+def bleeder_checks(job: Job, rated: Stress, names: Designators,
+                   drive_power_w: float) -> tuple[RatingCheck, ...]:
+    """The bleeder's power and working-voltage ratings, when the job gives them."""
+    cap = job.capacitor
+    if cap.bleeder is None or names.bleeder is None:
+        return ()
+    accepted = {a.check.strip().lower(): a.reason for a in job.ratings.accept}
+    duty = bleeder_duty(job, rated)
+    drive = job_drive(job)
+    checks = []
+    if cap.bleeder_rated_power is not None:
+        checks.append(resistor_power_check(
+            names.bleeder, duty.power_w, cap.bleeder_rated_power, drive_power_w=drive_power_w,
+            drive=drive, acceptance=accepted.get(f"{names.bleeder} power".lower())))
+    if cap.bleeder_rated_voltage is not None:
+        checks.append(resistor_voltage_check(
+            names.bleeder, duty.voltage_peak_v, cap.bleeder_rated_voltage,
+            drive_power_w=drive_power_w, drive=drive,
+            acceptance=accepted.get(f"{names.bleeder} working voltage".lower())))
+    return tuple(checks)
+
+
+def job_drive(job: Job) -> Drive:
+    """The job's drive as the engine takes it: an open-circuit voltage, a current or an
+    available power."""
+    source = job.source
+    if source.voltage is not None:
+        return Drive("voltage", source.voltage)
+    if source.current is not None:
+        return Drive("current", source.current)
+    return Drive("available_power", source.available_power)
 
 
 def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators,
@@ -156,6 +301,7 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
     ratings = job.ratings
     accepted = {a.check.strip().lower(): a.reason for a in ratings.accept}
     power = stress.drive_power_w
+    drive = job_drive(job)  # remedies name the job's own drive quantity
     cap = job.capacitor
     checks = []
 
@@ -169,7 +315,7 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
         if cap.rated_voltage is not None:
             checks.append(capacitor_voltage_check(
                 part, peak, cap.rated_voltage,
-                derating=ratings.voltage_derating, drive_power_w=power,
+                derating=ratings.voltage_derating, drive_power_w=power, drive=drive,
                 acceptance=acceptance(part, "peak voltage")))
         else:  # a missing rating is not a pass
             checks.append(unrated_check(part, "peak voltage", "V", peak, peak,
@@ -177,12 +323,12 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
         if cap.rated_current is not None:
             checks.append(capacitor_current_check(
                 part, stress.capacitor_current_rms_a * share, cap.rated_current,
-                derating=ratings.current_derating, drive_power_w=power,
+                derating=ratings.current_derating, drive_power_w=power, drive=drive,
                 acceptance=acceptance(part, "RF current")))
         if cap.rated_power is not None:
             checks.append(esr_power_check(
                 part, stress.capacitor_loss_w * share, cap.rated_power,
-                esr_ohm=circuit.capacitor_esr_ohm, drive_power_w=power,
+                esr_ohm=circuit.capacitor_esr_ohm, drive_power_w=power, drive=drive,
                 acceptance=acceptance(part, "power in ESR")))
         elif stress.capacitor_loss_w > 0:
             checks.append(unrated_check(part, "power in ESR", "W",
@@ -191,7 +337,7 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
     if names.trimmer and cap.trimmer is not None and cap.trimmer.rated_voltage is not None:
         checks.append(capacitor_voltage_check(
             names.trimmer, stress.capacitor_voltage_peak_v, cap.trimmer.rated_voltage,
-            derating=ratings.voltage_derating, drive_power_w=power,
+            derating=ratings.voltage_derating, drive_power_w=power, drive=drive,
             acceptance=acceptance(names.trimmer, "peak voltage")))
     elif names.trimmer and cap.trimmer is not None:
         checks.append(unrated_check(names.trimmer, "peak voltage", "V",
@@ -201,7 +347,7 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
     if wire_diameter_m is not None:
         checks.append(current_density_check(
             names.coil, stress.inductor_current_rms_a, wire_diameter_m,
-            ac_to_dc_resistance=ac_to_dc_resistance, drive_power_w=power,
+            ac_to_dc_resistance=ac_to_dc_resistance, drive_power_w=power, drive=drive,
             acceptance=acceptance(names.coil, "current density")))
     if coil_rise_k is not None:
         checks.append(surface_temperature_check(
@@ -209,7 +355,7 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
             acceptance=acceptance(names.coil, "surface temperature")))
     if flux is not None and flux_limit_t is not None:
         checks.append(flux_density_check(
-            names.coil, flux, flux_limit_t, drive_power_w=power,
+            names.coil, flux, flux_limit_t, drive_power_w=power, drive=drive,
             acceptance=acceptance(names.coil, "flux density")))
     known = {f"{c.part} {c.quantity}".lower() for c in checks}
     for index, accepted_check in enumerate(ratings.accept):

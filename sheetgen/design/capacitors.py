@@ -3,14 +3,32 @@ setting for the capacitance the design needs."""
 
 from __future__ import annotations
 
-from sheetgen.design.records import CapacitorChoice
+from sheetgen.design.records import CapacitanceAcross, CapacitorChoice
+from sheetgen.engine.bench import PROBE_CAPACITANCE_F
 from sheetgen.engine.standard_values import SERIES_TOLERANCE, best_parallel_pair, nearest_standard
 from sheetgen.errors import FieldError
 from sheetgen.inputs.model import Job
 
 
-def capacitor_choice(job: Job, required_c: float) -> CapacitorChoice:
-    """What to fit: the given part, or standard parts (and a trimmer setting) for required_c."""
+def capacitance_across(job: Job, coil=None) -> CapacitanceAcross:
+    """What is across the tuning capacitor besides the parts: in a parallel tank the coil's
+    self-capacitance (Medhurst's for a solenoid, the job's for a ring), the strays
+    (capacitor.stray) and the probe the procedure puts across the tank (test.probe_capacitance);
+    in a series circuit the strays only."""
+    stray = job.capacitor.stray
+    if job.circuit.topology != "parallel":
+        return CapacitanceAcross(0.0, stray, 0.0, "none")
+    own = getattr(coil, "self_capacitance_f", None) if coil is not None else None
+    source = "none" if own is None else getattr(coil, "srf_basis", "job")
+    probe = (job.test.probe_capacitance if job.test.probe_capacitance is not None
+             else PROBE_CAPACITANCE_F)
+    return CapacitanceAcross(own or 0.0, stray, probe, source)
+
+
+def capacitor_choice(job: Job, required_c: float,
+                     across: CapacitanceAcross | None = None) -> CapacitorChoice:
+    """What to fit: the given part, or standard parts (and a trimmer setting) for required_c
+    (the capacitance to fit, what is already across it subtracted)."""
     series = job.capacitor.preferred_series
     trimmer = job.capacitor.trimmer
     nearest = nearest_standard(required_c, series)
@@ -19,10 +37,10 @@ def capacitor_choice(job: Job, required_c: float) -> CapacitorChoice:
     pair = best_parallel_pair(required_c, series, tolerance)
     if job.capacitor.capacitance is not None:
         return CapacitorChoice(required_c, series, nearest, pair, required_c, None, None,
-                               required_c, False)
+                               required_c, False, across)
     if trimmer is None:
         return CapacitorChoice(required_c, series, nearest, pair, pair.total, None, None,
-                               pair.total, True)
+                               pair.total, True, across)
     middle = 0.5 * (trimmer.minimum + trimmer.maximum)
     if required_c - middle <= 0:
         raise FieldError("capacitor.trimmer", f"the trimmer's mid-range ({middle:.4g} F) "
@@ -33,4 +51,4 @@ def capacitor_choice(job: Job, required_c: float) -> CapacitorChoice:
     in_range = trimmer.minimum <= setting <= trimmer.maximum
     clamped = min(max(setting, trimmer.minimum), trimmer.maximum)
     return CapacitorChoice(required_c, series, nearest, fixed, fixed.total, clamped, in_range,
-                           fixed.total + clamped, True)
+                           fixed.total + clamped, True, across)

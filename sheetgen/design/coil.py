@@ -11,7 +11,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from sheetgen.design.records import CoilCurve, CoilDesign
+from sheetgen.design.records import CoilCurve, CoilDesign, Coupling
 from sheetgen.engine import coil as coil_engine
 from sheetgen.engine.coil import SolenoidCoil, ToroidCoil
 from sheetgen.engine.magnetics import CoreLossTable, link_turns
@@ -142,9 +142,28 @@ def coil_loss(inductor: ToroidInductor | SolenoidInductor, coil: ToroidCoil | So
     return x0 / q, q, "estimate"
 
 
+def as_built_coupling(inductor, tank_turns: int, circuit: Circuit) -> Coupling | None:
+    """The job's link or tap rounded to whole turns (engine.magnetics.link_turns), and the
+    resistance R·(N/M)² it presents to the tank (ideal transformer); None without one."""
+    link = getattr(inductor, "link", None)  # a solenoid has no link, only a tap
+    kind, coupling = ("link", link) if link is not None else ("tap", inductor.tap)
+    if coupling is None:
+        return None
+    if circuit.topology != "parallel" or circuit.load_resistance_ohm is None:
+        raise FieldError(f"inductor.{kind}", f"a {kind} couples a load to a parallel tank: "
+                         "it needs topology parallel and a load resistance (given or "
+                         "computed from a bandwidth target)")
+    aimed = circuit.load_resistance_ohm
+    turns = link_turns(tank_turns, aimed, coupling.resistance)
+    exact = tank_turns * float(np.sqrt(coupling.resistance / aimed))
+    presented = coupling.resistance * (tank_turns / turns) ** 2
+    x0 = float(np.sqrt(circuit.inductance_h / circuit.capacitance_f))  # X0 = √(L/C)
+    return Coupling(kind, turns, exact, tank_turns, coupling.resistance, aimed, presented, x0)
+
+
 def coil_design(job: Job, parts: ResolvedToroid | None, coil: ToroidCoil | SolenoidCoil,
                 target_l: float, circuit: Circuit, q_used: float, q_source: str,
-                f0: float) -> CoilDesign:
+                f0: float, as_built: Coupling | None = None) -> CoilDesign:
     """What the design made of the engine's coil: tolerances, coupling turns, Q curve."""
     inductor = job.inductor
     core_name = material_name = flux_limit = None
@@ -194,4 +213,5 @@ def coil_design(job: Job, parts: ResolvedToroid | None, coil: ToroidCoil | Solen
                       inductor.lead_length,
                       *core_size,
                       q_used, q_source,
-                      CoilCurve(f_curve, np.asarray(coil_engine.coil_q_sweep(coil, f_curve))))
+                      CoilCurve(f_curve, np.asarray(coil_engine.coil_q_sweep(coil, f_curve))),
+                      as_built)

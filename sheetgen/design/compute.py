@@ -6,15 +6,18 @@ functions; it does no I/O and writes no text for people (report/ does).
 
 from __future__ import annotations
 
+import math
+from dataclasses import replace
+
 import numpy as np
 
-from sheetgen.design.assessment import assess
-from sheetgen.design.capacitors import capacitor_choice
+from sheetgen.design.assessment import assess, bleeder_duty, job_drive
+from sheetgen.design.capacitors import capacitance_across, capacitor_choice
 from sheetgen.design.designators import designators
-from sheetgen.design.plausibility import LOADED_Q_MIN, plausibility_findings
+from sheetgen.design.plausibility import CAPACITANCE_MIN_F, LOADED_Q_MIN, plausibility_findings
 from sheetgen.design.records import CoilDesign, Derivation, Design
 from sheetgen.engine import resonance
-from sheetgen.engine.stress import Drive, DriveError, part_stress
+from sheetgen.engine.stress import DriveError, open_load_stress, part_stress, worse_stress
 from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import Job
@@ -44,8 +47,26 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
             required_c = float(resonance.capacitance_for_f0(f0_target, inductance))
             _replace_derivation(derived, "capacitor.capacitance", required_c,
                                 "for the f0 target with the whole-turn coil")
-    choice = capacitor_choice(job, required_c)
-    capacitance = choice.built_f
+    others = capacitance_across(job, coil)
+    if job.capacitor.capacitance is None:  # fit the total less what is already across it
+        fit_c = required_c - others.total_f
+        if fit_c <= 0.0 and required_c < CAPACITANCE_MIN_F:
+            fit_c = required_c  # beyond what can be built at all: the plausibility check says so
+        elif fit_c <= 0.0:
+            raise FieldError("capacitor", f"the coil's self-capacitance, the strays and the "
+                             f"probe ({others.total_f:.4g} F) already exceed the "
+                             f"{required_c:.4g} F the f0 target needs; use a smaller coil "
+                             "(fewer turns) and a larger capacitor")
+        if others.total_f > 0.0:
+            reason = next(d.reason for d in derived if d.field == "capacitor.capacitance")
+            _replace_derivation(derived, "capacitor.capacitance", fit_c,
+                                f"{reason}, less the capacitance already across it")
+    else:
+        fit_c = required_c
+    derived.append(Derivation("capacitor.across", others.total_f, "F",
+                              "coil self-capacitance, strays and probe, counted in C"))
+    choice = capacitor_choice(job, fit_c, others)
+    capacitance = choice.built_f + others.total_f
     f0 = float(resonance.resonant_frequency_hz(inductance, capacitance))
     x0 = float(resonance.reactance_ohm(inductance, f0))
     coil_r, q_used, q_source = _coil_loss(job, coil, x0, f0)
@@ -70,15 +91,40 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                                     job.source.resistance, load_r)
         derived.append(Derivation("load.resistance", load_r, "Ω",
                                   f"gives loaded Q {wanted_q:.4g}"))
+    coupled = coupling = None
+    if coil is not None:  # a link or tap of whole turns presents R·(N/M)², not the aim
+        from sheetgen.design.coil import as_built_coupling
+        coupling = as_built_coupling(job.inductor, coil.turns, circuit)
+        if coupling is not None and not math.isclose(coupling.presented_ohm, load_r,
+                                                     rel_tol=1e-12):
+            coupled = coupling.kind
+            load_r = coupling.presented_ohm
+            circuit = replace(circuit, load_resistance_ohm=load_r)
+            derived[:] = [d for d in derived if d.field != "load.resistance"]
+            derived.append(Derivation(
+                "load.resistance", load_r, "Ω",
+                f"as built: R·(N/M)² with the {coupling.kind} at {coupling.turns} of "
+                f"{coil.turns} turns"))
     try:
         analysed = resonance.analyse(circuit)
     except resonance.NoResonanceError as error:
         raise FieldError("", str(error)) from None
-    drive = _drive(job)
+    if coupled:  # what the rounded coupling does to the selectivity the job asked for
+        aim = (f"; target {targets.bandwidth / 1e3:.6g} kHz" if targets and targets.bandwidth
+               else f"; target loaded Q {targets.loaded_q:.4g}" if targets and targets.loaded_q
+               else "")
+        derived.append(Derivation("resonance.bandwidth", analysed.bandwidth_hz, "Hz",
+                                  f"as built with the whole-turn {coupled}{aim}"))
+        derived.append(Derivation("resonance.q_loaded", analysed.q_loaded, "",
+                                  f"as built with the whole-turn {coupled}"))
+    drive = job_drive(job)
     try:
         stress = part_stress(circuit, drive, analysed.f_peak_hz)
+        open_stress = open_load_stress(circuit, drive)
     except DriveError as error:
         raise FieldError("source", str(error)) from None
+    except resonance.NoResonanceError:
+        open_stress = None
     start, stop = resonance.default_sweep_range_hz(analysed)
     start = job.sweep.start if job.sweep.start is not None else start
     stop = job.sweep.stop if job.sweep.stop is not None else stop
@@ -90,22 +136,26 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
         from sheetgen.design.coil import coil_at_voltage, coil_design
         loaded_coil = coil_at_voltage(coil, parts, stress.inductor_voltage_rms_v, f_design)
         coil_result = coil_design(job, parts, loaded_coil, target_l, circuit, q_used, q_source,
-                                  f0)
+                                  f0, coupling)
     fixed = choice.fixed_parts_f
     names = designators(len(fixed), choice.trimmer_setting_f is not None,
                         circuit.source_resistance_ohm is not None,
                         circuit.load_resistance_ohm is not None,  # a link or tap needs one
-                        coil_result is not None and coil_result.link_turns is not None)
+                        coil_result is not None and coil_result.link_turns is not None,
+                        job.capacitor.bleeder is not None)
     try:
         assessment = _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-                             coil_result, f0_target)
+                             coil_result, f0_target, open_stress)
     except FieldError:
         raise
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
         raise FieldError("variation", str(error)) from None
     return Design(job, circuit, drive, analysed, stress, response, choice, tuple(derived),
                   coil_result, names, assessment,
-                  plausibility_findings(job, circuit, analysed, stress, fixed))
+                  plausibility=plausibility_findings(job, circuit, analysed, stress, fixed,
+                                                     capacitance_f=required_c),
+                  stress_open_load=open_stress,
+                  bleeder=bleeder_duty(job, worse_stress(stress, open_stress)))
 
 
 def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]:
@@ -121,14 +171,15 @@ def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]
 
 
 def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-            coil: CoilDesign | None, f0_target):
+            coil: CoilDesign | None, f0_target, open_stress=None):
     """The limits and rating checks, with the coil's tolerance and temperature data."""
     if coil is None:
         tolerance = job.inductor.tolerance
         tc = job.inductor.temperature_coefficient
         return assess(job, circuit, analysed, stress, response, names,
                       f0_target_hz=f0_target, fixed_capacitance_f=choice.fixed_f,
-                      inductance_tolerance=tolerance, inductance_tc=tc, fixed_parts_f=fixed)
+                      inductance_tolerance=tolerance, inductance_tc=tc, fixed_parts_f=fixed,
+                      other_capacitance_f=_across(choice), open_load_stress=open_stress)
     r = coil.result
     return assess(job, circuit, analysed, stress, response, names, f0_target_hz=f0_target,
                   fixed_capacitance_f=choice.fixed_f,
@@ -136,7 +187,12 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
                   inductance_tc=coil.inductance_tc, coil=r,
                   flux_limit_t=coil.flux_density_max_t, wire_diameter_m=r.wire.diameter_m,
                   ac_to_dc_resistance=max(1.0, r.ac_resistance_ohm / r.dc_resistance_ohm),
-                  fixed_parts_f=fixed)
+                  fixed_parts_f=fixed, other_capacitance_f=_across(choice),
+                  open_load_stress=open_stress)
+
+
+def _across(choice) -> float:
+    return choice.across.total_f if choice.across is not None else 0.0
 
 
 def _replace_derivation(derived: list[Derivation], field: str, value: float, reason: str):
@@ -177,12 +233,3 @@ def _wanted_loaded_q(targets, f0_hz: float) -> float | None:
     if targets.bandwidth is not None:
         return f0_hz / targets.bandwidth
     return None
-
-
-def _drive(job: Job) -> Drive:
-    source = job.source
-    if source.voltage is not None:
-        return Drive("voltage", source.voltage)
-    if source.current is not None:
-        return Drive("current", source.current)
-    return Drive("available_power", source.available_power)

@@ -9,7 +9,8 @@ from dataclasses import dataclass
 @dataclass(frozen=True)
 class Designators:
     """L1 the tank coil, C1 (and C2) the fixed capacitor(s), then the trimmer, R1 the source
-    resistance, R2 the load, L2 a link winding. None where the part is not fitted."""
+    resistance, R2 the load, L2 a link winding, R3 a bleeder across the capacitor. None where
+    the part is not fitted."""
 
     coil: str
     fixed_capacitors: tuple[str, ...]
@@ -17,6 +18,7 @@ class Designators:
     source_resistor: str | None
     load_resistor: str | None
     link: str | None
+    bleeder: str | None = None
 
     @property
     def capacitors(self) -> tuple[str, ...]:
@@ -24,7 +26,7 @@ class Designators:
 
 
 def designators(fixed_count: int, has_trimmer: bool, has_source_resistor: bool,
-                has_load: bool, has_link: bool) -> Designators:
+                has_load: bool, has_link: bool, has_bleeder: bool = False) -> Designators:
     """Number the parts in the order above."""
     fixed = tuple(f"C{i + 1}" for i in range(fixed_count))
     return Designators(
@@ -32,4 +34,4 @@ def designators(fixed_count: int, has_trimmer: bool, has_source_resistor: bool,
         trimmer=f"C{fixed_count + 1}" if has_trimmer else None,
         source_resistor="R1" if has_source_resistor else None,
         load_resistor="R2" if has_load else None,
-        link="L2" if has_link else None)
+        link="L2" if has_link else None, bleeder="R3" if has_bleeder else None)

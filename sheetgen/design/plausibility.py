@@ -75,8 +75,11 @@ def _within(quantity: Quantity, field: str, value: float, low: float | None,
 
 
 def plausibility_findings(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
-                          fixed_parts_f: tuple[float, ...] = ()) -> tuple[Finding, ...]:
-    """Every plausibility bound the design crosses, in the order f0, L, C, Q, voltage."""
+                          fixed_parts_f: tuple[float, ...] = (),
+                          capacitance_f: float | None = None) -> tuple[Finding, ...]:
+    """Every plausibility bound the design crosses, in the order f0, L, C, Q, voltage.
+
+    `capacitance_f`: the tank capacitance the design needs (default: the circuit's)."""
     targets = job.circuit.targets
     f0_target = targets.f0 if targets is not None else None
     l_given = job.inductor.inductance is not None
@@ -89,7 +92,8 @@ def plausibility_findings(job: Job, circuit: Circuit, resonance: Resonance, stre
                         F0_MIN_HZ, F0_MAX_HZ, "Hz", f0_target is None)
     findings += _within("inductance", l_field, circuit.inductance_h, INDUCTANCE_MIN_H,
                         INDUCTANCE_MAX_H, "H", not l_given)
-    capacitance = _within("capacitance", c_field, circuit.capacitance_f, CAPACITANCE_MIN_F,
+    needed_c = capacitance_f if capacitance_f is not None else circuit.capacitance_f
+    capacitance = _within("capacitance", c_field, needed_c, CAPACITANCE_MIN_F,
                           CAPACITANCE_MAX_F, "F", not c_given)
     findings += capacitance
     if not capacitance and fixed_parts_f:

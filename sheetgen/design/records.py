@@ -20,6 +20,22 @@ from sheetgen.inputs.model import Job
 
 
 @dataclass(frozen=True)
+class CapacitanceAcross:
+    """Capacitance across the tuning capacitor that is not a part to fit: the coil's own
+    (Medhurst's for a solenoid, the job's for a ring; none for a series circuit, where it
+    is across the coil, not the capacitor), the wiring strays and the test probe's input."""
+
+    self_capacitance_f: float
+    stray_f: float
+    probe_f: float
+    self_source: str  # "medhurst_1947", "job" or "none"
+
+    @property
+    def total_f(self) -> float:
+        return self.self_capacitance_f + self.stray_f + self.probe_f
+
+
+@dataclass(frozen=True)
 class CapacitorChoice:
     """Standard parts for the capacitance the design needs (IEC 60063), and what is fitted.
 
@@ -36,6 +52,7 @@ class CapacitorChoice:
     trimmer_in_range: bool | None
     built_f: float
     from_standard_parts: bool
+    across: CapacitanceAcross | None = None  # subtracted before the parts were picked
 
     @property
     def fixed_parts_f(self) -> tuple[float, ...]:
@@ -43,6 +60,19 @@ class CapacitorChoice:
         if not self.from_standard_parts:
             return (self.fixed_f,)
         return tuple(v for v in (self.pair.first, self.pair.second) if v is not None)
+
+
+@dataclass(frozen=True)
+class BleederDuty:
+    """The bleeder across the capacitor sees the tank's RF voltage: P = V̂²/(2R) at the
+    worse of the nominal and open-load peak. The minimum ratings to buy are P/derating and
+    V̂ (what the sheet states when the job gives no rating)."""
+
+    resistance_ohm: float
+    voltage_peak_v: float
+    power_w: float
+    power_rating_min_w: float
+    voltage_rating_min_v: float
 
 
 @dataclass(frozen=True)
@@ -61,6 +91,39 @@ class CoilCurve:
 
     f_hz: np.ndarray
     q: np.ndarray
+
+
+@dataclass(frozen=True)
+class Coupling:
+    """A link winding or tap of whole turns, and the resistance it presents to the tank.
+
+    An ideal transformer: R at M of N turns looks like R·(N/M)² across the tank.
+    turns_exact is N√(R/R_aimed) before rounding; aimed_ohm the tank load it was for.
+    """
+
+    kind: str  # "link" or "tap"
+    turns: int
+    turns_exact: float
+    tank_turns: int
+    resistance_ohm: float
+    aimed_ohm: float
+    presented_ohm: float
+    reactance_ohm: float  # X0 of the tank, which the presented resistance must exceed
+
+    @property
+    def too_many_turns(self) -> bool:
+        """A link of more turns than the tank winding steps the load up: not a coupling."""
+        return self.turns > self.tank_turns
+
+    @property
+    def swamps_tank(self) -> bool:
+        """The presented resistance is below X0: the load alone holds the Q under 1."""
+        return self.presented_ohm < self.reactance_ohm
+
+    @property
+    def resistance_min_ohm(self) -> float:
+        """The least resistance on the coupling that presents X0 at these turns."""
+        return self.reactance_ohm * (self.turns / self.tank_turns) ** 2
 
 
 @dataclass(frozen=True)
@@ -87,6 +150,7 @@ class CoilDesign:
     q_used: float
     q_source: str  # "estimate" or "job"
     q_curve: CoilCurve
+    coupling: Coupling | None = None
 
 
 @dataclass(frozen=True)
@@ -105,3 +169,5 @@ class Design:
     designators: Designators
     assessment: Assessment
     plausibility: tuple[Finding, ...] = ()  # values beyond what can be built (plausibility.py)
+    stress_open_load: Stress | None = None  # the same drive with the load disconnected
+    bleeder: BleederDuty | None = None

@@ -30,6 +30,9 @@ RECEIVER_BANDWIDTHS_PER_BANDWIDTH = 10
 LOADING_RATIO = 100.0
 # A probe may move f0 by at most a tenth of the bandwidth.
 PROBE_SHIFT_PER_BANDWIDTH = 0.1
+# Input capacitance of the probe put across a tank: an active (FET) probe, about 1 pF
+# (common practice; a passive 10:1 probe's 10-15 pF detunes most tanks by far more).
+PROBE_CAPACITANCE_F = 1e-12
 MAX_POINTS = 10001  # the most points a bench analyser sweeps in one go (common practice)
 # Above this level many bench generators run out of output (common practice).
 GENERATOR_LEVEL_MAX_DBM = 10.0

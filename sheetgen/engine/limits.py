@@ -23,6 +23,27 @@ from sheetgen.engine.variation import (
 )
 
 DEFAULT_Q_RESOLUTION = 0.1  # loaded Q is read from f0/bandwidth; one decimal place (ours)
+# What the bench cannot tell apart (common practice; job-settable under test:):
+DEFAULT_FREQUENCY_ACCURACY = 10e-6  # a bench generator's or analyser's crystal, ±10 ppm
+DEFAULT_LCR_ACCURACY = 0.01  # a bench LCR meter's (or analyser's |Z|) accuracy, ±1 %
+DEFAULT_TUNING_FRACTION = 0.05  # a trimmed unit is set to within ±5 % of its bandwidth
+
+
+@dataclass(frozen=True)
+class BenchAllowance:
+    """What the instruments cannot resolve, added to every window before it is rounded.
+
+    A frequency read off a stepped sweep is within ±step/2 of the true one and the
+    instrument's time base within ±frequency_accuracy (relative); a bandwidth, the
+    difference of two such readings, within ±step (the time-base error scales it by the
+    same fraction). Q = f/bandwidth carries the bandwidth's relative error. |Z|, L and C
+    within ±lcr_accuracy. A trimmed unit is set only to within ±tuning_hz of its target.
+    """
+
+    step_hz: float = 0.0
+    frequency_accuracy: float = 0.0
+    lcr_accuracy: float = 0.0
+    tuning_hz: float = 0.0
 
 
 def round_down(value: float, step: float) -> float:
@@ -84,6 +105,9 @@ class TestLimits:
     q_unloaded_max: float
     impedance_min_ohm: float
     impedance_max_ohm: float
+    f_centre_min_hz: float = math.nan  # midpoint of the −3 dB points (broad peaks)
+    f_centre_max_hz: float = math.nan
+    allowance: BenchAllowance | None = None
 
 
 IMPEDANCE_DIGITS = 3  # |Z| windows are rounded outward to 3 significant figures (ours)
@@ -107,9 +131,11 @@ def unloaded_q_trials(variation: VariationResult) -> np.ndarray:
 
 def test_limits(variation: VariationResult, coverage: float | None = None,
                 resolution_hz: float = 1.0, *,
-                q_resolution: float = DEFAULT_Q_RESOLUTION) -> TestLimits:
+                q_resolution: float = DEFAULT_Q_RESOLUTION,
+                allowance: BenchAllowance | None = None) -> TestLimits:
     """Windows of f0, f_peak, bandwidth and loaded Q at `coverage` (default: the
-    variation's own), each rounded outward to resolution_hz (q_resolution for Q).
+    variation's own), widened by what the bench cannot resolve (`allowance`), each rounded
+    outward to resolution_hz (q_resolution for Q).
 
     For a worst case the windows span every corner and `coverage` is not used.
     """
@@ -119,20 +145,39 @@ def test_limits(variation: VariationResult, coverage: float | None = None,
         coverage = variation.coverage
     if coverage is not None and not 0.0 < coverage < 1.0:
         raise ValueError("coverage must lie strictly between 0 and 1")
+    bench = allowance or BenchAllowance()
 
-    def window(values, step):
+    def frequency(values):
         interval = central_interval(values, coverage)
-        return round_down(interval.low, step), round_up(interval.high, step)
+        pad = 0.5 * bench.step_hz + bench.tuning_hz
+        low = interval.low * (1.0 - bench.frequency_accuracy) - pad
+        high = interval.high * (1.0 + bench.frequency_accuracy) + pad
+        return round_down(low, resolution_hz), round_up(high, resolution_hz)
 
-    f0 = window(variation.f0_hz, resolution_hz)
-    f_peak = window(variation.f_peak_hz, resolution_hz)
-    bandwidth = window(variation.bandwidth_hz, resolution_hz)
-    q = window(variation.q_loaded, q_resolution)
-    f_low = window(variation.f_low_hz, resolution_hz)
-    f_high = window(variation.f_high_hz, resolution_hz)
-    q_unloaded = window(unloaded_q_trials(variation), q_resolution)
+    bw = central_interval(variation.bandwidth_hz, coverage)
+    bandwidth = (round_down(bw.low * (1.0 - bench.frequency_accuracy) - bench.step_hz,
+                            resolution_hz),
+                 round_up(bw.high * (1.0 + bench.frequency_accuracy) + bench.step_hz,
+                          resolution_hz))
+    q_share = (bench.step_hz / bw.low + bench.frequency_accuracy
+               if math.isfinite(bw.low) and bw.low > 0 else 0.0)
+
+    def q_window(values):
+        interval = central_interval(values, coverage)
+        return (round_down(interval.low * (1.0 - q_share), q_resolution),
+                round_up(interval.high * (1.0 + q_share), q_resolution))
+
+    f0 = frequency(variation.f0_hz)
+    f_peak = frequency(variation.f_peak_hz)
+    q = q_window(variation.q_loaded)
+    f_low = frequency(variation.f_low_hz)
+    f_high = frequency(variation.f_high_hz)
+    f_centre = frequency(0.5 * (variation.f_low_hz + variation.f_high_hz))
+    q_unloaded = q_window(unloaded_q_trials(variation))
     impedance = central_interval(variation.impedance_at_peak_ohm, coverage)
-    impedance = round_outward_significant(impedance.low, impedance.high, IMPEDANCE_DIGITS)
+    impedance = round_outward_significant(impedance.low * (1.0 - bench.lcr_accuracy),
+                                          impedance.high * (1.0 + bench.lcr_accuracy),
+                                          IMPEDANCE_DIGITS)
     return TestLimits(
         method=variation.method, coverage=coverage, trials=variation.trials,
         seed=variation.seed, nan_trials=variation.nan_trials, resolution_hz=resolution_hz,
@@ -142,7 +187,15 @@ def test_limits(variation: VariationResult, coverage: float | None = None,
         q_loaded_min=q[0], q_loaded_max=q[1], f_low_min_hz=f_low[0], f_low_max_hz=f_low[1],
         f_high_min_hz=f_high[0], f_high_max_hz=f_high[1], q_unloaded_min=q_unloaded[0],
         q_unloaded_max=q_unloaded[1], impedance_min_ohm=impedance[0],
-        impedance_max_ohm=impedance[1])
+        impedance_max_ohm=impedance[1], f_centre_min_hz=f_centre[0],
+        f_centre_max_hz=f_centre[1], allowance=allowance)
+
+
+def part_window(nominal: float, tolerance: float | None, accuracy: float) -> tuple[float, float]:
+    """A part's window as a meter of relative `accuracy` reads it: nominal·(1 ± tolerance),
+    widened by the meter's ±accuracy."""
+    tol = tolerance or 0.0
+    return nominal * (1.0 - tol) * (1.0 - accuracy), nominal * (1.0 + tol) * (1.0 + accuracy)
 
 
 test_limits.__test__ = False  # not a pytest test function
@@ -173,9 +226,11 @@ class TrimmerCheck:
 
 def trimmer_check(variation: VariationResult | SampledParts, target_f0_hz: float,
                   fixed_capacitance_f: float, trimmer_min_f: float, trimmer_max_f: float,
-                  coverage: float | None = None) -> TrimmerCheck:
-    """C_needed = 1/(ω_target² L_trial) − C_fixed_trial for every trial (Thomson's
-    formula solved for C), its range at `coverage` (default: the variation's own; all
+                  coverage: float | None = None,
+                  other_capacitance_f: float = 0.0) -> TrimmerCheck:
+    """C_needed = 1/(ω_target² L_trial) − C_fixed_trial − C_other for every trial (Thomson's
+    formula solved for C; C_other the coil's self-capacitance, strays and probe already
+    across the trimmer), its range at `coverage` (default: the variation's own; all
     corners for a worst case), and whether [trimmer_min_f, trimmer_max_f] covers it.
 
     The variation's capacitance factor (tolerance and temperature) applies to the fixed
@@ -190,21 +245,26 @@ def trimmer_check(variation: VariationResult | SampledParts, target_f0_hz: float
         coverage = variation.coverage
     parts = variation.parts
     needed = (capacitance_for_f0(target_f0_hz, parts.inductance_h)
-              - fixed_capacitance_f * parts.capacitance_factor)
+              - fixed_capacitance_f * parts.capacitance_factor - other_capacitance_f)
     needed = np.ascontiguousarray(needed, dtype=float)
     needed.setflags(write=False)
     interval = central_interval(needed, coverage)
     nominal = float(capacitance_for_f0(target_f0_hz, variation.nominal.inductance_h)
-                    - fixed_capacitance_f)
+                    - fixed_capacitance_f - other_capacitance_f)
     tunable = (needed >= trimmer_min_f) & (needed <= trimmer_max_f)
+    fraction = float(tunable.mean())
+    inside = bool(trimmer_min_f <= interval.low and interval.high <= trimmer_max_f)
+    # Monte Carlo: covered when at least the coverage share of builds can be tuned (the
+    # central interval may poke out of one end while the other end has room to spare)
+    covers = inside if coverage is None else (inside or fraction >= coverage)
     return TrimmerCheck(
         method=variation.method, coverage=coverage, target_f0_hz=target_f0_hz,
         fixed_capacitance_f=fixed_capacitance_f, trimmer_min_f=trimmer_min_f,
         trimmer_max_f=trimmer_max_f, nominal_needed_f=nominal,
         needed_min_f=interval.low, needed_max_f=interval.high,
-        covers=bool(trimmer_min_f <= interval.low and interval.high <= trimmer_max_f),
+        covers=covers,
         margin_low_f=interval.low - trimmer_min_f, margin_high_f=trimmer_max_f - interval.high,
-        fraction_tunable=float(tunable.mean()), needed_f=needed)
+        fraction_tunable=fraction, needed_f=needed)
 
 
 

@@ -15,10 +15,12 @@ import math
 from dataclasses import dataclass
 from typing import Literal
 
+from sheetgen.engine.stress import Drive
 from sheetgen.engine.wire import current_density_a_per_m2
 
 CheckQuantity = Literal["peak voltage", "RF current", "power in ESR", "current density",
-                        "flux density", "surface temperature"]
+                        "flux density", "surface temperature", "power",
+                        "working voltage"]
 # The thermal class of the usual polyurethane and polyester-imide magnet-wire enamels
 # (IEC 60317, from memory): the hottest a winding may run.
 WINDING_MAX_TEMPERATURE_C = 155.0
@@ -35,6 +37,9 @@ DEFAULT_CURRENT_DERATING = 0.8
 # Common practice: 4 A/mm² for enamelled copper windings cooled by free air (figures of
 # 3 … 5 A/mm² are the usual range; the DC cross-section is used, skin effect aside).
 DEFAULT_CURRENT_DENSITY_LIMIT_A_PER_M2 = 4.0e6
+# Common practice: a resistor dissipates at most half its rated power (it then runs cool
+# enough to keep its value and its neighbours' temperature).
+DEFAULT_RESISTOR_POWER_DERATING = 0.5
 
 
 @dataclass(frozen=True)
@@ -43,7 +48,10 @@ class RatingRemedy:
 
     required_rating: the rating that would pass at the same derating (actual / derating);
     parts_needed: that many of the present part in `arrangement` share the stress;
-    drive_power_max_w: the drive power at which the check just passes.
+    drive_power_max_w: the power into the circuit at which the check just passes;
+    drive_max / drive_kind: the job's own drive quantity at which it just passes (V rms
+    open-circuit, A rms or W available: a voltage or current drive scales the stress in
+    proportion, an available power as its square root).
     """
 
     required_rating: float
@@ -53,6 +61,8 @@ class RatingRemedy:
     esr_max_ohm: float | None = None
     wire_diameter_min_m: float | None = None
     core_area_factor: float | None = None
+    drive_max: float | None = None
+    drive_kind: str | None = None
 
 
 @dataclass(frozen=True)
@@ -155,6 +165,16 @@ def _drive_scaled(drive_power_w: float | None, ratio: float, exponent: float) ->
     return drive_power_w * ratio**exponent
 
 
+def _drive_limit(drive: Drive | None, ratio: float, exponent: float) -> dict:
+    """The job's drive at which a stress ∝ P^(1/exponent) falls to the allowed value: a
+    power scales by ratio^exponent, a voltage or current (∝ √P) by ratio^(exponent/2)."""
+    if drive is None:
+        return {}
+    power = drive.kind == "available_power"
+    value = drive.value * ratio ** (exponent if power else exponent / 2.0)
+    return {"drive_max": value, "drive_kind": drive.kind}
+
+
 def _make(part: str, quantity: CheckQuantity, unit: str, actual: float, rating: float,
           derating: float, acceptance: str | None, remedy_for) -> RatingCheck:
     _validate(part, actual, rating, derating, acceptance)
@@ -171,7 +191,8 @@ def _make(part: str, quantity: CheckQuantity, unit: str, actual: float, rating: 
 def capacitor_voltage_check(part: str, peak_voltage_v: float, rated_voltage_v: float, *,
                             derating: float = DEFAULT_VOLTAGE_DERATING,
                             drive_power_w: float | None = None,
-                            acceptance: str | None = None) -> RatingCheck:
+                            acceptance: str | None = None,
+                            drive: Drive | None = None) -> RatingCheck:
     """Peak voltage on a capacitor against its rated voltage × derating.
 
     Remedies: a part rated ≥ V̂/derating; n = ⌈V̂/allowed⌉ equal parts in series, each of n
@@ -181,8 +202,8 @@ def capacitor_voltage_check(part: str, peak_voltage_v: float, rated_voltage_v: f
     def remedy(allowed):
         return RatingRemedy(required_rating=peak_voltage_v / derating,
                       parts_needed=math.ceil(peak_voltage_v / allowed), arrangement="series",
-                      drive_power_max_w=_drive_scaled(drive_power_w, allowed / peak_voltage_v,
-                                                      2.0))
+                      drive_power_max_w=_drive_scaled(drive_power_w, allowed / peak_voltage_v, 2.0),
+                      **_drive_limit(drive, allowed / peak_voltage_v, 2.0))
     return _make(part, "peak voltage", "V", peak_voltage_v, rated_voltage_v, derating,
                  acceptance, remedy)
 
@@ -190,7 +211,8 @@ def capacitor_voltage_check(part: str, peak_voltage_v: float, rated_voltage_v: f
 def capacitor_current_check(part: str, current_rms_a: float, rated_current_rms_a: float, *,
                             derating: float = DEFAULT_CURRENT_DERATING,
                             drive_power_w: float | None = None,
-                            acceptance: str | None = None) -> RatingCheck:
+                            acceptance: str | None = None,
+                            drive: Drive | None = None) -> RatingCheck:
     """RF current through a capacitor against its RF current rating × derating.
 
     Remedies: a part rated ≥ I/derating; n = ⌈I/allowed⌉ equal parts in parallel, each of
@@ -199,8 +221,8 @@ def capacitor_current_check(part: str, current_rms_a: float, rated_current_rms_a
     def remedy(allowed):
         return RatingRemedy(required_rating=current_rms_a / derating,
                       parts_needed=math.ceil(current_rms_a / allowed), arrangement="parallel",
-                      drive_power_max_w=_drive_scaled(drive_power_w, allowed / current_rms_a,
-                                                      2.0))
+                      drive_power_max_w=_drive_scaled(drive_power_w, allowed / current_rms_a, 2.0),
+                      **_drive_limit(drive, allowed / current_rms_a, 2.0))
     return _make(part, "RF current", "A", current_rms_a, rated_current_rms_a, derating,
                  acceptance, remedy)
 
@@ -208,7 +230,8 @@ def capacitor_current_check(part: str, current_rms_a: float, rated_current_rms_a
 def esr_power_check(part: str, power_w: float, rated_power_w: float, *,
                     esr_ohm: float | None = None, derating: float = 1.0,
                     drive_power_w: float | None = None,
-                    acceptance: str | None = None) -> RatingCheck:
+                    acceptance: str | None = None,
+                    drive: Drive | None = None) -> RatingCheck:
     """Power dissipated in a capacitor's ESR (I²·ESR) against a power rating × derating.
 
     Remedies: at the same current the power goes with the ESR, so an ESR ≤
@@ -218,7 +241,8 @@ def esr_power_check(part: str, power_w: float, rated_power_w: float, *,
         ratio = allowed / power_w
         return RatingRemedy(required_rating=power_w / derating,
                       esr_max_ohm=None if esr_ohm is None else esr_ohm * ratio,
-                      drive_power_max_w=_drive_scaled(drive_power_w, ratio, 1.0))
+                      drive_power_max_w=_drive_scaled(drive_power_w, ratio, 1.0),
+                      **_drive_limit(drive, ratio, 1.0))
     return _make(part, "power in ESR", "W", power_w, rated_power_w, derating, acceptance,
                  remedy)
 
@@ -227,7 +251,8 @@ def current_density_check(part: str, current_rms_a: float, diameter_m: float, *,
                           ac_to_dc_resistance: float = 1.0,
                           limit_a_per_m2: float = DEFAULT_CURRENT_DENSITY_LIMIT_A_PER_M2,
                           drive_power_w: float | None = None,
-                          acceptance: str | None = None) -> RatingCheck:
+                          acceptance: str | None = None,
+                          drive: Drive | None = None) -> RatingCheck:
     """Current density in the winding wire at the working frequency, against a limit.
 
     The RF current flows in A_ac = (π d²/4)·R_dc/R_ac, the cross-section whose DC
@@ -251,7 +276,8 @@ def current_density_check(part: str, current_rms_a: float, diameter_m: float, *,
                                                           * math.sqrt(crowding)
                                                           / (math.pi * limit_a_per_m2)),
                             drive_power_max_w=_drive_scaled(drive_power_w, allowed / density,
-                                                            2.0))
+                                                            2.0),
+                            **_drive_limit(drive, allowed / density, 2.0))
     return _make(part, "current density", "A/m²", density, limit, 1.0, acceptance, remedy)
 
 
@@ -278,7 +304,8 @@ def surface_temperature_check(part: str, ambient_max_c: float, rise_k: float, *,
 
 def flux_density_check(part: str, flux_density_peak_t: float, limit_t: float, *,
                        derating: float = 1.0, drive_power_w: float | None = None,
-                       acceptance: str | None = None) -> RatingCheck:
+                       acceptance: str | None = None,
+                       drive: Drive | None = None) -> RatingCheck:
     """Peak flux density in a core against the material's limit × derating.
 
     B̂ = √2 V/(ω N Ae) (Faraday's law), so at the same voltage and turns a core of
@@ -287,9 +314,44 @@ def flux_density_check(part: str, flux_density_peak_t: float, limit_t: float, *,
     def remedy(allowed):
         return RatingRemedy(required_rating=flux_density_peak_t / derating,
                       core_area_factor=flux_density_peak_t / allowed,
-                      drive_power_max_w=_drive_scaled(drive_power_w,
-                                                      allowed / flux_density_peak_t, 2.0))
+                      drive_power_max_w=_drive_scaled(drive_power_w, allowed / flux_density_peak_t, 2.0),
+                      **_drive_limit(drive, allowed / flux_density_peak_t, 2.0))
     return _make(part, "flux density", "T", flux_density_peak_t, limit_t, derating,
+                 acceptance, remedy)
+
+
+def resistor_power(voltage_peak_v: float, resistance_ohm: float) -> float:
+    """P = V̂²/(2R): the power a resistor dissipates with a sinusoidal voltage of peak V̂."""
+    return voltage_peak_v * voltage_peak_v / (2.0 * resistance_ohm)
+
+
+def resistor_power_check(part: str, power_w: float, rated_power_w: float, *,
+                         derating: float = DEFAULT_RESISTOR_POWER_DERATING,
+                         drive_power_w: float | None = None, acceptance: str | None = None,
+                         drive: Drive | None = None) -> RatingCheck:
+    """Power in a resistor against its rating × derating; remedies: a part rated ≥
+    P/derating, or the drive scaled so that P (∝ drive power) falls to the allowed value."""
+    def remedy(allowed):
+        return RatingRemedy(required_rating=power_w / derating,
+                            drive_power_max_w=_drive_scaled(drive_power_w, allowed / power_w, 1.0),
+                            **_drive_limit(drive, allowed / power_w, 1.0))
+    return _make(part, "power", "W", power_w, rated_power_w, derating, acceptance, remedy)
+
+
+def resistor_voltage_check(part: str, peak_voltage_v: float, rated_voltage_v: float, *,
+                           derating: float = 1.0, drive_power_w: float | None = None,
+                           acceptance: str | None = None,
+                           drive: Drive | None = None) -> RatingCheck:
+    """Peak voltage on a resistor against its working-voltage rating; remedies: a part rated
+    ≥ V̂/derating, n = ⌈V̂/allowed⌉ equal resistors in series (each R/n), or the drive."""
+    def remedy(allowed):
+        return RatingRemedy(required_rating=peak_voltage_v / derating,
+                            parts_needed=math.ceil(peak_voltage_v / allowed),
+                            arrangement="series",
+                            drive_power_max_w=_drive_scaled(drive_power_w,
+                                                            allowed / peak_voltage_v, 2.0),
+                            **_drive_limit(drive, allowed / peak_voltage_v, 2.0))
+    return _make(part, "working voltage", "V", peak_voltage_v, rated_voltage_v, derating,
                  acceptance, remedy)
 
 

@@ -111,3 +111,29 @@ def part_stress(circuit: Circuit, drive: Drive, f_hz: float) -> Stress:
         circulating_current_ratio=(max(i_coil, i_cap) / line_current
                                    if line_current > 0 else float(np.inf)),
     )
+
+
+def open_load_stress(circuit: Circuit, drive: Drive) -> Stress | None:
+    """The same drive with a parallel tank's load disconnected, at the response maximum of
+    the unloaded tank (the worst mistune too: with the drive's EMF behind Rs, the tank
+    voltage is largest at that peak). None for a series circuit (an open load opens the
+    loop) or a tank with no load."""
+    from dataclasses import replace
+
+    from sheetgen.engine.resonance import analyse
+    if circuit.topology != "parallel" or circuit.load_resistance_ohm is None:
+        return None
+    unloaded = replace(circuit, load_resistance_ohm=None)
+    return part_stress(unloaded, drive, analyse(unloaded).f_peak_hz)
+
+
+def worse_stress(nominal: Stress, other: Stress | None) -> Stress:
+    """Each part voltage, current and loss the larger of the two cases (the frequency, drive
+    power and load figures stay the nominal ones)."""
+    if other is None:
+        return nominal
+    from dataclasses import replace
+    fields = ("capacitor_voltage_rms_v", "capacitor_voltage_peak_v", "capacitor_current_rms_a",
+              "inductor_voltage_rms_v", "inductor_voltage_peak_v", "inductor_current_rms_a",
+              "inductor_loss_w", "capacitor_loss_w")
+    return replace(nominal, **{f: max(getattr(nominal, f), getattr(other, f)) for f in fields})

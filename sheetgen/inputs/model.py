@@ -29,6 +29,10 @@ from sheetgen.engine.insulation import (
     DEFAULT_MATERIAL_GROUP,
     DEFAULT_POLLUTION_DEGREE,
 )
+from sheetgen.engine.limits import (
+    DEFAULT_FREQUENCY_ACCURACY,
+    DEFAULT_LCR_ACCURACY,
+)
 from sheetgen.engine.ratings import DEFAULT_CURRENT_DERATING, DEFAULT_VOLTAGE_DERATING
 from sheetgen.engine.standard_values import SERIES_TOLERANCE
 from sheetgen.engine.variation import DEFAULT_COVERAGE, DEFAULT_SEED, DEFAULT_TRIALS
@@ -68,6 +72,7 @@ def _quantity(dimension: quantities.Dimension, minimum: float | None = 0.0, incl
 
 Inductance = _quantity(quantities.INDUCTANCE)
 Capacitance = _quantity(quantities.CAPACITANCE)
+SmallCapacitance = _quantity(quantities.CAPACITANCE, minimum=0.0, inclusive=True)
 Resistance = _quantity(quantities.RESISTANCE)
 LossResistance = _quantity(quantities.RESISTANCE, minimum=0.0, inclusive=True)
 Frequency = _quantity(quantities.FREQUENCY)
@@ -448,6 +453,16 @@ class CapacitorSection(Section):
                                       "in its ESR")
     bleeder: Resistance | None = Field(None, description="bleeder resistor across the "
                                        "capacitor, for the discharge time in the cautions")
+    bleeder_rated_power: Power | None = Field(
+        None, description="power rating of the bleeder, checked at half its rating (common "
+        "practice) against V̂²/(2R) at the tank's RF peak (omit: the sheet states the minimum "
+        "to buy)")
+    bleeder_rated_voltage: Voltage | None = Field(
+        None, description="working-voltage rating of the bleeder (peak), checked against the "
+        "tank's RF peak (omit: the sheet states the minimum to buy)")
+    stray: SmallCapacitance = Field(2e-12, description="wiring and layout capacitance across the "
+                               "capacitor, subtracted from the capacitance to fit (default "
+                               "2 pF, common practice for short point-to-point wiring)")
 
     @model_validator(mode="after")
     def _one_loss(self):
@@ -501,6 +516,13 @@ class OperatingTemperature(Section):
         return self
 
 
+class BenchAmbient(OperatingTemperature):
+    """The ambient range of the bench test."""
+
+    minimum: Temperature = Field(20.0, description="lowest bench ambient temperature")
+    maximum: Temperature = Field(30.0, description="highest bench ambient temperature")
+
+
 class VariationSection(Section):
     """How part tolerances and temperature turn into test limits."""
 
@@ -537,6 +559,25 @@ class TestSection(Section):
     frequency_resolution: Frequency | None = Field(
         None, description="frequency resolution of the test set; limits are rounded outward "
         "to it (default: a power of ten near bandwidth/50)")
+    frequency_accuracy: Fraction = Field(
+        DEFAULT_FREQUENCY_ACCURACY, description="accuracy of the generator's or analyser's "
+        "frequency (default 10 ppm, an ordinary crystal time base, common practice); windows "
+        "are widened by it")
+    lcr_accuracy: Fraction = Field(
+        DEFAULT_LCR_ACCURACY, description="accuracy of the LCR meter (and of |Z| read on the "
+        "analyser) (default 1 %, common practice); the L, C and impedance windows are "
+        "widened by it")
+    tuning_tolerance: Frequency | None = Field(
+        None, description="how close the technician is asked to trim f0 to its target "
+        "(default 5 % of the bandwidth, common practice); tuned windows are widened by it")
+    ambient: BenchAmbient = Field(
+        BenchAmbient(), description="ambient range of the bench test, which the windows are "
+        "set for (default 20 to 30 °C, a laboratory, common practice); the operating range "
+        "(variation.temperature) gives separate over-temperature figures")
+    probe_capacitance: SmallCapacitance | None = Field(
+        None, description="input capacitance of the probe put across a parallel tank; it is "
+        "subtracted from the capacitance to fit (default 1 pF, an active probe, common "
+        "practice)")
 
 
 class Acceptance(Section):

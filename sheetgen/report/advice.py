@@ -24,10 +24,19 @@ def rating_advice(check: RatingCheck) -> str | None:
             f"{derated}. {_REMEDIES[check.quantity](check.remedy)}.")
 
 
+_DRIVE_WORDS = {"voltage": ("V", " rms open-circuit"), "current": ("A", " rms"),
+                "available_power": ("W", " available")}
+
+
 def _or_drive(remedy: RatingRemedy) -> str:
+    """The drive that passes, in the job's own drive quantity when it is known."""
+    if remedy.drive_max is not None:
+        unit, words = _DRIVE_WORDS[remedy.drive_kind]
+        return f", or lower the drive to at most {format_quantity(remedy.drive_max, unit)}{words}"
     if remedy.drive_power_max_w is None:
         return ""
-    return f", or lower the drive to at most {format_quantity(remedy.drive_power_max_w, 'W')}"
+    return (f", or lower the drive to at most {format_quantity(remedy.drive_power_max_w, 'W')}"
+            " into the circuit")
 
 
 def _peak_voltage(r: RatingRemedy) -> str:
@@ -68,6 +77,18 @@ def _surface_temperature(r: RatingRemedy) -> str:
             f"the turns, or cool it with moving air{drive}")
 
 
+def _resistor_power(r: RatingRemedy) -> str:
+    return (f"Fit a resistor rated for at least {format_quantity(r.required_rating, 'W')}"
+            f"{_or_drive(r)}")
+
+
+def _working_voltage(r: RatingRemedy) -> str:
+    return (f"Fit a resistor rated for at least {format_quantity(r.required_rating, 'V')} "
+            f"peak, or {r.parts_needed} in series, each of 1/{r.parts_needed} of the "
+            f"resistance{_or_drive(r)}")
+
+
 _REMEDIES = {"peak voltage": _peak_voltage, "RF current": _rf_current,
              "power in ESR": _esr_power, "current density": _current_density,
-             "flux density": _flux_density, "surface temperature": _surface_temperature}
+             "flux density": _flux_density, "surface temperature": _surface_temperature,
+             "power": _resistor_power, "working voltage": _working_voltage}

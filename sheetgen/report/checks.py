@@ -38,16 +38,27 @@ def failed_checks(design: Design) -> list[CheckFailure]:
     if trim is not None and not trim.covers and design.capacitor_choice.trimmer_in_range:
         failures.append(CheckFailure("trimmer-coverage", "capacitor.trimmer",
                                      _trimmer_coverage_text(trim)))
+    a = design.assessment
+    if a.must_trim and not a.tuned:
+        failures.append(CheckFailure(
+            "untrimmed-spread", "capacitor.trimmer",
+            f"as assembled, f0 spreads over {format_quantity(a.untrimmed_f0_min_hz, 'Hz', 4)} "
+            f"to {format_quantity(a.untrimmed_f0_max_hz, 'Hz', 4)}, wider than the "
+            f"{format_quantity(a.limits.bandwidth_min_hz, 'Hz', 3)} bandwidth, and there is no "
+            f"trimmer: add a trimmer of at least {format_quantity(a.trim_range_needed_f, 'F', 3)}"
+            " range (capacitor.trimmer), or choose closer-tolerance parts"))
     choice = design.capacitor_choice
     if choice.trimmer_in_range is False:
         trimmer = design.job.capacitor.trimmer
         needed = choice.required_f - choice.fixed_f
-        failures.append(CheckFailure(
-            "trimmer-range", "capacitor.trimmer",
-            f"the trimmer must supply {format_quantity(needed, 'F', 3)} but its range is "
-            f"{format_quantity(trimmer.minimum, 'F', 3)} to "
-            f"{format_quantity(trimmer.maximum, 'F', 3)}; choose a trimmer whose range "
-            "includes it"))
+        span = (f"{format_quantity(trimmer.minimum, 'F', 3)} to "
+                f"{format_quantity(trimmer.maximum, 'F', 3)}")
+        text = (f"the trimmer must supply {format_quantity(needed, 'F', 3)} but its range is "
+                f"{span}; choose a trimmer whose range includes it" if needed > 0 else
+                f"the fixed part(s) alone already exceed the capacitance for f0 by "
+                f"{format_quantity(-needed, 'F', 3)}, which no trimmer ({span}) can take "
+                "away; choose a smaller fixed part, or check the f0 target and the inductance")
+        failures.append(CheckFailure("trimmer-range", "capacitor.trimmer", text))
     return failures
 
 
@@ -107,7 +118,7 @@ def _coil_failures(design: Design) -> list[CheckFailure]:
     if coil is None:
         return []
     r = coil.result
-    failures = []
+    failures = _coupling_failures(coil)
     if not r.fits and coil.form == "toroid":
         remedy = {
             "thinner_wire": f"use {r.remedy_wire.name} wire, which fits in one layer"
@@ -208,3 +219,30 @@ def _loaded_q_text(design: Design, finding: Finding, value: str, bound: str) -> 
                f"X0 = {x0}: raise them, or lower the reactance (less inductance, more "
                "capacitance)")
     return f"the loaded Q is {value}; {why}; {fix}"
+
+
+def _coupling_failures(coil) -> list[CheckFailure]:
+    """A link or tap that cannot present the tank's load: too many turns, or so few ohms
+    that the tank's Q falls below 1."""
+    c = coil.coupling
+    if c is None:
+        return []
+    field = f"inductor.{c.kind}"
+    failures = []
+    if c.too_many_turns:
+        failures.append(CheckFailure(
+            "coupling-turns", field,
+            f"the {c.kind} needs {c.turns_exact:.3g} turns to present "
+            f"{format_quantity(c.aimed_ohm, 'Ω', 4)} from {format_quantity(c.resistance_ohm, 'Ω', 4)}, "
+            f"more than the {c.tank_turns}-turn tank winding: it would step the load up; connect "
+            f"the load across the tank, or make the load resistance at most "
+            f"{format_quantity(c.aimed_ohm, 'Ω', 3)}"))
+    if c.swamps_tank:
+        failures.append(CheckFailure(
+            "coupling-load", field,
+            f"the {c.kind} at {c.turns} of {c.tank_turns} turns presents "
+            f"{format_quantity(c.presented_ohm, 'Ω', 3)} to the tank, below its reactance "
+            f"{format_quantity(c.reactance_ohm, 'Ω', 3)} (loaded Q under 1); the "
+            f"{c.kind} needs a resistance of at least {format_quantity(c.resistance_min_ohm, 'Ω', 3)} "
+            "at these turns, or the tank a higher load resistance"))
+    return failures

@@ -51,6 +51,7 @@ def part_rows(design: Design) -> list[PartRow]:
                             material=f"insulated {wire} wire, over {names.coil} on its core",
                             notes=f"over the start (cold, earthy) end of {names.coil}; its ends "
                                   f"go to {names.load_resistor}"))
+    rows += _bleeder_rows(design)
     if names.source_resistor is not None:
         rows.append(PartRow(names.source_resistor, "Resistance of the source",
                             quantity_text(c.source_resistance_ohm, "Ω"), quantity=NO_DATA,
@@ -78,6 +79,29 @@ def part_rows(design: Design) -> list[PartRow]:
                             notes=f"{origin}; the stage the circuit feeds: fit this value for "
                                   "the bench test"))
     return rows
+
+
+def _bleeder_rows(design: Design) -> list[PartRow]:
+    """The bleeder across the capacitor: its value, the power and voltage it must take (at
+    the tank's RF peak, the load-open case included) and the rating the job gives, or the
+    least rating to buy."""
+    duty, name = design.bleeder, design.designators.bleeder
+    if duty is None or name is None:
+        return []
+    cap = design.job.capacitor
+    given = []
+    if cap.bleeder_rated_power is not None:
+        given.append(quantity_text(cap.bleeder_rated_power, "W", 3))
+    if cap.bleeder_rated_voltage is not None:
+        given.append(quantity_text(cap.bleeder_rated_voltage, "V", 3) + " peak")
+    buy = (f"buy at least {quantity_text(duty.power_rating_min_w, 'W', 3)} and "
+           f"{quantity_text(duty.voltage_rating_min_v, 'V', 3)} peak working voltage")
+    across = ", ".join(design.designators.capacitors)
+    return [PartRow(name, "Bleeder resistor", quantity_text(duty.resistance_ohm, "Ω"),
+                    rating="; ".join(given) or buy,
+                    notes=f"across {across}; dissipates {quantity_text(duty.power_w, 'W', 3)} "
+                          f"at the {quantity_text(duty.voltage_peak_v, 'V', 3)} RF peak "
+                          f"(V̂²/2R){'' if not given else '; ' + buy}")]
 
 
 def _tolerance(fraction: float | None, source: str | None = None) -> str:

@@ -125,6 +125,18 @@ def form_field_names(record: tuple[RecordRow, ...]) -> tuple[str, ...]:
             + (OVERALL_VERDICT,) + RECORD_TEXT_FIELDS)
 
 
+# Below this loaded Q the response maximum is too flat to read (a Q 10 tank changes by
+# about 0.001 dB over ±0.5 % of f0): f0 is taken as the midpoint of the −3 dB points
+# instead (common practice).
+BROAD_PEAK_Q = 20.0
+
+
+def broad_peak(design: Design) -> bool:
+    """The peak is too broad to read its maximum: loaded Q below BROAD_PEAK_Q."""
+    q = design.resonance.q_loaded
+    return q is not None and q < BROAD_PEAK_Q and design.resonance.f_low_hz is not None
+
+
 def record_rows(design: Design) -> tuple[RecordRow, ...]:
     """The record's measurements, the values this design expects and the pass windows.
 
@@ -137,16 +149,19 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
     expected = {
         "inductance": quantity_text(c.inductance_h, "H"),
         "capacitance": quantity_text(design.capacitor_choice.fixed_f, "F"),
-        "f0": quantity_text(r.f_peak_hz, "Hz"),
+        "f0": quantity_text(0.5 * (r.f_low_hz + r.f_high_hz) if broad_peak(design)
+                            else r.f_peak_hz, "Hz"),
         "f_low": quantity_text(r.f_low_hz, "Hz"),
         "f_high": quantity_text(r.f_high_hz, "Hz"),
         "bandwidth": quantity_text(r.bandwidth_hz, "Hz"),
         "q_loaded": format_number(r.q_loaded, 4),
     }
+    broad = broad_peak(design)
     windows = {
-        "inductance": _part_window(c.inductance_h, a.inductance_tolerance),
-        "capacitance": _part_window(design.capacitor_choice.fixed_f, a.capacitor_tolerance),
-        "f0": (lim.f_peak_min_hz, lim.f_peak_max_hz),
+        "inductance": _printed_window(a.inductance_window, a.inductance_tolerance),
+        "capacitance": _printed_window(a.capacitance_window, a.capacitor_tolerance),
+        "f0": ((lim.f_centre_min_hz, lim.f_centre_max_hz) if broad
+               else (lim.f_peak_min_hz, lim.f_peak_max_hz)),
         "f_low": (lim.f_low_min_hz, lim.f_low_max_hz),
         "f_high": (lim.f_high_min_hz, lim.f_high_max_hz),
         "bandwidth": (lim.bandwidth_min_hz, lim.bandwidth_max_hz),
@@ -155,7 +170,8 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
     limits = {
         "inductance": _tolerance(windows["inductance"], a.inductance_tolerance, "H"),
         "capacitance": _tolerance(windows["capacitance"], a.capacitor_tolerance, "F"),
-        "f0": range_text(lim.f_peak_min_hz, lim.f_peak_max_hz, 'Hz', 6),
+        "f0": range_text(*windows["f0"], 'Hz', 6) + (" (centre of the −3 dB points)"
+                                                      if broad else ""),
         "f_low": range_text(lim.f_low_min_hz, lim.f_low_max_hz, 'Hz', 6),
         "f_high": range_text(lim.f_high_min_hz, lim.f_high_max_hz, 'Hz', 6),
         "bandwidth": range_text(lim.bandwidth_min_hz, lim.bandwidth_max_hz, 'Hz'),
@@ -175,12 +191,14 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
 PART_WINDOW_DIGITS = 4  # significant figures of a part's window as printed
 
 
-def _part_window(nominal: float, fraction: float | None) -> tuple[float, float] | None:
-    """nominal × (1 ± tolerance), each edge rounded inward to the printed figures, so the
-    window printed and the window graded are the same numbers."""
-    if not fraction:
+def _printed_window(window: tuple[float, float] | None,
+                    fraction: float | None) -> tuple[float, float] | None:
+    """A part's window (its tolerance and the meter's accuracy, from the assessment), each
+    edge rounded inward to the printed figures, so the window printed and the window
+    graded are the same numbers."""
+    if not fraction or window is None:
         return None
-    low, high = nominal * (1 - fraction), nominal * (1 + fraction)
+    low, high = window
     return _round_to_figures(low, PART_WINDOW_DIGITS, up=True), \
         _round_to_figures(high, PART_WINDOW_DIGITS, up=False)
 
@@ -194,10 +212,10 @@ def _round_to_figures(value: float, digits: int, up: bool) -> float:
 
 
 def _tolerance(window: tuple[float, float] | None, fraction: float | None, unit: str) -> str:
-    """A part's window as the meter reads it: nominal ± tolerance, and the tolerance."""
+    """A part's window as the meter reads it, with the tolerance it comes from."""
     if window is None:
         return NO_WINDOW
-    return f"{range_text(*window, unit)} ({tolerance_text(fraction)})"
+    return f"{range_text(*window, unit)} ({tolerance_text(fraction)} and the meter)"
 
 
 def _hookup_text(design: Design, drive: BenchDrive) -> str:
@@ -309,7 +327,13 @@ def procedure(design: Design) -> Procedure:
         ("maximum", "Find the response maximum",
          "Sweep and find the maximum of the response; record its frequency"
          + (" in the as-found column" if trimmer else "") + ". Expected "
-         f"{quantity_text(r.f_peak_hz, 'Hz')}; the test record gives the pass window.",
+         f"{quantity_text(r.f_peak_hz, 'Hz')}; the test record gives the pass window."
+         if not broad_peak(design) else
+         f"Sweep and find the maximum of the response. This peak is broad (loaded Q "
+         f"{format_number(r.q_loaded, 3)}, below {BROAD_PEAK_Q:g}): its top is too flat to read, "
+         "so record as f0 the midpoint of the two −3 dB points of the next step, "
+         f"(f low + f high)/2, expected {quantity_text(0.5 * (r.f_low_hz + r.f_high_hz), 'Hz')}"
+         "; the test record gives its window.",
          (), (f"{first_reading}.f0_hz",)),
         ("half_power", "Find the half-power points",
          f"Find the frequencies either side where the response is {-HALF_POWER_DB:.1f} dB "

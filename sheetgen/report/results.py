@@ -12,6 +12,7 @@ import math
 
 from sheetgen import __version__
 from sheetgen.design.records import Design
+from sheetgen.engine.limits import round_outward_significant
 from sheetgen.report.advice import rating_advice
 from sheetgen.report.cautions import DEFERRAL, design_cautions
 from sheetgen.report.checks import failed_checks
@@ -60,6 +61,13 @@ def results_document(design: Design) -> dict:
                 "trimmer_in_range": choice.trimmer_in_range,
                 "built_f": choice.built_f,
             },
+            "capacitance_across": ({
+                "coil_self_f": (None if choice.across.self_source == "none"
+                                else choice.across.self_capacitance_f),
+                "stray_f": choice.across.stray_f,
+                "probe_f": choice.across.probe_f if circuit.topology == "parallel" else None,
+                "total_f": choice.across.total_f,
+            } if choice.across is not None else None),
             "derived": [{"field": d.field, "value": d.value, "unit": d.unit, "reason": d.reason}
                         for d in design.derived],
         },
@@ -92,6 +100,7 @@ def results_document(design: Design) -> dict:
             "load_power_w": stress.load_power_w,
             "inductor_loss_w": stress.inductor_loss_w,
             "capacitor_loss_w": stress.capacitor_loss_w,
+            **_open_load(design.stress_open_load),
         },
         "inductor": _inductor(design),
         "limits": limits_section(design),
@@ -124,6 +133,17 @@ def test_record_section(design: Design) -> dict:
     return {"measurement": {"response": "transmission magnitude, S21 (through the test set-up)",
                             "detector": found.place, "source_hookup": drive.hookup},
             "values": values}
+
+
+def _open_load(open_stress) -> dict:
+    """The same drive with the load disconnected (parallel tanks; null otherwise): the
+    parts are rated against the worse of this and the nominal stress."""
+    keys = ("capacitor_voltage_peak_v", "capacitor_current_rms_a", "inductor_voltage_peak_v",
+            "inductor_current_rms_a")
+    section = {f"open_load_{key}": (getattr(open_stress, key) if open_stress else None)
+               for key in keys}
+    section["open_load_at_frequency_hz"] = open_stress.f_hz if open_stress else None
+    return section
 
 
 def _inductor(design: Design) -> dict:
@@ -182,6 +202,12 @@ def _inductor(design: Design) -> dict:
         "fits": r.fits,
         "remedy": r.remedy if toroid else None,
         "link_turns": coil.link_turns,
+        "link_resistance_ohm": coil.link_resistance_ohm,
+        "coupling": ({"kind": coil.coupling.kind, "turns": coil.coupling.turns,
+                      "resistance_ohm": coil.coupling.resistance_ohm,
+                      "aimed_ohm": coil.coupling.aimed_ohm,
+                      "presented_ohm": coil.coupling.presented_ohm}
+                     if coil.coupling is not None else None),
         "tap_turns": coil.tap_turns,
         "tap_resistance_ohm": coil.tap_resistance_ohm,
         "check": {"inductance_h": check.inductance_h, "tolerance": check.tolerance,
@@ -201,10 +227,31 @@ def limits_section(design: Design) -> dict:
         "trials": lim.trials,
         "seed": lim.seed,
         "distribution": design.job.variation.distribution,
-        "temperature_min_c": a.spec.temperature_min_c,
-        "temperature_max_c": a.spec.temperature_max_c,
+        "temperature_min_c": (a.operating_spec or a.spec).temperature_min_c,
+        "temperature_max_c": (a.operating_spec or a.spec).temperature_max_c,
         "f0_for_tuned_unit": a.tuned,
         "resolution_hz": lim.resolution_hz,
+        "sweep_step_hz": lim.allowance.step_hz if lim.allowance else None,
+        "frequency_accuracy": lim.allowance.frequency_accuracy if lim.allowance else None,
+        "lcr_accuracy": lim.allowance.lcr_accuracy if lim.allowance else None,
+        "tuning_tolerance_hz": (lim.allowance.tuning_hz if lim.allowance and a.tuned
+                                else None),
+        "bench_temperature_min_c": a.spec.temperature_min_c,
+        "bench_temperature_max_c": a.spec.temperature_max_c,
+        "f_centre_min_hz": lim.f_centre_min_hz, "f_centre_max_hz": lim.f_centre_max_hz,
+        "inductance_min_h": a.inductance_window[0] if a.inductance_window else None,
+        "inductance_max_h": a.inductance_window[1] if a.inductance_window else None,
+        "capacitance_min_f": a.capacitance_window[0] if a.capacitance_window else None,
+        "capacitance_max_f": a.capacitance_window[1] if a.capacitance_window else None,
+        "untrimmed_f0_min_hz": a.untrimmed_f0_min_hz,
+        "untrimmed_f0_max_hz": a.untrimmed_f0_max_hz,
+        "must_trim": a.must_trim,
+        "trim_range_needed_f": a.trim_range_needed_f,
+        "capacitor_dielectric_assumed": a.capacitor_temperature_assumed,
+        "inductance_tc_assumed_per_k": a.inductance_tc_assumed,
+        "loss_spread": a.loss_spread,
+        "loss_spread_source": a.loss_spread_source,
+        "over_temperature": _over_temperature(a),
         "f0_min_hz": lim.f0_min_hz, "f0_max_hz": lim.f0_max_hz,
         "f_peak_min_hz": lim.f_peak_min_hz, "f_peak_max_hz": lim.f_peak_max_hz,
         "bandwidth_min_hz": lim.bandwidth_min_hz, "bandwidth_max_hz": lim.bandwidth_max_hz,
@@ -220,6 +267,20 @@ def limits_section(design: Design) -> dict:
         "trimmer_fraction_tunable": trim.fraction_tunable if trim else None,
         "nan_trials": lim.nan_trials,
     }
+
+
+def _over_temperature(a) -> dict | None:
+    """The same figures over the operating range (not bench windows: no instrument
+    allowance), for the record and for whoever qualifies the unit over temperature."""
+    o = a.over_temperature
+    if o is None:
+        return None
+    return {"temperature_min_c": a.operating_spec.temperature_min_c,
+            "temperature_max_c": a.operating_spec.temperature_max_c,
+            "f0_min_hz": o.f0_min_hz, "f0_max_hz": o.f0_max_hz,
+            "f_peak_min_hz": o.f_peak_min_hz, "f_peak_max_hz": o.f_peak_max_hz,
+            "bandwidth_min_hz": o.bandwidth_min_hz, "bandwidth_max_hz": o.bandwidth_max_hz,
+            "q_loaded_min": o.q_loaded_min, "q_loaded_max": o.q_loaded_max}
 
 
 def _variation(design: Design) -> dict:
@@ -248,45 +309,76 @@ def _rating(check) -> dict:
             "acceptance_reason": check.acceptance_reason, "advice": rating_advice(check)}
 
 
-LIMIT_ROWS = (  # CSV rows: quantity, unit, keys of the minimum and maximum
-    ("f0", "Hz", "f0_min_hz", "f0_max_hz"),
-    ("frequency of maximum response", "Hz", "f_peak_min_hz", "f_peak_max_hz"),
-    ("bandwidth (-3 dB)", "Hz", "bandwidth_min_hz", "bandwidth_max_hz"),
-    ("loaded Q", "", "q_loaded_min", "q_loaded_max"),
-    ("lower half-power point", "Hz", "f_low_min_hz", "f_low_max_hz"),
-    ("upper half-power point", "Hz", "f_high_min_hz", "f_high_max_hz"),
-    ("unloaded Q", "", "q_unloaded_min", "q_unloaded_max"),
-    ("impedance at the response maximum", "ohm", "impedance_at_peak_min_ohm",
-     "impedance_at_peak_max_ohm"),
-    ("trimmer capacitance needed", "F", "trim_capacitance_min_f", "trim_capacitance_max_f"),
+LIMIT_ROWS = (  # CSV rows: machine key, label, unit, keys of the minimum and maximum
+    ("f0_hz", "f0", "Hz", "f0_min_hz", "f0_max_hz"),
+    ("f_peak_hz", "frequency of maximum response", "Hz", "f_peak_min_hz", "f_peak_max_hz"),
+    ("f_centre_hz", "centre of the half-power points", "Hz", "f_centre_min_hz",
+     "f_centre_max_hz"),
+    ("bandwidth_hz", "bandwidth (-3 dB)", "Hz", "bandwidth_min_hz", "bandwidth_max_hz"),
+    ("q_loaded", "loaded Q", "", "q_loaded_min", "q_loaded_max"),
+    ("f_low_hz", "lower half-power point", "Hz", "f_low_min_hz", "f_low_max_hz"),
+    ("f_high_hz", "upper half-power point", "Hz", "f_high_min_hz", "f_high_max_hz"),
+    ("q_unloaded", "unloaded Q", "", "q_unloaded_min", "q_unloaded_max"),
+    ("impedance_at_peak_ohm", "impedance at the response maximum", "ohm",
+     "impedance_at_peak_min_ohm", "impedance_at_peak_max_ohm"),
+    ("inductance_h", "inductance (LCR meter)", "H", "inductance_min_h", "inductance_max_h"),
+    ("capacitance_f", "fixed capacitance (LCR meter)", "F", "capacitance_min_f",
+     "capacitance_max_f"),
+    ("trim_capacitance_f", "trimmer capacitance needed", "F", "trim_capacitance_min_f",
+     "trim_capacitance_max_f"),
 )
+PART_DIGITS = 4  # L and C windows, rounded outward to what an LCR meter shows (ours)
+FIGURES = 6  # significant figures of a nominal whose window has no resolution step (ours)
+
+
+def _nominals(design: Design) -> dict:
+    r = design.resonance
+    centre = (0.5 * (r.f_low_hz + r.f_high_hz)
+              if r.f_low_hz is not None and r.f_high_hz is not None else None)
+    return {"f0_hz": r.f0_hz, "f_peak_hz": r.f_peak_hz, "f_centre_hz": centre,
+            "bandwidth_hz": r.bandwidth_hz, "q_loaded": r.q_loaded, "f_low_hz": r.f_low_hz,
+            "f_high_hz": r.f_high_hz, "q_unloaded": r.q_unloaded,
+            "impedance_at_peak_ohm": r.impedance_at_peak_ohm,
+            "inductance_h": design.circuit.inductance_h,
+            "capacitance_f": design.capacitor_choice.fixed_f,
+            "trim_capacitance_f": design.capacitor_choice.trimmer_setting_f}
+
+
+def _rounded(value, unit: str, lim: dict):
+    """A nominal rounded to the resolution its window is rounded to: the frequency step for
+    frequencies, the Q step for Q, else FIGURES significant figures."""
+    if value is None or not math.isfinite(value):
+        return None
+    step = {"Hz": lim["resolution_hz"], "": 0.1}.get(unit)
+    if step:
+        return float(f"{round(value / step) * step:.12g}")
+    return float(f"{value:.{FIGURES}g}")
 
 
 def limits_csv(design: Design) -> str:
-    """The limits as CSV for a work-order system: one row per tested quantity, SI units."""
+    """The limits as CSV for a work-order system: one row per tested quantity, SI units,
+    a stable machine key beside the label, and whether the design passed its checks."""
     import csv
     import io
     lim = limits_section(design)
-    nominal = {"f0_min_hz": design.resonance.f0_hz, "f_peak_min_hz": design.resonance.f_peak_hz,
-               "bandwidth_min_hz": design.resonance.bandwidth_hz,
-               "q_loaded_min": design.resonance.q_loaded,
-               "f_low_min_hz": design.resonance.f_low_hz,
-               "f_high_min_hz": design.resonance.f_high_hz,
-               "q_unloaded_min": design.resonance.q_unloaded,
-               "impedance_at_peak_min_ohm": design.resonance.impedance_at_peak_ohm,
-               "trim_capacitance_min_f": design.capacitor_choice.trimmer_setting_f}
+    nominal = _nominals(design)
+    passed = "yes" if not failed_checks(design) else "no"
     out = io.StringIO()
     writer = csv.writer(out, lineterminator="\n")
-    writer.writerow(["sheet_id", "revision", "quantity", "unit", "nominal", "minimum",
-                     "maximum", "method", "coverage", "seed"])
+    writer.writerow(["sheet_id", "revision", "key", "quantity", "unit", "nominal", "minimum",
+                     "maximum", "method", "coverage", "seed", "design_passed"])
     sheet = design.job.sheet
-    for quantity, unit, low, high in LIMIT_ROWS:
-        if lim[low] is None:
+    for key, quantity, unit, low, high in LIMIT_ROWS:
+        if lim[low] is None or (isinstance(lim[low], float) and not math.isfinite(lim[low])):
             continue
-        writer.writerow([sheet.id, sheet.revision, quantity, unit,
-                         _csv_number(nominal.get(low)), _csv_number(lim[low]),
-                         _csv_number(lim[high]), lim["method"], _csv_number(lim["coverage"]),
-                         "" if lim["seed"] is None else lim["seed"]])
+        minimum, maximum = lim[low], lim[high]
+        if unit in ("H", "F"):  # part windows: outward to PART_DIGITS figures
+            minimum, maximum = round_outward_significant(minimum, maximum, PART_DIGITS)
+        writer.writerow([sheet.id, sheet.revision, key, quantity, unit,
+                         _csv_number(_rounded(nominal.get(key), unit, lim)),
+                         _csv_number(minimum), _csv_number(maximum), lim["method"],
+                         _csv_number(lim["coverage"]),
+                         "" if lim["seed"] is None else lim["seed"], passed])
     return out.getvalue()
 
 
@@ -301,6 +393,7 @@ def limits_json(design: Design) -> str:
     sheet = design.job.sheet
     return json.dumps(_clean({"format": RESULTS_FORMAT, "tool_version": __version__,
                               "sheet": {"id": sheet.id, "revision": sheet.revision},
+                              "design_passed": not failed_checks(design),
                               "limits": limits_section(design)}),
                       indent=2, ensure_ascii=False) + "\n"
 

@@ -46,9 +46,11 @@ def component_rows(design: Design) -> list[Row]:
         Row("Topology", c.topology),
         Row("Inductance L", quantity_text(c.inductance_h, "H"), inductance_remark),
         Row("Coil loss resistance rL", quantity_text(c.inductor_resistance_ohm, "Ω"), loss_remark),
-        Row("Capacitance C", quantity_text(c.capacitance_f, "F"), "as fitted"),
+        Row("Capacitance C", quantity_text(c.capacitance_f, "F"),
+            "as fitted, with what is already across it"),
     ]
     rows += capacitor_rows(design)
+    rows += across_rows(design)
     rows += [
         Row("Capacitor ESR rC", quantity_text(c.capacitor_esr_ohm, "Ω"), "at f0"),
         Row("Source resistance Rs", quantity_text(c.source_resistance_ohm, "Ω")
@@ -58,6 +60,23 @@ def component_rows(design: Design) -> list[Row]:
             _origin(derived, "load.resistance")),
     ]
     return rows
+
+
+def across_rows(design: Design) -> list[Row]:
+    """The capacitance across C that is not a part to fit, subtracted before choosing."""
+    across = design.capacitor_choice.across
+    if across is None:
+        return []
+    source = {"medhurst_1947": "Medhurst (1947)", "job": "from the job"}.get(across.self_source)
+    parts = [f"strays {quantity_text(across.stray_f, 'F')} (capacitor.stray)"]
+    if design.circuit.topology == "parallel":
+        parts.insert(0, "coil self-capacitance none estimated (give inductor.self_capacitance)"
+                     if across.self_source == "none" else
+                     f"coil self-capacitance {quantity_text(across.self_capacitance_f, 'F')}"
+                     f" ({source})")
+        parts.append(f"probe {quantity_text(across.probe_f, 'F')} (test.probe_capacitance)")
+    return [Row("Capacitance already across C", quantity_text(across.total_f, "F"),
+                "subtracted from the capacitance to fit: " + ", ".join(parts))]
 
 
 def capacitor_rows(design: Design) -> list[Row]:
@@ -161,15 +180,31 @@ def coil_rows(design: Design) -> list[Row]:
         rows.append(Row(f"Link winding {design.designators.link or ''}".rstrip(),
                         plural(coil.link_turns, "turn"),
                         f"to {quantity_text(coil.link_resistance_ohm, 'Ω')}: N√(R_link/R_tank) rounded, "
-                        "at least 1"))
+                        "at least 1" + _presented(coil)))
     if coil.tap_turns is not None:
         rows.append(Row("Tap", f"at turn {coil.tap_turns} from the start (cold) end",
-                        f"for {quantity_text(coil.tap_resistance_ohm, 'Ω')}: N√(R_tap/R_tank) rounded"))
+                        f"for {quantity_text(coil.tap_resistance_ohm, 'Ω')}: N√(R_tap/R_tank) rounded"
+                        + _presented(coil)))
     return rows
+
+
+def _presented(coil) -> str:
+    """What the whole-turn link or tap presents to the tank, beside what was aimed at."""
+    c = coil.coupling
+    if c is None:
+        return ""
+    return (f"; presents {quantity_text(c.presented_ohm, 'Ω')} to the tank "
+            f"(aimed at {quantity_text(c.aimed_ohm, 'Ω')})")
 
 
 def _origin(derived: dict, field: str) -> str:
     return f"computed: {derived[field]}" if field in derived else ""
+
+
+def _as_built(design: Design, field: str) -> str:
+    """The reason a figure is the as-built one (a Derivation), with the job's target."""
+    reasons = {d.field: d.reason for d in design.derived}
+    return reasons.get(field, "")
 
 
 def performance_rows(design: Design) -> list[Row]:
@@ -187,12 +222,15 @@ def performance_rows(design: Design) -> list[Row]:
     rows += [
         Row("Lower half-power (−3 dB) point", quantity_text(r.f_low_hz, "Hz")),
         Row("Upper half-power (−3 dB) point", quantity_text(r.f_high_hz, "Hz")),
-        Row("Bandwidth (−3 dB)", quantity_text(r.bandwidth_hz, "Hz")),
+        Row("Bandwidth (−3 dB)", quantity_text(r.bandwidth_hz, "Hz"),
+            _as_built(design, "resonance.bandwidth")),
         Row("Reactance at f0", quantity_text(r.reactance_ohm, "Ω")),
         Row("Coil Q", format_number(r.q_inductor, 4), "X0/rL"),
         Row("Capacitor Q", format_number(r.q_capacitor, 4), "X0/rC"),
         Row("Unloaded Q", format_number(r.q_unloaded, 4), "X0/(rL + rC)"),
-        Row("Loaded Q", format_number(r.q_loaded, 4), "f0/bandwidth"),
+        Row("Loaded Q", format_number(r.q_loaded, 4), "f0/bandwidth"
+            + ("; " + _as_built(design, "resonance.q_loaded")
+               if _as_built(design, "resonance.q_loaded") else "")),
         Row("Impedance at the response maximum", quantity_text(r.impedance_at_peak_ohm, "Ω"),
             "source resistance excluded"),
     ]
@@ -206,9 +244,19 @@ def stress_rows(design: Design) -> list[Row]:
     """Voltages, currents and powers at the response maximum for the job's drive."""
     s = design.stress
     drive = design.drive
+    o = design.stress_open_load
     drive_text = {"voltage": quantity_text(drive.value, "V") + " rms open-circuit",
                   "current": quantity_text(drive.value, "A") + " rms",
                   "available_power": quantity_text(drive.value, "W") + " available"}[drive.kind]
+    open_rows = [] if o is None else [
+        Row("Capacitor voltage, load open", quantity_text(o.capacitor_voltage_peak_v, "V")
+            + " peak", f"the same drive, load disconnected, at {quantity_text(o.f_hz, 'Hz')}; "
+            "parts are rated against the worse case"),
+        Row("Capacitor current, load open", quantity_text(o.capacitor_current_rms_a, "A")
+            + " rms"),
+        Row("Coil voltage, load open", quantity_text(o.inductor_voltage_peak_v, "V") + " peak"),
+        Row("Coil current, load open", quantity_text(o.inductor_current_rms_a, "A") + " rms"),
+    ]
     return [
         Row("Drive", drive_text, f"at {quantity_text(s.f_hz, 'Hz')}"),
         Row("Power into the circuit", quantity_text(s.drive_power_w, "W")),
@@ -226,7 +274,7 @@ def stress_rows(design: Design) -> list[Row]:
             if design.coil is not None and design.coil.link_turns is not None else
             "across the tank; the tap steps it down to its load"
             if design.coil is not None and design.coil.tap_turns is not None else ""),
-    ]
+    ] + open_rows
 
 
 def limits_rows(design: Design) -> list[Row]:
@@ -259,8 +307,9 @@ def limits_rows(design: Design) -> list[Row]:
     ]
     if a.trimmer is not None:
         t = a.trimmer
-        needed = (f"{quantity_text(t.needed_min_f, 'F')} to {quantity_text(t.needed_max_f, 'F')}"
-                  if t.needed_min_f >= 0 else f"up to {quantity_text(t.needed_max_f, 'F')}")
+        needed = (range_text(t.needed_min_f, t.needed_max_f, "F") if t.needed_min_f >= 0 else
+                  f"up to {quantity_text(t.needed_max_f, 'F')}" if t.needed_max_f > 0 else
+                  "none can tune it")
         note = ("covered" if t.covers else
                 f"NOT COVERED: the trimmer tunes {t.fraction_tunable * 100:.1f} % of builds")
         if t.needed_min_f < 0:  # never a negative capacitance: say what it means
@@ -271,9 +320,14 @@ def limits_rows(design: Design) -> list[Row]:
               f"{lim.coverage * 100:.2f} % coverage" if lim.method == "monte-carlo"
               else f"worst case over {lim.trials} corners")
     spec = a.spec
+    operating = a.operating_spec or spec
+    rows += _bench_rows(design)
     rows += [
         Row("Method", method, f"bands read as {design.job.variation.distribution}"),
-        Row("Temperature range", f"{spec.temperature_min_c:g} to {spec.temperature_max_c:g} °C"),
+        Row("Bench ambient", f"{spec.temperature_min_c:g} to {spec.temperature_max_c:g} °C",
+            "the windows above are for a test in this range (test.ambient)"),
+        Row("Temperature range", f"{operating.temperature_min_c:g} to "
+            f"{operating.temperature_max_c:g} °C", "operating range: see over temperature"),
         Row("Capacitor tolerance", tolerance_text(a.capacitor_tolerance),
             f"from {a.capacitor_tolerance_source}"),
         Row("Inductance tolerance", tolerance_text(a.inductance_tolerance)
@@ -285,17 +339,71 @@ def limits_rows(design: Design) -> list[Row]:
 
 
 def _loss_spread_row(design: Design) -> Row:
-    """How the coil's and capacitor's losses were varied, and what that means for the
-    bandwidth window when the coil's Q is only an estimate."""
-    spread = design.job.variation.loss_tolerance
-    estimated = design.coil is not None and design.coil.q_source == "estimate"
-    if spread:
-        return Row("Loss resistance spread", tolerance_text(spread),
+    """How the coil's and capacitor's losses were varied: the job's spread, or the stated
+    default for a coil Q that is only an estimate."""
+    a = design.assessment
+    if a.loss_spread_source == "job":
+        return Row("Loss resistance spread", tolerance_text(a.loss_spread),
                    "coil loss and capacitor ESR")
-    return Row("Loss resistance spread", "none given",
-               "the bandwidth and Q windows assume the estimated coil Q; give "
-               "variation.loss_tolerance to widen them" if estimated else
-               "coil loss and ESR taken as exact")
+    if a.loss_spread_source == "estimate":
+        return Row("Loss resistance spread", tolerance_text(a.loss_spread),
+                   "coil loss: the coil Q is an estimate (common practice); give the "
+                   "measured inductor.q or variation.loss_tolerance to change it")
+    return Row("Loss resistance spread", "none given", "coil loss and ESR taken as exact")
+
+
+def _bench_rows(design: Design) -> list[Row]:
+    """What the windows allow for besides the parts, what was assumed, the part windows,
+    whether the unit must be trimmed, and the figures over the operating range."""
+    a = design.assessment
+    lim = a.limits
+    rows = []
+    if lim.allowance is not None:
+        al = lim.allowance
+        text = (f"sweep step {quantity_text(al.step_hz, 'Hz', 3)}, frequency "
+                f"± {format_number(al.frequency_accuracy * 1e6, 3)} ppm, LCR and |Z| "
+                f"{tolerance_text(al.lcr_accuracy)}")
+        if a.tuned:
+            text += f", tuned to within ± {quantity_text(al.tuning_hz, 'Hz', 3)}"
+        rows.append(Row("Windows include", text, "what the bench cannot tell apart "
+                        "(test.frequency_accuracy, test.lcr_accuracy, test.tuning_tolerance)"))
+    rows.append(Row("Centre frequency window",
+                    range_text(lim.f_centre_min_hz, lim.f_centre_max_hz, "Hz", 6),
+                    "midpoint of the −3 dB points; for broad peaks"))
+    if a.inductance_window is not None:
+        rows.append(Row("Inductance window", range_text(*a.inductance_window, "H"),
+                        "as the LCR meter reads L1"))
+    if a.capacitance_window is not None:
+        rows.append(Row("Capacitance window", range_text(*a.capacitance_window, "F"),
+                        "as the LCR meter reads the fixed part(s)"))
+    if a.untrimmed_f0_min_hz is not None:
+        state = ("TRIMMING REQUIRED: wider than the bandwidth" if a.must_trim
+                 else "within the bandwidth")
+        rows.append(Row("Untrimmed f0 spread",
+                        range_text(a.untrimmed_f0_min_hz, a.untrimmed_f0_max_hz, "Hz", 6),
+                        f"as assembled; {state}; retuning every build takes "
+                        f"{quantity_text(a.trim_range_needed_f, 'F')}"))
+    if a.capacitor_temperature_assumed:
+        rows.append(Row("Capacitor dielectric", f"{a.capacitor_temperature_assumed} assumed",
+                        "none named: the widest class; name capacitor.dielectric"))
+    if a.inductance_tc_assumed is not None:
+        rows.append(Row("Coil temperature coefficient",
+                        f"{signed(a.inductance_tc_assumed * 1e6, 0)} ppm/K assumed",
+                        "copper's thermal expansion (air coil); give "
+                        "inductor.temperature_coefficient"))
+    o = a.over_temperature
+    if o is not None:
+        rows += [
+            Row("Over temperature: f0", range_text(o.f0_min_hz, o.f0_max_hz, "Hz", 6),
+                "operating range, not a bench window"),
+            Row("Over temperature: peak frequency",
+                range_text(o.f_peak_min_hz, o.f_peak_max_hz, "Hz", 6)),
+            Row("Over temperature: bandwidth",
+                range_text(o.bandwidth_min_hz, o.bandwidth_max_hz, "Hz")),
+            Row("Over temperature: loaded Q", f"{format_number(o.q_loaded_min, 4)} to "
+                f"{format_number(o.q_loaded_max, 4)}"),
+        ]
+    return rows
 
 
 def rating_rows(design: Design) -> list[Row]:

@@ -56,6 +56,12 @@ class Schematic:
     link: Part | None = None
     tap_label: str | None = None
     cored: bool = False
+    bleeder: Part | None = None  # a resistor across the capacitors
+
+    @property
+    def across_capacitors(self) -> tuple[Part, ...]:
+        """The capacitors and, beside them, a bleeder when there is one."""
+        return self.capacitors + ((self.bleeder,) if self.bleeder is not None else ())
 
 
 def schematic_of(design: Design) -> Schematic:
@@ -68,7 +74,7 @@ def schematic_of(design: Design) -> Schematic:
         capacitors = [Part(name, "capacitor", quantity_text(value, "F", 3))
                       for name, value in zip(names.fixed_capacitors, choice.fixed_parts_f)]
     else:
-        capacitors = [Part(names.fixed_capacitors[0], "capacitor", quantity_text(c.capacitance_f, "F"))]
+        capacitors = [Part(names.fixed_capacitors[0], "capacitor", quantity_text(choice.fixed_f, "F"))]
     trimmer = design.job.capacitor.trimmer
     if names.trimmer is not None and trimmer is not None:
         capacitors.append(Part(names.trimmer, "trimmer",
@@ -93,7 +99,11 @@ def schematic_of(design: Design) -> Schematic:
                      source_resistor, load, link,
                      tap_label=(f"tap, turn {coil.tap_turns}: to {names.load_resistor}"
                                 if coil is not None and coil.tap_turns is not None else None),
-                     cored=coil is not None and coil.form == "toroid")
+                     cored=coil is not None and coil.form == "toroid",
+                     bleeder=(Part(names.bleeder, "resistor",
+                                   quantity_text(design.bleeder.resistance_ohm, "Ω"))
+                              if names.bleeder is not None and design.bleeder is not None
+                              else None))
 
 
 # --- primitives ---------------------------------------------------------------------------
@@ -257,7 +267,7 @@ def _series(g, s: Schematic, x_source, y_bottom, y_top):
     x += gap + length
     _line(g, x, y_top, x + gap, y_top)
     x += gap
-    x, labels_end = _capacitor_bank(g, s.capacitors, x, y_top)
+    x, labels_end = _capacitor_bank(g, s.across_capacitors, x, y_top)
     x_right = max(x + gap, labels_end + 34.0)
     _line(g, x, y_top, x_right, y_top)
     if s.load is not None:
@@ -308,7 +318,8 @@ def _parallel(g, s: Schematic, x_source, y_bottom, y_top):
     linked = s.link is not None
     tapped = s.tap_label is not None and s.load is not None and not linked
     coupled = linked or tapped  # L1 goes last, its label on its left, the load beside it
-    branches = [s.inductor, *s.capacitors] if not coupled else [*s.capacitors, s.inductor]
+    branches = ([s.inductor, *s.across_capacitors] if not coupled
+                else [*s.across_capacitors, s.inductor])
     if s.load is not None and not coupled:
         branches.append(s.load)
     x_branch = x + 36.0

@@ -156,11 +156,16 @@ def _series_fine(results):
     return f0 - 3 * bandwidth, f0 + 3 * bandwidth, (high - low) / 4
 
 
+def _fitted_pf(results) -> str:
+    """The fixed capacitors as fitted (the parts list's value), typed as a meter shows it."""
+    return f"{results['components']['capacitor_build']['fixed_total_f'] * 1e12:.2f} pF"
+
+
 def test_series_touchstone_passes_and_the_report_is_written(root, tmp_path, capsys):
     pdf, results = _sheet(root, "series")
     frequency_hz, current, impedance, load = _simulate(results, *_series_fine(results))
     sweep = _touchstone(tmp_path / "unit.s2p", frequency_hz, current, impedance, load)
-    values = {"measured.capacitance_f": "13.8 pF", **IDENTITY}
+    values = {"measured.capacitance_f": _fitted_pf(results), **IDENTITY}
     filled = fill(pdf, values, tmp_path / "filled.pdf")
     report = tmp_path / "report.pdf"
     assert main(["grade", str(filled), "--sweep", str(sweep), "-o", str(report)]) == 0
@@ -170,7 +175,10 @@ def test_series_touchstone_passes_and_the_report_is_written(root, tmp_path, caps
         text = " ".join(subprocess.run(["pdftotext", str(report), "-"], capture_output=True,
                                        text=True, check=True).stdout.split())
         assert "TS-1356" in text and "SN-0042" in text and "Verdicts" in text
-        assert "f0 min 13.2200 MHz" in text and "f0 max 13.9000 MHz" in text
+        from sheetgen.quantities import format_quantity
+        low, high = _window(results, "f0_hz")
+        assert f"f0 min {format_quantity(low, 'Hz', 6)}" in text
+        assert f"f0 max {format_quantity(high, 'Hz', 6)}" in text
     assert fonts_not_embedded(report) == []
     from pypdf import PdfReader
     reader = PdfReader(report)
@@ -191,25 +199,41 @@ def test_series_detuned_by_twice_the_f0_window_fails(root, tmp_path):
         results, start + (detuned - f0), stop + (detuned - f0), step,
         capacitance_scale=(f0 / detuned) ** 2)
     sweep = _touchstone(tmp_path / "detuned.s2p", frequency_hz, current, impedance, load)
-    filled = fill(pdf, {"measured.capacitance_f": "13.8 pF", **IDENTITY}, tmp_path / "f.pdf")
+    filled = fill(pdf, {"measured.capacitance_f": _fitted_pf(results), **IDENTITY},
+                  tmp_path / "f.pdf")
     assert main(["grade", str(filled), "--sweep", str(sweep)]) == 1
     grading = _grade(filled, sweep)
     assert {v.field: v.verdict for v in grading.as_left}["measured.f0_hz"] == "fail"
 
 
-def test_series_sheets_own_step_is_too_coarse(root, tmp_path, capsys):
-    """The series sheet's bandwidth window is 10 kHz wide, so the sweep must resolve 5 kHz;
-    the sheet's own 10 kHz step is refused, naming the span and the step needed."""
+def test_series_sheets_own_step_resolves_its_windows(root, tmp_path, capsys):
+    """The windows include the sweep step the sheet prints (half of it on each edge), so the
+    sheet's own sweep resolves them: graded, not refused as too coarse."""
     pdf, results = _sheet(root, "series")
     frequency_hz, current, impedance, load = _simulate(results, *_sheet_sweep("series"))
+    sweep = _touchstone(tmp_path / "own.s2p", frequency_hz, current, impedance, load)
+    assert main(["grade", str(pdf), "--sweep", str(sweep)]) in (0, 1)
+    assert "too coarse" not in capsys.readouterr().err
+    low, high = _window(results, "bandwidth_hz")
+    step = frequency_hz[1] - frequency_hz[0]
+    assert step <= (high - low) / 2, "the sheet's step fits the bandwidth window"
+
+
+def test_a_sweep_coarser_than_the_windows_is_refused(root, tmp_path, capsys):
+    """A sweep stepped at the whole bandwidth window's width cannot resolve it: refused,
+    naming the span and the step needed."""
+    pdf, results = _sheet(root, "series")
+    low, high = _window(results, "bandwidth_hz")
+    f0, bandwidth = results["resonance"]["f_peak_hz"], results["resonance"]["bandwidth_hz"]
+    frequency_hz, current, impedance, load = _simulate(results, f0 - 3 * bandwidth,
+                                                       f0 + 3 * bandwidth, 2.0 * (high - low))
     sweep = _touchstone(tmp_path / "coarse.s2p", frequency_hz, current, impedance, load)
     assert main(["grade", str(pdf), "--sweep", str(sweep)]) == 2
     err = capsys.readouterr().err
-    assert "too coarse" in err
+    assert "too coarse" in err or "points" in err
     step = re.search(r"in steps of ([\d.]+ \S*Hz) or finer", err)
     span = re.search(r"span ([\d.]+ \S*Hz)", err)
     assert step and span, err
     from sheetgen.quantities import FREQUENCY, parse_quantity
-    low, high = _window(results, "bandwidth_hz")
     assert parse_quantity(step.group(1), FREQUENCY) <= (high - low) / 2
-    assert parse_quantity(span.group(1), FREQUENCY) >= 6 * results["resonance"]["bandwidth_hz"]
+    assert parse_quantity(span.group(1), FREQUENCY) >= 6 * bandwidth

@@ -41,7 +41,7 @@ def _jobs(folder: Path) -> dict[str, Path]:
                            .replace("esr: 0.05 ohm", "esr: low"), encoding="utf-8")
     jobs["failing"] = folder / "failing.yaml"  # 500 V parts under ~1 kV peak: rating fails
     jobs["failing"].write_text((TEMPLATES / "power-tank.yaml").read_text(encoding="utf-8")
-                               .replace("rated_voltage: 2 kV", "rated_voltage: 500 V"),
+                               .replace("  rated_voltage: 3 kV", "  rated_voltage: 500 V", 1),
                                encoding="utf-8")
     (folder / "style-house.yaml").write_text(
         (TEMPLATES / "style-default.yaml").read_text(encoding="utf-8"), encoding="utf-8")

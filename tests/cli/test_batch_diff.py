@@ -37,6 +37,9 @@ def _revisions(tmp_path):
 
 def _moved_limits(capsys, a, b) -> dict[str, tuple]:
     docs = [json.loads(_run(capsys, "check", job, "--json")[1])["limits"] for job in (a, b)]
+    for doc in docs:  # nested figures (over temperature) by their dotted key, as printed
+        for key in [k for k, v in doc.items() if isinstance(v, dict)]:
+            doc.update({f"{key}.{sub}": v for sub, v in doc.pop(key).items()})
     moved = {}
     for key, value in docs[0].items():
         other = docs[1][key]

@@ -20,6 +20,8 @@ inductor:
   q: 100
 capacitor:
   capacitance: {c}
+  tolerance: 0.1 %     # a selected part: no trimmer is needed to stay in the band
+  dielectric: C0G
   dissipation_factor: 0.1 %
   preferred_series: E12
 source:
@@ -37,4 +39,5 @@ def test_a_standard_value_given_as_the_capacitance_checks(tmp_path, capsys):
     assert "Traceback" not in out.err
     assert code == 0, out.err
     got = json.loads(out.out)
-    assert abs(got["components"]["capacitance_f"] / 56e-12 - 1) < 1e-12
+    build = got["components"]["capacitor_build"]
+    assert abs(build["fixed_total_f"] / 56e-12 - 1) < 1e-12, build  # the part given, fitted

@@ -163,3 +163,17 @@ def test_given_self_capacitance_sets_the_toroid_srf(tmp_path, capsys):
     srf = 1 / (2 * math.pi * math.sqrt(got["inductance_built_h"] * 3e-12))
     assert plain["srf_hz"] is None and abs(got["srf_hz"] / srf - 1) < 1e-12
     assert got["q_estimated"] < plain["q_estimated"]
+
+
+@pytest.mark.parametrize("resistance, code_word", [("50 kohm", "more than the 23-turn"),
+                                                   ("0.1 ohm", "below its reactance")])
+def test_link_that_cannot_present_the_tank_load_fails_with_a_remedy(tmp_path, capsys,
+                                                                     resistance, code_word):
+    """Ideal transformer (any textbook): R at M of N turns presents R·(N/M)². A link of more
+    turns than the tank (50 kΩ onto a ~23 kΩ tank load needs 23·√(50/23) ≈ 34 turns) steps
+    the load up; one that presents less than X0 (0.1 Ω · 23² = 53 Ω < X0 ≈ 97 Ω) leaves a
+    loaded Q under 1. Either is a failed check (exit 1), not "fits, all pass"."""
+    text = TOROID.replace("    resistance: 50 ohm\n", f"    resistance: {resistance}\n")
+    code, out, _ = _run(capsys, "check", _job(tmp_path, text), "--library", ROOT / "shared")
+    assert code == 1
+    assert code_word in out

@@ -73,15 +73,19 @@ def test_design_mode_hits_its_targets_in_ngspice(tmp_path, topology, f0, selecti
     measured = _measure(got["components"], topology)
     parts = got["components"]
     build = parts["capacitor_build"]
-    thomson = 1 / (2 * math.pi * math.sqrt(parts["inductance_h"] * build["required_f"]))
+    # The parts to fit are the total less what is already across C (coil, strays, probe).
+    across = parts["capacitance_across"]["total_f"]
+    thomson = 1 / (2 * math.pi * math.sqrt(parts["inductance_h"]
+                                           * (build["required_f"] + across)))
     assert_close(thomson, f0_hz, rel=1e-9, what="f0 of the required C (Thomson's formula)")
-    assert_close(parts["capacitance_f"], sum(build["fixed_parts_f"]), rel=1e-12,
-                 what="the analysed C is the standard parts fitted")
+    assert_close(parts["capacitance_f"], sum(build["fixed_parts_f"]) + across, rel=1e-12,
+                 what="the analysed C is the standard parts fitted and what is across them")
     # With standard parts instead of the exact C, f0 moves as f ∝ C^-½ (Thomson's formula).
     fitted = 1 / (2 * math.pi * math.sqrt(parts["inductance_h"] * parts["capacitance_f"]))
     if topology == "series":
         assert_close(measured.f_peak_hz, fitted, rel=REL, what="series peak in ngspice")
-    assert_close(fitted, f0_hz * (build["built_f"] / build["required_f"]) ** -0.5, rel=1e-9,
+    assert_close(fitted, f0_hz * ((build["built_f"] + across) / (build["required_f"] + across))
+                 ** -0.5, rel=1e-9,
                  what="f0 with the fitted parts")
     # A pair is fitted only when it beats the nearest single part by more than the parts'
     # tolerance (E12: ±10 %), so the fitted C is at worst half the widest E12 step (IEC

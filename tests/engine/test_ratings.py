@@ -68,7 +68,7 @@ def test_voltage_failure_says_by_how_much_and_what_to_fit():
     assert rating_advice(check) == (
         "C1: peak voltage 1.42 kV is 42.0 % over the allowed 1.00 kV (50.0 % of its 2.00 kV "
         "rating). Fit a capacitor rated at least 2.84 kV, or 2 of the present rating in "
-        "series, each of 2× the capacitance, or lower the drive to at most 2.48 W.")
+        "series, each of 2× the capacitance, or lower the drive to at most 2.48 W into the circuit.")
 
 
 def test_current_failure_suggests_parts_in_parallel():

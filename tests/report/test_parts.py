@@ -223,7 +223,8 @@ def test_schematic_parts_list_and_ratings_use_the_same_designators(name):
     design = _design(name)
     schematic = schematic_of(design)
     drawn = {schematic.inductor.designator, *(p.designator for p in schematic.capacitors)}
-    drawn |= {p.designator for p in (schematic.source_resistor, schematic.load, schematic.link)
+    drawn |= {p.designator for p in (schematic.source_resistor, schematic.load, schematic.link,
+                                     schematic.bleeder)
               if p is not None}
     listed = [row.designator for row in part_rows(design)]
     assert len(listed) == len(set(listed)), "each part listed once"
@@ -232,8 +233,45 @@ def test_schematic_parts_list_and_ratings_use_the_same_designators(name):
     assert rated <= set(listed), rated - set(listed)
     names = design.designators
     expected = {names.coil, *names.capacitors, names.source_resistor, names.load_resistor,
-                names.link} - {None}
+                names.link, names.bleeder} - {None}
     assert set(listed) == expected
+
+
+BLEEDER_JOB = (TEMPLATES / "power-tank.yaml").read_text(encoding="utf-8")
+
+
+def _bleeder_design(tmp_path, extra=""):
+    text = BLEEDER_JOB.replace("  bleeder: 1 Mohm\n", "  bleeder: 1 Mohm\n" + extra)
+    assert "bleeder: 1 Mohm" in text
+    path = tmp_path / "job.yaml"
+    path.write_text(text, encoding="utf-8")
+    return design_from_file(path)
+
+
+def test_bleeder_is_a_part_drawn_listed_and_rated(tmp_path):
+    """The bleeder across the tank sees its RF voltage: P = V̂²/(2R) (Joule's law for a
+    sinusoid of peak V̂), at the worse (load-open) peak; half its rating (common practice)."""
+    design = _bleeder_design(tmp_path)
+    name = design.designators.bleeder
+    assert name is not None and name.startswith("R")
+    assert schematic_of(design).bleeder.designator == name
+    (row,) = [r for r in part_rows(design) if r.designator == name]
+    peak = max(design.stress.capacitor_voltage_peak_v,
+               design.stress_open_load.capacitor_voltage_peak_v)
+    power = peak**2 / (2 * 1e6)
+    assert f"dissipates {format_quantity(power, 'W', 3)}" in row.notes
+    assert row.rating == (f"buy at least {format_quantity(2 * power, 'W', 3)} and "
+                          f"{format_quantity(peak, 'V', 3)} peak working voltage")
+    assert not [c for c in design.assessment.ratings if c.part == name], "no rating given"
+    low = _bleeder_design(tmp_path, "  bleeder_rated_power: 0.5 W\n"
+                                    "  bleeder_rated_voltage: 500 V\n")
+    checks = {c.quantity: c for c in low.assessment.ratings if c.part == name}
+    assert checks["power"].status == "fail" and checks["working voltage"].status == "fail"
+    assert_close(checks["power"].remedy.required_rating, 2 * power, rel=1e-9,
+                 what="power rating to buy")
+    good = _bleeder_design(tmp_path, "  bleeder_rated_power: 2 W\n"
+                                     "  bleeder_rated_voltage: 1.5 kV\n")
+    assert all(c.passed for c in good.assessment.ratings if c.part == name)
 
 
 def test_designators_come_from_the_design_alone():
@@ -268,19 +306,19 @@ def test_designators_agree_on_the_printed_sheet(tmp_path):
 # --- the parts list ------------------------------------------------------------------------
 
 def test_parts_list_shows_the_dielectric_and_ratings_the_job_gives():
-    """templates/power-tank.yaml: C0G, 2 kV peak, 5 A rms and 2 W per fixed part, a 3 kV trimmer,
+    """templates/power-tank.yaml: C0G, 3 kV peak, 10 A rms and 5 W per fixed part, a 3 kV trimmer,
     5 % tolerance. C0G is a class 1 dielectric (EIA-198, IEC 60384-8; from memory)."""
     design = _design("power-tank")
     rows = {row.designator: row for row in part_rows(design)}
     for fixed in ("C1", "C2"):
         assert rows[fixed].material == "C0G (class 1)"
-        assert rows[fixed].rating == (f"{format_quantity(2e3, 'V', 3)} peak; "
-                                      f"{format_quantity(5.0, 'A', 3)} rms; "
-                                      f"{format_quantity(2.0, 'W', 3)} in its ESR")
+        assert rows[fixed].rating == (f"{format_quantity(3e3, 'V', 3)} peak; "
+                                      f"{format_quantity(10.0, 'A', 3)} rms; "
+                                      f"{format_quantity(5.0, 'W', 3)} in its ESR")
         assert rows[fixed].tolerance == "± 2.00 % (job)"
     assert rows["C3"].rating == format_quantity(3e3, "V", 3) + " peak"
     assert rows["C3"].material == NO_DATA, "the job gives no trimmer dielectric"
-    assert "air core" in rows["L1"].material and "AWG 6" in rows["L1"].material
+    assert "air core" in rows["L1"].material and "AWG 4" in rows["L1"].material
 
 
 def test_parts_list_tolerance_follows_the_series_when_the_job_gives_none():
@@ -289,7 +327,7 @@ def test_parts_list_tolerance_follows_the_series_when_the_job_gives_none():
     design = _design("solenoid")
     rows = {row.designator: row for row in part_rows(design)}
     assert rows["C1"].tolerance == "± 5.00 % (IEC 60063 E24)"
-    assert rows["C1"].material == NO_DATA and rows["C1"].rating == NO_DATA
+    assert rows["C1"].material == "C0G (class 1)" and rows["C1"].rating == NO_DATA
 
 
 def test_parts_list_of_a_ring_coil_names_material_wire_and_flux_limit():
@@ -311,7 +349,7 @@ def test_parts_list_on_the_sheet(tmp_path):
     built = build(tmp_path, (TEMPLATES / "power-tank.yaml").read_text(encoding="utf-8"),
                   "power-tank")
     text = page_text(built.pdf_path)
-    for words in ("C0G (class 1)", "2.00 kV peak; 5.00 A rms", "3.00 kV peak",
+    for words in ("C0G (class 1)", "3.00 kV peak; 10.0 A rms", "3.00 kV peak",
                   "± 2.00 % (job)"):
         assert words in text, words
 

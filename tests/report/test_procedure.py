@@ -18,6 +18,7 @@ import pytest
 from sheetgen.design.pipeline import design_from_file
 from sheetgen.engine import bench
 from sheetgen.engine.bench import HALF_POWER_DB, dbm_from_emf, nice_at_least, nice_at_most
+from sheetgen.report.formatting import range_text
 from sheetgen.report.procedure import form_field_names, procedure
 from sheetgen.report.results import results_document
 from tests.support import assert_close
@@ -195,17 +196,41 @@ def test_an_untrimmed_unit_has_no_as_found_column(tmp_path):
 
 
 def test_part_windows_are_absolute_values_a_meter_reads():
-    """L and C windows are nominal × (1 ± tolerance), shown as values as well as percent,
-    each edge rounded inward to the 4 figures printed: the window graded is the one printed."""
+    """L and C windows are nominal × (1 ± tolerance) × (1 ± the LCR meter's accuracy, 1 %
+    by default, common practice), shown as values as well as percent, each edge rounded
+    inward to the 4 figures printed: the window graded is the one printed."""
     import math
     d = design_from_file(TEMPLATES / "demo.yaml", SHARED)
     rows = {row.measurement.key: row for row in procedure(d).record}
     L, tol = d.circuit.inductance_h, d.assessment.inductance_tolerance
+    meter = d.job.test.lcr_accuracy
+    assert meter == 0.01
     row = rows["inductance"]
-    low_uh, high_uh = L * (1 - tol) * 1e6, L * (1 + tol) * 1e6  # 2.1... and 2.4... µH
+    low_uh = L * (1 - tol) * (1 - meter) * 1e6  # 2.1… µH
+    high_uh = L * (1 + tol) * (1 + meter) * 1e6  # 2.4… µH
     assert_close(row.minimum * 1e6, math.ceil(low_uh * 1000 - 1e-9) / 1000, abs=1e-12,
                  what="lower edge rounded up to 4 figures, µH")
     assert_close(row.maximum * 1e6, math.floor(high_uh * 1000 + 1e-9) / 1000, abs=1e-12,
                  what="upper edge rounded down to 4 figures, µH")
     assert row.limits.startswith(f"{row.minimum * 1e6:.3f} µH to {row.maximum * 1e6:.3f} µH")
-    assert "± 5.00 %" in row.limits
+
+
+@pytest.mark.parametrize("name, broad", [("series", True), ("power-tank", True),
+                                         ("toroid", False)])
+def test_broad_peaks_are_read_at_the_centre_of_the_half_power_points(name, broad):
+    """Below a loaded Q of 20 (common practice) the top of the response is too flat to read
+    (a Q 8 series circuit changes by ~0.001 dB within ±0.1 % of f0, from |H| =
+    1/√(1 + Q²(f/f0 − f0/f)²)); f0 is then the midpoint of the −3 dB points, and the record
+    windows that midpoint."""
+    d = design_from_file(TEMPLATES / f"{name}.yaml", SHARED)
+    steps = {s.title: s.text for s in procedure(d).steps}
+    rows = {row.measurement.key: row for row in procedure(d).record}
+    lim = d.assessment.limits
+    if broad:
+        assert d.resonance.q_loaded < 20
+        assert "midpoint of the two −3 dB points" in steps["Find the response maximum"]
+        assert rows["f0"].limits.startswith(
+            range_text(lim.f_centre_min_hz, lim.f_centre_max_hz, "Hz", 6))
+    else:
+        assert "midpoint" not in steps["Find the response maximum"]
+        assert rows["f0"].limits == range_text(lim.f_peak_min_hz, lim.f_peak_max_hz, "Hz", 6)

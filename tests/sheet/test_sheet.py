@@ -137,6 +137,22 @@ def shown(path: str, key: str, value, results: dict) -> str | None:
         return format_number(value * 1e6, 4) + " mm²"
     if key == "ve_m3":
         return format_number(value * 1e9, 4) + " mm³"
+    if path == "limits.frequency_accuracy":
+        return f"± {format_number(value * 1e6, 3)} ppm"
+    if path in ("limits.lcr_accuracy", "limits.loss_spread"):
+        return format_number(value * 100, 3) + " %"
+    if path == "limits.inductance_tc_assumed_per_k":
+        return f"{value * 1e6:+.0f} ppm/K".replace("-", "\u2212")
+    if path in ("limits.sweep_step_hz", "limits.tuning_tolerance_hz"):
+        return format_quantity(value, "Hz", 3)
+    if re.fullmatch(r"limits\.(bench_)?temperature_(min|max)_c|"
+                    r"limits\.over_temperature\.temperature_(min|max)_c", path):
+        return f"{value:g}"
+    if re.fullmatch(r"limits\.(f_centre|untrimmed_f0)_(min|max)_hz|"
+                    r"limits\.over_temperature\.(f0|f_peak)_(min|max)_hz", path):
+        return format_quantity(value, "Hz", 6)
+    if re.fullmatch(r"limits\.over_temperature\.q_loaded_(min|max)", path):
+        return format_number(value, 4)
     if path == "limits.coverage":
         return f"{value * 100:.2f} %"
     if key in ("capacitance_tolerance", "inductance_tolerance"):
