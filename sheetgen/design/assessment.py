@@ -279,6 +279,12 @@ def bleeder_checks(job: Job, rated: Stress, names: Designators,
     return tuple(checks)
 
 
+def capacitor_max_temperature_c(cap) -> float:
+    """The highest rated temperature of the job's dielectric (the widest class, Y5V, when
+    none is named: the same assumption the limits make)."""
+    return dielectric(cap.dielectric or ASSUMED_DIELECTRIC).rated_max_c
+
+
 def job_drive(job: Job) -> Drive:
     """The job's drive as the engine takes it: an open-circuit voltage, a current or an
     available power."""
@@ -325,6 +331,12 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
                 part, stress.capacitor_current_rms_a * share, cap.rated_current,
                 derating=ratings.current_derating, drive_power_w=power, drive=drive,
                 acceptance=acceptance(part, "RF current")))
+        if cap.thermal_resistance is not None:  # its own ESR heats it: ΔT = P·Rθ
+            checks.append(surface_temperature_check(
+                part, job.variation.temperature.maximum,
+                stress.capacitor_loss_w * share * cap.thermal_resistance,
+                limit_c=capacitor_max_temperature_c(cap), drive_power_w=power,
+                acceptance=acceptance(part, "surface temperature")))
         if cap.rated_power is not None:
             checks.append(esr_power_check(
                 part, stress.capacitor_loss_w * share, cap.rated_power,

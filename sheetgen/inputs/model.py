@@ -451,6 +451,10 @@ class CapacitorSection(Section):
                                           "part (RMS), checked with derating")
     rated_power: Power | None = Field(None, description="power each fixed part may dissipate "
                                       "in its ESR")
+    thermal_resistance: PositiveNumber | None = Field(
+        None, description="thermal resistance of each fixed part to the air around it, in "
+        "K/W as a plain number (from its maker's sheet); with it the part's heating by its "
+        "ESR is checked against its dielectric's highest rated temperature")
     bleeder: Resistance | None = Field(None, description="bleeder resistor across the "
                                        "capacitor, for the discharge time in the cautions")
     bleeder_rated_power: Power | None = Field(

@@ -366,6 +366,16 @@ def cautions(parts: Iterable[PartHazard], f_hz: float, rf_power_w: float, *,
     return tuple(sorted(kept, key=lambda c: (-SEVERITY[c.level], _ORDER.index(c.code))))
 
 
+def _capacitor_rise_k(design: Design) -> float | None:
+    """The hottest fixed capacitor's rise above ambient, ΔT = P·Rθ, with the ESR loss shared
+    in proportion to capacitance (None without a thermal resistance in the job)."""
+    r_theta = design.job.capacitor.thermal_resistance
+    if r_theta is None:
+        return None
+    share = max(design.capacitor_choice.fixed_parts_f) / design.circuit.capacitance_f
+    return design.stress.capacitor_loss_w * share * r_theta
+
+
 def design_cautions(design: Design) -> tuple[Caution, ...]:
     """Every caution of a design, most severe first: the stresses on its parts, its DC
     supply, and its coil's."""
@@ -375,6 +385,7 @@ def design_cautions(design: Design) -> tuple[Caution, ...]:
     parts = parts_from_stress(design.circuit, design.stress, capacitors=names.capacitors,
                               inductor=names.coil,
                               bleeder_resistance_ohm=design.job.capacitor.bleeder,
+                              capacitor_rise_k=_capacitor_rise_k(design),
                               inductor_rise_k=getattr(result, "temperature_rise_k", None),
                               dc_blocked=design.job.circuit.dc_blocked)
     found = cautions(parts, design.stress.f_hz, design.stress.drive_power_w,

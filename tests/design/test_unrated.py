@@ -59,3 +59,29 @@ def test_unrated_trimmer_is_listed(tmp_path, capsys):
     statuses = {(r["part"], r["quantity"]): r["status"] for r in results["ratings"]}
     assert statuses[("C3", "peak voltage")] == "not rated", statuses
     assert "C3 peak voltage" in out
+
+
+def test_a_capacitor_heated_by_its_esr_is_checked_against_its_dielectric(tmp_path, capsys):
+    """With a thermal resistance given, a fixed part runs ΔT = P·Rθ above the highest
+    operating ambient (P its share of the ESR loss): the rise is proportional to Rθ, and
+    C0G is rated to 125 °C (EIA-198, from memory), so a large Rθ fails and a small one
+    passes."""
+    from pathlib import Path
+    root = Path(__file__).resolve().parents[2]
+    text = (root / "templates" / "power-tank.yaml").read_text(encoding="utf-8")
+    assert "  dielectric: C0G" in text and "maximum: 55 °C" in text.replace("degC", "°C")
+
+    def c1_surface(r_theta: float) -> dict:
+        job = tmp_path / f"tank-{r_theta:g}.yaml"
+        job.write_text(text.replace("  dielectric: C0G", f"  dielectric: C0G\n"
+                                    f"  thermal_resistance: {r_theta:g}"), encoding="utf-8")
+        main(["check", str(job), "--json"])
+        got = json.loads(capsys.readouterr().out)
+        return next(r for r in got["ratings"] if r["part"] == "C1"
+                    and r["quantity"] == "surface temperature")
+
+    hot, cool = c1_surface(400.0), c1_surface(4.0)
+    ambient = 55.0
+    assert abs((hot["actual"] - ambient) / (cool["actual"] - ambient) - 100.0) < 1e-9
+    assert hot["allowed"] == cool["allowed"] == 125.0
+    assert hot["status"] == "fail" and cool["status"] == "pass"
