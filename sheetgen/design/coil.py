@@ -14,7 +14,7 @@ import numpy as np
 from sheetgen.design.records import CoilCurve, CoilDesign, Coupling
 from sheetgen.engine import coil as coil_engine
 from sheetgen.engine.coil import SolenoidCoil, ToroidCoil
-from sheetgen.engine.magnetics import CoreLossTable, link_turns
+from sheetgen.engine.magnetics import CoreLossTable, link_turns, toroid_turn_length_m
 from sheetgen.engine.resonance import Circuit, capacitance_for_f0, resonant_frequency_hz
 from sheetgen.engine.wire import COPPER_REFERENCE_TEMPERATURE_C, Wire, wire_from_designation
 from sheetgen.errors import FieldError
@@ -208,10 +208,19 @@ def coil_design(job: Job, parts: ResolvedToroid | None, coil: ToroidCoil | Solen
             coil.inductance_built_h, capacitance_for_f0(job.circuit.targets.f0, target_l)))
     high = min(20.0 * f0, 0.98 * coil.srf_hz) if coil.srf_hz else 20.0 * f0
     f_curve = np.geomspace(f0 / 20.0, high, 241)
+    link_wire = link_length = None
+    if link_turns_n is not None and parts is not None:
+        link_wire = resolve_wire(link.wire or inductor.wire, inductor.enamel_grade,
+                                 "inductor.link.wire")
+        core = parts.core  # the link lies over the tank winding: its second layer
+        turn = toroid_turn_length_m(core.outer_diameter_m, core.inner_diameter_m,
+                                    core.height_m, link_wire.overall_diameter_m,
+                                    core.chamfer_m, layer=2)
+        link_length = link_turns_n * turn + 2.0 * inductor.lead_length
     return CoilDesign(inductor.form, coil, core_name, material_name, target_l, f0_whole,
                       link_turns_n, link_r, tap_turns_n, tap_r, flux_limit, tolerance, tc,
                       inductor.lead_length,
                       *core_size,
                       q_used, q_source,
                       CoilCurve(f_curve, np.asarray(coil_engine.coil_q_sweep(coil, f_curve))),
-                      as_built)
+                      as_built, link_wire, link_length)

@@ -16,6 +16,7 @@ from sheetgen.engine.coil import SolenoidCoil, ToroidCoil
 from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import StandardPair
 from sheetgen.engine.stress import Drive, Stress
+from sheetgen.engine.wire import Wire
 from sheetgen.inputs.model import Job
 
 
@@ -151,6 +152,8 @@ class CoilDesign:
     q_source: str  # "estimate" or "job"
     q_curve: CoilCurve
     coupling: Coupling | None = None
+    link_wire: Wire | None = None  # the link winding's wire (the job's, else the tank's)
+    link_wire_length_m: float | None = None  # its turns over the tank winding plus two leads
 
 
 @dataclass(frozen=True)

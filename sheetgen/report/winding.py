@@ -59,8 +59,9 @@ def winding_steps(design: Design) -> list[WindingStep]:
         return []
     names = design.designators
     finish = coil_finish_text(design)
-    texts = (_toroid_texts(coil, names, finish) if coil.form == "toroid"
-             else _solenoid_texts(coil, names, design.job.inductor.former_length, finish))
+    cut_m = cutting_list(design)[0].length_m
+    texts = (_toroid_texts(coil, names, finish, cut_m) if coil.form == "toroid"
+             else _solenoid_texts(coil, names, design.job.inductor.former_length, finish, cut_m))
     check = coil_check(design)
     tolerance = (f" {tolerance_text(check.tolerance)}"
                  if check.tolerance is not None else "")
@@ -72,7 +73,8 @@ def winding_steps(design: Design) -> list[WindingStep]:
     return [WindingStep(i + 1, text) for i, text in enumerate(texts)]
 
 
-def _toroid_texts(coil: CoilDesign, names: Designators, finish: str) -> list[str]:
+def _toroid_texts(coil: CoilDesign, names: Designators, finish: str,
+                  cut_m: float) -> list[str]:
     r = coil.result
     lead = format_quantity(coil.lead_length_m, "m", 3)
     stop = [] if r.fits else [
@@ -88,9 +90,10 @@ def _toroid_texts(coil: CoilDesign, names: Designators, finish: str) -> list[str
               "leads so that they do not touch." if r.turns > 1 else
               "Leave the start and finish leads apart so that they do not touch.")
     texts = stop + [
-        f"Cut {format_quantity(r.wire_length_m, 'm', 3)} of {r.wire.name} enamelled copper "
-        f"wire (grade {r.wire.grade}, {format_quantity(r.wire.overall_diameter_m, 'm', 3)} over "
-        f"the enamel) for {names.coil}. This includes {lead} for each lead.",
+        f"Cut the wire as the cutting list says: {names.coil} is "
+        f"{format_quantity(cut_m, 'm', 3)} of {r.wire.name} enamelled copper wire (grade "
+        f"{r.wire.grade}, {format_quantity(r.wire.overall_diameter_m, 'm', 3)} over the enamel), "
+        f"with {lead} for each lead and a spare end to trim.",
         f"Hold {lead} of wire as the start lead and pass the wire through the centre of the "
         f"core ({coil.core_name}). Each pass through the centre counts as one turn.",
         f"Wind {plural(r.turns, 'turn')} of {names.coil} in one layer, pulling each turn snug "
@@ -101,7 +104,8 @@ def _toroid_texts(coil: CoilDesign, names: Designators, finish: str) -> list[str
         texts.insert(len(stop) + 2, _tap_text(coil, names))  # made while winding
     if coil.link_turns is not None:
         texts.append(
-            f"Wind the link {names.link}: {plural(coil.link_turns, 'turn')} of insulated wire "
+            f"Wind the link {names.link} from its cut length: "
+            f"{plural(coil.link_turns, 'turn')} of insulated wire "
             f"over the start end of {names.coil}; {names.coil}'s start lead goes to the cold "
             f"(earthy) side of the tank. The link's two ends go to {names.load_resistor} "
             f"({format_quantity(coil.link_resistance_ohm, 'Ω', 3)}).")
@@ -118,6 +122,43 @@ def _tap_text(coil: CoilDesign, names: Designators) -> str:
             f"tin the loop; {names.load_resistor} "
             f"({format_quantity(coil.tap_resistance_ohm, 'Ω', 3)}) connects between the tap "
             "and the start (cold, earthy) lead.")
+
+
+SPARE_M = 0.05  # extra on every cut, to hold while winding and to trim off (common practice)
+TAP_LOOP_M = 0.02  # the twisted tap loop of about 10 mm takes twice its length of wire
+
+
+@dataclass(frozen=True)
+class Cut:
+    """One length of wire to cut before winding."""
+
+    piece: str
+    wire: str
+    length_m: float
+    made_of: str
+
+
+def cutting_list(design: Design) -> tuple[Cut, ...]:
+    """Every wire to cut for the coil: the winding (with a tap's loop), the link, each with
+    its two leads and a spare allowance (empty for a given coil)."""
+    coil = design.coil
+    if coil is None:
+        return ()
+    r, names = coil.result, design.designators
+    lead = format_quantity(coil.lead_length_m, "m", 3)
+    spare = format_quantity(SPARE_M, "m", 3)
+    loop = TAP_LOOP_M if coil.tap_turns is not None else 0.0
+    cuts = [Cut(f"{names.coil} winding", f"{r.wire.name} enamelled copper, grade {r.wire.grade}",
+                r.wire_length_m + loop + SPARE_M,
+                f"{plural(r.turns, 'turn')}, two leads of {lead}"
+                + (f", the tap loop ({format_quantity(loop, 'm', 2)})" if loop else "")
+                + f" and {spare} spare")]
+    if coil.link_wire is not None and coil.link_wire_length_m is not None:
+        cuts.append(Cut(f"{names.link} link", f"{coil.link_wire.name}, insulated",
+                        coil.link_wire_length_m + SPARE_M,
+                        f"{plural(coil.link_turns, 'turn')} over {names.coil}, two leads of "
+                        f"{lead} and {spare} spare"))
+    return tuple(cuts)
 
 
 def coil_finish_text(design: Design) -> str:
@@ -144,7 +185,7 @@ WAX_MAX_POWER_W = 0.25  # above this a small coil warms noticeably (common pract
 
 
 def _solenoid_texts(coil: CoilDesign, names: Designators, former_length_m: float | None,
-                    finish: str) -> list[str]:
+                    finish: str, cut_m: float) -> list[str]:
     r = coil.result
     lead = format_quantity(coil.lead_length_m, "m", 3)
     close = r.pitch_m <= r.wire.overall_diameter_m * 1.001
@@ -174,8 +215,9 @@ def _solenoid_texts(coil: CoilDesign, names: Designators, former_length_m: float
         f"Use a former of {former} diameter made of a low-loss insulating material "
         "(dissipation factor of 0.001 or less at the working frequency, e.g. PTFE or "
         "ceramic; common practice): a lossy former lowers the coil's Q.",
-        f"Cut {format_quantity(r.wire_length_m, 'm', 3)} of {r.wire.name} enamelled copper "
-        f"wire (grade {r.wire.grade}) for {names.coil}. This includes {lead} for each lead.",
+        f"Cut {format_quantity(cut_m, 'm', 3)} of {r.wire.name} enamelled copper wire (grade "
+        f"{r.wire.grade}) for {names.coil}, as the cutting list says: {lead} for each lead and a "
+        "spare end to trim.",
         f"Wind {plural(r.turns, 'turn')} of {names.coil} in a single layer, {spacing}, over a "
         f"winding length of {format_quantity(r.length_m, 'm', 3)}, {place}.",
     ] + ([_tap_text(coil, names)] if coil.tap_turns is not None else []) + [

@@ -30,6 +30,7 @@ from reportlab.platypus import (
 from sheetgen.design.records import Design
 from sheetgen.report.advice import rating_advice
 from sheetgen.report.cautions import DEFERRAL, design_cautions
+from sheetgen.report.formatting import quantity_text
 from sheetgen.report.parts import PART_COLUMNS, PartRow, part_rows
 from sheetgen.report.procedure import (
     OVERALL_VERDICT,
@@ -48,7 +49,7 @@ from sheetgen.report.rows import (
     rating_rows,
     stress_rows,
 )
-from sheetgen.report.winding import winding_steps
+from sheetgen.report.winding import cutting_list, winding_steps
 from sheetgen.sheet import fonts
 from sheetgen.sheet.forms import RadioChoice, TextField
 from sheetgen.sheet.plots import coil_q_drawing, impedance_phase_drawing, response_drawing
@@ -252,6 +253,15 @@ def coil_section(design: Design, kit: Kit) -> SectionContent | None:
                           para(_winding_caption(view), kit.caption)])
     elif steps:
         flowables.append(para("Winding", kit.subheading))
+    cuts = cutting_list(design)
+    if cuts:
+        data = [[para(h, kit.cell_bold) for h in ("Cut", "Wire", "Length", "Made of")]]
+        data += [[para(c.piece, kit.cell), para(c.wire, kit.cell),
+                  para(quantity_text(c.length_m, "m", 3), kit.cell_bold), para(c.made_of, kit.cell)]
+                 for c in cuts]
+        table = Table(data, colWidths=[kit.width * f for f in (0.16, 0.3, 0.12, 0.42)])
+        table.setStyle(TableStyle(_grid_style()))
+        flowables.append([para("Cutting list", kit.subheading), table, Spacer(1, 4)])
     flowables += [_numbered(step.number, "", step.text, kit) for step in steps]
     drawing = coil_q_drawing(design, kit.width)
     if drawing is not None:
