@@ -5,8 +5,8 @@ import subprocess
 from pathlib import Path
 
 import pytest
-from pypdf import PdfReader, PdfWriter
 
+from tests.bench.test_grade import fill
 from tests.sheet.test_tools import build, need
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -16,14 +16,9 @@ pytestmark = pytest.mark.pdf
 def test_each_text_field_shows_its_own_value(tmp_path):
     built = build(tmp_path, (ROOT / "templates" / "series.yaml").read_text(encoding="utf-8"),
                   "series")
-    writer = PdfWriter(clone_from=PdfReader(built.pdf_path))
     typed = {"measured.f0_hz": "13.5512 MHz", "record.serial": "SN-0042",
              "record.technician": "A. Tester"}
-    for page in writer.pages:
-        writer.update_page_form_field_values(page, typed, auto_regenerate=False)
-    filled = tmp_path / "filled.pdf"
-    with filled.open("wb") as stream:
-        writer.write(stream)
+    filled = fill(built.pdf_path, typed, tmp_path / "filled.pdf")
     text = subprocess.run([need("pdftotext"), str(filled), "-"], capture_output=True,
                           check=True, text=True).stdout
     for value in typed.values():
