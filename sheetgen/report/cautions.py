@@ -79,12 +79,11 @@ THRESHOLDS: tuple[Threshold, ...] = (
               "the {limit} rms upper limit of low voltage in IEC 61140",
               "IEC 61140 and IEC 60449: low voltage up to 1000 V a.c. rms or 1500 V d.c.; "
               "from memory"),
-    Threshold("held_voltage_v", 60.0, "V", "caution",
-              "the {limit} ripple-free DC limit of IEC 61140 for dry conditions",
-              "IEC 61140 with IEC 60364-4-41 §414.4.5; from memory"),
-    Threshold("dc_voltage_v", 60.0, "V", "caution",
-              "the {limit} ripple-free DC limit of IEC 61140 for dry conditions",
-              "IEC 61140 with IEC 60364-4-41 §414.4.5; from memory"),
+    # the same dry-conditions DC limit for a capacitor left charged and for a DC supply
+    *(Threshold(measure, 60.0, "V", "caution",
+                "the {limit} ripple-free DC limit of IEC 61140 for dry conditions",
+                "IEC 61140 with IEC 60364-4-41 §414.4.5; from memory")
+      for measure in ("held_voltage_v", "dc_voltage_v")),
     Threshold("dc_voltage_v", 120.0, "V", "warning",
               "the {limit} ripple-free DC extra-low-voltage limit of IEC 61140",
               "IEC 61140: extra-low voltage up to 120 V ripple-free d.c.; from memory"),
