@@ -42,15 +42,14 @@ def existing_stamp(path: Path) -> SheetStamp | None:
 
 
 def release_decision(output: Path, new: SheetStamp, force: bool) -> Literal["write", "same"]:
-    """'write' when the output may be written, 'same' when it already holds this content;
-    InputError when it holds the same id and revision with different content."""
+    """'write' when the output may be written (always when forced), 'same' when it already
+    holds this content; InputError when it holds the same id and revision with different
+    content."""
     old = existing_stamp(output)
-    if old is None or (old.sheet_id, old.revision) != (new.sheet_id, new.revision):
+    if force or old is None or (old.sheet_id, old.revision) != (new.sheet_id, new.revision):
         return "write"
     if old.content_sha256 == new.content_sha256:
         return "same"
-    if force:
-        return "write"
     raise InputError([Problem(str(output), 1, 1, "", (
         f"{output.name} holds {old.sheet_id} rev {old.revision} with different content; "
         "raise the revision (sheet.revision) or pass --force to replace it"))])

@@ -168,9 +168,13 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
            wire_diameter_m: float | None = None, ac_to_dc_resistance: float = 1.0,
            fixed_parts_f: tuple[float, ...] = (),
            other_capacitance_f: float = 0.0,
-           open_load_stress: Stress | None = None) -> Assessment:
+           open_load_stress: Stress | None = None, bench=None) -> Assessment:
     """Limits, trimmer range and rating checks for the nominal design; parts are rated
-    against the worse of the nominal and the open-load stress (B̂ ∝ V scales the flux)."""
+    against the worse of the nominal and the open-load stress (B̂ ∝ V scales the flux).
+
+    The bench windows are for the circuit the test set-up builds (`bench`, an
+    engine.bench.BenchSetup: the fixture's standard resistors and the 50 Ω ports, with
+    their tolerances); the over-temperature figures are for the design's own circuit."""
     q_estimated = coil is not None and job.inductor.q is None
     tc_assumed = None
     if inductance_tc is None and job.inductor.form == "solenoid":
@@ -187,12 +191,18 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
     trimmer = job.capacitor.trimmer
     tuned = trimmer is not None and f0_target_hz is not None
     trim = None
-    untrimmed = method(circuit, spec)
+    tested, tested_spec = circuit, spec
+    if bench is not None:
+        tested = bench.circuit
+        spread = partial(Spread, distribution=job.variation.distribution)
+        tested_spec = replace(spec, source_resistance=spread(bench.source.band),
+                              load_resistance=spread(bench.receiver.hookup.band))
+    untrimmed = method(tested, tested_spec)
     if tuned:  # the trimmer takes up the tolerances; what is tested is the trimmed unit
         built = sample_parts(circuit, spec, job.variation.method)
         trim = trimmer_check(built, f0_target_hz, fixed_capacitance_f, trimmer.minimum,
                              trimmer.maximum, other_capacitance_f=other_capacitance_f)
-        variation = method(circuit, replace(spec, tuned_f0_hz=f0_target_hz))
+        variation = method(tested, replace(tested_spec, tuned_f0_hz=f0_target_hz))
         over = method(circuit, replace(operating, tuned_f0_hz=f0_target_hz))
     else:
         variation = untrimmed
@@ -231,7 +241,7 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
     loss_spread = job.variation.loss_tolerance or (ESTIMATED_LOSS_SPREAD if q_estimated
                                                    else None)
     return Assessment(spec, variation, limits, tuned, trim, checks,
-                      response_envelope(circuit, variation, sweep.f_hz, spec.coverage if
+                      response_envelope(tested, variation, sweep.f_hz, spec.coverage if
                                job.variation.method == "monte-carlo" else None),
                       c_tol, c_source, inductance_tolerance, resolution,
                       over_temperature=over_limits, operating_spec=operating,

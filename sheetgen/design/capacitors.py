@@ -4,7 +4,6 @@ setting for the capacitance the design needs."""
 from __future__ import annotations
 
 from sheetgen.design.records import CapacitanceAcross, CapacitorChoice
-from sheetgen.engine.bench import PROBE_CAPACITANCE_F
 from sheetgen.engine.standard_values import SERIES_TOLERANCE, best_parallel_pair, nearest_standard
 from sheetgen.errors import FieldError
 from sheetgen.inputs.model import Job
@@ -12,17 +11,15 @@ from sheetgen.inputs.model import Job
 
 def capacitance_across(job: Job, coil=None) -> CapacitanceAcross:
     """What is across the tuning capacitor besides the parts: in a parallel tank the coil's
-    self-capacitance (Medhurst's for a solenoid, the job's for a ring), the strays
-    (capacitor.stray) and the probe the procedure puts across the tank (test.probe_capacitance);
-    in a series circuit the strays only."""
+    self-capacitance (Medhurst's for a solenoid, the job's for a ring) and the strays
+    (capacitor.stray); in a series circuit the strays only. The bench test puts nothing
+    across the tank: its receiver is in the load (engine/bench.py)."""
     stray = job.capacitor.stray
     if job.circuit.topology != "parallel":
-        return CapacitanceAcross(0.0, stray, 0.0, "none")
+        return CapacitanceAcross(0.0, stray, "none")
     own = getattr(coil, "self_capacitance_f", None) if coil is not None else None
     source = "none" if own is None else getattr(coil, "srf_basis", "job")
-    probe = (job.test.probe_capacitance if job.test.probe_capacitance is not None
-             else PROBE_CAPACITANCE_F)
-    return CapacitanceAcross(own or 0.0, stray, probe, source)
+    return CapacitanceAcross(own or 0.0, stray, source)
 
 
 def capacitor_choice(job: Job, required_c: float,

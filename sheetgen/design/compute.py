@@ -53,8 +53,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
         if fit_c <= 0.0 and required_c < CAPACITANCE_MIN_F:
             fit_c = required_c  # beyond what can be built at all: the plausibility check says so
         elif fit_c <= 0.0:
-            raise FieldError("capacitor", f"the coil's self-capacitance, the strays and the "
-                             f"probe ({others.total_f:.4g} F) already exceed the "
+            raise FieldError("capacitor", f"the coil's self-capacitance and the strays "
+                             f"({others.total_f:.4g} F) already exceed the "
                              f"{required_c:.4g} F the f0 target needs; use a smaller coil "
                              "(fewer turns) and a larger capacitor")
         if others.total_f > 0.0:
@@ -64,7 +64,7 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     else:
         fit_c = required_c
     derived.append(Derivation("capacitor.across", others.total_f, "F",
-                              "coil self-capacitance, strays and probe, counted in C"))
+                              "coil self-capacitance and strays, counted in C"))
     choice = capacitor_choice(job, fit_c, others)
     capacitance = choice.built_f + others.total_f
     f0 = float(resonance.resonant_frequency_hz(inductance, capacitance))
@@ -143,9 +143,10 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                         circuit.load_resistance_ohm is not None,  # a link or tap needs one
                         coil_result is not None and coil_result.link_turns is not None,
                         job.capacitor.bleeder is not None)
+    bench = _bench(job, circuit, analysed, stress, coil_result)
     try:
         assessment = _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-                             coil_result, f0_target, open_stress)
+                             coil_result, f0_target, open_stress, bench)
     except FieldError:
         raise
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
@@ -155,7 +156,24 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                   plausibility=plausibility_findings(job, circuit, analysed, stress, fixed,
                                                      capacitance_f=required_c),
                   stress_open_load=open_stress,
-                  bleeder=bleeder_duty(job, worse_stress(stress, open_stress)))
+                  bleeder=bleeder_duty(job, worse_stress(stress, open_stress)), bench=bench)
+
+
+def _bench(job: Job, circuit, analysed, stress, coil: CoilDesign | None):
+    """The bench set-up: the receiver on the link's or tap's load resistor when the coil
+    has one (the circuit's own 50 Ω-like port), else on the load."""
+    from sheetgen.engine.bench import bench_setup
+    coupled, at_port = None, None
+    if coil is not None and coil.link_turns is not None:
+        coupled, at_port = "link", coil.link_resistance_ohm
+    elif coil is not None and coil.tap_turns is not None:
+        coupled, at_port = "tap", coil.tap_resistance_ohm
+    try:
+        return bench_setup(circuit, analysed, stress, coupled=coupled,
+                           port_resistor_ohm=at_port,
+                           port_tolerance=job.test.port_tolerance)
+    except resonance.NoResonanceError as error:
+        raise FieldError("", str(error)) from None
 
 
 def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]:
@@ -171,7 +189,7 @@ def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]
 
 
 def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-            coil: CoilDesign | None, f0_target, open_stress=None):
+            coil: CoilDesign | None, f0_target, open_stress=None, bench=None):
     """The limits and rating checks, with the coil's tolerance and temperature data."""
     if coil is None:
         tolerance = job.inductor.tolerance
@@ -179,7 +197,8 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
         return assess(job, circuit, analysed, stress, response, names,
                       f0_target_hz=f0_target, fixed_capacitance_f=choice.fixed_f,
                       inductance_tolerance=tolerance, inductance_tc=tc, fixed_parts_f=fixed,
-                      other_capacitance_f=_across(choice), open_load_stress=open_stress)
+                      other_capacitance_f=_across(choice), open_load_stress=open_stress,
+                      bench=bench)
     r = coil.result
     return assess(job, circuit, analysed, stress, response, names, f0_target_hz=f0_target,
                   fixed_capacitance_f=choice.fixed_f,
@@ -188,7 +207,7 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
                   flux_limit_t=coil.flux_density_max_t, wire_diameter_m=r.wire.diameter_m,
                   ac_to_dc_resistance=max(1.0, r.ac_resistance_ohm / r.dc_resistance_ohm),
                   fixed_parts_f=fixed, other_capacitance_f=_across(choice),
-                  open_load_stress=open_stress)
+                  open_load_stress=open_stress, bench=bench)
 
 
 def _across(choice) -> float:

@@ -12,6 +12,7 @@ import numpy as np
 from sheetgen.design.assessment import Assessment
 from sheetgen.design.designators import Designators
 from sheetgen.design.plausibility import Finding
+from sheetgen.engine.bench import BenchSetup
 from sheetgen.engine.coil import SolenoidCoil, ToroidCoil
 from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import StandardPair
@@ -24,16 +25,15 @@ from sheetgen.inputs.model import Job
 class CapacitanceAcross:
     """Capacitance across the tuning capacitor that is not a part to fit: the coil's own
     (Medhurst's for a solenoid, the job's for a ring; none for a series circuit, where it
-    is across the coil, not the capacitor), the wiring strays and the test probe's input."""
+    is across the coil, not the capacitor) and the wiring strays."""
 
     self_capacitance_f: float
     stray_f: float
-    probe_f: float
     self_source: str  # "medhurst_1947", "job" or "none"
 
     @property
     def total_f(self) -> float:
-        return self.self_capacitance_f + self.stray_f + self.probe_f
+        return self.self_capacitance_f + self.stray_f
 
 
 @dataclass(frozen=True)
@@ -174,3 +174,4 @@ class Design:
     plausibility: tuple[Finding, ...] = ()  # values beyond what can be built (plausibility.py)
     stress_open_load: Stress | None = None  # the same drive with the load disconnected
     bleeder: BleederDuty | None = None
+    bench: BenchSetup | None = None  # the small-signal test set-up and the circuit it builds

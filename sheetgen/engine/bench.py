@@ -1,5 +1,5 @@
-"""The bench test's numbers: sweep settings, the generator's hookup and level, and the
-probe that does not disturb the circuit.
+"""The bench test's numbers: sweep settings, the fixture that makes the 50 Ω generator and
+receiver into the circuit's source and load, the circuit so built, and the test level.
 
 Pure functions over the circuit, its resonance and its stresses; report/procedure.py words
 them for the technician. Rules that are the trade's habits rather than derivations are
@@ -25,14 +25,9 @@ STEPS_PER_BANDWIDTH = 100
 # Receiver (resolution / IF) bandwidth at most a tenth of the circuit's bandwidth, so the
 # receiver does not smooth the skirts (common practice).
 RECEIVER_BANDWIDTHS_PER_BANDWIDTH = 10
-# A probe or fixture resistor at least 100 times the impedance it loads changes the loaded
-# Q by about 1 % (common practice).
+# A fixture resistance 100 times (or a hundredth of) the impedance it loads changes the
+# loaded Q by about 1 % (common practice).
 LOADING_RATIO = 100.0
-# A probe may move f0 by at most a tenth of the bandwidth.
-PROBE_SHIFT_PER_BANDWIDTH = 0.1
-# Input capacitance of the probe put across a tank: an active (FET) probe, about 1 pF
-# (common practice; a passive 10:1 probe's 10-15 pF detunes most tanks by far more).
-PROBE_CAPACITANCE_F = 1e-12
 MAX_POINTS = 10001  # the most points a bench analyser sweeps in one go (common practice)
 # Above this level many bench generators run out of output (common practice).
 GENERATOR_LEVEL_MAX_DBM = 10.0
@@ -50,40 +45,6 @@ class SweepSettings:
     step_hz: float
     points: int
     receiver_bandwidth_hz: float
-
-
-Hookup = Literal["direct", "series_resistor", "shunt_resistor", "feed_resistor"]
-
-
-@dataclass(frozen=True)
-class BenchDrive:
-    """How the 50 Ω generator stands in for the design's source, and at what level.
-
-    `hookup`: direct (Rs is 50 Ω); series_resistor (Rs − 50 Ω in series); shunt_resistor
-    (a resistor across the generator's output makes a lower source resistance, Thévenin);
-    feed_resistor (a large series resistor makes a current source, Norton).
-    """
-
-    scale: float
-    part_voltage_peak_v: float
-    hookup: Hookup
-    fixture_resistance_ohm: float | None
-    presented_resistance_ohm: float | None
-    generator_emf_rms_v: float
-    generator_level_dbm: float
-
-
-DetectorPlace = Literal["load", "sense_resistor", "tank"]
-
-
-@dataclass(frozen=True)
-class Detector:
-    """Where the response is read and what the probe may load it with."""
-
-    place: DetectorPlace
-    probe_resistance_min_ohm: float
-    probe_capacitance_max_f: float | None
-    sense_resistance_max_ohm: float | None
 
 
 def nice_at_most(value: float, mantissas: tuple[float, ...] = (1.0, 2.0, 5.0)) -> float:
@@ -131,74 +92,241 @@ def dbm_from_emf(emf_rms_v: float, resistance_ohm: float = GENERATOR_RESISTANCE_
     return 10.0 * math.log10(power_w / 1e-3)
 
 
-def bench_drive(circuit: Circuit, resonance: Resonance, stress: Stress,
-                drive: Drive) -> BenchDrive:
-    """The generator's hookup and level for a bench test at small signal.
+PortKind = Literal["direct", "series_resistor", "shunt_resistor"]
 
-    Level: the design's drive scaled down (never up) so that the highest part voltage is at
-    most TEST_PART_VOLTAGE_PEAK_V; f0, bandwidth and Q do not depend on the level for a
-    linear circuit. Hookup, from a 50 Ω generator (common practice):
-    Rs > 50 Ω: a series resistor Rs − 50 Ω; Rs < 50 Ω: a shunt R = 50·Rs/(50 − Rs) across
-    the output (Thévenin: source resistance Rs, EMF × R/(R + 50)); no Rs, series circuit
-    (ideal voltage source): a shunt giving 1/100 of the loop's resistance; no Rs, parallel
-    (ideal current source): a feed resistor of 100 × the tank's impedance (Norton).
+# Fixture resistors: IEC 60063 E96 values at ±1 %, metal film, the usual bench stock
+# (common practice); run at most at half their rated power (common practice).
+FIXTURE_SERIES = "E96"
+RESISTOR_POWER_RATINGS_W = (0.25, 0.5, 1.0, 2.0)
+FIXTURE_POWER_DERATING = 0.5
+# A 50 Ω instrument port within ±5 %: return loss ≥ 32 dB, what an analyser calibrated at
+# the fixture's connectors, or a 10 dB attenuator at a port, gives (common practice).
+DEFAULT_PORT_TOLERANCE = 0.05
+# A port resistance within 1 % of 50 Ω is taken as the port itself, with no resistor.
+DIRECT_MATCH = 0.01
+
+
+@dataclass(frozen=True)
+class PortHookup:
+    """A 50 Ω instrument port made into the resistance the circuit needs.
+
+    direct: the port itself; series_resistor: R in series with the port (R + 50 Ω);
+    shunt_resistor: R across the port (R ∥ 50 Ω). `resistor_ohm` is an E96 value, so
+    `presented_ohm` (what the circuit sees, nominal) differs a little from `wanted_ohm`;
+    `band` is its relative tolerance from the resistor's ±1 % and the port's tolerance.
     """
-    highest_v = max(stress.capacitor_voltage_peak_v, stress.inductor_voltage_peak_v)
-    scale = min(1.0, TEST_PART_VOLTAGE_PEAK_V / highest_v) if highest_v > 0 else 1.0
-    rs = circuit.source_resistance_ohm
-    z_peak = resonance.impedance_at_peak_ohm
-    series = circuit.topology == "series"
-    current = drive.value if drive.kind == "current" else None
-    if stress.source_voltage_rms_v is not None:
-        emf = stress.source_voltage_rms_v
-    elif series:
-        emf = current * ((rs or 0.0) + z_peak)  # loop at the maximum is nearly resistive
-    elif rs is not None:
-        emf = current * rs  # Norton current beside Rs is a Thévenin EMF I·Rs behind Rs
-    else:
-        emf = None
-    r_gen = GENERATOR_RESISTANCE_OHM
-    if emf is None:  # parallel tank fed by an ideal current source
-        feed = LOADING_RATIO * z_peak
-        generator_emf = scale * current * (r_gen + feed)
-        hookup, fixture, presented = "feed_resistor", feed, r_gen + feed
-    else:
-        wanted = rs if rs is not None else z_peak / LOADING_RATIO
-        test_emf = scale * emf
-        if math.isclose(wanted, r_gen, rel_tol=0.01):
-            hookup, fixture, generator_emf = "direct", None, test_emf
-        elif wanted > r_gen:
-            hookup, fixture, generator_emf = "series_resistor", wanted - r_gen, test_emf
-        else:
-            shunt = r_gen * wanted / (r_gen - wanted)
-            hookup, fixture = "shunt_resistor", shunt
-            generator_emf = test_emf * (shunt + r_gen) / shunt
-        presented = wanted
-    return BenchDrive(scale=scale, part_voltage_peak_v=scale * highest_v, hookup=hookup,
-                      fixture_resistance_ohm=fixture, presented_resistance_ohm=presented,
-                      generator_emf_rms_v=generator_emf,
-                      generator_level_dbm=dbm_from_emf(generator_emf))
+
+    kind: PortKind
+    wanted_ohm: float
+    resistor_ohm: float | None
+    presented_ohm: float
+    band: float
+    resistor_tolerance: float
 
 
-def detector(circuit: Circuit, resonance: Resonance) -> Detector:
-    """Where to read the response, and the probe that does not disturb it.
+def port_hookup(wanted_ohm: float, port_tolerance: float = DEFAULT_PORT_TOLERANCE,
+                port_ohm: float = GENERATOR_RESISTANCE_OHM) -> PortHookup:
+    """The nearest standard resistor that makes a 50 Ω port present `wanted_ohm`.
 
-    Series: the loop current, as the voltage across the load (or across a sense resistor of
-    at most 1/100 of the loop's resistance). Parallel: the tank voltage. The probe's
-    resistance is at least 100 × what it is across (common practice). Across a tank, its
-    capacitance Cp adds to C and, from f0 = 1/(2π√(LC)), moves f0 by about −Cp/(2C); keeping
-    that under a tenth of the bandwidth gives Cp ≤ 0.2·C·BW/f0.
+    Series: R + Rp, tolerance band (R·t + Rp·p)/(R + Rp); shunt: R·Rp/(R + Rp), band
+    (Rp·t + R·p)/(R + Rp) (each term the part's share of the relative change, to first
+    order, added as a worst case).
     """
+    from sheetgen.engine.standard_values import SERIES_TOLERANCE, nearest_standard
+    if not wanted_ohm > 0 or not math.isfinite(wanted_ohm):
+        raise ValueError("a port needs a positive, finite resistance")
+    t = SERIES_TOLERANCE[FIXTURE_SERIES]
+    if abs(wanted_ohm / port_ohm - 1.0) <= DIRECT_MATCH:
+        return PortHookup("direct", wanted_ohm, None, port_ohm, port_tolerance, t)
+    if wanted_ohm > port_ohm:
+        r = nearest_standard(wanted_ohm - port_ohm, FIXTURE_SERIES)
+        return PortHookup("series_resistor", wanted_ohm, r, r + port_ohm,
+                          (r * t + port_ohm * port_tolerance) / (r + port_ohm), t)
+    r = nearest_standard(port_ohm * wanted_ohm / (port_ohm - wanted_ohm), FIXTURE_SERIES)
+    return PortHookup("shunt_resistor", wanted_ohm, r, r * port_ohm / (r + port_ohm),
+                      (port_ohm * t + r * port_tolerance) / (r + port_ohm), t)
+
+
+def power_rating_w(dissipation_w: float) -> float:
+    """The smallest usual resistor rating that carries `dissipation_w` at the derating
+    (beyond the usual sizes, the next 1-2-5 value of what is needed)."""
+    needed = dissipation_w / FIXTURE_POWER_DERATING
+    fitting = [w for w in RESISTOR_POWER_RATINGS_W if w >= needed]
+    return fitting[0] if fitting else nice_at_least(needed)
+
+
+ReceiverPlace = Literal["load", "sense_resistor", "link", "tap", "pickup"]
+
+
+@dataclass(frozen=True)
+class Receiver:
+    """Where the receiver's 50 Ω input joins the circuit, and what the circuit sees there.
+
+    load: the receiver is the load (through its hookup); link / tap: it is the load on the
+    coil's link or tap, seen across the tank multiplied by `ratio` = (N/M)²; sense_resistor:
+    a series circuit with no load reads its current across a small resistor made from the
+    port; pickup: a parallel tank with no load reads its voltage through a large resistor
+    into the port. In every case the port is part of the circuit the windows are for.
+    """
+
+    place: ReceiverPlace
+    hookup: PortHookup
+    ratio: float = 1.0
+
+    @property
+    def presented_ohm(self) -> float:
+        """The resistance the tank (or loop) sees from the receiver's side, nominal."""
+        return self.hookup.presented_ohm * self.ratio
+
+
+def receiver(circuit: Circuit, resonance: Resonance, *, coupled: Literal["link", "tap"] | None,
+             port_resistor_ohm: float | None,
+             port_tolerance: float = DEFAULT_PORT_TOLERANCE) -> Receiver:
+    """The receiver's place. A load (or a link's or tap's load resistor,
+    `port_resistor_ohm`, presenting circuit.load_resistance_ohm across the tank) is made
+    from the receiver's port; with none, a series circuit gets a sense resistance of 1/100
+    of its loop resistance and a parallel tank a pickup of 100 × its impedance, each
+    changing the loaded Q by about 1 % (common practice) — and included exactly.
+    """
+    load = circuit.load_resistance_ohm
+    if load is not None:
+        at_port = port_resistor_ohm if coupled and port_resistor_ohm else load
+        return Receiver(coupled or "load", port_hookup(at_port, port_tolerance),
+                        load / at_port)
     if circuit.topology == "series":
-        if circuit.load_resistance_ohm is not None:
-            return Detector("load", LOADING_RATIO * circuit.load_resistance_ohm, None, None)
         loop = resonance.impedance_at_peak_ohm + (circuit.source_resistance_ohm or 0.0)
-        sense = loop / LOADING_RATIO
-        return Detector("sense_resistor", LOADING_RATIO * sense, None, sense)
-    bandwidth = resonance.bandwidth_hz
-    probe_c = (2.0 * PROBE_SHIFT_PER_BANDWIDTH * circuit.capacitance_f * bandwidth
-               / resonance.f0_hz) if bandwidth else None
-    return Detector("tank", LOADING_RATIO * resonance.impedance_at_peak_ohm, probe_c, None)
+        return Receiver("sense_resistor", port_hookup(loop / LOADING_RATIO, port_tolerance))
+    return Receiver("pickup", port_hookup(LOADING_RATIO * resonance.impedance_at_peak_ohm,
+                                          port_tolerance))
+
+
+def source_hookup(circuit: Circuit, resonance: Resonance,
+                  port_tolerance: float = DEFAULT_PORT_TOLERANCE) -> PortHookup:
+    """The generator's hookup: the design's Rs; with an ideal source, a series circuit gets
+    a source of 1/100 of its loop resistance (Thévenin) and a parallel tank a feed
+    resistance of 100 × its impedance (Norton), each within about 1 % of ideal (common
+    practice)."""
+    rs = circuit.source_resistance_ohm
+    if rs is not None:
+        return port_hookup(rs, port_tolerance)
+    z_peak = resonance.impedance_at_peak_ohm
+    wanted = (z_peak / LOADING_RATIO if circuit.topology == "series"
+              else LOADING_RATIO * z_peak)
+    return port_hookup(wanted, port_tolerance)
+
+
+def bench_circuit(circuit: Circuit, source: PortHookup, found: Receiver) -> Circuit:
+    """The circuit as the bench test builds it: the design's L and C with the fixture's
+    source and load resistances, nominal."""
+    from dataclasses import replace
+    return replace(circuit, source_resistance_ohm=source.presented_ohm,
+                   load_resistance_ohm=found.presented_ohm)
+
+
+@dataclass(frozen=True)
+class BenchDrive:
+    """The generator's level for the small-signal test, and what it puts on the parts.
+
+    `generator_emf_rms_v` is the generator's own EMF (before a shunt resistor);
+    `part_voltage_peak_v` the highest part voltage on the bench circuit at that level.
+    """
+
+    scale: float
+    part_voltage_peak_v: float
+    generator_emf_rms_v: float
+    generator_level_dbm: float
+    source_resistor_w: float | None  # dissipation bound of the fixture resistors
+    receiver_resistor_w: float | None
+
+    @property
+    def source_resistor_rating_w(self) -> float | None:
+        return None if self.source_resistor_w is None else power_rating_w(self.source_resistor_w)
+
+    @property
+    def receiver_resistor_rating_w(self) -> float | None:
+        return (None if self.receiver_resistor_w is None
+                else power_rating_w(self.receiver_resistor_w))
+
+
+def bench_drive(bench: Circuit, f_peak_hz: float, design_stress: Stress,
+                source: PortHookup, found: Receiver) -> BenchDrive:
+    """The generator level that puts at most TEST_PART_VOLTAGE_PEAK_V on any part of the
+    bench circuit (never more than the design's own drive does); linear circuit, so f0,
+    bandwidth and Q do not depend on the level.
+
+    The EMF behind the presented source resistance follows from the bench circuit's part
+    voltages per volt of EMF (part_stress); a shunt resistor R divides the generator's EMF
+    by R/(R + 50 Ω) (Thévenin). Fixture dissipation bounds: a series resistor R at most
+    (E/Rs)²·R, a shunt at most E²/R; at the receiver, its share of the load's power.
+    """
+    from sheetgen.engine.stress import part_stress
+    design_high = max(design_stress.capacitor_voltage_peak_v,
+                      design_stress.inductor_voltage_peak_v)
+    target = min(TEST_PART_VOLTAGE_PEAK_V, design_high) if design_high > 0 else \
+        TEST_PART_VOLTAGE_PEAK_V
+    unit = part_stress(bench, Drive("voltage", 1.0), f_peak_hz)
+    per_volt = max(unit.capacitor_voltage_peak_v, unit.inductor_voltage_peak_v)
+    emf = target / per_volt
+    r_port = GENERATOR_RESISTANCE_OHM
+    generator_emf = (emf * (source.resistor_ohm + r_port) / source.resistor_ohm
+                     if source.kind == "shunt_resistor" else emf)
+    source_w = None
+    if source.kind == "series_resistor":
+        source_w = (emf / source.presented_ohm) ** 2 * source.resistor_ohm
+    elif source.kind == "shunt_resistor":
+        source_w = emf ** 2 / source.resistor_ohm
+    load_w = unit.load_power_w * emf ** 2  # P ∝ E²
+    receiver_w = None
+    port = found.hookup
+    if port.kind == "series_resistor":
+        receiver_w = load_w * port.resistor_ohm / port.presented_ohm
+    elif port.kind == "shunt_resistor":
+        receiver_w = load_w * port.presented_ohm / port.resistor_ohm
+    scale = target / design_high if design_high > 0 else 1.0
+    return BenchDrive(scale=scale, part_voltage_peak_v=target,
+                      generator_emf_rms_v=generator_emf,
+                      generator_level_dbm=dbm_from_emf(generator_emf),
+                      source_resistor_w=source_w, receiver_resistor_w=receiver_w)
+
+
+@dataclass(frozen=True)
+class BenchSetup:
+    """The whole small-signal test set-up: the fixture, the circuit it builds and its
+    response (what the bench windows are for), and the generator's level."""
+
+    source: PortHookup
+    receiver: Receiver
+    circuit: Circuit
+    resonance: Resonance
+    drive: BenchDrive
+    port_tolerance: float
+
+
+def bench_setup(circuit: Circuit, resonance: Resonance, stress: Stress, *,
+                coupled: Literal["link", "tap"] | None = None,
+                port_resistor_ohm: float | None = None,
+                port_tolerance: float = DEFAULT_PORT_TOLERANCE) -> BenchSetup:
+    """The fixture for `circuit` (source_hookup, receiver), the bench circuit it builds,
+    analysed exactly (resonance.analyse), and the test level (bench_drive)."""
+    from sheetgen.engine.resonance import analyse
+    source = source_hookup(circuit, resonance, port_tolerance)
+    found = receiver(circuit, resonance, coupled=coupled, port_resistor_ohm=port_resistor_ohm,
+                     port_tolerance=port_tolerance)
+    built = bench_circuit(circuit, source, found)
+    response = analyse(built)
+    drive = bench_drive(built, response.f_peak_hz, stress, source, found)
+    return BenchSetup(source, found, built, response, drive, port_tolerance)
+
+
+# LCR meters: their usual test signal (common practice); a class 1 ceramic capacitor is
+# measured at 1 MHz up to 1 nF and at 1 kHz above (IEC 60384-1, from memory).
+LCR_TEST_LEVEL_RMS_V = 1.0
+CAPACITOR_MEASURING_LIMIT_F = 1e-9
+
+
+def capacitor_measuring_frequency_hz(capacitance_f: float) -> float:
+    """The LCR meter's frequency for a capacitor of `capacitance_f` (rule above)."""
+    return 1e6 if capacitance_f <= CAPACITOR_MEASURING_LIMIT_F else 1e3
 
 
 # --- rework ---------------------------------------------------------------------------------

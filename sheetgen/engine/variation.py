@@ -46,7 +46,7 @@ DEFAULT_SEED = 1
 # added at the end, so existing jobs keep their draws.
 _STREAMS = ("temperature", "capacitance", "inductance", "inductor_resistance",
             "capacitor_esr", "load_resistance", "capacitor_temperature",
-            "inductance_temperature")
+            "inductance_temperature", "source_resistance")
 
 
 def _check_distribution(distribution: str) -> None:
@@ -191,6 +191,7 @@ class VariationSpec:
     inductor_resistance: Spread | None = None
     capacitor_esr: Spread | None = None
     load_resistance: Spread | None = None
+    source_resistance: Spread | None = None  # e.g. a bench fixture and its 50 Ω port
     capacitor_temperature: TemperatureCoefficient | TemperatureBand | None = None
     inductance_temperature: TemperatureCoefficient | None = None
     temperature_min_c: float = REFERENCE_TEMPERATURE_C
@@ -301,6 +302,7 @@ class TrialParts:
     inductor_resistance_ohm: np.ndarray
     capacitor_esr_ohm: np.ndarray
     load_resistance_ohm: np.ndarray | None
+    source_resistance_ohm: np.ndarray | None = None
 
 
 @dataclass(frozen=True)
@@ -337,6 +339,7 @@ class _Draws:
     load_resistance: np.ndarray
     capacitor_temperature: np.ndarray  # α in 1/K, or the position 0…1 within a band
     inductance_temperature: np.ndarray  # α in 1/K
+    source_resistance: np.ndarray
 
 
 def _random_band(rng: np.random.Generator, band: float, distribution: Distribution,
@@ -383,6 +386,8 @@ def _monte_carlo_draws(spec: VariationSpec) -> _Draws:
                                                   spec.capacitor_temperature, n),
         inductance_temperature=_random_coefficient(streams["inductance_temperature"],
                                                    spec.inductance_temperature, n),
+        source_resistance=_random_spread(streams["source_resistance"], spec.source_resistance,
+                                         n),
     )
 
 
@@ -407,7 +412,7 @@ def _corner_draws(spec: VariationSpec) -> _Draws:
     axes = (temperatures, _edges(spec.capacitance), _edges(spec.inductance),
             _edges(spec.inductor_resistance), _edges(spec.capacitor_esr),
             _edges(spec.load_resistance), _coefficient_edges(spec.capacitor_temperature),
-            _coefficient_edges(spec.inductance_temperature))
+            _coefficient_edges(spec.inductance_temperature), _edges(spec.source_resistance))
     corners = np.array(list(itertools.product(*axes)), dtype=float)
     return _Draws(*(corners[:, k].copy() for k in range(len(axes))))
 
@@ -447,7 +452,7 @@ def _parts(circuit: Circuit, spec: VariationSpec, draws: _Draws) -> TrialParts:
         c_factor = tuned / circuit.capacitance_f * temperature_change
     l_factor = (1.0 + draws.inductance) * (1.0 + _linear_change(
         draws.inductance_temperature, t))
-    load = circuit.load_resistance_ohm
+    load, source = circuit.load_resistance_ohm, circuit.source_resistance_ohm
     return TrialParts(
         temperature_c=_frozen(t),
         inductance_h=_frozen(circuit.inductance_h * l_factor),
@@ -458,14 +463,17 @@ def _parts(circuit: Circuit, spec: VariationSpec, draws: _Draws) -> TrialParts:
         capacitor_esr_ohm=_frozen(circuit.capacitor_esr_ohm * (1.0 + draws.capacitor_esr)),
         load_resistance_ohm=None if load is None else _frozen(load
                                                               * (1.0 + draws.load_resistance)),
+        source_resistance_ohm=None if source is None or spec.source_resistance is None
+        else _frozen(source * (1.0 + draws.source_resistance)),
     )
 
 
 def _trial_circuit(nominal: Circuit, parts: TrialParts, index=slice(None)) -> Circuit:
-    load = parts.load_resistance_ohm
+    load, source = parts.load_resistance_ohm, parts.source_resistance_ohm
     return Circuit(nominal.topology, parts.inductance_h[index],
                    parts.inductor_resistance_ohm[index], parts.capacitance_f[index],
-                   parts.capacitor_esr_ohm[index], nominal.source_resistance_ohm,
+                   parts.capacitor_esr_ohm[index],
+                   nominal.source_resistance_ohm if source is None else source[index],
                    None if load is None else load[index])
 
 
@@ -535,6 +543,14 @@ def sample_parts(circuit: Circuit, spec: VariationSpec, method: Method) -> Sampl
     return SampledParts(method, None, circuit, _parts(circuit, spec, _corner_draws(spec)))
 
 
+def _columns(parts: TrialParts) -> TrialParts:
+    """The same trials as column vectors, to broadcast against a row of frequencies."""
+    import dataclasses
+    return TrialParts(**{f.name: None if getattr(parts, f.name) is None
+                         else getattr(parts, f.name)[:, None]
+                         for f in dataclasses.fields(TrialParts)})
+
+
 ENVELOPE_TRIALS = 2000  # trials drawn for the plotted Monte Carlo envelope of the response
 ENVELOPE_POINTS = 201  # frequencies of the envelope (a band on a plot needs no more)
 
@@ -556,11 +572,7 @@ def response_envelope(circuit: Circuit, variation: VariationResult, sweep_f_hz: 
     parts = variation.parts
     count = min(ENVELOPE_TRIALS, len(parts.inductance_h))
     take = slice(0, count)
-    trial = Circuit(
-        circuit.topology, parts.inductance_h[take, None], parts.inductor_resistance_ohm[take, None],
-        parts.capacitance_f[take, None], parts.capacitor_esr_ohm[take, None],
-        circuit.source_resistance_ohm,
-        None if parts.load_resistance_ohm is None else parts.load_resistance_ohm[take, None])
+    trial = _trial_circuit(circuit, _columns(parts), take)
     f_hz = sweep_f_hz[::max(1, (len(sweep_f_hz) - 1) // (ENVELOPE_POINTS - 1))]
     relative = relative_response_db(trial, circuit, f_hz[None, :])
     if coverage is None:

@@ -24,6 +24,7 @@ from pydantic import (
 from pydantic_core import PydanticCustomError
 
 from sheetgen import quantities
+from sheetgen.engine.bench import DEFAULT_PORT_TOLERANCE
 from sheetgen.engine.insulation import (
     DEFAULT_ALTITUDE_M,
     DEFAULT_MATERIAL_GROUP,
@@ -80,6 +81,8 @@ Voltage = _quantity(quantities.VOLTAGE)
 Current = _quantity(quantities.CURRENT)
 Power = _quantity(quantities.POWER)
 Fraction = _quantity(quantities.FRACTION, minimum=0.0, inclusive=True)
+PortTolerance = _quantity(quantities.FRACTION, minimum=0.0, inclusive=True, maximum=0.5,
+                          why="a port further than ±50 % from 50 Ω is not a 50 Ω port")
 PositiveNumber = _quantity(quantities.DIMENSIONLESS)
 Length = _quantity(quantities.LENGTH)
 LeadLength = _quantity(quantities.LENGTH, minimum=0.0, inclusive=True)
@@ -578,10 +581,12 @@ class TestSection(Section):
         BenchAmbient(), description="ambient range of the bench test, which the windows are "
         "set for (default 20 to 30 °C, a laboratory, common practice); the operating range "
         "(variation.temperature) gives separate over-temperature figures")
-    probe_capacitance: SmallCapacitance | None = Field(
-        None, description="input capacitance of the probe put across a parallel tank; it is "
-        "subtracted from the capacitance to fit (default 1 pF, an active probe, common "
-        "practice)")
+    port_tolerance: PortTolerance = Field(
+        DEFAULT_PORT_TOLERANCE, description="how far the generator's and the receiver's "
+        "50 Ω ports may be from 50 Ω (default 5 %: return loss 32 dB, an analyser calibrated "
+        "at the fixture's connectors or a 10 dB attenuator at each port, common practice); "
+        "the fixture makes the circuit's source and load from these ports, and the windows "
+        "include it")
 
 
 class Acceptance(Section):

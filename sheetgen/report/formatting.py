@@ -35,6 +35,11 @@ def percent(fraction: float, digits: int = 3) -> str:
     return f"{format_number(100.0 * fraction, digits)} %"
 
 
+def percent_change(value: float, reference: float) -> str:
+    """(value − reference)/reference as a signed percentage, e.g. '+0.31 %'."""
+    return f"{signed(100.0 * (value / reference - 1.0), 2)} %"
+
+
 def tolerance_text(fraction: float) -> str:
     """0.05 → '± 5 %'."""
     return f"± {percent(fraction)}"

@@ -65,19 +65,20 @@ def part_rows(design: Design) -> list[PartRow]:
         rows.append(PartRow(names.load_resistor, "Load resistance",
                             quantity_text(coil.link_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,
                             notes=f"across {names.link}; presents {quantity_text(c.load_resistance_ohm, 'Ω')}"
-                                  f" across the tank ({origin}); fit this value for the bench "
-                                  "test"))
+                                  f" across the tank ({origin}); not fitted: the bench test "
+                                  "makes it up (procedure step 5)"))
     elif names.load_resistor is not None and coil is not None and coil.tap_turns is not None:
         rows.append(PartRow(names.load_resistor, "Load resistance",
                             quantity_text(coil.tap_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,
                             notes=f"from the tap at turn {coil.tap_turns} of {names.coil} to its "
                                   f"cold end; presents {quantity_text(c.load_resistance_ohm, 'Ω')} across "
-                                  f"the tank ({origin}); fit this value for the bench test"))
+                                  f"the tank ({origin}); not fitted: the bench test makes it "
+                                  "up (procedure step 5)"))
     elif names.load_resistor is not None:
         rows.append(PartRow(names.load_resistor, "Load resistance",
                             quantity_text(c.load_resistance_ohm, "Ω"), load_tolerance, quantity=NO_DATA,
-                            notes=f"{origin}; the stage the circuit feeds: fit this value for "
-                                  "the bench test"))
+                            notes=f"{origin}; not fitted: the stage the circuit feeds; the "
+                                  "bench test makes it up (procedure step 5)"))
     return rows
 
 

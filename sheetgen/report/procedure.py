@@ -9,21 +9,31 @@ listed by form_field_names().
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 from sheetgen.design.records import Design
 from sheetgen.engine.bench import (
     GENERATOR_LEVEL_MAX_DBM,
+    GENERATOR_RESISTANCE_OHM,
     HALF_POWER_DB,
-    BenchDrive,
-    Detector,
+    LCR_TEST_LEVEL_RMS_V,
+    BenchSetup,
+    PortHookup,
     SweepSettings,
-    bench_drive,
-    detector,
+    capacitor_measuring_frequency_hz,
     sweep_settings,
 )
 from sheetgen.quantities import format_number
-from sheetgen.report.formatting import quantity_text, range_text, signed, tolerance_text
+from sheetgen.report.cautions import design_cautions, names_text
+from sheetgen.report.formatting import (
+    percent,
+    percent_change,
+    quantity_text,
+    range_text,
+    signed,
+    tolerance_text,
+)
 from sheetgen.report.winding import measuring_frequency_hz
 
 NO_WINDOW = "—"  # a record row with no window to judge against (e.g. no tolerance given)
@@ -79,10 +89,10 @@ class Procedure:
     """The whole bench test of one design."""
 
     sweep: SweepSettings
-    drive: BenchDrive
-    detector: Detector
+    bench: BenchSetup
     steps: tuple[TestStep, ...]
     record: tuple[RecordRow, ...]
+    full_power: tuple[TestStep, ...] = ()  # the optional run at the design's drive
 
 
 MEASUREMENTS: tuple[Measurement, ...] = (
@@ -132,9 +142,10 @@ BROAD_PEAK_Q = 20.0
 
 
 def broad_peak(design: Design) -> bool:
-    """The peak is too broad to read its maximum: loaded Q below BROAD_PEAK_Q."""
-    q = design.resonance.q_loaded
-    return q is not None and q < BROAD_PEAK_Q and design.resonance.f_low_hz is not None
+    """The peak is too broad to read its maximum: loaded Q (on the bench) below
+    BROAD_PEAK_Q."""
+    r = design.bench.resonance
+    return r.q_loaded is not None and r.q_loaded < BROAD_PEAK_Q and r.f_low_hz is not None
 
 
 def record_rows(design: Design) -> tuple[RecordRow, ...]:
@@ -144,7 +155,7 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
     finds the response maximum), formatted as tables.limits_rows formats them; the parts
     are judged against their tolerances.
     """
-    r, c, a = design.resonance, design.circuit, design.assessment
+    r, c, a = design.bench.resonance, design.circuit, design.assessment
     lim = a.limits
     expected = {
         "inductance": quantity_text(c.inductance_h, "H"),
@@ -218,40 +229,178 @@ def _tolerance(window: tuple[float, float] | None, fraction: float | None, unit:
     return f"{range_text(*window, unit)} ({tolerance_text(fraction)} and the meter)"
 
 
-def _hookup_text(design: Design, drive: BenchDrive) -> str:
+SOURCE_FIXTURE, RECEIVER_FIXTURE = "RT1", "RT2"  # the test fixture's resistors
+
+
+def _resistor_text(name: str, hookup: PortHookup, rating_w: float | None) -> str:
+    return (f"{name} {quantity_text(hookup.resistor_ohm, 'Ω', 3)} "
+            f"{tolerance_text(hookup.resistor_tolerance)} (IEC 60063 E96), "
+            f"{rating_w:g} W metal film")
+
+
+def fixture_settings(design: Design) -> tuple[tuple[str, str], ...]:
+    """The test set-up as a parts list: how each 50 Ω port becomes the circuit's source or
+    load, with the standard resistors to fit and what the circuit then sees."""
+    bench, names = design.bench, design.designators
     rs = design.circuit.source_resistance_ohm
-    what = (f"the source resistance Rs = {quantity_text(rs, 'Ω')} ({design.designators.source_resistor})"
-            if rs is not None else
-            "an ideal voltage source" if design.circuit.topology == "series" else
-            "an ideal current source")
-    fixture = quantity_text(drive.fixture_resistance_ohm, "Ω")
-    if drive.hookup == "direct":
-        how = "connect the 50 Ω generator directly: its output resistance is Rs"
-    elif drive.hookup == "series_resistor":
-        how = f"put {fixture} (Rs − 50 Ω) in series with the 50 Ω generator's output"
-    elif drive.hookup == "shunt_resistor":
-        how = (f"put {fixture} across the 50 Ω generator's output, making a source of "
-               f"{quantity_text(drive.presented_resistance_ohm, 'Ω')}")
-    else:
-        how = (f"feed the tank through {fixture} in series with the generator "
-               f"(100 × the tank's impedance), making a current source")
-    return f"The design assumes {what}: {how}."
+    source, found, drive = bench.source, bench.receiver, bench.drive
+    rows: list[tuple[str, str]] = []
+    stands_for = (f"Rs {quantity_text(rs, 'Ω')} ({names.source_resistor})" if rs is not None
+                  else "an ideal voltage source (1/100 of the loop's resistance)"
+                  if design.circuit.topology == "series" else
+                  "an ideal current source (100 × the tank's impedance)")
+    rows.append(("Generator stands for", stands_for))
+    rows.append(("Generator hookup", _port_text(source, SOURCE_FIXTURE,
+                                                drive.source_resistor_rating_w,
+                                                "generator's output")))
+    load_name = names.load_resistor
+    where = {"load": f"the load {load_name}",
+             "link": f"the load {load_name} on the link {names.link}",
+             "tap": f"the load {load_name} on the tap of {names.coil}",
+             "sense_resistor": "a sense resistance at the loop's cold end",
+             "pickup": f"a pickup from the tank's hot end ({names.coil}), 100 × its impedance"
+             }[found.place]
+    rows.append(("Receiver stands for", where))
+    rows.append(("Receiver hookup", _port_text(found.hookup, RECEIVER_FIXTURE,
+                                               drive.receiver_resistor_rating_w,
+                                               "receiver's input")))
+    rows.append(("The circuit sees", f"source {quantity_text(bench.circuit.source_resistance_ohm, 'Ω')}"
+                 f", load {quantity_text(bench.circuit.load_resistance_ohm, 'Ω')}"
+                 + (" across the tank" if design.circuit.topology == "parallel" else "")))
+    rows.append(("Effect on the windows", _effect_text(design)))
+    rows.append(("Ports", f"50 Ω {tolerance_text(bench.port_tolerance)} (test.port_tolerance): "
+                 "calibrate the analyser at the fixture's connectors, or fit a 10 dB "
+                 "attenuator at each port and raise the generator level by 10 dB"))
+    return tuple(rows)
 
 
-def _detector_text(design: Design, found: Detector) -> str:
-    across = {"load": f"the load {design.designators.load_resistor}",
-              "sense_resistor": "a sense resistor in the loop",
-              "tank": f"the tank (across {design.designators.coil})"}[found.place]
-    text = (f"Read the response across {across} with a probe of at least "
-            f"{quantity_text(found.probe_resistance_min_ohm, 'Ω')}")
-    if found.sense_resistance_max_ohm is not None:
-        text = (f"Insert a sense resistor of at most {quantity_text(found.sense_resistance_max_ohm, 'Ω')} "
-                f"in the loop. " + text)
-    if found.probe_capacitance_max_f is not None:
-        text += (f" and at most {quantity_text(found.probe_capacitance_max_f, 'F', 3)}: more moves f0 by "
-                 "over a tenth of the bandwidth. If no probe is that light, couple loosely "
-                 "(a capacitor of that value or a one-turn link) and note it")
-    return text + "."
+def _port_text(hookup: PortHookup, name: str, rating_w: float | None, port: str) -> str:
+    presented = quantity_text(hookup.presented_ohm, "Ω")
+    if hookup.kind == "direct":
+        return f"the {port} itself, no resistor ({presented})"
+    how = "in series with" if hookup.kind == "series_resistor" else "across"
+    return f"{_resistor_text(name, hookup, rating_w)} {how} the {port}: {presented}"
+
+
+def _effect_text(design: Design) -> str:
+    """What the fixture's standard values and ports do to the design's response."""
+    built, wanted = design.bench.resonance, design.resonance
+    parts = []
+    for label, got, aim in (("bandwidth", built.bandwidth_hz, wanted.bandwidth_hz),
+                            ("loaded Q", built.q_loaded, wanted.q_loaded)):
+        if got is not None and aim:
+            parts.append(f"{label} {percent_change(got, aim)}")
+    shift = built.f_peak_hz - wanted.f_peak_hz
+    parts.append(f"peak frequency {signed(shift / wanted.f_peak_hz * 1e6, 0)} ppm")
+    return ("against the design's: " + ", ".join(parts) + "; the expected values and windows "
+            "of this sheet are for this set-up, with its tolerances")
+
+
+def _connect_text(design: Design) -> str:
+    bench = design.bench
+    found = bench.receiver
+    port = found.hookup
+    reads = {"load": "the load's current" if design.circuit.topology == "series"
+             else "the tank voltage through the load",
+             "link": "the tank through its link", "tap": "the tank through its tap",
+             "sense_resistor": "the loop current", "pickup": "the tank voltage"}[found.place]
+    divider = (GENERATOR_RESISTANCE_OHM / port.presented_ohm
+               if port.kind == "series_resistor" else 1.0)
+    level = (f" (the resistor divides it by {port.presented_ohm / GENERATOR_RESISTANCE_OHM:.4g},"
+             f" {signed(20 * math.log10(divider), 1)} dB)" if divider < 1 else "")
+    return ("Make the circuit's source from the generator and its load from the receiver, "
+            "as below; nothing else is connected to the circuit, so no probe loads it. "
+            f"The receiver reads {reads}{level}. Keep the fixture's leads short.")
+
+
+def _lcr_settings(frequency_hz: float, note: str) -> tuple[tuple[str, str], ...]:
+    """An LCR meter's settings: frequency, test level and what that level puts on the part."""
+    return (("LCR meter frequency", quantity_text(frequency_hz, "Hz", 3)),
+            ("LCR meter test level", f"{quantity_text(LCR_TEST_LEVEL_RMS_V, 'V', 2)} rms "
+             "(the meter's usual level; any lower level will do)"),
+            ("Highest voltage at this level",
+             f"{quantity_text(LCR_TEST_LEVEL_RMS_V * math.sqrt(2.0), 'V', 2)} peak: "
+             "no caution applies"),
+            ("Why this setting", note))
+
+
+def _coil_level_note(design: Design, frequency_hz: float) -> str:
+    """Why the coil is measured where it is, and, on a ring core, the flux the meter's level
+    drives (Faraday: B̂ = √2·V/(ωNAe)), far inside the material's limit."""
+    coil = design.coil
+    why = "below f0 and well below the coil's self-resonance (the coil section's rule)"
+    if coil is None or coil.form != "toroid":
+        return why
+    from sheetgen.engine.magnetics import peak_flux_density_t
+    flux = peak_flux_density_t(LCR_TEST_LEVEL_RMS_V, frequency_hz, coil.result.turns,
+                               coil.result.effective.ae_m2)
+    limit = coil.flux_density_max_t
+    return why + (f"; the level drives {quantity_text(flux, 'T', 2)} peak in the core"
+                  + (f", {percent(flux / limit)} of its {quantity_text(limit, 'T', 2)} limit"
+                     if limit else ""))
+
+
+def _small_signal_note(design: Design) -> str:
+    """Whether the sheet's cautions apply to the small-signal test."""
+    hazards = _hazard_cautions(design)
+    level = quantity_text(design.bench.drive.part_voltage_peak_v, "V", 3)
+    if not hazards:
+        return (f"none apply: this test puts at most {level} peak on any part, and the "
+                "design's own drive raises no hazard")
+    return (f"not at this level: this test puts at most {level} peak on any part, within "
+            "extra-low voltage; they apply at the design's own drive (the full-power run)")
+
+
+def _hazard_cautions(design: Design):
+    """The cautions that warn of harm (every level above NOTICE)."""
+    return [c for c in design_cautions(design) if c.level != "notice"]
+
+
+FULL_POWER_SHARES = (0.25, 0.5, 1.0)  # shares of the design's drive power, in order
+
+
+def full_power_steps(design: Design) -> tuple[TestStep, ...]:
+    """The optional run at the design's drive, for designs whose cautions warn of harm:
+    the drive raised in steps (part voltages ∝ √P, losses and rises ∝ P in a linear
+    circuit), what to watch at each, and when to stop."""
+    hazards = _hazard_cautions(design)
+    if not hazards:
+        return ()
+    s, names = design.stress, design.designators
+    highest = max(s.capacitor_voltage_peak_v, s.inductor_voltage_peak_v)
+    coil = design.coil
+    rise = getattr(coil.result, "temperature_rise_k", None) if coil is not None else None
+    levels = []
+    for share in FULL_POWER_SHARES:
+        text = (f"{percent(share, 2)} of the drive power ({quantity_text(s.drive_power_w * share, 'W', 3)}"
+                f" into the circuit): {quantity_text(highest * math.sqrt(share), 'V', 3)} peak"
+                f" on the tank")
+        if rise:
+            text += f", {names.coil} about {format_number(rise * share, 2)} K above ambient"
+        levels.append((f"Step at {percent(share, 2)}", text))
+    words = names_text(dict.fromkeys(c.level.upper() for c in hazards))  # most severe first
+    steps = (
+        ("Before you start",
+         f"This run puts the design's own voltages on the parts: the cautions of this sheet "
+         f"({words}) apply in full. Only with the unit in its enclosure or behind a guard, the "
+         "fixture removed, the real source and load (or a dummy load rated for the power) "
+         "connected, an observer present and the supply's off switch within reach. Read "
+         "voltages only with a probe rated for them, from outside the guard.", ()),
+        ("Raise the drive in steps",
+         "Raise the drive to each level below, holding each for 5 minutes (common practice) "
+         "and removing the drive before touching anything.", tuple(levels)),
+        ("Watch at each step",
+         f"The response maximum stays in the f0 window of the test record; {names.coil} stays "
+         f"near the rise shown and {names_text(names.capacitors)} near ambient (read by an "
+         "infrared thermometer from outside the guard, never by touch); no hiss, glow, smell "
+         "of ozone or crackle (corona or arcing).", ()),
+        ("Stop at once",
+         "Remove the drive if any of these appears, or the frequency drifts out of its window, "
+         "or a part runs hotter than the rise shown by more than 10 K (common practice); "
+         "record what was seen in the remarks and return the unit to engineering.", ()),
+    )
+    return tuple(TestStep(index + 1, title, text, settings)
+                 for index, (title, text, settings) in enumerate(steps))
 
 
 def _trim_step(design: Design, repeat_from: int, repeat_to: int) -> tuple[str, str]:
@@ -260,7 +409,7 @@ def _trim_step(design: Design, repeat_from: int, repeat_to: int) -> tuple[str, s
     if choice.trimmer_setting_f is not None:
         trimmer = design.job.capacitor.trimmer
         return "Tune", (f"Adjust the trimmer {design.designators.trimmer} for the response "
-                        f"maximum at {quantity_text(design.resonance.f_peak_hz, 'Hz')} (expected "
+                        f"maximum at {quantity_text(design.bench.resonance.f_peak_hz, 'Hz')} (expected "
                         f"setting {quantity_text(choice.trimmer_setting_f, 'F')} of its "
                         f"{range_text(trimmer.minimum, trimmer.maximum, 'F', 3)}), then repeat "
                         f"steps {repeat_from} and {repeat_to}, recording the values as left "
@@ -272,11 +421,10 @@ def _trim_step(design: Design, repeat_from: int, repeat_to: int) -> tuple[str, s
 
 def procedure(design: Design) -> Procedure:
     """The numbered bench test of `design`, with its instrument settings and record."""
-    r = design.resonance
+    r = design.bench.resonance
     sweep = sweep_settings(float(design.sweep.f_hz[0]), float(design.sweep.f_hz[-1]),
                            r.bandwidth_hz)
-    drive = bench_drive(design.circuit, r, design.stress, design.drive)
-    found = detector(design.circuit, r)
+    drive = design.bench.drive
     choice = design.capacitor_choice
     level_note = ""
     if drive.generator_level_dbm > GENERATOR_LEVEL_MAX_DBM:
@@ -297,18 +445,22 @@ def procedure(design: Design) -> Procedure:
          "Check every part against the parts list: value, tolerance, dielectric or "
          "material, and rating where the list gives one.", (), ()),
         ("coil", "Measure the coil",
-         f"Measure {coil_name}{wound} with an LCR meter at {quantity_text(measure_at, 'Hz', 3)}, "
-         f"with nothing connected, before fitting it. Expected "
-         f"{quantity_text(design.circuit.inductance_h, 'H')}.", (), ("measured.inductance_h",)),
+         f"Measure {coil_name}{wound} with an LCR meter, with nothing connected, before "
+         f"fitting it. Expected {quantity_text(design.circuit.inductance_h, 'H')}.",
+         _lcr_settings(measure_at, _coil_level_note(design, measure_at)),
+         ("measured.inductance_h",)),
         ("capacitance", "Measure the capacitance",
          f"Measure {fixed} together as they will be fitted"
          + (", without the trimmer" if trimmer else "")
-         + f". Expected {quantity_text(choice.fixed_f, 'F')}.", (), ("measured.capacitance_f",)),
+         + f". Expected {quantity_text(choice.fixed_f, 'F')}.",
+         _lcr_settings(capacitor_measuring_frequency_hz(choice.fixed_f),
+                       "IEC 60384-1's measuring frequency for this value (from memory)"),
+         ("measured.capacitance_f",)),
         ("assemble", "Assemble",
          "Build the circuit as the schematic shows, with short leads; keep the coil "
          "clear of metal and of the other parts.", (), ()),
-        ("connect", "Connect the test set-up",
-         f"{_hookup_text(design, drive)} {_detector_text(design, found)}", (), ()),
+        ("connect", "Connect the test set-up", _connect_text(design),
+         fixture_settings(design), ()),
         ("instrument", "Set the instrument",
          "Set a network analyser, or a generator and a level-reading receiver, to sweep "
          "as below." + level_note,
@@ -323,6 +475,7 @@ def procedure(design: Design) -> Procedure:
              ("Generator level (into 50 Ω)", signed(drive.generator_level_dbm, 1) + " dBm"),
              ("Highest part voltage at this level", quantity_text(drive.part_voltage_peak_v, "V")
               + " peak"),
+             ("Cautions for this test", _small_signal_note(design)),
          ), ()),
         ("maximum", "Find the response maximum",
          "Sweep and find the maximum of the response; record its frequency"
@@ -357,4 +510,5 @@ def procedure(design: Design) -> Procedure:
                            tune_text if key == "tune" else text, settings,
                            as_left if key == "tune" else records)
                   for key, title, text, settings, records in plan)
-    return Procedure(sweep, drive, found, steps, record_rows(design))
+    return Procedure(sweep, design.bench, steps, record_rows(design),
+                     full_power_steps(design))

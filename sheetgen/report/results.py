@@ -12,6 +12,7 @@ import math
 
 from sheetgen import __version__
 from sheetgen.design.records import Design
+from sheetgen.engine.bench import GENERATOR_RESISTANCE_OHM
 from sheetgen.engine.limits import round_outward_significant
 from sheetgen.report.advice import rating_advice
 from sheetgen.report.cautions import DEFERRAL, design_cautions
@@ -65,7 +66,6 @@ def results_document(design: Design) -> dict:
                 "coil_self_f": (None if choice.across.self_source == "none"
                                 else choice.across.self_capacitance_f),
                 "stray_f": choice.across.stray_f,
-                "probe_f": choice.across.probe_f if circuit.topology == "parallel" else None,
                 "total_f": choice.across.total_f,
             } if choice.across is not None else None),
             "derived": [{"field": d.field, "value": d.value, "unit": d.unit, "reason": d.reason}
@@ -118,9 +118,6 @@ def results_document(design: Design) -> dict:
 def test_record_section(design: Design) -> dict:
     """What the bench measures and the windows each value of the test record is graded
     against (`sheetgen grade` reads these, attached to the sheet, and recomputes nothing)."""
-    from sheetgen.engine.bench import bench_drive, detector
-    found = detector(design.circuit, design.resonance)
-    drive = bench_drive(design.circuit, design.resonance, design.stress, design.drive)
     values = []
     for row in record_rows(design):
         m = row.measurement
@@ -130,9 +127,38 @@ def test_record_section(design: Design) -> dict:
             "display_unit": shown[1] if len(shown) == 2 else m.unit, "label": m.label,
             "min": row.minimum, "max": row.maximum, "verdict_field": row.verdict_field,
             "as_found_field": row.as_found_field, "required": row.verdict_field is not None})
+    bench = design.bench
     return {"measurement": {"response": "transmission magnitude, S21 (through the test set-up)",
-                            "detector": found.place, "source_hookup": drive.hookup},
-            "values": values}
+                            "detector": bench.receiver.place,
+                            "source_hookup": bench.source.kind},
+            "fixture": _fixture(bench), "values": values}
+
+
+def _fixture(bench) -> dict:
+    """The test set-up as the sheet lists it: each 50 Ω port's hookup with its standard
+    resistor, what the circuit sees, the bench circuit's response and the test level."""
+    def port(hookup, rating_w):
+        return {"hookup": hookup.kind, "resistor_ohm": hookup.resistor_ohm,
+                "resistor_tolerance": hookup.resistor_tolerance if hookup.resistor_ohm else None,
+                "power_rating_w": rating_w, "wanted_ohm": hookup.wanted_ohm,
+                "presented_ohm": hookup.presented_ohm, "band": hookup.band}
+    source_w = bench.drive.source_resistor_rating_w
+    receiver_w = bench.drive.receiver_resistor_rating_w
+    r = bench.resonance
+    return {
+        "port_resistance_ohm": GENERATOR_RESISTANCE_OHM, "port_tolerance": bench.port_tolerance,
+        "source": port(bench.source, source_w),
+        "receiver": {"place": bench.receiver.place, "ratio": bench.receiver.ratio,
+                     **port(bench.receiver.hookup, receiver_w)},
+        "circuit": {"source_resistance_ohm": bench.circuit.source_resistance_ohm,
+                    "load_resistance_ohm": bench.circuit.load_resistance_ohm},
+        "resonance": {"f_peak_hz": r.f_peak_hz, "f_low_hz": r.f_low_hz,
+                      "f_high_hz": r.f_high_hz, "bandwidth_hz": r.bandwidth_hz,
+                      "q_loaded": r.q_loaded, "impedance_at_peak_ohm": r.impedance_at_peak_ohm},
+        "generator_emf_rms_v": bench.drive.generator_emf_rms_v,
+        "generator_level_dbm": bench.drive.generator_level_dbm,
+        "part_voltage_peak_v": bench.drive.part_voltage_peak_v,
+    }
 
 
 def _open_load(open_stress) -> dict:

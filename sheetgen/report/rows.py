@@ -74,7 +74,6 @@ def across_rows(design: Design) -> list[Row]:
                      if across.self_source == "none" else
                      f"coil self-capacitance {quantity_text(across.self_capacitance_f, 'F')}"
                      f" ({source})")
-        parts.append(f"probe {quantity_text(across.probe_f, 'F')} (test.probe_capacitance)")
     return [Row("Capacitance already across C", quantity_text(across.total_f, "F"),
                 "subtracted from the capacitance to fit: " + ", ".join(parts))]
 

@@ -320,11 +320,26 @@ def procedure_section(design: Design, kit: Kit) -> SectionContent:
         if not step.settings:
             flowables.append(paragraph)
             continue
-        data = [[para(label, kit.cell), para(value, kit.cell_bold)] for label, value in step.settings]
-        table = Table(data, colWidths=[kit.width * 0.42, kit.width * 0.30], hAlign="LEFT")
-        table.setStyle(TableStyle(_grid_style(header=False)))
-        flowables.append([paragraph, _Indent(table, 18), Spacer(1, 6)])
+        flowables.append([paragraph, _Indent(_settings_table(step.settings, kit), 18),
+                          Spacer(1, 6)])
+    if plan.full_power:
+        flowables.append(para("Optional full-power run — the cautions of this sheet apply",
+                              kit.heading))
+        for step in plan.full_power:
+            paragraph = _numbered(step.number, step.title, step.text, kit)
+            flowables.append([paragraph, _Indent(_settings_table(step.settings, kit), 18),
+                              Spacer(1, 6)] if step.settings else paragraph)
     return SectionContent("Test procedure", flowables)
+
+
+def _settings_table(settings: tuple[tuple[str, str], ...], kit: Kit) -> Table:
+    """A step's settings: what to set, and to what (short values keep a narrow column)."""
+    long_values = any(len(value) > 40 for _, value in settings)
+    widths = (0.34, 0.60) if long_values else (0.42, 0.30)
+    data = [[para(label, kit.cell), para(value, kit.cell_bold)] for label, value in settings]
+    table = Table(data, colWidths=[kit.width * w for w in widths], hAlign="LEFT")
+    table.setStyle(TableStyle(_grid_style(header=False)))
+    return table
 
 
 def record_section(design: Design, kit: Kit) -> SectionContent:

@@ -35,6 +35,9 @@ def test_a_released_sheet_is_kept_unless_forced(tmp_path, capsys):
     assert out.read_bytes() == released, "the released sheet is untouched"
     assert main(["build", str(_job(tmp_path, esr="0.06 ohm")), "-o", str(out), "--force"]) == 0
     assert out.read_bytes() != released
+    capsys.readouterr()
+    assert main(["build", str(_job(tmp_path, esr="0.06 ohm")), "-o", str(out), "--force"]) == 0
+    assert "nothing written" not in capsys.readouterr().out, "--force always writes"
 
 
 def test_a_new_revision_replaces_the_old_file(tmp_path, capsys):

@@ -35,7 +35,7 @@ def test_whole_turn_coupling_load_is_the_built_ratio(tmp_path, text):
     got = results_document(design_from_file(job, ROOT / "shared"))
     measured = spice.measure_bench(as_built_bench(got))
     where = f"vs {spice.ngspice_version()}"
-    res, lim = got["resonance"], got["limits"]
+    res, lim = got["test_record"]["fixture"]["resonance"], got["limits"]
     assert_close(res["bandwidth_hz"], measured.bandwidth_hz, rel=1e-4,
                  what=f"as-built bandwidth {where}")
     assert_close(res["impedance_at_peak_ohm"], measured.impedance_at_peak_ohm, rel=1e-4,
@@ -53,7 +53,7 @@ SELF_C = TOROID.replace("  link:\n", "  self_capacitance: 100 pF\n  link:\n")
                                         ("solenoid starter (Medhurst)",
                                          (ROOT / "templates" / "solenoid.yaml").read_text())])
 def test_capacitance_already_across_is_not_fitted_again(tmp_path, name, text):
-    """The parts to fit are the total less the coil's self-capacitance, strays and probe:
+    """The parts to fit are the total less the coil's self-capacitance and strays:
     built with them, the tank peaks inside the sheet's window (ngspice)."""
     assert "self_capacitance: 100 pF" in SELF_C
     job = tmp_path / "job.yaml"

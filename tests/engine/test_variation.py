@@ -142,6 +142,21 @@ def test_worst_case_bandwidth_and_q_of_a_series_circuit_are_closed_forms():
                  what="largest terminal |Z| at the peak")
 
 
+def test_source_resistance_spread_moves_a_series_bandwidth_by_its_share():
+    """A bench fixture's source tolerance: B = R_loop/(2πL) exactly (Alexander & Sadiku
+    §14.5), so a ±10 % source of 10 Ω in a loop of 26 Ω moves B by ±1 Ω/26 Ω; with no
+    source spread the source stays nominal in every trial."""
+    circuit = Circuit("series", 22e-6, 4.0, 470e-12, 0.0, 10.0, 12.0)
+    result = worst_case(circuit, VariationSpec(source_resistance=Spread(0.10)))
+    assert result.trials == 2
+    L = circuit.inductance_h
+    assert_close(result.summary.bandwidth_hz.high, 27.0 / (2 * math.pi * L), rel=1e-9)
+    assert_close(result.summary.bandwidth_hz.low, 25.0 / (2 * math.pi * L), rel=1e-9)
+    fixed = monte_carlo(circuit, VariationSpec(load_resistance=Spread(0.01), trials=50))
+    assert fixed.parts.source_resistance_ohm is None
+    assert np.ptp(fixed.bandwidth_hz) < 0.13 / (2 * math.pi * L) * 2
+
+
 def test_uniform_trials_stay_inside_the_worst_case_corners():
     spec = VariationSpec(inductance=Spread(0.03), capacitance=Spread(0.05),
                          inductor_resistance=Spread(0.1), trials=20_000, seed=3)

@@ -83,81 +83,147 @@ def test_sweep_resolves_the_half_power_points(tmp_path, name):
     assert_close(sweep.centre_hz, (sweep.start_hz + sweep.stop_hz) / 2, rel=1e-12)
 
 
-def test_direct_hookup_and_level_for_a_50_ohm_source(tmp_path):
-    """series.yaml: Rs = 50 Ω, 1 W available. EMF = 2√(P·Rs) (maximum power transfer)."""
-    d, res = _design(tmp_path, "series")
-    drive = bench.bench_drive(d.circuit, d.resonance, d.stress, d.drive)
-    emf_design = 2 * math.sqrt(1.0 * 50.0)
-    highest = max(res["stress"]["capacitor_voltage_peak_v"],
-                  res["stress"]["inductor_voltage_peak_v"])
-    assert drive.hookup == "direct" and drive.fixture_resistance_ohm is None
-    assert_close(drive.generator_emf_rms_v, emf_design * 1.0 / highest, rel=1e-9,
-                 what="EMF scaled to 1 V peak on the highest part (linear circuit)")
-    assert_close(drive.part_voltage_peak_v, 1.0, rel=1e-9)
-    assert_close(drive.generator_level_dbm,
-                 10 * math.log10((drive.generator_emf_rms_v / 2) ** 2 / 50 / 1e-3), abs=1e-9)
+# IEC 60063 E96 values near the examples below (from memory): 1.96, 9.76, 10.0, 12.1,
+# 12.4, 12.7, 47.5, 84.5 (× a power of ten).
+@pytest.mark.parametrize("wanted, kind, resistor, presented", [
+    (50.3, "direct", None, 50.0),                       # within 1 % of the port
+    (10e3, "series_resistor", 10.0e3, 10.05e3),         # 9.95 kΩ → 10.0 kΩ (9.76 is farther)
+    (47e3, "series_resistor", 47.5e3, 47.55e3),         # 46.95 kΩ → 47.5 kΩ
+    (60.0, "series_resistor", 10.0, 60.0),
+    (10.0, "shunt_resistor", 12.4, 12.4 * 50 / 62.4),   # 12.5 Ω → 12.4 Ω, then ∥ 50 Ω
+])
+def test_a_port_is_made_from_a_standard_resistor(wanted, kind, resistor, presented):
+    hookup = bench.port_hookup(wanted, port_tolerance=0.05)
+    assert hookup.kind == kind
+    if resistor is None:
+        assert hookup.resistor_ohm is None
+    else:
+        assert_close(hookup.resistor_ohm, resistor, rel=1e-12, what="E96 resistor")
+    assert_close(hookup.presented_ohm, presented, rel=1e-12, what="what the circuit sees")
+    if kind == "series_resistor":  # first-order band of R(1 ± 1 %) + 50 Ω(1 ± 5 %)
+        assert_close(hookup.band, (resistor * 0.01 + 50 * 0.05) / (resistor + 50), rel=1e-12)
+    high = (resistor or 0) * 1.01 + 50 * 1.05 if kind != "shunt_resistor" else \
+        1 / (1 / (resistor * 1.01) + 1 / 52.5)
+    assert high / hookup.presented_ohm - 1 <= hookup.band * (1 + 1e-9), "the band holds the corner"
 
 
-def test_shunt_makes_a_low_source_resistance(tmp_path):
-    """Rs = 10 Ω from a 50 Ω generator: 12.5 Ω across its output (50‖12.5 = 10, Thévenin),
-    and the EMF behind it is 12.5/(12.5 + 50) of the generator's."""
-    d, res = _design(tmp_path, "series", {"resistance: 50 ohm\n  available_power: 1 W":
-                                          "resistance: 10 ohm\n  voltage: 0.1 V"})
-    drive = bench.bench_drive(d.circuit, d.resonance, d.stress, d.drive)
-    assert drive.hookup == "shunt_resistor"
-    assert_close(drive.fixture_resistance_ohm, 12.5, rel=1e-12, what="shunt resistor")
-    assert_close(1 / (1 / 12.5 + 1 / 50), drive.presented_resistance_ohm, rel=1e-12)
-    scale = min(1.0, 1.0 / max(res["stress"]["capacitor_voltage_peak_v"],
-                               res["stress"]["inductor_voltage_peak_v"]))
-    assert_close(drive.generator_emf_rms_v * 12.5 / 62.5, 0.1 * scale, rel=1e-9,
-                 what="Thévenin EMF at the circuit")
+def _highest_part_voltage_peak(circuit, emf_rms_v: float, f_hz: float) -> float:
+    """Ohm's law on the phasors, by hand: series loop or parallel tank behind Rs."""
+    w = 2 * math.pi * f_hz
+    z_l = complex(circuit.inductor_resistance_ohm, w * circuit.inductance_h)
+    z_c = complex(circuit.capacitor_esr_ohm, -1 / (w * circuit.capacitance_f))
+    rs, rl = circuit.source_resistance_ohm, circuit.load_resistance_ohm
+    if circuit.topology == "series":
+        i = emf_rms_v / (rs + (rl or 0) + z_l + z_c)
+        return math.sqrt(2) * max(abs(i * z_l), abs(i * z_c))
+    y = 1 / z_l + 1 / z_c + (1 / rl if rl else 0)
+    v = emf_rms_v / rs / (1 / rs + y)
+    return math.sqrt(2) * abs(v)
 
 
-def test_norton_current_drive_beside_a_source_resistance(tmp_path):
-    """parallel.yaml: 1 mA beside 47 kΩ is an EMF of 47 V behind 47 kΩ (Norton → Thévenin);
-    a series resistor of 47 kΩ − 50 Ω makes the generator's 50 Ω up to it."""
-    d, res = _design(tmp_path, "parallel")
-    drive = bench.bench_drive(d.circuit, d.resonance, d.stress, d.drive)
-    assert drive.hookup == "series_resistor"
-    assert_close(drive.fixture_resistance_ohm, 47e3 - 50, rel=1e-12)
-    highest = max(res["stress"]["capacitor_voltage_peak_v"],
-                  res["stress"]["inductor_voltage_peak_v"])
-    assert_close(drive.generator_emf_rms_v, 1e-3 * 47e3 * min(1.0, 1.0 / highest), rel=1e-9)
+@pytest.mark.parametrize("name", ["series", "parallel", "demo", "power-tank"])
+def test_the_generator_level_puts_one_volt_peak_on_the_highest_part(tmp_path, name):
+    """The level is set on the bench circuit (the fixture fitted): at the generator's EMF
+    (divided by a shunt's R/(R + 50 Ω), Thévenin), the highest part voltage worked by hand
+    is 1 V peak (or the design's own, if lower); dBm = 10·log10((E/2)²/50 Ω / 1 mW)."""
+    d, res = _design(tmp_path, name)
+    setup = d.bench
+    emf = setup.drive.generator_emf_rms_v
+    if setup.source.kind == "shunt_resistor":
+        emf *= setup.source.resistor_ohm / (setup.source.resistor_ohm + 50)
+    got = _highest_part_voltage_peak(setup.circuit, emf, setup.resonance.f_peak_hz)
+    design_high = max(res["stress"]["capacitor_voltage_peak_v"],
+                      res["stress"]["inductor_voltage_peak_v"])
+    assert_close(got, min(1.0, design_high), rel=1e-6, what="highest part voltage, by hand")
+    assert_close(setup.drive.generator_level_dbm,
+                 10 * math.log10((setup.drive.generator_emf_rms_v / 2) ** 2 / 50 / 1e-3),
+                 abs=1e-9)
 
 
-def test_feed_resistor_for_an_ideal_current_source(tmp_path):
-    """No Rs, a current drive: a feed resistor of 100 × |Z| at the maximum, EMF = I·(50 + R)."""
+def test_a_shunt_makes_a_low_source_resistance(tmp_path):
+    """Rs = 10 Ω from a 50 Ω generator: 12.4 Ω (the E96 value nearest 12.5 Ω) across its
+    output, which the circuit sees as 12.4 ∥ 50 = 9.94 Ω."""
+    d, _ = _design(tmp_path, "series", {"resistance: 50 ohm\n  available_power: 1 W":
+                                        "resistance: 10 ohm\n  voltage: 0.1 V"})
+    assert d.bench.source.kind == "shunt_resistor"
+    assert_close(d.bench.circuit.source_resistance_ohm, 12.4 * 50 / 62.4, rel=1e-12)
+
+
+def test_an_ideal_current_source_is_a_large_feed_resistor(tmp_path):
+    """No Rs, a current drive: the generator feeds the tank through the E96 value nearest
+    100 × |Z| − 50 Ω (a current source within about 1 %, common practice)."""
     d, res = _design(tmp_path, "parallel", {"  resistance: 47 kohm    # output resistance of "
                                             "the driving stage\n": ""})
-    drive = bench.bench_drive(d.circuit, d.resonance, d.stress, d.drive)
     z_peak = res["resonance"]["impedance_at_peak_ohm"]
-    assert drive.hookup == "feed_resistor"
-    assert_close(drive.fixture_resistance_ohm, 100 * z_peak, rel=1e-12)
-    highest = max(res["stress"]["capacitor_voltage_peak_v"],
-                  res["stress"]["inductor_voltage_peak_v"])
-    current = 1e-3 * min(1.0, 1.0 / highest)
-    assert_close(drive.generator_emf_rms_v, current * (50 + 100 * z_peak), rel=1e-9)
+    source = d.bench.source
+    assert source.kind == "series_resistor"
+    assert abs(math.log(source.resistor_ohm / (100 * z_peak - 50))) <= math.log(10) / 96 / 2 + 1e-9
+    assert_close(d.bench.circuit.source_resistance_ohm, source.resistor_ohm + 50, rel=1e-12)
 
 
-def test_probe_capacitance_limit_moves_f0_a_tenth_of_the_bandwidth(tmp_path):
-    """Adding the largest probe capacitance allowed to C lowers f0 (Thomson's formula) by
-    about a tenth of the bandwidth (first order in Cp/C)."""
+def test_a_link_coupled_tank_is_measured_through_its_link(tmp_path):
+    """toroid.yaml: a 50 Ω load on the link is the receiver's own input; the tank sees it as
+    50 Ω × (N/M)² (ideal transformer), with no probe and no resistor."""
+    d, res = _design(tmp_path, "toroid")
+    found = d.bench.receiver
+    assert found.place == "link" and found.hookup.kind == "direct"
+    n, m = res["inductor"]["turns"], res["inductor"]["link_turns"]
+    assert_close(d.bench.circuit.load_resistance_ohm, 50.0 * (n / m) ** 2, rel=1e-12)
+    connect = next(s for s in procedure(d).steps if s.title == "Connect the test set-up")
+    assert "through its link" in connect.text and "no probe" in connect.text
+
+
+def test_a_parallel_load_is_a_resistor_into_the_receiver(tmp_path):
+    """demo.yaml: the load R2 is made of the E96 value nearest RL − 50 Ω in series with the
+    receiver's 50 Ω input; the receiver reads the tank voltage divided by (R + 50)/50."""
     d, res = _design(tmp_path, "demo")
-    probe = bench.detector(d.circuit, d.resonance).probe_capacitance_max_f
-    c, l_h = res["components"]["capacitance_f"], res["components"]["inductance_h"]
-    f0 = 1 / (2 * math.pi * math.sqrt(l_h * c))
-    shifted = 1 / (2 * math.pi * math.sqrt(l_h * (c + probe)))
-    assert_close(f0 - shifted, 0.1 * res["resonance"]["bandwidth_hz"], rel=0.01,
-                 what="f0 shift by the probe")
-    assert_close(bench.detector(d.circuit, d.resonance).probe_resistance_min_ohm,
-                 100 * res["resonance"]["impedance_at_peak_ohm"], rel=1e-12)
+    wanted = res["components"]["load_resistance_ohm"]
+    port = d.bench.receiver.hookup
+    assert port.kind == "series_resistor"
+    assert abs(math.log(port.resistor_ohm / (wanted - 50))) <= math.log(10) / 96 / 2 + 1e-9
+    fixture = res["test_record"]["fixture"]
+    assert_close(fixture["circuit"]["load_resistance_ohm"], port.resistor_ohm + 50, rel=1e-12)
+    settings = dict(next(s for s in procedure(d).steps
+                         if s.title == "Connect the test set-up").settings)
+    from sheetgen.quantities import format_quantity
+    assert (f"RT2 {format_quantity(port.resistor_ohm, 'Ω', 3)} ± 1.00 % (IEC 60063 E96)"
+            in settings["Receiver hookup"])
+
+
+def test_the_lcr_level_drives_a_small_flux_in_a_ring_core(tmp_path):
+    """1 V rms at the measuring frequency: B̂ = √2·V/(ωNAe) (Faraday), by hand from the
+    results' turns and the core's Ae."""
+    d, res = _design(tmp_path, "demo")
+    coil = next(s for s in procedure(d).steps if s.title == "Measure the coil")
+    settings = dict(coil.settings)
+    f = 1e6
+    assert settings["LCR meter frequency"] == "1.00 MHz"
+    ae = d.coil.result.effective.ae_m2
+    flux = math.sqrt(2) * 1.0 / (2 * math.pi * f * res["inductor"]["turns"] * ae)
+    assert f"{flux * 1e6:.0f} µT peak in the core" in settings["Why this setting"]
+
+
+def test_hazardous_designs_get_an_optional_full_power_run(tmp_path):
+    """Part voltages scale with √P in a linear circuit: the 25 % step shows half the 100 %
+    voltage; a design with no hazard gets no run."""
+    d, res = _design(tmp_path, "power-tank")
+    plan = procedure(d)
+    assert plan.full_power, "the power tank's cautions apply at its drive"
+    levels = dict(next(s for s in plan.full_power if s.settings).settings)
+    highest = max(res["stress"]["capacitor_voltage_peak_v"], res["stress"]["inductor_voltage_peak_v"])
+    from sheetgen.quantities import format_quantity
+    assert format_quantity(highest, "V", 3) in levels["Step at 100 %"]
+    assert format_quantity(highest / 2, "V", 3) in levels["Step at 25 %"]
+    assert "cautions of this sheet apply" in plan.full_power[0].text
+    toroid, _ = _design(tmp_path, "toroid")
+    assert procedure(toroid).full_power == ()
 
 
 def test_steps_are_numbered_and_name_the_settings(tmp_path):
     d, res = _design(tmp_path, "demo")
     plan = procedure(d)
     assert [s.number for s in plan.steps] == list(range(1, len(plan.steps) + 1))
-    settings = dict(next(s for s in plan.steps if s.settings).settings)
+    settings = dict(next(s for s in plan.steps if s.title == "Set the instrument").settings)
     from sheetgen.quantities import format_quantity
     sweep = bench.sweep_settings(float(d.sweep.f_hz[0]), float(d.sweep.f_hz[-1]), d.resonance.bandwidth_hz)
     assert settings["Start"] == format_quantity(sweep.start_hz, "Hz", 4)
