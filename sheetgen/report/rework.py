@@ -95,12 +95,13 @@ def rework_rows(design: Design) -> tuple[Rework, ...]:
                "different batch."),
         Rework("f0", "Frequency of the response maximum",
                "the coil or capacitor off value (check their records), strays from long "
-               "leads, a probe loading the circuit",
+               "leads, a probe or extra cable left on the circuit",
                _frequency_actions(design)),
         Rework("bandwidth", "Bandwidth (−3 dB) and loaded Q",
                "too wide: extra loss (a poor solder joint, a lossy former or core, the wrong "
                f"wire) or {load or 'the load'} too heavy; too narrow: "
-               f"{load or 'the load'} missing, open or of too high a value",
+               f"{load or 'the load'} missing, open or of too high a value (check the "
+               "test set-up's resistors and that each port is 50 Ω)",
                f"check {load + ' and ' if load else ''}the solder joints; the bandwidth goes "
                "with 1/Q, so a value outside the window with the right f0 points to the "
                "losses or the load, not the tuning."),

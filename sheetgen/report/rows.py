@@ -366,6 +366,15 @@ def _bench_rows(design: Design) -> list[Row]:
             text += f", tuned to within ± {quantity_text(al.tuning_hz, 'Hz', 3)}"
         rows.append(Row("Windows include", text, "what the bench cannot tell apart "
                         "(test.frequency_accuracy, test.lcr_accuracy, test.tuning_tolerance)"))
+    bench = design.bench
+    if bench is not None:
+        rows.append(Row("Test set-up", f"source {quantity_text(bench.circuit.source_resistance_ohm, 'Ω')}"
+                        f" {tolerance_text(bench.source.band)}, load "
+                        f"{quantity_text(bench.circuit.load_resistance_ohm, 'Ω')} "
+                        f"{tolerance_text(bench.receiver.hookup.band)}",
+                        "the windows are for the circuit the test set-up builds: its E96 "
+                        "resistors (± 1 %) and 50 Ω ports (test.port_tolerance); procedure "
+                        "step 5"))
     rows.append(Row("Centre frequency window",
                     range_text(lim.f_centre_min_hz, lim.f_centre_max_hz, "Hz", 6),
                     "midpoint of the −3 dB points; for broad peaks"))

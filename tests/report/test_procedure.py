@@ -214,7 +214,7 @@ def test_hazardous_designs_get_an_optional_full_power_run(tmp_path):
     from sheetgen.quantities import format_quantity
     assert format_quantity(highest, "V", 3) in levels["Step at 100 %"]
     assert format_quantity(highest / 2, "V", 3) in levels["Step at 25 %"]
-    assert "cautions of this sheet apply" in plan.full_power[0].text
+    assert "the cautions of this sheet (WARNING and CAUTION) apply in full" in plan.full_power[0].text
     toroid, _ = _design(tmp_path, "toroid")
     assert procedure(toroid).full_power == ()
 

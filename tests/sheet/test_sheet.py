@@ -64,6 +64,10 @@ NOT_PRINTED = {
     "inductor.wire.awg": "printed as the wire's name (AWG 24)",
     "inductor.wire.grade": "printed as 'grade 2 enamel'",
     "inductor.check.tolerance": "the same figure as inductor.inductance_tolerance",
+    "test_record.fixture.source.wanted_ohm": "the design's Rs, printed with the components",
+    "test_record.fixture.receiver.wanted_ohm": "the design's load, printed with the components",
+    "test_record.fixture.receiver.ratio": "(N/M)², for scripts; the sheet prints the turns",
+    "test_record.fixture.resonance.impedance_at_peak_ohm": "the bench |Z|, for scripts",
 }
 DRIVE_UNITS = {"voltage": "V", "current": "A", "available_power": "W"}
 # The record's field names are a contract with work-order systems: spelled out here.
@@ -122,6 +126,9 @@ def shown(path: str, key: str, value, results: dict) -> str | None:
         if entry["unit"] == "A/m²":
             return format_number(value * 1e-6, 3) + " A/mm²"
         return format_quantity(value, entry["unit"], 3)
+    fixture = _fixture_text(path, key, value, results)
+    if fixture is not False:
+        return fixture
     record = re.fullmatch(r"test_record\.values\[(\d+)\]\.(\w+)", path)
     if path.startswith("test_record.measurement.") or (record and key not in ("min", "max")):
         return None  # names and units for machines; the labels wrap in the record's cells
@@ -199,6 +206,33 @@ def shown(path: str, key: str, value, results: dict) -> str | None:
         if key.endswith(suffix):
             return format_quantity(value, unit, 3 if key in THREE_FIGURES else 4)
     raise AssertionError(f"no rule says how the sheet shows {path} = {value!r}; add one")
+
+
+def _fixture_text(path: str, key: str, value, results: dict):
+    """How the test set-up (procedure step 5 and the limits' "Test set-up" row) prints a
+    value of test_record.fixture; False for a path outside it."""
+    if not path.startswith("test_record.fixture."):
+        return False
+    if key in ("hookup", "place"):
+        return None  # codes for machines; the set-up words them
+    if key == "port_resistance_ohm":
+        return f"{value:g} Ω"
+    if key in ("port_tolerance", "resistor_tolerance", "band"):
+        return f"± {format_number(value * 100, 3)} %"
+    if key == "resistor_ohm":
+        return format_quantity(value, "Ω", 3)  # an E96 value has three figures
+    if key == "power_rating_w":
+        return f"{value:g} W"
+    if key == "generator_level_dbm":
+        return f"{value:+.1f} dBm".replace("-", "\u2212")
+    if path == "test_record.fixture.resonance.f_peak_hz":
+        q = results["test_record"]["fixture"]["resonance"]["q_loaded"]
+        trimmed = results["components"]["capacitor_build"]["trimmer_setting_f"] is not None
+        return format_quantity(value, "Hz", 4) if q >= 20 or trimmed else None
+    if key == "q_loaded":
+        return format_number(value, 4)
+    unit = {"ohm": "Ω", "hz": "Hz", "v": "V"}[key.rsplit("_", 1)[1]]
+    return format_quantity(value, unit, 4)
 
 
 def expected_strings(results: dict) -> list[tuple[str, str]]:
