@@ -218,7 +218,7 @@ def _source(group, kind, x, y_bottom, y_top, label: str):
         _line(group, x, middle - 6, x, middle + 3)
         group.add(Polygon([x - 3, middle + 2, x + 3, middle + 2, x, middle + 7],
                           fillColor=black, strokeColor=black, strokeWidth=0.5))
-    _text(group, x - _SOURCE_R - 5, middle + 2, "source", LABEL_SIZE, "end", True)  # see x_source
+    _text(group, x - _SOURCE_R - 5, middle + 2, "source", LABEL_SIZE, "end", True)
     _text(group, x - _SOURCE_R - 5, middle - 8, label, LABEL_SIZE, "end")
 
 
@@ -241,6 +241,7 @@ def schematic_drawing(schematic: Schematic, width: float, height: float = HEIGHT
     from reportlab.graphics.shapes import Drawing, Group
     g = Group()
     y_bottom, y_top = 14.0, height - 36.0
+    # the source's labels, left of its circle, clear the source box's left edge
     label = max(_text_width("source", bold=True), _text_width(schematic.source_label))
     x_source = max(84.0, _SOURCE_BOX_LEFT + _CLEAR + label + 5 + _SOURCE_R)
     _source(g, schematic.source, x_source, y_bottom, y_top, schematic.source_label)
