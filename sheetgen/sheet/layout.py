@@ -30,6 +30,8 @@ from reportlab.platypus import BaseDocTemplate, Frame, PageTemplate, Spacer
 
 from sheetgen import __version__
 from sheetgen.design.records import Design
+from sheetgen.errors import FieldError, InputError, Problem
+from sheetgen.inputs.reader import field_position
 from sheetgen.inputs.style import HouseStyle, check_logo_inside, default_style
 from sheetgen.report.content_hash import (
     INFO_CONTENT_SHA256,
@@ -48,6 +50,10 @@ MARGIN = 14 * mm
 HEADER_HEIGHT = 24.0
 BLOCK_HEIGHT = 80.0
 GAP = 8.0
+LOGO_HEIGHT = 18.0
+LEGIBLE_FLOOR = 5.5  # pt: the smallest text the page frame prints
+LEADING = 1.18  # line pitch of the page frame's text, in font sizes
+TOO_LONG = f"is too long to print whole in its cell of the title block, even at {LEGIBLE_FLOOR} pt"
 PAGE_TOTAL_FORM = "sheetgenPageTotal"
 ATTACHMENTS = (("job.yaml", "application/x-yaml", "the job file this sheet was made from"),
                ("results.json", "application/json", "the computed results (sheetgen.results/1)"))
@@ -57,38 +63,41 @@ AF_RELATIONSHIP = {"job.yaml": "Source", "results.json": "Data"}
 
 # --- identity on every page ---------------------------------------------------------------
 
-def fit_text(text: str, font: str, width: float, sizes: tuple[float, ...],
-             max_lines: int) -> tuple[list[str], float]:
-    """Wrap `text` to `width`, trying each font size; the last size truncates with '…'.
-
-    A word wider than `width` is cut where it must be, so no line is ever wider.
-    """
+def wrap_text(text: str, font: str, size: float, width: float) -> list[str]:
+    """`text` wrapped to `width` at `size`; a word wider than `width` is cut where it must
+    be, so no line is ever wider."""
     from reportlab.pdfbase.pdfmetrics import stringWidth
-    words = text.split()
+    pieces = []
+    for word in text.split():
+        while stringWidth(word, font, size) > width and len(word) > 1:
+            cut = len(word) - 1
+            while cut > 1 and stringWidth(word[:cut], font, size) > width:
+                cut -= 1
+            pieces.append(word[:cut])
+            word = word[cut:]
+        pieces.append(word)
+    return simpleSplit(" ".join(pieces), font, size, width) if pieces else [""]
 
-    def lines_at(size: float) -> list[str]:
-        pieces = []
-        for word in words:
-            while stringWidth(word, font, size) > width and len(word) > 1:
-                cut = len(word) - 1
-                while cut > 1 and stringWidth(word[:cut], font, size) > width:
-                    cut -= 1
-                pieces.append(word[:cut])
-                word = word[cut:]
-            pieces.append(word)
-        return simpleSplit(" ".join(pieces), font, size, width) if pieces else [""]
 
-    for size in sizes:
-        lines = lines_at(size)
-        if len(lines) <= max_lines:
-            return lines, size
-    size = sizes[-1]
-    lines = lines_at(size)[:max_lines]
-    last = lines[-1]
-    while last and stringWidth(last + "…", font, size) > width:
-        last = last[:-1]
-    lines[-1] = last.rstrip() + "…"
-    return lines, size
+def fit_text(text: str, font: str, width: float, height: float,
+             largest: float) -> tuple[list[str], float] | None:
+    """The lines and size at which the whole of `text` fits `width` × `height`, or None.
+
+    Sizes go from `largest` down to LEGIBLE_FLOOR in 0.5 pt steps; a size that keeps every
+    word whole is preferred to a larger one that must cut a word."""
+    from reportlab.pdfbase.pdfmetrics import stringWidth
+    steps = int((largest - LEGIBLE_FLOOR) / 0.5 + 1e-9)
+    sizes = sorted({largest - 0.5 * step for step in range(steps + 1)} | {LEGIBLE_FLOOR},
+                   reverse=True)
+    for whole_words in (True, False):
+        for size in sizes:
+            if whole_words and any(stringWidth(word, font, size) > width
+                                   for word in text.split()):
+                continue
+            lines = wrap_text(text, font, size, width)
+            if len(lines) * size * LEADING <= height + 1e-9:
+                return lines, size
+    return None
 
 
 @dataclass(frozen=True)
@@ -105,6 +114,105 @@ class _Identity:
     logo: Path | None
 
 
+@dataclass(frozen=True)
+class TextBox:
+    """Where one field of the page frame is printed: the rectangle its lines fill (pt, from
+    the page's bottom left), its font and largest size, and whether it is right-aligned."""
+
+    x: float
+    y: float
+    width: float
+    height: float
+    font: str
+    largest: float
+    right: bool = False
+
+
+# The job or style field each text box of the page frame prints.
+FRAME_FIELDS = {"organisation": "organisation", "sheet_line": "sheet.id",
+                "title": "sheet.title", "sheet": "sheet.id", "revision": "sheet.revision",
+                "date": "sheet.date", "designer": "sheet.designer", "checker": "sheet.checker",
+                "approver": "sheet.approver", "note": "page_note"}
+_TITLE_COLUMNS = (("title", "TITLE", 0.47), ("sheet", "SHEET", 0.17), ("revision", "REV.", 0.08),
+                  ("date", "DATE", 0.15), ("page", "PAGE", 0.13))
+_SIGNATURES = (("designer", "DESIGNED"), ("checker", "CHECKED"), ("approver", "APPROVED"))
+_ROW_C, _ROW_B = 12.0, 36.0  # heights of the tool-and-note row and the signature row
+_ROW_A = BLOCK_HEIGHT - _ROW_C - _ROW_B
+
+
+def _logo_width(logo: Path | None) -> float:
+    """How wide the header draws the logo (LOGO_HEIGHT high, at most 90 pt wide); 0 without
+    one."""
+    if logo is None:
+        return 0.0
+    from reportlab.lib.utils import ImageReader
+    w_px, h_px = ImageReader(str(logo)).getSize()
+    return min(LOGO_HEIGHT * w_px / h_px, 90.0)
+
+
+def frame_boxes(page_size, logo_width: float = 0.0) -> dict[str, TextBox]:
+    """The text box of every field the page frame prints, by its FRAME_FIELDS key (and
+    the page number's, "page").
+
+    Each box stops short of its cell's caption, borders and signature line."""
+    page_w, page_h = page_size
+    left, width, top = MARGIN, page_w - 2 * MARGIN, page_h - MARGIN
+    x_org = left + logo_width + 6 if logo_width else left
+    boxes = {"organisation": TextBox(x_org, top - 21, left + width * 0.62 - x_org, 21,
+                                     fonts.BOLD, 10.5),
+             "sheet_line": TextBox(left + width * 0.64, top - 14, width * 0.36, 14,
+                                   fonts.REGULAR, 8.0, right=True),
+             "note": TextBox(left + width * 0.55 - 3, MARGIN + 1, width * 0.45, _ROW_C - 2,
+                             fonts.REGULAR, 6.5, right=True)}
+    y_a, x = MARGIN + _ROW_C + _ROW_B, left
+    for key, _caption, fraction in _TITLE_COLUMNS:
+        boxes[key] = TextBox(x + 3, y_a + 1.5, width * fraction - 6, _ROW_A - 10.5,
+                             fonts.BOLD, 9.0)
+        x += width * fraction
+    third, y_b = width / 3, MARGIN + _ROW_C
+    for index, (key, _caption) in enumerate(_SIGNATURES):
+        boxes[key] = TextBox(left + third * index + 46, y_b + 12, third - 50, _ROW_B - 13.5,
+                             fonts.BOLD, 8.5)
+    return boxes
+
+
+def _frame_texts(identity: _Identity) -> dict[str, str]:
+    return {"organisation": identity.organisation,
+            "sheet_line": f"{identity.sheet_id} rev {identity.revision}",
+            "title": identity.title, "sheet": identity.sheet_id, "revision": identity.revision,
+            "date": identity.date, "designer": identity.designer, "checker": identity.checker,
+            "approver": identity.approver, "note": identity.note}
+
+
+def frame_misfits(texts: dict[str, str], page_size, logo_width: float = 0.0) -> list[str]:
+    """The FRAME_FIELDS keys whose text cannot be printed whole in its box even at
+    LEGIBLE_FLOOR; `texts` maps keys to their text (a missing or empty one always fits)."""
+    fonts.register_fonts()
+    boxes = frame_boxes(page_size, logo_width)
+    return [key for key, text in texts.items() if text and fit_text(
+        text, boxes[key].font, boxes[key].width, boxes[key].height, boxes[key].largest) is None]
+
+
+def check_frame_fits(job, job_path: Path, style: HouseStyle | None = None) -> None:
+    """Refuse a job (and its house style) whose title-block text cannot be printed whole."""
+    style = style or default_style()
+    misfits = frame_misfits(_frame_texts(_identity(job.sheet, style)),
+                            PAGE_SIZES[style.page_size], _logo_width(style.logo_path))
+    problems = []
+    for field in dict.fromkeys(FRAME_FIELDS[key] for key in misfits):
+        where = (style.source, 1, 1) if field in ("organisation", "page_note") else (
+            str(job_path), *field_position(job_path, field))
+        problems.append(Problem(*where, field, TOO_LONG, "a shorter text"))
+    if problems:
+        raise InputError(problems)
+
+
+def _identity(sheet, style: HouseStyle) -> _Identity:
+    return _Identity(style.organisation, sheet.id, sheet.title, sheet.revision, sheet.date,
+                     sheet.designer, sheet.checker or "", sheet.approver or "",
+                     style.page_note or "", style.logo_path)
+
+
 def _cell(canvas: Canvas, x, y, width, height, caption: str):
     canvas.setStrokeColor(colors.black)
     canvas.setLineWidth(0.6)
@@ -115,10 +223,22 @@ def _cell(canvas: Canvas, x, y, width, height, caption: str):
     canvas.setFillColor(colors.black)
 
 
-def _draw_lines(canvas, lines, font, size, x, y_top):
-    canvas.setFont(font, size)
+def _baseline(box: TextBox, size: float, index: int) -> float:
+    """The baseline of line `index` of a box's text: each line takes size × LEADING, its
+    descenders at the bottom of that share."""
+    from reportlab.pdfbase.pdfmetrics import getDescent
+    return box.y + box.height - size * LEADING * (index + 1) - getDescent(box.font, size)
+
+
+def _draw_box(canvas: Canvas, box: TextBox, text: str) -> None:
+    """The whole of `text` in `box` (that it fits is checked before the pages are drawn)."""
+    lines, size = fit_text(text, box.font, box.width, box.height, box.largest)
+    canvas.setFont(box.font, size)
     for index, line in enumerate(lines):
-        canvas.drawString(x, y_top - size * 1.18 * (index + 1) + 1, line)
+        if box.right:
+            canvas.drawRightString(box.x + box.width, _baseline(box, size, index), line)
+        else:
+            canvas.drawString(box.x, _baseline(box, size, index), line)
 
 
 def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size) -> None:
@@ -127,67 +247,42 @@ def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size) -> None:
     left, width = MARGIN, page_w - 2 * MARGIN
     canvas.saveState()
     top = page_h - MARGIN
-    x_text = left
+    logo_width = _logo_width(identity.logo)
     if identity.logo is not None:
-        from reportlab.lib.utils import ImageReader
-        image = ImageReader(str(identity.logo))
-        w_px, h_px = image.getSize()
-        height = 18.0
-        w = min(height * w_px / h_px, 90.0)
-        canvas.drawImage(image, left, top - height, w, height, preserveAspectRatio=True,
-                         anchor="sw", mask="auto")
-        x_text = left + w + 6
-    org_lines, org_size = fit_text(identity.organisation, fonts.BOLD, width * 0.62 - x_text + left,
-                                   (10.5, 9.0, 8.0), 1)
-    _draw_lines(canvas, org_lines, fonts.BOLD, org_size, x_text, top - 1)
-    canvas.setFont(fonts.REGULAR, 8)
-    right_lines, right_size = fit_text(f"{identity.sheet_id} rev {identity.revision}",
-                                       fonts.REGULAR, width * 0.36, (8.0, 7.0), 1)
-    canvas.setFont(fonts.REGULAR, right_size)
-    canvas.drawRightString(left + width, top - 10, right_lines[0])
+        canvas.drawImage(str(identity.logo), left, top - LOGO_HEIGHT, logo_width, LOGO_HEIGHT,
+                         preserveAspectRatio=True, anchor="sw", mask="auto")
+    boxes = frame_boxes(page_size, logo_width)
+    for key, text in _frame_texts(identity).items():
+        if text:
+            _draw_box(canvas, boxes[key], text)
     canvas.setFont(fonts.REGULAR, 7)
-    canvas.drawRightString(left + width, top - 19, "build-and-test sheet")
+    canvas.drawRightString(left + width, top - 19.5, "build-and-test sheet")
     canvas.setStrokeColor(colors.black)
     canvas.setLineWidth(0.8)
     canvas.line(left, top - HEADER_HEIGHT + 2, left + width, top - HEADER_HEIGHT + 2)
 
     # title block: row A identity, row B signatures, row C tool and note
-    y_c, h_c = MARGIN, 12.0
-    y_b, h_b = y_c + h_c, 36.0
-    y_a, h_a = y_b + h_b, BLOCK_HEIGHT - h_c - h_b
-    columns = ((0.47, "TITLE"), (0.17, "SHEET"), (0.08, "REV."), (0.15, "DATE"),
-               (0.13, "PAGE"))
+    y_c = MARGIN
+    y_b = y_c + _ROW_C
+    y_a = y_b + _ROW_B
     x = left
-    for fraction, caption in columns:
-        w = width * fraction
-        _cell(canvas, x, y_a, w, h_a, caption)
-        inner = w - 6
-        if caption == "TITLE":
-            lines, size = fit_text(identity.title, fonts.BOLD, inner, (9.0, 8.0, 7.0), 2)
-            _draw_lines(canvas, lines, fonts.BOLD, size, x + 3, y_a + h_a - 8)
-        elif caption == "PAGE":
-            canvas.setFont(fonts.BOLD, 9)
+    for key, caption, fraction in _TITLE_COLUMNS:
+        _cell(canvas, x, y_a, width * fraction, _ROW_A, caption)
+        if key == "page":
+            page_box = boxes["page"]
             text = f"{canvas.getPageNumber()} of "
-            baseline = y_a + h_a - 8 - 9 * 1.18 + 1
-            canvas.drawString(x + 3, baseline, text)
+            baseline = _baseline(page_box, 9.0, 0)
+            canvas.setFont(fonts.BOLD, 9)
+            canvas.drawString(page_box.x, baseline, text)
             canvas.saveState()
-            canvas.translate(x + 3 + canvas.stringWidth(text, fonts.BOLD, 9), baseline)
+            canvas.translate(page_box.x + canvas.stringWidth(text, fonts.BOLD, 9), baseline)
             canvas.doForm(PAGE_TOTAL_FORM)
             canvas.restoreState()
-        else:
-            value = {"SHEET": identity.sheet_id, "REV.": identity.revision,
-                     "DATE": identity.date}[caption]
-            lines, size = fit_text(value, fonts.BOLD, inner, (9.0, 8.0, 7.0), 2)
-            _draw_lines(canvas, lines, fonts.BOLD, size, x + 3, y_a + h_a - 8)
-        x += w
+        x += width * fraction
     third = width / 3
-    for index, (caption, name) in enumerate((("DESIGNED", identity.designer),
-                                             ("CHECKED", identity.checker),
-                                             ("APPROVED", identity.approver))):
+    for index, (_key, caption) in enumerate(_SIGNATURES):
         x = left + third * index
-        _cell(canvas, x, y_b, third, h_b, caption)
-        lines, size = fit_text(name or " ", fonts.BOLD, third - 50, (8.5, 7.5), 1)
-        _draw_lines(canvas, lines, fonts.BOLD, size, x + 46, y_b + h_b - 1)
+        _cell(canvas, x, y_b, third, _ROW_B, caption)
         canvas.setFont(fonts.REGULAR, 6.5)
         canvas.drawString(x + 3, y_b + 5, "signature")
         canvas.drawString(x + third * 0.64, y_b + 5, "date")
@@ -195,14 +290,10 @@ def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size) -> None:
         canvas.line(x + 34, y_b + 4, x + third * 0.62, y_b + 4)
         canvas.line(x + third * 0.64 + 16, y_b + 4, x + third - 4, y_b + 4)
     canvas.setLineWidth(0.6)
-    canvas.rect(left, y_c, width, h_c, stroke=1, fill=0)
+    canvas.rect(left, y_c, width, _ROW_C, stroke=1, fill=0)
     canvas.setFont(fonts.REGULAR, 6.5)
     canvas.drawString(left + 3, y_c + 3.5, f"made by sheetgen {__version__} from the job file "
                       "attached to this PDF (job.yaml, results.json)")
-    if identity.note:
-        note_lines, note_size = fit_text(identity.note, fonts.REGULAR, width * 0.45, (6.5,), 1)
-        canvas.setFont(fonts.REGULAR, note_size)
-        canvas.drawRightString(left + width - 3, y_c + 3.5, note_lines[0])
     canvas.restoreState()
 
 
@@ -338,9 +429,10 @@ def _render(design: Design, job_text: str, results_text: str, job_dir: Path | No
     check_logo_inside(style, job_dir)
     page_size = PAGE_SIZES[style.page_size]
     sheet = design.job.sheet
-    identity = _Identity(style.organisation, sheet.id, sheet.title, sheet.revision, sheet.date,
-                         sheet.designer, sheet.checker or "", sheet.approver or "",
-                         style.page_note or "", style.logo_path)
+    identity = _identity(sheet, style)
+    misfits = frame_misfits(_frame_texts(identity), page_size, _logo_width(style.logo_path))
+    if misfits:
+        raise FieldError(FRAME_FIELDS[misfits[0]], TOO_LONG)
     page_w, page_h = page_size
     frame_bottom = MARGIN + BLOCK_HEIGHT + GAP
     frame_top = page_h - MARGIN - HEADER_HEIGHT - 2

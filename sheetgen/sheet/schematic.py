@@ -26,6 +26,8 @@ _LOOPS, _LOOP_R = 4, 4.5     # inductor: half-circle loops and their radius
 _CAP_GAP, _CAP_PLATE = 5.0, 18.0
 _SOURCE_R = 11.0
 _LENGTH = {"resistor": 44.0, "inductor": 54.0, "capacitor": 40.0, "trimmer": 40.0}
+_CLEAR = 4.0  # pt between a label and the next label, box edge or wire to its right
+_SOURCE_BOX_LEFT = 2.0  # the dashed source box's left edge
 
 
 @dataclass(frozen=True)
@@ -171,11 +173,20 @@ def _vertical(group, kind: PartKind, x, y, length, loops_right: bool = False):
     group.add(Group(_symbol(kind, length), transform=matrix))
 
 
+def _text_width(text: str, size: float = LABEL_SIZE, bold: bool = False) -> float:
+    from reportlab.pdfbase.pdfmetrics import stringWidth
+    return stringWidth(text, fonts.BOLD if bold else fonts.REGULAR, size)
+
+
 def _label_width(part: Part) -> float:
     """Width of a part's label (designator over value), in points."""
-    from reportlab.pdfbase.pdfmetrics import stringWidth
-    return max(stringWidth(part.designator, fonts.BOLD, DESIGNATOR_SIZE),
-               stringWidth(part.value, fonts.REGULAR, LABEL_SIZE))
+    return max(_text_width(part.designator, DESIGNATOR_SIZE, True), _text_width(part.value))
+
+
+def _start_clear_of(x: float, length: float, part: Part, frontier: float) -> float:
+    """Where a horizontal part of `length`, at `x` at the earliest, starts so that its label,
+    centred above it, begins _CLEAR right of `frontier` (where the drawing so far ends)."""
+    return max(x, frontier + _CLEAR + _label_width(part) / 2 - length / 2)
 
 
 def _label_above(group, part: Part, x, y):
@@ -230,7 +241,9 @@ def schematic_drawing(schematic: Schematic, width: float, height: float = HEIGHT
     from reportlab.graphics.shapes import Drawing, Group
     g = Group()
     y_bottom, y_top = 14.0, height - 36.0
-    x_source = 84.0
+    # the source's labels, left of its circle, clear the source box's left edge
+    label = max(_text_width("source", bold=True), _text_width(schematic.source_label))
+    x_source = max(84.0, _SOURCE_BOX_LEFT + _CLEAR + label + 5 + _SOURCE_R)
     _source(g, schematic.source, x_source, y_bottom, y_top, schematic.source_label)
     if schematic.topology == "series":
         _series(g, schematic, x_source, y_bottom, y_top)
@@ -244,30 +257,42 @@ def schematic_drawing(schematic: Schematic, width: float, height: float = HEIGHT
     return drawing
 
 
-def _source_box(g, x_source, y_bottom, y_top, right):
-    _box(g, x_source - 82, y_bottom - 8, right - (x_source - 82), y_top - y_bottom + 40,
+def _source_box(g, y_bottom, y_top, right):
+    _box(g, _SOURCE_BOX_LEFT, y_bottom - 8, right - _SOURCE_BOX_LEFT, y_top - y_bottom + 40,
          "source", top_left=True)
+
+
+def _source_resistor(g, s: Schematic, x, y_bottom, y_top, lead: float) -> tuple[float, float]:
+    """R1 along the top wire from `x` (at least `lead` on), then the source box's right edge
+    clear of R1's label; returns where the wire goes on and where the drawing ends."""
+    length = _LENGTH["resistor"]
+    start = _start_clear_of(x + lead, length, s.source_resistor, x)
+    _line(g, x, y_top, start, y_top)
+    _horizontal(g, "resistor", start, y_top, length)
+    _label_above(g, s.source_resistor, start + length / 2, y_top)
+    right = max(start + length + 6, start + length / 2 + _label_width(s.source_resistor) / 2
+                + _CLEAR)
+    _source_box(g, y_bottom, y_top, right)
+    return start + length, right
 
 
 def _series(g, s: Schematic, x_source, y_bottom, y_top):
     """R1, L1 and C1 (‖ C2 …) along the top wire; the load R2 down the right side."""
     x, gap = x_source, 22.0
+    frontier = x  # everything drawn so far lies left of this
     if s.source_resistor is not None:
-        length = _LENGTH["resistor"]
-        _line(g, x, y_top, x + gap, y_top)
-        _horizontal(g, "resistor", x + gap, y_top, length)
-        _label_above(g, s.source_resistor, x + gap + length / 2, y_top)
-        x += gap + length
-        _source_box(g, x_source, y_bottom, y_top, x + 6)
+        x, frontier = _source_resistor(g, s, x, y_bottom, y_top, gap)
     length = _LENGTH["inductor"]
-    _line(g, x, y_top, x + gap, y_top)
-    _horizontal(g, "inductor", x + gap, y_top, length)
-    _label_above(g, s.inductor, x + gap + length / 2, y_top)
-    _tap(g, s, x + gap + length / 2, y_top, horizontal=True)
-    x += gap + length
-    _line(g, x, y_top, x + gap, y_top)
-    x += gap
-    x, labels_end = _capacitor_bank(g, s.across_capacitors, x, y_top)
+    start = _start_clear_of(x + gap, length, s.inductor, frontier)
+    _line(g, x, y_top, start, y_top)
+    _horizontal(g, "inductor", start, y_top, length)
+    _label_above(g, s.inductor, start + length / 2, y_top)
+    frontier = _tap(g, s, start + length / 2, y_top, horizontal=True)
+    frontier = max(frontier, start + length / 2 + _label_width(s.inductor) / 2)
+    x = start + length
+    bank = _start_clear_of(x + gap + 10, 40.0, s.across_capacitors[0], frontier) - 10
+    _line(g, x, y_top, bank, y_top)
+    x, labels_end = _capacitor_bank(g, s.across_capacitors, bank, y_top)
     x_right = max(x + gap, labels_end + 34.0)
     _line(g, x, y_top, x_right, y_top)
     if s.load is not None:
@@ -307,14 +332,9 @@ def _capacitor_bank(g, capacitors, x, y) -> tuple[float, float]:
 
 def _parallel(g, s: Schematic, x_source, y_bottom, y_top):
     """R1 along the top to the tank; C1, C2 …, L1 and the load R2 as branches across it."""
-    x = x_source
+    x = frontier = x_source  # everything drawn so far lies left of `frontier`
     if s.source_resistor is not None:
-        length = _LENGTH["resistor"]
-        _line(g, x, y_top, x + 18, y_top)
-        _horizontal(g, "resistor", x + 18, y_top, length)
-        _label_above(g, s.source_resistor, x + 18 + length / 2, y_top)
-        x += 18 + length
-        _source_box(g, x_source, y_bottom, y_top, x + 6)
+        x, frontier = _source_resistor(g, s, x, y_bottom, y_top, 18.0)
     linked = s.link is not None
     tapped = s.tap_label is not None and s.load is not None and not linked
     coupled = linked or tapped  # L1 goes last, its label on its left, the load beside it
@@ -322,12 +342,16 @@ def _parallel(g, s: Schematic, x_source, y_bottom, y_top):
                 else [*s.across_capacitors, s.inductor])
     if s.load is not None and not coupled:
         branches.append(s.load)
-    x_branch = x + 36.0
+    x_branch = max(x + 36.0, frontier + 30.0)
     xs = []
     span = y_top - y_bottom
     for part in branches:
+        beside = coupled and part is s.inductor  # its label to its left, above the top wire
+        if beside:
+            x_branch = max(x_branch, frontier + _CLEAR + 8 + _label_width(part))
         xs.append(x_branch)
-        if coupled and part is s.inductor:
+        reach = x_branch + 14 + _label_width(part)
+        if beside:
             _vertical(g, "inductor", x_branch, y_bottom, span, loops_right=True)
             _text(g, x_branch - 8, y_top + 12, part.designator, DESIGNATOR_SIZE, "end", True)
             _text(g, x_branch - 8, y_top + 3, part.value, LABEL_SIZE, "end")
@@ -335,12 +359,12 @@ def _parallel(g, s: Schematic, x_source, y_bottom, y_top):
             _vertical(g, part.kind, x_branch, y_bottom, span)
             _label_right(g, part, x_branch, (y_top + y_bottom) / 2)
         if part is s.inductor and not tapped:
-            _tap(g, s, x_branch, (y_top + y_bottom) / 2, horizontal=False)
+            reach = max(reach, _tap(g, s, x_branch, y_bottom + span * 0.25, horizontal=False))
         if part is s.load:
             _box(g, x_branch - 18, y_bottom + 8, 40 + _label_width(part), span - 16, "load")
-        # the next branch clears this one's label (drawn to its right) and its own loops
-        x_branch += max(60.0, 14 + _label_width(part) + 22) if not (
-            coupled and part is s.inductor) else 0.0
+        # the next branch clears this one's label and tap (drawn to its right)
+        if not beside:
+            x_branch = max(x_branch + 60.0, reach + 22)
     _line(g, x, y_top, xs[-1], y_top)
     _line(g, x_source, y_bottom, xs[-1], y_bottom)
     for xx in xs[:-1]:
@@ -357,14 +381,16 @@ def _tapped_load(g, s: Schematic, x_coil, y_bottom, y_top):
     bottom rail, in its dashed load box."""
     span = y_top - y_bottom
     y_tap = y_bottom + span / 2.0
-    x_load = x_coil + 74.0
+    tap = s.tap_label.split(":")[0]
+    x_load = x_coil + max(74.0, 6 + _text_width(tap) + _CLEAR + 16)  # the box is 16 left of R2
     _dot(g, x_coil, y_tap)
     _line(g, x_coil, y_tap, x_load, y_tap)
-    _text(g, x_coil + 6, y_tap + 3, s.tap_label.split(":")[0], LABEL_SIZE)
+    _text(g, x_coil + 6, y_tap + 3, tap, LABEL_SIZE)
     _vertical(g, "resistor", x_load, y_bottom, y_tap - y_bottom)
     _label_right(g, s.load, x_load, y_bottom + (y_tap - y_bottom) / 2)
     _line(g, x_coil, y_bottom, x_load, y_bottom)
-    _box(g, x_load - 16, y_bottom + 2, 36 + _label_width(s.load), span - 4, "load")
+    _box(g, x_load - 16, y_bottom + 2, 36 + _label_width(s.load), span - 4, "load",
+         top_left=True)  # R2 and its label fill the box's lower half
 
 
 def _link(g, s: Schematic, x_coil, y_bottom, y_top):
@@ -388,15 +414,18 @@ def _link(g, s: Schematic, x_coil, y_bottom, y_top):
              inner_top - inner_bottom - 6, "load")
 
 
-def _tap(g, s: Schematic, x, y, horizontal: bool):
-    """A tap lead from the middle of L1, labelled, when the schematic has one."""
+def _tap(g, s: Schematic, x, y, horizontal: bool) -> float:
+    """A tap lead from the middle of L1, labelled, when the schematic has one; returns how
+    far right it reaches (x without a tap)."""
     if s.tap_label is None:
-        return
+        return x
     if horizontal:
         _dot(g, x, y)
         _line(g, x, y, x, y - 20)
         _text(g, x + 4, y - 18, s.tap_label, LABEL_SIZE)
+        return x + 4 + _text_width(s.tap_label)
     else:
         _dot(g, x, y)
         _line(g, x, y, x + 24, y)
-        _text(g, x + 26, y - 12, s.tap_label, LABEL_SIZE)
+        _text(g, x + 26, y - 3, s.tap_label, LABEL_SIZE)
+        return x + 26 + _text_width(s.tap_label)
