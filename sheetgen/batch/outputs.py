@@ -65,7 +65,9 @@ def write_sheet(design, job_path: Path, output: Path, results_path: Path | None,
     from sheetgen.report.results import results_json
     from sheetgen.sheet import render_sheet
     from sheetgen.sheet.glyphs import check_printable
+    from sheetgen.sheet.layout import check_frame_fits
     check_printable(design.job, job_path, style)
+    check_frame_fits(design.job, job_path, style)
     job_text = job_path.read_text(encoding="utf-8")
     results_text = results_json(design)
     sheet = design.job.sheet

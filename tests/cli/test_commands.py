@@ -119,3 +119,19 @@ def test_outputs_are_written_whole_with_ordinary_permissions(tmp_path, capsys):
     assert out.read_bytes().startswith(b"%PDF-")
     assert out.stat().st_mode & 0o777 == 0o644
     assert [p.name for p in tmp_path.iterdir()] == ["sheet.pdf"]
+
+
+def test_a_title_too_long_for_the_title_block_is_bad_input(tmp_path, capsys):
+    """The title block prints every field whole or refuses it: exit 2 at the field's line
+    and column, and no sheet written."""
+    text = template_text("series")
+    title = "Very long title with many words " * 12
+    job = tmp_path / "long.yaml"
+    job.write_text("\n".join(f'  title: "{title}"' if line.startswith("  title:") else line
+                             for line in text.splitlines()) + "\n", encoding="utf-8")
+    out = tmp_path / "long.pdf"
+    assert main(["build", str(job), "-o", str(out)]) == 2
+    err = capsys.readouterr().err
+    line = next(n for n, t in enumerate(job.read_text().splitlines(), 1) if t.startswith("  title:"))
+    assert f"long.yaml:{line}:10 sheet.title: is too long to print whole" in err
+    assert not out.exists()
