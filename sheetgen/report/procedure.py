@@ -277,7 +277,7 @@ def fixture_settings(design: Design) -> tuple[tuple[str, str], ...]:
 def _port_text(hookup: PortHookup, name: str, rating_w: float | None, port: str) -> str:
     presented = quantity_text(hookup.presented_ohm, "Ω")
     if hookup.kind == "direct":
-        return f"the {port} itself, no resistor ({presented})"
+        return f"the {port} in its place, no resistor ({presented})"
     how = "in series with" if hookup.kind == "series_resistor" else "across"
     return f"{_resistor_text(name, hookup, rating_w)} {how} the {port}: {presented}"
 
