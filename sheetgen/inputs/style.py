@@ -45,6 +45,12 @@ class HouseStyle:
     page_note: str | None = None
     source: str = "<default style>"
     logo_mark: tuple[int, int] = (1, 1)
+    text_marks: tuple[tuple[str, int, int], ...] = ()  # (field, line, column) in the file
+
+    def mark(self, field: str) -> tuple[int, int]:
+        """Where `field` is written in the style file (1, 1 when not known)."""
+        return next(((line, column) for name, line, column in self.text_marks
+                     if name == field), (1, 1))
 
 
 def default_style() -> HouseStyle:
@@ -99,7 +105,10 @@ def style_from_text(text: str, shown: str, job_dir: Path | None) -> HouseStyle:
     return HouseStyle(organisation=style.organisation.strip(), page_size=style.page_size,
                       sections=tuple(style.sections), logo_path=logo_path,
                       page_note=style.page_note, source=shown,
-                      logo_mark=located.marks.get(("logo",), (1, 1)))
+                      logo_mark=located.marks.get(("logo",), (1, 1)),
+                      text_marks=tuple((field, *located.marks[(field,)])
+                                       for field in ("organisation", "page_note")
+                                       if (field,) in located.marks))
 
 
 def _repeated_sections(located, shown: str) -> list[Problem]:

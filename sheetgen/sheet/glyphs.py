@@ -63,7 +63,7 @@ def check_printable(job: Job, job_path: Path, style=None) -> None:
         for field in ("organisation", "page_note"):
             missing = missing_glyphs(getattr(style, field) or "")
             if missing:
-                problems.append(Problem(style.source, 1, 1, field,
+                problems.append(Problem(style.source, *style.mark(field), field,
                                         f"{', '.join(map(_described, missing))} cannot be "
                                         "printed: the sheet's font has no glyph for it"))
     if problems:

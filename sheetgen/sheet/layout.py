@@ -200,7 +200,7 @@ def check_frame_fits(job, job_path: Path, style: HouseStyle | None = None) -> No
                             PAGE_SIZES[style.page_size], _logo_width(style.logo_path))
     problems = []
     for field in dict.fromkeys(FRAME_FIELDS[key] for key in misfits):
-        where = (style.source, 1, 1) if field in ("organisation", "page_note") else (
+        where = (style.source, *style.mark(field)) if field in ("organisation", "page_note") else (
             str(job_path), *field_position(job_path, field))
         problems.append(Problem(*where, field, TOO_LONG, "a shorter text"))
     if problems:

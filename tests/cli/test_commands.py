@@ -135,3 +135,19 @@ def test_a_title_too_long_for_the_title_block_is_bad_input(tmp_path, capsys):
     line = next(n for n, t in enumerate(job.read_text().splitlines(), 1) if t.startswith("  title:"))
     assert f"long.yaml:{line}:10 sheet.title: is too long to print whole" in err
     assert not out.exists()
+
+
+def test_a_page_note_too_long_for_its_row_is_bad_input_at_its_line(tmp_path, capsys):
+    """The style's page note is printed whole in the title block's last row or refused at
+    the line and column where the style file writes it."""
+    job = tmp_path / "job.yaml"
+    job.write_text(template_text("series"), encoding="utf-8")
+    style = tmp_path / "style-long.yaml"
+    style.write_text("organisation: Example Radio Works\n"
+                     f"page_note: {'Check the revision against the work order. ' * 4}\n",
+                     encoding="utf-8")
+    out = tmp_path / "job.pdf"
+    assert main(["build", str(job), "-o", str(out), "--style", str(style)]) == 2
+    err = capsys.readouterr().err
+    assert "style-long.yaml:2:12 page_note: is too long to print whole" in err
+    assert not out.exists()
