@@ -309,8 +309,10 @@ def _connect_text(design: Design) -> str:
     level = (f" (the resistor divides it by {port.presented_ohm / GENERATOR_RESISTANCE_OHM:.4g},"
              f" {signed(20 * math.log10(divider), 1)} dB)" if divider < 1 else "")
     return ("Make the circuit's source from the generator and its load from the receiver, "
-            "as below; nothing else is connected to the circuit, so no probe loads it. "
-            f"The receiver reads {reads}{level}. Keep the fixture's leads short.")
+            "as below; nothing else is connected to the circuit, so no probe loads it. Fit "
+            "each hookup where the schematic shows the part it stands for: a series resistor "
+            "on the circuit's side, each instrument's cable screen to the circuit's ground "
+            f"(cold) side. The receiver reads {reads}{level}. Keep the fixture's leads short.")
 
 
 def _lcr_settings(frequency_hz: float, note: str) -> tuple[tuple[str, str], ...]:
