@@ -20,7 +20,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
 from sheetgen.engine.resonance import Circuit, response_features, terminal_impedance  # noqa: E402
 from sheetgen.engine.variation import monte_carlo  # noqa: E402
-from tests.test_variation_ngspice import CASES, ngspice_monte_carlo  # noqa: E402
+from tests.engine.test_variation_ngspice import CASES, ngspice_monte_carlo  # noqa: E402
 
 LOOP_TRIALS = 2_000
 NGSPICE_TRIALS = 300
