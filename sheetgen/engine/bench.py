@@ -9,11 +9,12 @@ marked common practice where they are defined.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Literal
 
-from sheetgen.engine.resonance import Circuit, Resonance
-from sheetgen.engine.stress import Drive, Stress
+from sheetgen.engine.resonance import Circuit, Resonance, analyse
+from sheetgen.engine.standard_values import SERIES_TOLERANCE, nearest_standard, series_values
+from sheetgen.engine.stress import Drive, Stress, part_stress
 
 # Bench generators, analysers and their cables are 50 Ω systems (common practice).
 GENERATOR_RESISTANCE_OHM = 50.0
@@ -132,7 +133,6 @@ def port_hookup(wanted_ohm: float, port_tolerance: float = DEFAULT_PORT_TOLERANC
     (Rp·t + R·p)/(R + Rp) (each term the part's share of the relative change, to first
     order, added as a worst case).
     """
-    from sheetgen.engine.standard_values import SERIES_TOLERANCE, nearest_standard
     if not wanted_ohm > 0 or not math.isfinite(wanted_ohm):
         raise ValueError("a port needs a positive, finite resistance")
     t = SERIES_TOLERANCE[FIXTURE_SERIES]
@@ -218,7 +218,6 @@ def source_hookup(circuit: Circuit, resonance: Resonance,
 def bench_circuit(circuit: Circuit, source: PortHookup, found: Receiver) -> Circuit:
     """The circuit as the bench test builds it: the design's L and C with the fixture's
     source and load resistances, nominal."""
-    from dataclasses import replace
     return replace(circuit, source_resistance_ohm=source.presented_ohm,
                    load_resistance_ohm=found.presented_ohm)
 
@@ -259,7 +258,6 @@ def bench_drive(bench: Circuit, f_peak_hz: float, design_stress: Stress,
     by R/(R + 50 Ω) (Thévenin). Fixture dissipation bounds: a series resistor R at most
     (E/Rs)²·R, a shunt at most E²/R; at the receiver, its share of the load's power.
     """
-    from sheetgen.engine.stress import part_stress
     design_high = max(design_stress.capacitor_voltage_peak_v,
                       design_stress.inductor_voltage_peak_v)
     target = min(TEST_PART_VOLTAGE_PEAK_V, design_high) if design_high > 0 else \
@@ -308,7 +306,6 @@ def bench_setup(circuit: Circuit, resonance: Resonance, stress: Stress, *,
                 port_tolerance: float = DEFAULT_PORT_TOLERANCE) -> BenchSetup:
     """The fixture for `circuit` (source_hookup, receiver), the bench circuit it builds,
     analysed exactly (resonance.analyse), and the test level (bench_drive)."""
-    from sheetgen.engine.resonance import analyse
     source = source_hookup(circuit, resonance, port_tolerance)
     found = receiver(circuit, resonance, coupled=coupled, port_resistor_ohm=port_resistor_ohm,
                      port_tolerance=port_tolerance)
@@ -344,7 +341,6 @@ def f0_with_capacitance_hz(f0_hz: float, capacitance_f: float, new_capacitance_f
 
 def adjacent_standard_values(value: float, series: str) -> tuple[float, float]:
     """The standard values of `series` (IEC 60063) just below and just above `value`."""
-    from sheetgen.engine.standard_values import series_values
     decade = math.floor(math.log10(value))
     ladder = sorted(float(f"{m * 10.0 ** (decade + shift):.6g}") for shift in (-1, 0, 1)
                     for m in series_values(series))
