@@ -25,7 +25,7 @@ from sheetgen.engine.bench import (
     sweep_settings,
 )
 from sheetgen.quantities import format_number
-from sheetgen.report.cautions import design_cautions, names_text
+from sheetgen.report.cautions import design_cautions, kilovolt_distances, names_text
 from sheetgen.report.formatting import (
     percent,
     percent_change,
@@ -381,21 +381,29 @@ def full_power_steps(design: Design) -> tuple[TestStep, ...]:
             text += f", {names.coil} about {format_number(rise * share, 2)} K above ambient"
         levels.append((f"Step at {percent(share, 2)}", text))
     words = names_text(dict.fromkeys(c.level.upper() for c in hazards))  # most severe first
+    severe = any(c.level in ("danger", "warning") for c in hazards)
+    guard = ("Only with the unit in its enclosure or behind a guard, an observer present and "
+             "the supply's off switch within reach; read voltages only with a probe rated for "
+             "them, from outside the guard." if severe else
+             "Keep fingers off the parts the cautions name while the drive is on; read voltages "
+             "only with a probe rated for them.")
+    corona = (" no hiss, glow, smell of ozone or crackle (corona or arcing);"
+              if kilovolt_distances(design) is not None else "")
     steps = (
         ("Before you start",
          f"This run puts the design's own voltages on the parts: the cautions of this sheet "
-         f"({words}) apply in full. Only with the unit in its enclosure or behind a guard, the "
-         "fixture removed, the real source and load (or a dummy load rated for the power) "
-         "connected, an observer present and the supply's off switch within reach. Read "
-         "voltages only with a probe rated for them, from outside the guard.", ()),
+         f"({words}) apply in full. Remove the test set-up and connect the real source and "
+         f"load (or a dummy load rated for the power). {guard}", ()),
         ("Raise the drive in steps",
          "Raise the drive to each level below, holding each for 5 minutes (common practice) "
          "and removing the drive before touching anything.", tuple(levels)),
         ("Watch at each step",
-         f"The response maximum stays in the f0 window of the test record; {names.coil} stays "
-         f"near the rise shown and {names_text(names.capacitors)} near ambient (read by an "
-         "infrared thermometer from outside the guard, never by touch); no hiss, glow, smell "
-         "of ozone or crackle (corona or arcing).", ()),
+         "The response maximum stays in the f0 window of the test record; "
+         + (f"{names.coil} stays near the rise shown and {names_text(names.capacitors)} near "
+            "ambient" if rise else
+            f"{names_text((names.coil, *names.capacitors))} stay near ambient")
+         + f" (read by an infrared thermometer, never by touch);{corona} nothing smells hot or "
+         "discolours.", ()),
         ("Stop at once",
          "Remove the drive if any of these appears, or the frequency drifts out of its window, "
          "or a part runs hotter than the rise shown by more than 10 K (common practice); "

@@ -215,8 +215,21 @@ def test_hazardous_designs_get_an_optional_full_power_run(tmp_path):
     assert format_quantity(highest, "V", 3) in levels["Step at 100 %"]
     assert format_quantity(highest / 2, "V", 3) in levels["Step at 25 %"]
     assert "the cautions of this sheet (WARNING and CAUTION) apply in full" in plan.full_power[0].text
+    assert "behind a guard" in plan.full_power[0].text, "WARNING: guarded, observed"
     toroid, _ = _design(tmp_path, "toroid")
     assert procedure(toroid).full_power == ()
+
+
+def test_a_caution_only_design_gets_a_lighter_full_power_run(tmp_path):
+    """ANSI Z535.4 / ISO 3864-2: CAUTION is a hazard of minor injury, WARNING of serious
+    injury; parallel.yaml has only CAUTIONs (45 V peak), so its run asks for care, not a
+    guard and an observer, and a coil with no computed rise is watched for ambient."""
+    d, res = _design(tmp_path, "parallel")
+    assert {c["level"] for c in res["cautions"]} <= {"caution", "notice"}
+    run = procedure(d).full_power
+    assert run and "behind a guard" not in run[0].text and "Keep fingers off" in run[0].text
+    watch = next(s for s in run if s.title == "Watch at each step")
+    assert "rise shown" not in watch.text and "L1, C1 and C2 stay near ambient" in watch.text
 
 
 def test_steps_are_numbered_and_name_the_settings(tmp_path):
