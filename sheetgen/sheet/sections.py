@@ -54,6 +54,7 @@ from sheetgen.sheet import fonts
 from sheetgen.sheet.forms import RadioChoice, TextField
 from sheetgen.sheet.plots import coil_q_drawing, impedance_phase_drawing, response_drawing
 from sheetgen.sheet.schematic import schematic_drawing, schematic_of
+from sheetgen.sheet.setup_drawing import setup_drawing, setup_of
 from sheetgen.sheet.winding_drawing import SolenoidView, winding_drawing, winding_view_of
 
 GREY_RULE = colors.Color(0.55, 0.55, 0.55)
@@ -320,8 +321,11 @@ def procedure_section(design: Design, kit: Kit) -> SectionContent:
         if not step.settings:
             flowables.append(paragraph)
             continue
-        flowables.append([paragraph, _Indent(_settings_table(step.settings, kit), 18),
-                          Spacer(1, 6)])
+        block = [paragraph, _Indent(_settings_table(step.settings, kit), 18), Spacer(1, 6)]
+        if step.title == "Connect the test set-up":
+            view = setup_of(plan, design.designators, design.job.sheet.id)
+            block += [_Indent(setup_drawing(view, kit.width - 18), 18), Spacer(1, 6)]
+        flowables.append(block)
     if plan.full_power:
         flowables.append(para("Optional full-power run — the cautions of this sheet apply",
                               kit.heading))
