@@ -26,7 +26,7 @@ _LOOPS, _LOOP_R = 4, 4.5     # inductor: half-circle loops and their radius
 _CAP_GAP, _CAP_PLATE = 5.0, 18.0
 _SOURCE_R = 11.0
 _LENGTH = {"resistor": 44.0, "inductor": 54.0, "capacitor": 40.0, "trimmer": 40.0}
-_CLEAR = 4.0  # pt between a label and the next label, box edge or wire to its right
+LABEL_CLEARANCE = 4.0  # pt between a label and the next label, box edge or wire to its right
 _SOURCE_BOX_LEFT = 2.0  # the dashed source box's left edge
 
 
@@ -110,15 +110,15 @@ def schematic_of(design: Design) -> Schematic:
 
 # --- primitives ---------------------------------------------------------------------------
 
-def _line(group, x1, y1, x2, y2, width=LINE_WIDTH):
+def wire(group, x1, y1, x2, y2, width=LINE_WIDTH):
     drawing.line(group, x1, y1, x2, y2, width)
 
 
-def _text(group, x, y, text, size=LABEL_SIZE, anchor="start", bold=False):
+def label_text(group, x, y, text, size=LABEL_SIZE, anchor="start", bold=False):
     drawing.text(group, x, y, text, size, anchor, bold)
 
 
-def _dot(group, x, y):
+def dot(group, x, y):
     from reportlab.graphics.shapes import Circle
     from reportlab.lib.colors import black
     group.add(Circle(x, y, 1.8, fillColor=black, strokeColor=black, strokeWidth=0))
@@ -133,15 +133,15 @@ def _symbol(kind: PartKind, length: float):
     middle = length / 2.0
     if kind == "resistor":
         body, width = _RESISTOR
-        _line(g, 0, 0, middle - body / 2, 0)
-        _line(g, middle + body / 2, 0, length, 0)
+        wire(g, 0, 0, middle - body / 2, 0)
+        wire(g, middle + body / 2, 0, length, 0)
         g.add(Rect(middle - body / 2, -width / 2, body, width, strokeWidth=LINE_WIDTH,
                    fillColor=white, strokeColor=black))
     elif kind == "inductor":
         body = 2 * _LOOP_R * _LOOPS
         start = middle - body / 2
-        _line(g, 0, 0, start, 0)
-        _line(g, start + body, 0, length, 0)
+        wire(g, 0, 0, start, 0)
+        wire(g, start + body, 0, length, 0)
         path = Path(strokeWidth=LINE_WIDTH, fillColor=None, strokeColor=black)
         path.moveTo(start, 0)
         k = 0.5523 * _LOOP_R  # a quarter circle as one cubic Bézier
@@ -151,52 +151,52 @@ def _symbol(kind: PartKind, length: float):
             path.curveTo(x0 + _LOOP_R + k, _LOOP_R, x0 + 2 * _LOOP_R, k, x0 + 2 * _LOOP_R, 0)
         g.add(path)
     else:
-        _line(g, 0, 0, middle - _CAP_GAP / 2, 0)
-        _line(g, middle + _CAP_GAP / 2, 0, length, 0)
+        wire(g, 0, 0, middle - _CAP_GAP / 2, 0)
+        wire(g, middle + _CAP_GAP / 2, 0, length, 0)
         for x in (middle - _CAP_GAP / 2, middle + _CAP_GAP / 2):
-            _line(g, x, -_CAP_PLATE / 2, x, _CAP_PLATE / 2, width=1.8)
+            wire(g, x, -_CAP_PLATE / 2, x, _CAP_PLATE / 2, width=1.8)
         if kind == "trimmer":  # preset adjustment: a diagonal ending in a short bar
-            _line(g, middle - 9, -12, middle + 9, 12, width=0.8)
-            _line(g, middle + 5, 15, middle + 13, 9, width=0.8)
+            wire(g, middle - 9, -12, middle + 9, 12, width=0.8)
+            wire(g, middle + 5, 15, middle + 13, 9, width=0.8)
     return g
 
 
-def _horizontal(group, kind: PartKind, x, y, length):
+def horizontal(group, kind: PartKind, x, y, length):
     from reportlab.graphics.shapes import Group
     group.add(Group(_symbol(kind, length), transform=(1, 0, 0, 1, x, y)))
 
 
-def _vertical(group, kind: PartKind, x, y, length, loops_right: bool = False):
+def vertical(group, kind: PartKind, x, y, length, loops_right: bool = False):
     """A symbol from (x, y) up to (x, y + length); an inductor's loops face left or right."""
     from reportlab.graphics.shapes import Group
     matrix = (0, 1, 1, 0, x, y) if loops_right else (0, 1, -1, 0, x, y)
     group.add(Group(_symbol(kind, length), transform=matrix))
 
 
-def _text_width(text: str, size: float = LABEL_SIZE, bold: bool = False) -> float:
+def text_width(text: str, size: float = LABEL_SIZE, bold: bool = False) -> float:
     from reportlab.pdfbase.pdfmetrics import stringWidth
     return stringWidth(text, fonts.BOLD if bold else fonts.REGULAR, size)
 
 
-def _label_width(part: Part) -> float:
+def label_width(part: Part) -> float:
     """Width of a part's label (designator over value), in points."""
-    return max(_text_width(part.designator, DESIGNATOR_SIZE, True), _text_width(part.value))
+    return max(text_width(part.designator, DESIGNATOR_SIZE, True), text_width(part.value))
 
 
 def _start_clear_of(x: float, length: float, part: Part, frontier: float) -> float:
     """Where a horizontal part of `length`, at `x` at the earliest, starts so that its label,
-    centred above it, begins _CLEAR right of `frontier` (where the drawing so far ends)."""
-    return max(x, frontier + _CLEAR + _label_width(part) / 2 - length / 2)
+    centred above it, begins LABEL_CLEARANCE right of `frontier` (where the drawing so far ends)."""
+    return max(x, frontier + LABEL_CLEARANCE + label_width(part) / 2 - length / 2)
 
 
-def _label_above(group, part: Part, x, y):
-    _text(group, x, y + 21, part.designator, DESIGNATOR_SIZE, "middle", True)
-    _text(group, x, y + 11, part.value, LABEL_SIZE, "middle")
+def label_above(group, part: Part, x, y):
+    label_text(group, x, y + 21, part.designator, DESIGNATOR_SIZE, "middle", True)
+    label_text(group, x, y + 11, part.value, LABEL_SIZE, "middle")
 
 
-def _label_right(group, part: Part, x, y):
-    _text(group, x + 14, y + 2, part.designator, DESIGNATOR_SIZE, "start", True)
-    _text(group, x + 14, y - 8, part.value, LABEL_SIZE, "start")
+def label_right(group, part: Part, x, y):
+    label_text(group, x + 14, y + 2, part.designator, DESIGNATOR_SIZE, "start", True)
+    label_text(group, x + 14, y - 8, part.value, LABEL_SIZE, "start")
 
 
 def _source(group, kind, x, y_bottom, y_top, label: str):
@@ -204,8 +204,8 @@ def _source(group, kind, x, y_bottom, y_top, label: str):
     from reportlab.graphics.shapes import Circle, Path, Polygon
     from reportlab.lib.colors import black, white
     middle = (y_bottom + y_top) / 2
-    _line(group, x, y_bottom, x, middle - _SOURCE_R)
-    _line(group, x, middle + _SOURCE_R, x, y_top)
+    wire(group, x, y_bottom, x, middle - _SOURCE_R)
+    wire(group, x, middle + _SOURCE_R, x, y_top)
     group.add(Circle(x, middle, _SOURCE_R, strokeWidth=LINE_WIDTH, fillColor=white,
                      strokeColor=black))
     if kind == "voltage":
@@ -215,23 +215,23 @@ def _source(group, kind, x, y_bottom, y_top, label: str):
         wave.curveTo(x + 1, middle - 6, x + 4, middle - 6, x + 6, middle)
         group.add(wave)
     else:
-        _line(group, x, middle - 6, x, middle + 3)
+        wire(group, x, middle - 6, x, middle + 3)
         group.add(Polygon([x - 3, middle + 2, x + 3, middle + 2, x, middle + 7],
                           fillColor=black, strokeColor=black, strokeWidth=0.5))
-    _text(group, x - _SOURCE_R - 5, middle + 2, "source", LABEL_SIZE, "end", True)
-    _text(group, x - _SOURCE_R - 5, middle - 8, label, LABEL_SIZE, "end")
+    label_text(group, x - _SOURCE_R - 5, middle + 2, "source", LABEL_SIZE, "end", True)
+    label_text(group, x - _SOURCE_R - 5, middle - 8, label, LABEL_SIZE, "end")
 
 
-def _box(group, x, y, width, height, caption: str, top_left: bool = False):
+def box(group, x, y, width, height, caption: str, top_left: bool = False):
     """A dashed boundary round what the rest of the system (or the test set-up) provides."""
     from reportlab.graphics.shapes import Rect
     from reportlab.lib.colors import Color
     group.add(Rect(x, y, width, height, strokeWidth=0.6, strokeDashArray=[3, 2],
                    fillColor=None, strokeColor=Color(0.35, 0.35, 0.35)))
     if caption and top_left:
-        _text(group, x + 3, y + height - 9, caption, 7.0, "start")
+        label_text(group, x + 3, y + height - 9, caption, 7.0, "start")
     elif caption:  # bottom right, clear of the leads that cross the box's left half
-        _text(group, x + width - 3, y + 3, caption, 7.0, "end")
+        label_text(group, x + width - 3, y + 3, caption, 7.0, "end")
 
 
 # --- layouts ------------------------------------------------------------------------------
@@ -242,8 +242,8 @@ def schematic_drawing(schematic: Schematic, width: float, height: float = HEIGHT
     g = Group()
     y_bottom, y_top = 14.0, height - 36.0
     # the source's labels, left of its circle, clear the source box's left edge
-    label = max(_text_width("source", bold=True), _text_width(schematic.source_label))
-    x_source = max(84.0, _SOURCE_BOX_LEFT + _CLEAR + label + 5 + _SOURCE_R)
+    label = max(text_width("source", bold=True), text_width(schematic.source_label))
+    x_source = max(84.0, _SOURCE_BOX_LEFT + LABEL_CLEARANCE + label + 5 + _SOURCE_R)
     _source(g, schematic.source, x_source, y_bottom, y_top, schematic.source_label)
     if schematic.topology == "series":
         _series(g, schematic, x_source, y_bottom, y_top)
@@ -258,7 +258,7 @@ def schematic_drawing(schematic: Schematic, width: float, height: float = HEIGHT
 
 
 def _source_box(g, y_bottom, y_top, right):
-    _box(g, _SOURCE_BOX_LEFT, y_bottom - 8, right - _SOURCE_BOX_LEFT, y_top - y_bottom + 40,
+    box(g, _SOURCE_BOX_LEFT, y_bottom - 8, right - _SOURCE_BOX_LEFT, y_top - y_bottom + 40,
          "source", top_left=True)
 
 
@@ -267,11 +267,11 @@ def _source_resistor(g, s: Schematic, x, y_bottom, y_top, lead: float) -> tuple[
     clear of R1's label; returns where the wire goes on and where the drawing ends."""
     length = _LENGTH["resistor"]
     start = _start_clear_of(x + lead, length, s.source_resistor, x)
-    _line(g, x, y_top, start, y_top)
-    _horizontal(g, "resistor", start, y_top, length)
-    _label_above(g, s.source_resistor, start + length / 2, y_top)
-    right = max(start + length + 6, start + length / 2 + _label_width(s.source_resistor) / 2
-                + _CLEAR)
+    wire(g, x, y_top, start, y_top)
+    horizontal(g, "resistor", start, y_top, length)
+    label_above(g, s.source_resistor, start + length / 2, y_top)
+    right = max(start + length + 6, start + length / 2 + label_width(s.source_resistor) / 2
+                + LABEL_CLEARANCE)
     _source_box(g, y_bottom, y_top, right)
     return start + length, right
 
@@ -284,25 +284,25 @@ def _series(g, s: Schematic, x_source, y_bottom, y_top):
         x, frontier = _source_resistor(g, s, x, y_bottom, y_top, gap)
     length = _LENGTH["inductor"]
     start = _start_clear_of(x + gap, length, s.inductor, frontier)
-    _line(g, x, y_top, start, y_top)
-    _horizontal(g, "inductor", start, y_top, length)
-    _label_above(g, s.inductor, start + length / 2, y_top)
-    frontier = _tap(g, s, start + length / 2, y_top, horizontal=True)
-    frontier = max(frontier, start + length / 2 + _label_width(s.inductor) / 2)
+    wire(g, x, y_top, start, y_top)
+    horizontal(g, "inductor", start, y_top, length)
+    label_above(g, s.inductor, start + length / 2, y_top)
+    frontier = _tap(g, s, start + length / 2, y_top, along_top=True)
+    frontier = max(frontier, start + length / 2 + label_width(s.inductor) / 2)
     x = start + length
     bank = _start_clear_of(x + gap + 10, 40.0, s.across_capacitors[0], frontier) - 10
-    _line(g, x, y_top, bank, y_top)
+    wire(g, x, y_top, bank, y_top)
     x, labels_end = _capacitor_bank(g, s.across_capacitors, bank, y_top)
     x_right = max(x + gap, labels_end + 34.0)
-    _line(g, x, y_top, x_right, y_top)
+    wire(g, x, y_top, x_right, y_top)
     if s.load is not None:
-        _vertical(g, "resistor", x_right, y_bottom, y_top - y_bottom)
-        _label_right(g, s.load, x_right, (y_top + y_bottom) / 2)
-        _box(g, x_right - 18, y_bottom + 8, 40 + _label_width(s.load), y_top - y_bottom - 16,
+        vertical(g, "resistor", x_right, y_bottom, y_top - y_bottom)
+        label_right(g, s.load, x_right, (y_top + y_bottom) / 2)
+        box(g, x_right - 18, y_bottom + 8, 40 + label_width(s.load), y_top - y_bottom - 16,
              "load")
     else:
-        _line(g, x_right, y_bottom, x_right, y_top)
-    _line(g, x_source, y_bottom, x_right, y_bottom)
+        wire(g, x_right, y_bottom, x_right, y_top)
+    wire(g, x_source, y_bottom, x_right, y_bottom)
 
 
 def _capacitor_bank(g, capacitors, x, y) -> tuple[float, float]:
@@ -313,20 +313,20 @@ def _capacitor_bank(g, capacitors, x, y) -> tuple[float, float]:
     pitch, inner = 30.0, 40.0
     ys = [y - pitch * i for i in range(len(capacitors))]
     for index, (part, yy) in enumerate(zip(capacitors, ys)):
-        _horizontal(g, part.kind, x + 10, yy, inner)
+        horizontal(g, part.kind, x + 10, yy, inner)
         if index == 0:
-            _label_above(g, part, x + 10 + inner / 2, yy)
+            label_above(g, part, x + 10 + inner / 2, yy)
         else:
-            _text(g, x + 10 + inner + 6, yy + 2, part.designator, DESIGNATOR_SIZE, "start", True)
-            _text(g, x + 10 + inner + 6, yy - 8, part.value, LABEL_SIZE, "start")
-    _line(g, x, y, x + 10, y)
-    _line(g, x + 10 + inner, y, x + 20 + inner, y)
+            label_text(g, x + 10 + inner + 6, yy + 2, part.designator, DESIGNATOR_SIZE, "start", True)
+            label_text(g, x + 10 + inner + 6, yy - 8, part.value, LABEL_SIZE, "start")
+    wire(g, x, y, x + 10, y)
+    wire(g, x + 10 + inner, y, x + 20 + inner, y)
     if len(capacitors) > 1:
         for xx in (x + 10, x + 10 + inner):
-            _line(g, xx, ys[0], xx, ys[-1])
-            _dot(g, xx, y)
+            wire(g, xx, ys[0], xx, ys[-1])
+            dot(g, xx, y)
     end = x + 20 + inner
-    labels = max((_label_width(p) for p in capacitors[1:]), default=0.0)
+    labels = max((label_width(p) for p in capacitors[1:]), default=0.0)
     return end, max(end, x + 10 + inner + 6 + labels)
 
 
@@ -348,28 +348,28 @@ def _parallel(g, s: Schematic, x_source, y_bottom, y_top):
     for part in branches:
         beside = coupled and part is s.inductor  # its label to its left, above the top wire
         if beside:
-            x_branch = max(x_branch, frontier + _CLEAR + 8 + _label_width(part))
+            x_branch = max(x_branch, frontier + LABEL_CLEARANCE + 8 + label_width(part))
         xs.append(x_branch)
-        reach = x_branch + 14 + _label_width(part)
+        reach = x_branch + 14 + label_width(part)
         if beside:
-            _vertical(g, "inductor", x_branch, y_bottom, span, loops_right=True)
-            _text(g, x_branch - 8, y_top + 12, part.designator, DESIGNATOR_SIZE, "end", True)
-            _text(g, x_branch - 8, y_top + 3, part.value, LABEL_SIZE, "end")
+            vertical(g, "inductor", x_branch, y_bottom, span, loops_right=True)
+            label_text(g, x_branch - 8, y_top + 12, part.designator, DESIGNATOR_SIZE, "end", True)
+            label_text(g, x_branch - 8, y_top + 3, part.value, LABEL_SIZE, "end")
         else:
-            _vertical(g, part.kind, x_branch, y_bottom, span)
-            _label_right(g, part, x_branch, (y_top + y_bottom) / 2)
+            vertical(g, part.kind, x_branch, y_bottom, span)
+            label_right(g, part, x_branch, (y_top + y_bottom) / 2)
         if part is s.inductor and not tapped:
-            reach = max(reach, _tap(g, s, x_branch, y_bottom + span * 0.25, horizontal=False))
+            reach = max(reach, _tap(g, s, x_branch, y_bottom + span * 0.25, along_top=False))
         if part is s.load:
-            _box(g, x_branch - 18, y_bottom + 8, 40 + _label_width(part), span - 16, "load")
+            box(g, x_branch - 18, y_bottom + 8, 40 + label_width(part), span - 16, "load")
         # the next branch clears this one's label and tap (drawn to its right)
         if not beside:
             x_branch = max(x_branch + 60.0, reach + 22)
-    _line(g, x, y_top, xs[-1], y_top)
-    _line(g, x_source, y_bottom, xs[-1], y_bottom)
+    wire(g, x, y_top, xs[-1], y_top)
+    wire(g, x_source, y_bottom, xs[-1], y_bottom)
     for xx in xs[:-1]:
-        _dot(g, xx, y_top)
-        _dot(g, xx, y_bottom)
+        dot(g, xx, y_top)
+        dot(g, xx, y_bottom)
     if linked:
         _link(g, s, xs[-1], y_bottom, y_top)
     if tapped:
@@ -382,14 +382,14 @@ def _tapped_load(g, s: Schematic, x_coil, y_bottom, y_top):
     span = y_top - y_bottom
     y_tap = y_bottom + span / 2.0
     tap = s.tap_label.split(":")[0]
-    x_load = x_coil + max(74.0, 6 + _text_width(tap) + _CLEAR + 16)  # the box is 16 left of R2
-    _dot(g, x_coil, y_tap)
-    _line(g, x_coil, y_tap, x_load, y_tap)
-    _text(g, x_coil + 6, y_tap + 3, tap, LABEL_SIZE)
-    _vertical(g, "resistor", x_load, y_bottom, y_tap - y_bottom)
-    _label_right(g, s.load, x_load, y_bottom + (y_tap - y_bottom) / 2)
-    _line(g, x_coil, y_bottom, x_load, y_bottom)
-    _box(g, x_load - 16, y_bottom + 2, 36 + _label_width(s.load), span - 4, "load",
+    x_load = x_coil + max(74.0, 6 + text_width(tap) + LABEL_CLEARANCE + 16)  # the box is 16 left of R2
+    dot(g, x_coil, y_tap)
+    wire(g, x_coil, y_tap, x_load, y_tap)
+    label_text(g, x_coil + 6, y_tap + 3, tap, LABEL_SIZE)
+    vertical(g, "resistor", x_load, y_bottom, y_tap - y_bottom)
+    label_right(g, s.load, x_load, y_bottom + (y_tap - y_bottom) / 2)
+    wire(g, x_coil, y_bottom, x_load, y_bottom)
+    box(g, x_load - 16, y_bottom + 2, 36 + label_width(s.load), span - 4, "load",
          top_left=True)  # R2 and its label fill the box's lower half
 
 
@@ -397,35 +397,35 @@ def _link(g, s: Schematic, x_coil, y_bottom, y_top):
     """The link winding L2 beside L1 (core bars between when cored), the load across it."""
     x_link = x_coil + 2 * _LOOP_R + 16
     inner_bottom, inner_top = y_bottom + 14, y_top - 14
-    _vertical(g, "inductor", x_link, inner_bottom, inner_top - inner_bottom)
+    vertical(g, "inductor", x_link, inner_bottom, inner_top - inner_bottom)
     if s.cored:
         for dx in (-2.0, 2.0):
             middle = (x_coil + x_link) / 2 + dx
-            _line(g, middle, inner_bottom + 6, middle, inner_top - 6, width=0.9)
-    _text(g, x_link + 8, y_top + 12, s.link.designator, DESIGNATOR_SIZE, "start", True)
-    _text(g, x_link + 8, y_top + 3, s.link.value, LABEL_SIZE, "start")
+            wire(g, middle, inner_bottom + 6, middle, inner_top - 6, width=0.9)
+    label_text(g, x_link + 8, y_top + 12, s.link.designator, DESIGNATOR_SIZE, "start", True)
+    label_text(g, x_link + 8, y_top + 3, s.link.value, LABEL_SIZE, "start")
     x_load = x_link + 50
-    _line(g, x_link, inner_top, x_load, inner_top)
-    _line(g, x_link, inner_bottom, x_load, inner_bottom)
+    wire(g, x_link, inner_top, x_load, inner_top)
+    wire(g, x_link, inner_bottom, x_load, inner_bottom)
     if s.load is not None:
-        _vertical(g, "resistor", x_load, inner_bottom, inner_top - inner_bottom)
-        _label_right(g, s.load, x_load, (inner_top + inner_bottom) / 2)
-        _box(g, x_load - 18, inner_bottom + 3, 40 + _label_width(s.load),
+        vertical(g, "resistor", x_load, inner_bottom, inner_top - inner_bottom)
+        label_right(g, s.load, x_load, (inner_top + inner_bottom) / 2)
+        box(g, x_load - 18, inner_bottom + 3, 40 + label_width(s.load),
              inner_top - inner_bottom - 6, "load")
 
 
-def _tap(g, s: Schematic, x, y, horizontal: bool) -> float:
+def _tap(g, s: Schematic, x, y, along_top: bool) -> float:
     """A tap lead from the middle of L1, labelled, when the schematic has one; returns how
     far right it reaches (x without a tap)."""
     if s.tap_label is None:
         return x
-    if horizontal:
-        _dot(g, x, y)
-        _line(g, x, y, x, y - 20)
-        _text(g, x + 4, y - 18, s.tap_label, LABEL_SIZE)
-        return x + 4 + _text_width(s.tap_label)
+    if along_top:
+        dot(g, x, y)
+        wire(g, x, y, x, y - 20)
+        label_text(g, x + 4, y - 18, s.tap_label, LABEL_SIZE)
+        return x + 4 + text_width(s.tap_label)
     else:
-        _dot(g, x, y)
-        _line(g, x, y, x + 24, y)
-        _text(g, x + 26, y - 3, s.tap_label, LABEL_SIZE)
-        return x + 26 + _text_width(s.tap_label)
+        dot(g, x, y)
+        wire(g, x, y, x + 24, y)
+        label_text(g, x + 26, y - 3, s.tap_label, LABEL_SIZE)
+        return x + 26 + text_width(s.tap_label)

@@ -17,20 +17,20 @@ from sheetgen.report.formatting import quantity_text, signed
 from sheetgen.report.procedure import RECEIVER_FIXTURE, SOURCE_FIXTURE, Procedure
 from sheetgen.sheet import drawing
 from sheetgen.sheet.schematic import (
-    _CLEAR,
+    LABEL_CLEARANCE,
     LABEL_SIZE,
     LINE_WIDTH,
     Part,
-    _box,
-    _dot,
-    _horizontal,
-    _label_above,
-    _label_right,
-    _label_width,
-    _line,
-    _text,
-    _text_width,
-    _vertical,
+    box,
+    dot,
+    horizontal,
+    label_above,
+    label_right,
+    label_text,
+    label_width,
+    text_width,
+    vertical,
+    wire,
 )
 
 HookupKind = Literal["direct", "series_resistor", "shunt_resistor"]
@@ -122,10 +122,10 @@ def setup_drawing(view: SetupView, width: float):
     x, unit_middle = _unit(g, view.unit, x)
     x = _hookup_drawn(g, view.receiver_hookup, x)
     x_receiver_port = x + _PORT_R + 14.0
-    _line(g, x, _Y_SIGNAL, x_receiver_port, _Y_SIGNAL)
+    wire(g, x, _Y_SIGNAL, x_receiver_port, _Y_SIGNAL)
     _instrument(g, view.receiver, x_receiver_port + _PORT_R, port_right=False)
-    _line(g, x_port, _Y_RAIL, x_receiver_port, _Y_RAIL)
-    _text(g, unit_middle, _Y_RAIL - 11, RAIL_LABEL, 7.0, "middle")
+    wire(g, x_port, _Y_RAIL, x_receiver_port, _Y_RAIL)
+    label_text(g, unit_middle, _Y_RAIL - 11, RAIL_LABEL, 7.0, "middle")
     right = g.getBounds()[2] + 1.0
     scale = min(1.0, width / right)
     g.transform = (scale, 0, 0, scale, 0, 0)
@@ -141,8 +141,8 @@ def _instrument(g, instrument: Instrument, left: float, port_right: bool) -> flo
     from reportlab.graphics.shapes import Circle
     from reportlab.lib.colors import black
     lines = (instrument.name, *instrument.lines)
-    width = 2 * _PAD + max(_text_width(instrument.name, bold=True),
-                           *(_text_width(t) for t in instrument.lines))
+    width = 2 * _PAD + max(text_width(instrument.name, bold=True),
+                           *(text_width(t) for t in instrument.lines))
     height = 2 * _PAD + _LINE_PITCH * len(lines)
     bottom = _Y_SIGNAL - height / 2
     for x1, y1, x2, y2 in ((left, bottom, left + width, bottom),
@@ -151,13 +151,13 @@ def _instrument(g, instrument: Instrument, left: float, port_right: bool) -> flo
                            (left, bottom + height, left, bottom)):
         drawing.line(g, x1, y1, x2, y2, LINE_WIDTH, cap=2)  # square corners
     for index, content in enumerate(lines):
-        _text(g, left + width / 2, bottom + height - _PAD - 7.5 - _LINE_PITCH * index, content,
+        label_text(g, left + width / 2, bottom + height - _PAD - 7.5 - _LINE_PITCH * index, content,
               LABEL_SIZE, "middle", bold=index == 0)
     x_port = left + width + _PORT_R if port_right else left - _PORT_R
     g.add(Circle(x_port, _Y_SIGNAL, _PORT_R, strokeWidth=0.8, fillColor=None,
                  strokeColor=black))
-    _dot(g, x_port, _Y_SIGNAL)
-    _line(g, x_port, _Y_SIGNAL - _PORT_R, x_port, _Y_RAIL)
+    dot(g, x_port, _Y_SIGNAL)
+    wire(g, x_port, _Y_SIGNAL - _PORT_R, x_port, _Y_RAIL)
     return x_port
 
 
@@ -165,44 +165,44 @@ def _hookup_drawn(g, hookup: Hookup, x: float) -> float:
     """A hookup on the signal path from `x`; returns where the path goes on."""
     gap = 16.0
     if hookup.kind == "direct":
-        length = _text_width(DIRECT_LABEL) + 2 * gap
-        _line(g, x, _Y_SIGNAL, x + length, _Y_SIGNAL)
-        _text(g, x + length / 2, _Y_SIGNAL + 5, DIRECT_LABEL, LABEL_SIZE, "middle")
+        length = text_width(DIRECT_LABEL) + 2 * gap
+        wire(g, x, _Y_SIGNAL, x + length, _Y_SIGNAL)
+        label_text(g, x + length / 2, _Y_SIGNAL + 5, DIRECT_LABEL, LABEL_SIZE, "middle")
         return x + length
     part = hookup.resistor
-    label = _label_width(part)
+    label = label_width(part)
     if hookup.kind == "series_resistor":
         start = x + gap + max(0.0, label / 2 - _RESISTOR_LENGTH / 2)
-        _line(g, x, _Y_SIGNAL, start, _Y_SIGNAL)
-        _horizontal(g, "resistor", start, _Y_SIGNAL, _RESISTOR_LENGTH)
-        _label_above(g, part, start + _RESISTOR_LENGTH / 2, _Y_SIGNAL)
+        wire(g, x, _Y_SIGNAL, start, _Y_SIGNAL)
+        horizontal(g, "resistor", start, _Y_SIGNAL, _RESISTOR_LENGTH)
+        label_above(g, part, start + _RESISTOR_LENGTH / 2, _Y_SIGNAL)
         end = start + _RESISTOR_LENGTH + max(0.0, label / 2 - _RESISTOR_LENGTH / 2) + gap
-        _line(g, start + _RESISTOR_LENGTH, _Y_SIGNAL, end, _Y_SIGNAL)
+        wire(g, start + _RESISTOR_LENGTH, _Y_SIGNAL, end, _Y_SIGNAL)
         return end
     x_shunt = x + 2 * gap
-    _vertical(g, "resistor", x_shunt, _Y_RAIL, _Y_SIGNAL - _Y_RAIL)
-    _label_right(g, part, x_shunt, (_Y_SIGNAL + _Y_RAIL) / 2)
-    _dot(g, x_shunt, _Y_SIGNAL)
-    _dot(g, x_shunt, _Y_RAIL)
-    end = x_shunt + 14 + label + _CLEAR + gap
-    _line(g, x, _Y_SIGNAL, end, _Y_SIGNAL)
+    vertical(g, "resistor", x_shunt, _Y_RAIL, _Y_SIGNAL - _Y_RAIL)
+    label_right(g, part, x_shunt, (_Y_SIGNAL + _Y_RAIL) / 2)
+    dot(g, x_shunt, _Y_SIGNAL)
+    dot(g, x_shunt, _Y_RAIL)
+    end = x_shunt + 14 + label + LABEL_CLEARANCE + gap
+    wire(g, x, _Y_SIGNAL, end, _Y_SIGNAL)
     return end
 
 
 def _unit(g, unit: Unit, x: float) -> tuple[float, float]:
     """The dashed unit box from `x`, its terminals on the signal path and its cold side
     down to the rail; returns its right edge and its middle."""
-    caption_width = _text_width(unit.caption, 7.0)
-    width = max(caption_width + 2 * _PAD, _text_width(unit.source_terminal)
-                + _text_width(unit.receiver_terminal) + 2 * _PAD + 3 * _CLEAR)
+    caption_width = text_width(unit.caption, 7.0)
+    width = max(caption_width + 2 * _PAD, text_width(unit.source_terminal)
+                + text_width(unit.receiver_terminal) + 2 * _PAD + 3 * LABEL_CLEARANCE)
     bottom, top = _Y_RAIL + 12, _Y_SIGNAL + 30
-    _box(g, x, bottom, width, top - bottom, unit.caption, top_left=True)
+    box(g, x, bottom, width, top - bottom, unit.caption, top_left=True)
     right, middle = x + width, x + width / 2
     for xx in (x, right):
-        _dot(g, xx, _Y_SIGNAL)
-    _text(g, x + _PAD, _Y_SIGNAL - 3, unit.source_terminal)
-    _text(g, right - _PAD, _Y_SIGNAL - 3, unit.receiver_terminal, LABEL_SIZE, "end")
-    _dot(g, middle, bottom)
-    _line(g, middle, bottom, middle, _Y_RAIL)
-    _dot(g, middle, _Y_RAIL)
+        dot(g, xx, _Y_SIGNAL)
+    label_text(g, x + _PAD, _Y_SIGNAL - 3, unit.source_terminal)
+    label_text(g, right - _PAD, _Y_SIGNAL - 3, unit.receiver_terminal, LABEL_SIZE, "end")
+    dot(g, middle, bottom)
+    wire(g, middle, bottom, middle, _Y_RAIL)
+    dot(g, middle, _Y_RAIL)
     return right, middle
