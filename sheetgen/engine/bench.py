@@ -230,7 +230,6 @@ class BenchDrive:
     `part_voltage_peak_v` the highest part voltage on the bench circuit at that level.
     """
 
-    scale: float
     part_voltage_peak_v: float
     generator_emf_rms_v: float
     generator_level_dbm: float
@@ -280,8 +279,7 @@ def bench_drive(bench: Circuit, f_peak_hz: float, design_stress: Stress,
         receiver_w = load_w * port.resistor_ohm / port.presented_ohm
     elif port.kind == "shunt_resistor":
         receiver_w = load_w * port.presented_ohm / port.resistor_ohm
-    scale = target / design_high if design_high > 0 else 1.0
-    return BenchDrive(scale=scale, part_voltage_peak_v=target,
+    return BenchDrive(part_voltage_peak_v=target,
                       generator_emf_rms_v=generator_emf,
                       generator_level_dbm=dbm_from_emf(generator_emf),
                       source_resistor_w=source_w, receiver_resistor_w=receiver_w)

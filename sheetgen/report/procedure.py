@@ -82,6 +82,7 @@ class TestStep:
     text: str
     settings: tuple[tuple[str, str], ...] = ()
     records: tuple[str, ...] = ()
+    key: str = ""  # which step of the plan it is (e.g. "connect"), for the sheet's layout
 
 
 @dataclass(frozen=True)
@@ -342,9 +343,9 @@ def _coil_level_note(design: Design, frequency_hz: float) -> str:
                      if limit else ""))
 
 
-def _small_signal_note(design: Design) -> str:
-    """Whether the sheet's cautions apply to the small-signal test."""
-    hazards = _hazard_cautions(design)
+def _small_signal_note(design: Design, hazards) -> str:
+    """Whether the sheet's cautions apply to the small-signal test (`hazards`: the
+    design's cautions above NOTICE)."""
     level = quantity_text(design.bench.drive.part_voltage_peak_v, "V", 3)
     if not hazards:
         return (f"none apply: this test puts at most {level} peak on any part, and the "
@@ -361,11 +362,10 @@ def _hazard_cautions(design: Design):
 FULL_POWER_SHARES = (0.25, 0.5, 1.0)  # shares of the design's drive power, in order
 
 
-def full_power_steps(design: Design) -> tuple[TestStep, ...]:
-    """The optional run at the design's drive, for designs whose cautions warn of harm:
-    the drive raised in steps (part voltages ∝ √P, losses and rises ∝ P in a linear
-    circuit), what to watch at each, and when to stop."""
-    hazards = _hazard_cautions(design)
+def full_power_steps(design: Design, hazards) -> tuple[TestStep, ...]:
+    """The optional run at the design's drive, for designs whose cautions warn of harm
+    (`hazards`: its cautions above NOTICE): the drive raised in steps (part voltages ∝ √P,
+    losses and rises ∝ P in a linear circuit), what to watch at each, and when to stop."""
     if not hazards:
         return ()
     s, names = design.stress, design.designators
@@ -435,6 +435,7 @@ def procedure(design: Design) -> Procedure:
     sweep = sweep_settings(float(design.sweep.f_hz[0]), float(design.sweep.f_hz[-1]),
                            r.bandwidth_hz)
     drive = design.bench.drive
+    hazards = _hazard_cautions(design)  # worded once, for two steps
     choice = design.capacitor_choice
     level_note = ""
     if drive.generator_level_dbm > GENERATOR_LEVEL_MAX_DBM:
@@ -485,7 +486,7 @@ def procedure(design: Design) -> Procedure:
              ("Generator level (into 50 Ω)", signed(drive.generator_level_dbm, 1) + " dBm"),
              ("Highest part voltage at this level", quantity_text(drive.part_voltage_peak_v, "V")
               + " peak"),
-             ("Cautions for this test", _small_signal_note(design)),
+             ("Cautions for this test", _small_signal_note(design, hazards)),
          ), ()),
         ("maximum", "Find the response maximum",
          "Sweep and find the maximum of the response; record its frequency"
@@ -518,7 +519,7 @@ def procedure(design: Design) -> Procedure:
                 "measured.bandwidth_hz", "measured.q_loaded") if trimmer else ())
     steps = tuple(TestStep(number[key], tune_title if key == "tune" else title,
                            tune_text if key == "tune" else text, settings,
-                           as_left if key == "tune" else records)
+                           as_left if key == "tune" else records, key)
                   for key, title, text, settings, records in plan)
     return Procedure(sweep, design.bench, steps, record_rows(design),
-                     full_power_steps(design))
+                     full_power_steps(design, hazards))

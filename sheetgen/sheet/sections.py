@@ -317,23 +317,28 @@ def procedure_section(design: Design, kit: Kit) -> SectionContent:
     plan = kit.procedure
     flowables: list = [CondPageBreak(200)]  # start the steps where a few of them fit
     for step in plan.steps:
-        paragraph = _numbered(step.number, step.title, step.text, kit)
-        if not step.settings:
-            flowables.append(paragraph)
-            continue
-        block = [paragraph, _Indent(_settings_table(step.settings, kit), 18), Spacer(1, 6)]
-        if step.title == "Connect the test set-up":
-            view = setup_of(plan, design.designators, design.job.sheet.id)
-            block += [_Indent(setup_drawing(view, kit.width - 18), 18), Spacer(1, 6)]
-        flowables.append(block)
+        drawn = ()
+        if step.key == "connect":
+            drawn = (setup_drawing(setup_of(plan, design.designators, design.job.sheet.id),
+                                   kit.width - 18),)
+        flowables.append(_step_block(step, kit, drawn))
     if plan.full_power:
         flowables.append(para("Optional full-power run — the cautions of this sheet apply",
                               kit.heading))
-        for step in plan.full_power:
-            paragraph = _numbered(step.number, step.title, step.text, kit)
-            flowables.append([paragraph, _Indent(_settings_table(step.settings, kit), 18),
-                              Spacer(1, 6)] if step.settings else paragraph)
+        flowables += [_step_block(step, kit) for step in plan.full_power]
     return SectionContent("Test procedure", flowables)
+
+
+def _step_block(step, kit: Kit, drawings: tuple = ()):
+    """A numbered step, then its settings table and any drawings, kept together."""
+    paragraph = _numbered(step.number, step.title, step.text, kit)
+    extras = ([_settings_table(step.settings, kit)] if step.settings else []) + list(drawings)
+    if not extras:
+        return paragraph
+    block = [paragraph]
+    for extra in extras:
+        block += [_Indent(extra, 18), Spacer(1, 6)]
+    return block
 
 
 def _settings_table(settings: tuple[tuple[str, str], ...], kit: Kit) -> Table:
