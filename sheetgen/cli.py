@@ -73,6 +73,12 @@ def build_parser() -> argparse.ArgumentParser:
     verify.add_argument("--library", type=Path, help="parts library folder for jobs that name "
                         "cores (default: found from the sheet's folder, as for a job)")
 
+    netlist = commands.add_parser("netlist", help="write the circuit as analysed as a SPICE "
+                                  "netlist with its sweep and measures")
+    netlist.add_argument("job", type=Path, metavar="JOB", help="YAML job file")
+    netlist.add_argument("-o", "--output", type=Path, help="file to write (default: print)")
+    netlist.add_argument("--library", type=Path, help="parts library folder (default: see README)")
+
     demo = commands.add_parser("demo", help="build the bundled demo job's sheet")
     demo.add_argument("-o", "--output", type=Path, default=Path("demo.pdf"),
                       help="PDF to write (default: demo.pdf)")
@@ -178,6 +184,18 @@ def _limits(args) -> int:
         write_atomically(args.output, text.encode("utf-8"))
         print(f"wrote {args.output}")
     return _exit_for(design)
+
+
+def _netlist(args) -> int:
+    from sheetgen.design.pipeline import design_from_file
+    from sheetgen.report.netlist import spice_netlist
+    text = spice_netlist(design_from_file(args.job, args.library))
+    if args.output is None:
+        sys.stdout.write(text)
+    else:
+        write_atomically(args.output, text.encode("ascii"))
+        print(f"wrote {args.output}")
+    return EXIT_OK
 
 
 def _build_command(args) -> int:
@@ -364,7 +382,7 @@ def _verify(args) -> int:
 
 
 COMMANDS = {"check": _check, "build": _build_command, "limits": _limits, "diff": _diff,
-            "verify": _verify, "grade": _grade, "demo": _demo, "new": _new, "schema": _schema}
+            "verify": _verify, "grade": _grade, "netlist": _netlist, "demo": _demo, "new": _new, "schema": _schema}
 
 
 def _exit_for(result) -> int:

@@ -14,10 +14,18 @@ import numpy as np
 from sheetgen.design.assessment import assess, bleeder_duty, job_drive
 from sheetgen.design.capacitors import capacitance_across, capacitor_choice
 from sheetgen.design.designators import designators
+from sheetgen.design.kinds import duties_of
+from sheetgen.design.kinds.tank import tank_model
 from sheetgen.design.plausibility import CAPACITANCE_MIN_F, LOADED_Q_MIN, plausibility_findings
 from sheetgen.design.records import CoilDesign, Derivation, Design
 from sheetgen.engine import resonance
-from sheetgen.engine.stress import DriveError, open_load_stress, part_stress, worse_stress
+from sheetgen.engine.stress import (
+    DriveError,
+    open_circuit_voltage_rms,
+    open_load_stress,
+    part_stress,
+    worse_stress,
+)
 from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import Job
@@ -144,6 +152,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                         coil_result is not None and coil_result.link_turns is not None,
                         job.capacitor.bleeder is not None)
     bench = _bench(job, circuit, analysed, stress, coil_result)
+    model = tank_model(circuit, names, choice, coupling, drive.kind)
+    duties = duties_of(model, _drive_rms(drive, circuit), analysed.f_peak_hz, f0)
     try:
         assessment = _assess(job, circuit, analysed, stress, response, names, choice, fixed,
                              coil_result, f0_target, open_stress, bench)
@@ -156,7 +166,15 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                   plausibility=plausibility_findings(job, circuit, analysed, stress, fixed,
                                                      capacitance_f=required_c),
                   stress_open_load=open_stress,
-                  bleeder=bleeder_duty(job, worse_stress(stress, open_stress)), bench=bench)
+                  bleeder=bleeder_duty(job, worse_stress(stress, open_stress)), bench=bench,
+                  model=model, duties=duties)
+
+
+def _drive_rms(drive, circuit) -> float:
+    """The source's RMS EMF (volts) or current (amperes) that the network's unit drive scales to."""
+    if drive.kind == "current":
+        return drive.value
+    return open_circuit_voltage_rms(drive, circuit.source_resistance_ohm)
 
 
 def _bench(job: Job, circuit, analysed, stress, coil: CoilDesign | None):

@@ -11,6 +11,7 @@ import numpy as np
 
 from sheetgen.design.assessment import Assessment
 from sheetgen.design.designators import Designators
+from sheetgen.design.kinds import CircuitModel, PartDuties
 from sheetgen.design.plausibility import Finding
 from sheetgen.engine.bench import BenchSetup
 from sheetgen.engine.coil import SolenoidCoil, ToroidCoil
@@ -175,3 +176,5 @@ class Design:
     stress_open_load: Stress | None = None  # the same drive with the load disconnected
     bleeder: BleederDuty | None = None
     bench: BenchSetup | None = None  # the small-signal test set-up and the circuit it builds
+    model: CircuitModel | None = None  # the circuit as a network of its parts (design/kinds)
+    duties: PartDuties | None = None  # every part's V, I and P from the network's solve

@@ -20,6 +20,8 @@ from typing import Literal
 
 import numpy as np
 
+from sheetgen.engine.roots import safe_newton
+
 Topology = Literal["series", "parallel"]
 
 # Search bracket for the response maximum, in ln(f/f0); the half-power points are looked
@@ -28,8 +30,6 @@ Topology = Literal["series", "parallel"]
 _BRACKET_LN = math.log(50.0)
 _EXPANSIONS = 3
 _FARTHEST_LN = 12.0 * math.log(10.0)
-_MAX_ITERATIONS = 200
-_TOLERANCE_LN = 1e-14
 
 
 class NoResonanceError(ValueError):
@@ -173,36 +173,6 @@ def _response_denominator(circuit: Circuit, omega):
     return d, d1, d2
 
 
-def _safe_newton(function, low, high, guess):
-    """Vectorised Newton's method kept inside a bracket, bisecting where Newton would leave it
-    (the 'rtsafe' scheme, Press et al., Numerical Recipes, 3rd ed., section 9.4).
-
-    `function(x)` returns (f, df/dx). Where f(low) and f(high) do not differ in sign there
-    is no root to find: that element is left at `guess` and not iterated. Bisection halves
-    the bracket each step, so every element stops within ~log2(width/tolerance) steps.
-    """
-    f_low, _ = function(low)
-    f_high, _ = function(high)
-    done = np.sign(f_low) == np.sign(f_high)
-    x = guess.copy()
-    for _ in range(_MAX_ITERATIONS):
-        if np.all(done):
-            break
-        f, df = function(x)
-        below = np.sign(f) == np.sign(f_low)
-        low, f_low = np.where(below, x, low), np.where(below, f, f_low)
-        high = np.where(below, high, x)
-        with np.errstate(divide="ignore", invalid="ignore"):
-            newton = x - f / df
-        scale = _TOLERANCE_LN * (1.0 + np.abs(x))
-        small_step = np.abs(newton - x) <= scale
-        inside = (newton > np.minimum(low, high)) & (newton < np.maximum(low, high))
-        step = np.where(inside | small_step, newton, 0.5 * (low + high))
-        x = np.where(done, x, step)
-        done = done | small_step | (np.abs(high - low) <= scale) | (f == 0)
-    return x
-
-
 def _outer_edge(excess, u_peak, edge):
     """The bracket end beyond a half-power point: `edge` (ln f/f0, on one side of the peak)
     with its span doubled, at most _EXPANSIONS times and to ±_FARTHEST_LN, for the
@@ -248,7 +218,7 @@ def response_features(circuit: Circuit) -> ResponseFeatures:
 
     edge = np.full_like(f0, _BRACKET_LN)
     has_peak = (slope(-edge)[0] < 0) & (slope(edge)[0] > 0)
-    u_peak = _safe_newton(slope, -edge, edge, np.zeros_like(f0))
+    u_peak = safe_newton(slope, -edge, edge, np.zeros_like(f0))
     omega_peak = omega0 * np.exp(u_peak)
     d_peak, _, _ = _response_denominator(circuit, omega_peak)
     target = 2.0 * np.abs(d_peak) ** 2
@@ -269,9 +239,9 @@ def response_features(circuit: Circuit) -> ResponseFeatures:
     high_edge = _outer_edge(excess, u_peak, edge)
     has_low = excess(low_edge)[0] > 0
     has_high = excess(high_edge)[0] > 0
-    u_low = _safe_newton(excess, low_edge, u_peak,
+    u_low = safe_newton(excess, low_edge, u_peak,
                          np.maximum(u_peak - offset, u_peak + 0.999 * (low_edge - u_peak)))
-    u_high = _safe_newton(excess, u_peak, high_edge,
+    u_high = safe_newton(excess, u_peak, high_edge,
                           np.minimum(u_peak + offset, u_peak + 0.999 * (high_edge - u_peak)))
     nan = np.nan
     return ResponseFeatures(

@@ -102,6 +102,7 @@ def results_document(design: Design) -> dict:
             "capacitor_loss_w": stress.capacitor_loss_w,
             **_open_load(design.stress_open_load),
         },
+        "parts": _parts(design),
         "inductor": _inductor(design),
         "limits": limits_section(design),
         "variation": _variation(design),
@@ -159,6 +160,38 @@ def _fixture(bench) -> dict:
         "generator_level_dbm": bench.drive.generator_level_dbm,
         "part_voltage_peak_v": bench.drive.part_voltage_peak_v,
     }
+
+
+_PART_UNITS = {"resistor": "Ω", "source_resistance": "Ω", "capacitor": "F", "coil": "H",
+               "turns_ratio": ""}
+
+
+def _parts(design: Design) -> list[dict]:
+    """Every part of the circuit's network (design/kinds), with its duty at the nominal drive
+    and at the worst credible case (the larger of nominal and load open)."""
+    if design.duties is None:
+        return []
+    duties = design.duties
+    worst = {d.name: d for d in duties.worst}
+    opened = {d.name for d in duties.open_load or ()}
+    built = set(design.model.built)
+    rows = []
+    for d in duties.nominal:
+        w = worst[d.name]
+        rows.append({
+            "designator": d.name, "kind": d.kind, "value": d.value, "unit": _PART_UNITS[d.kind],
+            "fitted": d.name in built,
+            "voltage_peak_v": d.voltage_peak_v, "current_rms_a": d.current_rms_a,
+            "power_w": d.power_w,
+            "worst_case": {
+                "condition": "load_open" if d.name in opened and w != d else "nominal",
+                "voltage_peak_v": w.voltage_peak_v, "current_rms_a": w.current_rms_a,
+                "power_w": w.power_w,
+                "at_frequency_hz": (duties.open_load_f_hz if d.name in opened and w != d
+                                    else design.stress.f_hz),
+            },
+        })
+    return rows
 
 
 def _open_load(open_stress) -> dict:

@@ -8,7 +8,7 @@ bracket of width 8 and a tolerance of 1e-14 in ln f, which is what resonance.py 
 
 import numpy as np
 
-from sheetgen.engine import resonance
+from sheetgen.engine import resonance, roots
 
 
 def _counted(function):
@@ -24,7 +24,7 @@ def test_no_root_in_the_bracket_is_not_iterated():
     """x² + 1 has no real root: the solver must give up at once, not spend its budget."""
     function, calls = _counted(lambda x: (x * x + 1.0, 2.0 * x))
     low, high = np.full(1000, -4.0), np.full(1000, 4.0)
-    resonance._safe_newton(function, low, high, np.zeros(1000))
+    roots.safe_newton(function, low, high, np.zeros(1000))
     assert calls[0] <= 3, calls[0]
 
 
@@ -32,7 +32,7 @@ def test_a_root_newton_cannot_reach_is_found_by_bisection_within_its_bound():
     """tanh(x − 1) = 0 at x = 1; Newton from x = 3.9 overshoots out of [−4, 4] (its step is
     sinh·cosh, ≈ 90), so the solver must bisect, and must stop within the bisection bound."""
     function, calls = _counted(lambda x: (np.tanh(x - 1.0), 1.0 / np.cosh(x - 1.0) ** 2))
-    x = resonance._safe_newton(function, np.array([-4.0]), np.array([4.0]), np.array([3.9]))
+    x = roots.safe_newton(function, np.array([-4.0]), np.array([4.0]), np.array([3.9]))
     assert abs(float(x[0]) - 1.0) < 1e-12
     assert calls[0] <= 1 + 2 + 60, calls[0]
 

@@ -1,0 +1,230 @@
+"""Features of a network's exact response, refined to machine precision on the solver.
+
+Each feature is bracketed on a coarse grid (or by widening a bracket geometrically), then
+refined by safeguarded Newton iteration in u = ln f (roots.safe_newton) with the exact
+ω-derivatives the MNA solve gives, every Monte Carlo trial at once:
+
+* the maximum (or minimum, for a notch) of |H|: where d|H|²/dω = 2·Re(H*·H') = 0;
+* the half-power (−3 dB) points: where |H|² = |H_peak|²/2, outwards from the maximum;
+* the value at named frequencies (attenuation), the extremes over a band (ripple, worst
+  return loss), each an exact solve.
+
+H is a `Quantity` of the solution: the network's response (default), its S11 or its S21.
+Pure: arrays in SI, no words.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable
+from dataclasses import dataclass
+from typing import Literal
+
+import numpy as np
+
+from sheetgen.engine.network import Network, Solution, solve
+from sheetgen.engine.roots import safe_newton
+
+# A quantity: (value, d/dω, d²/dω²) of a complex function of the solution (derivatives None
+# when the solution was computed without them).
+Quantity = Callable[[Solution], tuple[np.ndarray, np.ndarray | None, np.ndarray | None]]
+
+GRID_POINTS = 64  # the coarse grid that brackets an extremum (per trial)
+_FARTHEST_LN = 12.0 * math.log(10.0)  # half-power points looked for up to 12 decades away
+_EXPANSIONS = 60  # bracket doublings when widening towards a half-power point
+
+
+def response_quantity(solution: Solution):
+    """The network's own response: a part's voltage or current."""
+    return tuple(solution.response(k) if _has(solution, k) else None for k in range(3))
+
+
+def load_voltage_quantity(solution: Solution):
+    """The voltage across the load resistor (∝ S21 for a resistive source and load)."""
+    load = solution.network.part(solution.network.load)
+    return tuple(solution.part_voltage(load.name, k) if _has(solution, k) else None
+                 for k in range(3))
+
+
+def s11_quantity(solution: Solution):
+    """Reflection at the source port, Γ = (Z − R0)/(Z + R0), and its ω-derivatives.
+
+    With the Norton drive J = 1/R0 into the port node, the port current is J − V/R0, so
+    Γ = (V − (J − V/R0)·R0)/(V + (J − V/R0)·R0) = 2V/(J·R0) − 1 = 2V − 1 per volt of EMF:
+    Γ' = 2V', Γ'' = 2V'' (exact; the port's reference is the source resistance R0).
+    """
+    source = solution.network.source
+    if source.kind != "voltage" or source.resistance_ohm is None:
+        raise ValueError("S11 needs a voltage source with a resistance")
+    node = source.node
+    values = [solution.node_voltage(node, k) if _has(solution, k) else None for k in range(3)]
+    return (2.0 * values[0] - 1.0, None if values[1] is None else 2.0 * values[1],
+            None if values[2] is None else 2.0 * values[2])
+
+
+def _has(solution: Solution, order: int) -> bool:
+    return (solution.x, solution.dx, solution.d2x)[order] is not None
+
+
+def evaluate(network: Network, f_hz, quantity: Quantity = response_quantity,
+             per_trial: bool = False) -> np.ndarray:
+    """The complex quantity at f_hz (a grid shared by the trials, or one per trial)."""
+    return quantity(solve(network, f_hz, per_trial=per_trial))[0]
+
+
+def _power_and_slopes(network: Network, quantity: Quantity, u: np.ndarray, order: int):
+    """|H|², d|H|²/du and (order 2) d²|H|²/du² at f = e^u, one frequency per trial."""
+    f = np.exp(u)
+    h, h1, h2 = quantity(solve(network, f, derivatives=order, per_trial=True))
+    omega = 2.0 * np.pi * f
+    power = np.abs(h) ** 2
+    s = np.real(np.conj(h) * h1)  # ½ d|H|²/dω
+    slope = 2.0 * omega * s
+    if order < 2:
+        return power, slope, None
+    ds_du = omega * (np.abs(h1) ** 2 + np.real(np.conj(h) * h2))
+    curvature = 2.0 * omega * s + 2.0 * omega * ds_du
+    return power, slope, curvature
+
+
+@dataclass(frozen=True)
+class Extremum:
+    """The frequency of an extremum of |H| per trial, and |H| there (NaN where none)."""
+
+    f_hz: np.ndarray
+    magnitude: np.ndarray
+    curvature: np.ndarray  # d²|H|²/du² there (u = ln f)
+
+
+def extremum(network: Network, low_hz, high_hz, *, kind: Literal["max", "min"] = "max",
+             quantity: Quantity = response_quantity, points: int = GRID_POINTS) -> Extremum:
+    """The largest (or smallest) |H| between low_hz and high_hz (scalars or one per trial).
+
+    A log-spaced grid of `points` brackets it between the neighbours of the best sample;
+    there d|H|²/du changes sign, and safeguarded Newton on it (exact second derivative)
+    refines it. Where the best sample is at an end of the range, the extremum is that end
+    (no turning point inside): NaN is returned for it.
+    """
+    value_shape = _trial_shape(network, low_hz, high_hz)
+    low_u = np.broadcast_to(np.log(np.asarray(low_hz, dtype=float)), value_shape)
+    high_u = np.broadcast_to(np.log(np.asarray(high_hz, dtype=float)), value_shape)
+    steps = np.linspace(0.0, 1.0, points)
+    grid_u = low_u[..., None] + (high_u - low_u)[..., None] * steps
+    # every trial's own grid: the grid axis last, the part values broadcast against it
+    grid = np.abs(quantity(solve(_expanded(network), np.exp(grid_u), per_trial=True))[0])
+    best = np.argmax(grid, axis=-1) if kind == "max" else np.argmin(grid, axis=-1)
+    inside = (best > 0) & (best < points - 1)
+    lo = np.take_along_axis(grid_u, np.clip(best - 1, 0, points - 1)[..., None], -1)[..., 0]
+    hi = np.take_along_axis(grid_u, np.clip(best + 1, 0, points - 1)[..., None], -1)[..., 0]
+    guess = np.take_along_axis(grid_u, best[..., None], -1)[..., 0]
+
+    def slope(u):
+        _, first, second = _power_and_slopes(network, quantity, u, 2)
+        return first, second
+
+    u = safe_newton(slope, lo, hi, guess)
+    power, _, curvature = _power_and_slopes(network, quantity, u, 2)
+    nan = np.nan
+    return Extremum(np.where(inside, np.exp(u), nan), np.where(inside, np.sqrt(power), nan),
+                    np.where(inside, curvature, nan))
+
+
+def _trial_shape(network: Network, *arrays) -> tuple[int, ...]:
+    from sheetgen.engine.network import _value_shape
+    return np.broadcast_shapes(_value_shape(network), *(np.shape(a) for a in arrays))
+
+
+def _expanded(network: Network) -> Network:
+    """The same network with every array value given a trailing axis of length 1, so that it
+    broadcasts against a per-trial grid of frequencies."""
+    from dataclasses import fields, replace
+
+    def grow(value):
+        return value[..., None] if isinstance(value, np.ndarray) and value.ndim else value
+
+    parts = []
+    for part in network.parts:
+        changes = {f.name: grow(getattr(part, f.name)) for f in fields(part)
+                   if isinstance(getattr(part, f.name), np.ndarray)}
+        parts.append(replace(part, **changes) if changes else part)
+    source = network.source
+    if isinstance(source.resistance_ohm, np.ndarray):
+        source = replace(source, resistance_ohm=grow(source.resistance_ohm))
+    return Network(tuple(parts), source, network.response, network.load)
+
+
+@dataclass(frozen=True)
+class HalfPower:
+    """The half-power (−3 dB) points either side of a maximum, NaN where none."""
+
+    f_low_hz: np.ndarray
+    f_high_hz: np.ndarray
+
+    @property
+    def bandwidth_hz(self) -> np.ndarray:
+        return self.f_high_hz - self.f_low_hz
+
+
+def half_power_points(network: Network, peak: Extremum,
+                      quantity: Quantity = response_quantity) -> HalfPower:
+    """Where |H|² = |H_peak|²/2, the first crossing below and above the maximum.
+
+    From the curvature at the peak, |H|² ≈ P + ½κ(u − u_p)², so each point starts at
+    u_p ± √(P/|κ|); the bracket is widened geometrically (to 12 decades at most) until
+    |H|² is below the target at its outer end, then refined by safeguarded Newton.
+    """
+    u_peak = np.log(peak.f_hz)
+    target = 0.5 * peak.magnitude ** 2
+    with np.errstate(divide="ignore", invalid="ignore"):
+        offset = np.sqrt(peak.magnitude ** 2 / np.abs(peak.curvature))
+    offset = np.clip(np.nan_to_num(offset, nan=0.1, posinf=0.1), 1e-12, _FARTHEST_LN)
+
+    def excess(u):
+        power, slope, _ = _power_and_slopes(network, quantity, u, 1)
+        return target - power, -slope
+
+    def side(sign: float) -> np.ndarray:
+        edge = u_peak + sign * offset
+        for _ in range(_EXPANSIONS):
+            short = ~(excess(edge)[0] > 0) & np.isfinite(u_peak)
+            if not np.any(short):
+                break
+            wider = u_peak + np.clip(2.0 * (edge - u_peak), -_FARTHEST_LN, _FARTHEST_LN)
+            edge = np.where(short, wider, edge)
+        found = excess(edge)[0] > 0
+        low, high = (edge, u_peak) if sign < 0 else (u_peak, edge)
+        guess = u_peak + sign * np.minimum(offset, 0.999 * np.abs(edge - u_peak))
+        u = safe_newton(excess, np.nan_to_num(low), np.nan_to_num(high),
+                        np.nan_to_num(guess))
+        return np.where(found & np.isfinite(u_peak), np.exp(u), np.nan)
+
+    return HalfPower(side(-1.0), side(+1.0))
+
+
+@dataclass(frozen=True)
+class BandExtremes:
+    """The largest and smallest |H| over a band, each refined where it is a turning point."""
+
+    low_hz: np.ndarray
+    high_hz: np.ndarray
+    maximum: np.ndarray
+    minimum: np.ndarray
+
+
+def band_extremes(network: Network, low_hz, high_hz, quantity: Quantity = response_quantity,
+                  points: int = 4 * GRID_POINTS) -> BandExtremes:
+    """max and min of |H| over [low_hz, high_hz], ends included: the grid's best samples,
+    refined to the turning point where one lies inside (passband ripple, worst |S11|)."""
+    top = extremum(network, low_hz, high_hz, kind="max", quantity=quantity, points=points)
+    bottom = extremum(network, low_hz, high_hz, kind="min", quantity=quantity, points=points)
+    ends = np.abs(np.stack([evaluate(network, low_hz, quantity, per_trial=True),
+                            evaluate(network, high_hz, quantity, per_trial=True)]))
+    maximum = np.fmax(top.magnitude, ends.max(axis=0))
+    minimum = np.fmin(bottom.magnitude, ends.min(axis=0))
+    return BandExtremes(np.asarray(low_hz), np.asarray(high_hz), maximum, minimum)
+
+
+def decibels(magnitude) -> np.ndarray:
+    """20·log10|H|."""
+    with np.errstate(divide="ignore"):
+        return 20.0 * np.log10(np.abs(magnitude))
