@@ -464,11 +464,15 @@ def solve(network: Network, f_hz, *, derivatives: int = 0, per_trial: bool = Fal
             x[part] = np.linalg.solve(matrix, bf[part][..., None])[..., 0]
             continue
         inverse = np.linalg.inv(matrix)
-        x[part] = np.einsum("kij,kj->ki", inverse, bf[part])
-        dx[part] = -np.einsum("kij,kj->ki", inverse, np.einsum("kij,kj->ki", jA1, x[part]))
+        x[part] = _times(inverse, bf[part])
+        dx[part] = -_times(inverse, _times(jA1, x[part]))
         if derivatives >= 2:
-            d2x[part] = -2.0 * np.einsum("kij,kj->ki", inverse,
-                                         np.einsum("kij,kj->ki", jA1, dx[part]))
+            d2x[part] = -2.0 * _times(inverse, _times(jA1, dx[part]))
     full = shape + (n,)
     return Solution(network, f_full, x.reshape(full), None if dx is None else dx.reshape(full),
                     None if d2x is None else d2x.reshape(full))
+
+
+def _times(matrices: np.ndarray, vectors: np.ndarray) -> np.ndarray:
+    """A batch of matrix–vector products."""
+    return (matrices @ vectors[..., None])[..., 0]
