@@ -35,7 +35,7 @@ from sheetgen.engine.network import (  # noqa: E402
 )
 from sheetgen.engine.network_features import extremum, half_power_points  # noqa: E402
 from tests import spice  # noqa: E402
-from tests.engine.test_variation_ngspice import monte_carlo_deck  # noqa: E402
+from tests.engine.test_variation_ngspice import ngspice_monte_carlo  # noqa: E402
 
 NGSPICE_TRIALS = 100
 GRID = 16  # a coarse grid is enough to bracket the peak of trials within a few per cent
@@ -114,30 +114,13 @@ def bandpass(trials: int) -> None:
         print("  ngspice         not installed (apt-get install ngspice)")
         return
     bands = {name: (value, BAND) for name, value in nominal.items() if name[0] in "cl"}
-    run = spice_run(nominal, bands)
+    run = ngspice_monte_carlo(bandpass_bench(nominal), bands, NGSPICE_TRIALS, 1005,
+                              spice.Sweep("lin", 4001, F0 * 0.8, F0 * 1.25))
     spice_s = run.seconds / NGSPICE_TRIALS
     spice_centre = np.sqrt(run.f_low_hz * run.f_high_hz)
     print(f"  {run.ngspice_version:<14} {NGSPICE_TRIALS:>7} trials {spice_s * 1e6:10.1f} µs/trial   "
           f"centre {_spread(spice_centre)}   bandwidth {_spread(run.bandwidth_hz)}   "
           f"ratio {spice_s / ours_s:8.1f}× (target ≥ 1000×)")
-
-
-def spice_run(nominal: dict, bands: dict):
-    from tests.engine.test_variation_ngspice import NgspiceMonteCarlo
-    import re
-    bench = bandpass_bench(nominal)
-    sweep = spice.Sweep("lin", 4001, F0 * 0.8, F0 * 1.25)
-    deck = monte_carlo_deck(bench, bands, NGSPICE_TRIALS, 1005, sweep)
-    start = time.perf_counter()
-    text = spice._run(deck, ["mc.txt"], timeout_s=30.0 + 0.2 * NGSPICE_TRIALS)["mc.txt"]
-    seconds = time.perf_counter() - start
-    found = {"fpk": [], "flo": [], "fhi": []}
-    for line in text.splitlines():
-        match = re.match(r"^\s*(?:\w+\.)?(fpk|flo|fhi)\s*=\s*(\S+)\s*$", line)
-        if match:
-            found[match.group(1)].append(float(match.group(2)))
-    return NgspiceMonteCarlo(np.array(found["fpk"]), np.array(found["flo"]),
-                             np.array(found["fhi"]), seconds, spice.ngspice_version())
 
 
 def single(trials: int) -> None:
