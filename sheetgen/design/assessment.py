@@ -59,6 +59,32 @@ from sheetgen.inputs.model import Job
 
 
 @dataclass(frozen=True)
+class BandPoint:
+    """One frequency of a tuning band: the variable capacitor's setting there (nominal
+    parts, solved on the network as built) and the windows of units tuned to it."""
+
+    f_hz: float
+    setting_f: float | None
+    limits: TestLimits
+
+
+@dataclass(frozen=True)
+class BandTuning:
+    """A tank tuned across a band by its variable capacitor: whether its range reaches each
+    edge over the parts' spread (the trimmer check at both edges), and the band's points."""
+
+    low_hz: float
+    high_hz: float
+    low_edge: TrimmerCheck  # needs the most capacitance
+    high_edge: TrimmerCheck  # needs the least
+    points: tuple[BandPoint, ...]  # low edge, middle, high edge
+
+    @property
+    def covers(self) -> bool:
+        return self.low_edge.covers and self.high_edge.covers
+
+
+@dataclass(frozen=True)
 class Assessment:
     """Limits and rating checks of one design.
 
@@ -88,6 +114,7 @@ class Assessment:
     inductance_tc_assumed: float | None = None  # 1/K, a default for the coil's kind
     loss_spread: float | None = None
     loss_spread_source: str | None = None  # "job" or "estimate"
+    band: BandTuning | None = None  # tuning across a band (circuit.targets.band)
 
     @property
     def must_trim(self) -> bool:
@@ -168,7 +195,8 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
            wire_diameter_m: float | None = None, ac_to_dc_resistance: float = 1.0,
            fixed_parts_f: tuple[float, ...] = (),
            other_capacitance_f: float = 0.0,
-           open_load_stress: Stress | None = None, bench=None) -> Assessment:
+           open_load_stress: Stress | None = None, bench=None,
+           band_settings_f: tuple[float | None, ...] = ()) -> Assessment:
     """Limits, trimmer range and rating checks for the nominal design; parts are rated
     against the worse of the nominal and the open-load stress (B̂ ∝ V scales the flux).
 
@@ -217,6 +245,12 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
     allowance = BenchAllowance(step, job.test.frequency_accuracy, job.test.lcr_accuracy,
                                tuning)
     limits = test_limits(variation, resolution_hz=resolution, allowance=allowance)
+    band = job.circuit.targets.band if job.circuit.targets else None
+    band_tuning = None
+    if band is not None and tuned:
+        band_tuning = _band_tuning(band, sample_parts(circuit, spec, job.variation.method),
+                                   method, tested, tested_spec, fixed_capacitance_f, trimmer,
+                                   other_capacitance_f, band_settings_f, resolution, allowance)
     over_limits = test_limits(over, resolution_hz=resolution)
     spread = central_interval(untrimmed.f0_hz, None if job.variation.method == "worst-case"
                               else spec.coverage)
@@ -253,7 +287,30 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
                           and job.capacitor.temperature_coefficient is None else None),
                       inductance_tc_assumed=tc_assumed, loss_spread=loss_spread,
                       loss_spread_source=("job" if job.variation.loss_tolerance else
-                                          "estimate" if loss_spread else None))
+                                          "estimate" if loss_spread else None),
+                      band=band_tuning)
+
+
+def band_points_hz(band) -> tuple[float, float, float]:
+    """The band's edges and its geometric centre, where the sheet gives settings and windows."""
+    return band.low, band.centre, band.high
+
+
+def _band_tuning(band, built, method, tested, tested_spec, fixed_capacitance_f, trimmer,
+                 other_capacitance_f, settings_f, resolution, allowance) -> BandTuning:
+    """The trimmer check at both edges of the band (the capacitance each build needs there,
+    Thomson's formula per trial), and the windows of units tuned to each band point (the
+    Monte Carlo with every trial re-tuned there, as the technician sets it)."""
+    def edge(f_hz):
+        return trimmer_check(built, f_hz, fixed_capacitance_f, trimmer.minimum, trimmer.maximum,
+                             other_capacitance_f=other_capacitance_f)
+    points = []
+    for k, f_hz in enumerate(band_points_hz(band)):
+        tuned = method(tested, replace(tested_spec, tuned_f0_hz=f_hz))
+        setting = settings_f[k] if k < len(settings_f) else None
+        points.append(BandPoint(f_hz, setting, test_limits(tuned, resolution_hz=resolution,
+                                                           allowance=allowance)))
+    return BandTuning(band.low, band.high, edge(band.low), edge(band.high), tuple(points))
 
 
 def bleeder_duty(job: Job, rated: Stress):

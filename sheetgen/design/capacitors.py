@@ -23,9 +23,14 @@ def capacitance_across(job: Job, coil=None) -> CapacitanceAcross:
 
 
 def capacitor_choice(job: Job, required_c: float,
-                     across: CapacitanceAcross | None = None) -> CapacitorChoice:
+                     across: CapacitanceAcross | None = None,
+                     band_fit_f: tuple[float, float] | None = None) -> CapacitorChoice:
     """What to fit: the given part, or standard parts (and a trimmer setting) for required_c
-    (the capacitance to fit, what is already across it subtracted)."""
+    (the capacitance to fit, what is already across it subtracted).
+
+    With a tuning band, `band_fit_f` is the capacitance to fit at its two edges: the fixed
+    part is then chosen so that the variable capacitor's mid-range sits midway between
+    them (C ∝ 1/f², so each edge gets the same share of the range to spare)."""
     series = job.capacitor.preferred_series
     trimmer = job.capacitor.trimmer
     nearest = nearest_standard(required_c, series)
@@ -39,6 +44,8 @@ def capacitor_choice(job: Job, required_c: float,
         return CapacitorChoice(required_c, series, nearest, pair, pair.total, None, None,
                                pair.total, True, across)
     middle = 0.5 * (trimmer.minimum + trimmer.maximum)
+    if band_fit_f is not None:
+        middle += required_c - 0.5 * sum(band_fit_f)
     if required_c - middle <= 0:
         raise FieldError("capacitor.trimmer", f"the trimmer's mid-range ({middle:.4g} F) "
                           f"exceeds the whole capacitance needed ({required_c:.4g} F); "

@@ -205,7 +205,7 @@ def coil_design(job: Job, parts: ResolvedToroid | None, coil: ToroidCoil | Solen
     f0_whole = None
     if job.capacitor.capacitance is None:
         f0_whole = float(resonant_frequency_hz(
-            coil.inductance_built_h, capacitance_for_f0(job.circuit.targets.f0, target_l)))
+            coil.inductance_built_h, capacitance_for_f0(job.circuit.targets.f0_wanted, target_l)))
     high = min(20.0 * f0, 0.98 * coil.srf_hz) if coil.srf_hz else 20.0 * f0
     f_curve = np.geomspace(f0 / 20.0, high, 241)
     link_wire = link_length = None

@@ -30,6 +30,8 @@ from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import Job
 
+BAND_SEARCH = 1.5  # the response maximum is looked for within f/1.5 … 1.5·f of each point
+
 
 def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     """Compute the whole design of a job (pure: the same job always gives the same Design).
@@ -40,7 +42,11 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     derived: list[Derivation] = []
     target_l, required_c = _reactive_parts(job, derived)
     targets = job.circuit.targets
-    f0_target = targets.f0 if targets else None
+    f0_target = targets.f0_wanted if targets else None
+    band = targets.band if targets else None
+    if band is not None and job.capacitor.trimmer is None:
+        raise FieldError("circuit.targets.band", "a band is tuned with a variable capacitor: "
+                         "give capacitor.trimmer (its minimum and maximum)")
     f_design = f0_target or float(resonance.resonant_frequency_hz(target_l, required_c))
     coil = parts = None
     if job.inductor.form == "given":
@@ -73,7 +79,11 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
         fit_c = required_c
     derived.append(Derivation("capacitor.across", others.total_f, "F",
                               "coil self-capacitance and strays, counted in C"))
-    choice = capacitor_choice(job, fit_c, others)
+    band_fit = None
+    if band is not None:  # the capacitance to fit at each edge of the band
+        band_fit = tuple(float(resonance.capacitance_for_f0(f, inductance)) - others.total_f
+                         for f in (band.high, band.low))
+    choice = capacitor_choice(job, fit_c, others, band_fit)
     capacitance = choice.built_f + others.total_f
     f0 = float(resonance.resonant_frequency_hz(inductance, capacitance))
     x0 = float(resonance.reactance_ohm(inductance, f0))
@@ -154,9 +164,10 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     bench = _bench(job, circuit, analysed, stress, coil_result)
     model = tank_model(circuit, names, choice, coupling, drive.kind)
     duties = duties_of(model, _drive_rms(drive, circuit), analysed.f_peak_hz, f0)
+    band_settings = _band_settings(job, model, names) if band is not None else ()
     try:
         assessment = _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-                             coil_result, f0_target, open_stress, bench)
+                             coil_result, f0_target, open_stress, bench, band_settings)
     except FieldError:
         raise
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
@@ -206,8 +217,23 @@ def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]
     return coil_loss(job.inductor, coil, x0, f0)
 
 
+def _band_settings(job: Job, model, names) -> tuple[float | None, ...]:
+    """The variable capacitor's setting at the band's edges and middle for the nominal unit
+    as built, solved on its network (response maximum on each frequency; None where the
+    range does not reach it)."""
+    from sheetgen.design.assessment import band_points_hz
+    from sheetgen.engine.network_tuning import adjust, peak_frequency
+    trimmer = job.capacitor.trimmer
+    points = np.array(band_points_hz(job.circuit.targets.band))
+    found = adjust(model.network, names.trimmer, trimmer.minimum, trimmer.maximum, points,
+                   peak_frequency(points / BAND_SEARCH, points * BAND_SEARCH))
+    return tuple(float(v) if ok else None for v, ok in zip(found.value, found.reached,
+                                                           strict=True))
+
+
 def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-            coil: CoilDesign | None, f0_target, open_stress=None, bench=None):
+            coil: CoilDesign | None, f0_target, open_stress=None, bench=None,
+            band_settings=()):
     """The limits and rating checks, with the coil's tolerance and temperature data."""
     if coil is None:
         tolerance = job.inductor.tolerance
@@ -216,7 +242,7 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
                       f0_target_hz=f0_target, fixed_capacitance_f=choice.fixed_f,
                       inductance_tolerance=tolerance, inductance_tc=tc, fixed_parts_f=fixed,
                       other_capacitance_f=_across(choice), open_load_stress=open_stress,
-                      bench=bench)
+                      bench=bench, band_settings_f=band_settings)
     r = coil.result
     return assess(job, circuit, analysed, stress, response, names, f0_target_hz=f0_target,
                   fixed_capacitance_f=choice.fixed_f,
@@ -225,7 +251,7 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
                   flux_limit_t=coil.flux_density_max_t, wire_diameter_m=r.wire.diameter_m,
                   ac_to_dc_resistance=max(1.0, r.ac_resistance_ohm / r.dc_resistance_ohm),
                   fixed_parts_f=fixed, other_capacitance_f=_across(choice),
-                  open_load_stress=open_stress, bench=bench)
+                  open_load_stress=open_stress, bench=bench, band_settings_f=band_settings)
 
 
 def _across(choice) -> float:
@@ -240,7 +266,7 @@ def _replace_derivation(derived: list[Derivation], field: str, value: float, rea
 def _reactive_parts(job: Job, derived: list[Derivation]) -> tuple[float, float]:
     """L and C, computing the one left out from the f0 target (Thomson's formula)."""
     inductance, capacitance = job.inductor.inductance, job.capacitor.capacitance
-    f0 = job.circuit.targets.f0 if job.circuit.targets else None
+    f0 = job.circuit.targets.f0_wanted if job.circuit.targets else None
     if inductance is not None and capacitance is not None:
         if f0 is not None:
             raise FieldError("circuit.targets.f0", "inductance and capacitance are both given; "

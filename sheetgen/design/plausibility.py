@@ -81,7 +81,7 @@ def plausibility_findings(job: Job, circuit: Circuit, resonance: Resonance, stre
 
     `capacitance_f`: the tank capacitance the design needs (default: the circuit's)."""
     targets = job.circuit.targets
-    f0_target = targets.f0 if targets is not None else None
+    f0_target = targets.f0_wanted if targets is not None else None
     l_given = job.inductor.inductance is not None
     c_given = job.capacitor.capacitance is not None
     c_field = "capacitor.capacitance" if c_given else "inductor.inductance"
@@ -127,7 +127,7 @@ def _loaded_q(job: Job, circuit: Circuit, resonance: Resonance) -> list[Finding]
         return _within("loaded Q", "circuit.targets.loaded_q", targets.loaded_q,
                        LOADED_Q_MIN, None, "", False)
     if targets is not None and targets.bandwidth is not None:
-        f0 = targets.f0 if targets.f0 is not None else resonance.f0_hz
+        f0 = targets.f0_wanted or resonance.f0_hz
         return _within("loaded Q", "circuit.targets.bandwidth", f0 / targets.bandwidth,
                        LOADED_Q_MIN, None, "", True)
     q = resonance.q_loaded

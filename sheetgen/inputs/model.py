@@ -8,6 +8,7 @@ edge by quantities.parse_quantity.
 from __future__ import annotations
 
 import datetime as _dt
+import math
 import re
 from typing import Annotated, Literal
 
@@ -193,11 +194,35 @@ class SheetIdentity(Section):
                                                "first; the sheet prints them with this one")
 
 
+class TuningBand(Section):
+    """A band the tank is tuned across by its variable capacitor (capacitor.trimmer)."""
+
+    low: Frequency = Field(description="lowest frequency the tank must tune to")
+    high: Frequency = Field(description="highest frequency the tank must tune to")
+
+    @model_validator(mode="after")
+    def _ordered(self):
+        if not self.high > self.low:
+            raise PydanticCustomError("order", "high must be above low")
+        return self
+
+    @property
+    def centre(self) -> float:
+        """The geometric centre √(low·high): C ∝ 1/f², so the middle of the tuning range."""
+        return math.sqrt(self.low * self.high)
+
+
 class DesignTargets(Section):
     """Design mode: what the circuit must do; sheetgen works out the missing part."""
 
     f0: Frequency | None = Field(None, description="resonant frequency wanted; with only one of "
-                                 "inductance and capacitance given, the other is computed")
+                                 "inductance and capacitance given, the other is computed "
+                                 "(with a band: the design centre, default the band's "
+                                 "geometric centre)")
+    band: TuningBand | None = Field(None, description="tune across this band with the variable "
+                                    "capacitor capacitor.trimmer: its range is checked to reach "
+                                    "both edges over the parts' spread, and the sheet gives the "
+                                    "setting and windows at the edges and the middle")
     bandwidth: Frequency | None = Field(None, description="half-power bandwidth wanted; the "
                                         "load resistance that gives it is computed")
     loaded_q: PositiveNumber | None = Field(None, description="loaded Q wanted (instead of "
@@ -207,7 +232,17 @@ class DesignTargets(Section):
     def _one_selectivity(self):
         if self.bandwidth is not None and self.loaded_q is not None:
             raise PydanticCustomError("exclusive", "give bandwidth or loaded_q, not both")
+        if (self.band is not None and self.f0 is not None
+                and not self.band.low <= self.f0 <= self.band.high):
+            raise PydanticCustomError("band", "f0 must lie within the band")
         return self
+
+    @property
+    def f0_wanted(self) -> float | None:
+        """The f0 the design is centred on: f0, else the band's geometric centre."""
+        if self.f0 is None and self.band is not None:
+            return self.band.centre
+        return self.f0
 
 
 class CircuitSection(Section):

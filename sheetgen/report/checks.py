@@ -48,6 +48,9 @@ def failed_checks(design: Design) -> list[CheckFailure]:
             f"trimmer: add a trimmer of at least {format_quantity(a.trim_range_needed_f, 'F', 3)}"
             " range (capacitor.trimmer), or choose closer-tolerance parts"))
     choice = design.capacitor_choice
+    band = design.assessment.band
+    if band is not None and not band.covers:
+        failures.append(CheckFailure("band-coverage", "capacitor.trimmer", _band_text(band)))
     if choice.trimmer_in_range is False:
         trimmer = design.job.capacitor.trimmer
         needed = choice.required_f - choice.fixed_f
@@ -82,6 +85,25 @@ def _trimmer_coverage_text(trim) -> str:
             f"{format_quantity(trim.needed_min_f, 'F', 3)} to "
             f"{format_quantity(trim.needed_max_f, 'F', 3)}, but {spans}; choose a wider "
             "trimmer or a closer-tolerance capacitor and coil")
+
+
+def _band_text(band) -> str:
+    """Which edge of the band the variable capacitor misses, and what would reach it."""
+    low, high = band.low_edge, band.high_edge
+    needed_span = low.needed_max_f - high.needed_min_f
+    have = f"{format_quantity(low.trimmer_min_f, 'F', 3)} to {format_quantity(low.trimmer_max_f, 'F', 3)}"
+    missed = []
+    if not low.covers:
+        missed.append(f"at {format_quantity(band.low_hz, 'Hz', 4)} builds need up to "
+                      f"{format_quantity(low.needed_max_f, 'F', 3)}")
+    if not high.covers:
+        missed.append(f"at {format_quantity(band.high_hz, 'Hz', 4)} builds need as little as "
+                      f"{format_quantity(high.needed_min_f, 'F', 3)}")
+    remedy = (f"use a variable capacitor spanning at least {format_quantity(needed_span, 'F', 3)}"
+              if needed_span > 0 else "no variable capacitor can reach both edges")
+    return (f"the variable capacitor ({have}) does not tune every build across the band: "
+            f"{'; '.join(missed)}; {remedy} (the fixed padder is re-chosen to centre it), or "
+            "closer-tolerance parts, or a narrower band")
 
 
 def _unrated_field(design: Design, check) -> str:

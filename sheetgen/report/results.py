@@ -103,6 +103,7 @@ def results_document(design: Design) -> dict:
             **_open_load(design.stress_open_load),
         },
         "parts": _parts(design),
+        "band": _band(design),
         "inductor": _inductor(design),
         "limits": limits_section(design),
         "variation": _variation(design),
@@ -192,6 +193,33 @@ def _parts(design: Design) -> list[dict]:
             },
         })
     return rows
+
+
+def _band(design: Design) -> dict | None:
+    """Tuning across a band (null without one): the capacitance needed at each edge over
+    the spread, and each band point's setting and windows."""
+    band = design.assessment.band
+    if band is None:
+        return None
+
+    def edge(check) -> dict:
+        return {"f_hz": check.target_f0_hz, "needed_min_f": check.needed_min_f,
+                "needed_max_f": check.needed_max_f, "fraction_tunable": check.fraction_tunable,
+                "reached": check.covers}
+
+    return {
+        "low_hz": band.low_hz, "high_hz": band.high_hz, "covered": band.covers,
+        "variable_capacitor": {"designator": design.designators.trimmer,
+                               "minimum_f": band.low_edge.trimmer_min_f,
+                               "maximum_f": band.low_edge.trimmer_max_f},
+        "low_edge": edge(band.low_edge), "high_edge": edge(band.high_edge),
+        "points": [{"f_hz": p.f_hz, "setting_f": p.setting_f,
+                    "f_peak_min_hz": p.limits.f_peak_min_hz, "f_peak_max_hz": p.limits.f_peak_max_hz,
+                    "bandwidth_min_hz": p.limits.bandwidth_min_hz,
+                    "bandwidth_max_hz": p.limits.bandwidth_max_hz,
+                    "q_loaded_min": p.limits.q_loaded_min, "q_loaded_max": p.limits.q_loaded_max}
+                   for p in band.points],
+    }
 
 
 def _open_load(open_stress) -> dict:

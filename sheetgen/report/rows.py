@@ -315,6 +315,7 @@ def limits_rows(design: Design) -> list[Row]:
             note += (f"; the fixed part alone exceeds f0's capacitance by up to "
                      f"{quantity_text(-t.needed_min_f, 'F')} in some builds")
         rows.append(Row("Trimmer capacitance needed", needed, note))
+    rows += band_rows(design)
     method = (f"Monte Carlo, {lim.trials:,} trials, seed {lim.seed}, "
               f"{lim.coverage * 100:.2f} % coverage" if lim.method == "monte-carlo"
               else f"worst case over {lim.trials} corners")
@@ -334,6 +335,33 @@ def limits_rows(design: Design) -> list[Row]:
         _loss_spread_row(design),
         Row("Windows rounded outward to", quantity_text(a.resolution_hz, "Hz", 3)),
     ]
+    return rows
+
+
+def band_rows(design: Design) -> list[Row]:
+    """Tuning across the band: what the variable capacitor must reach at each edge, and at
+    the edges and the middle its setting and the windows of a unit tuned there."""
+    band = design.assessment.band
+    if band is None:
+        return []
+    trimmer = design.designators.trimmer
+    rows = [Row("Tuning band", range_text(band.low_hz, band.high_hz, "Hz", 6),
+                f"tuned with {trimmer} ({quantity_text(band.low_edge.trimmer_min_f, 'F', 3)} to "
+                f"{quantity_text(band.low_edge.trimmer_max_f, 'F', 3)})")]
+    for label, edge in (("low", band.low_edge), ("high", band.high_edge)):
+        state = ("reached" if edge.covers else
+                 f"NOT REACHED by every build: {edge.fraction_tunable * 100:.1f} % reach it")
+        rows.append(Row(f"{trimmer} needed at the {label} edge",
+                        range_text(edge.needed_min_f, edge.needed_max_f, "F"),
+                        f"{quantity_text(edge.target_f0_hz, 'Hz', 6)}; {state}"))
+    for point in band.points:
+        lim = point.limits
+        setting = ("beyond its range" if point.setting_f is None
+                   else f"set {trimmer} to about {quantity_text(point.setting_f, 'F', 3)}")
+        rows.append(Row(f"At {quantity_text(point.f_hz, 'Hz', 6)}",
+                        f"peak {range_text(lim.f_peak_min_hz, lim.f_peak_max_hz, 'Hz', 6)}; "
+                        f"bandwidth {quantity_text(lim.bandwidth_min_hz, 'Hz')} to "
+                        f"{quantity_text(lim.bandwidth_max_hz, 'Hz')}", setting))
     return rows
 
 
