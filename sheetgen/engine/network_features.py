@@ -23,7 +23,7 @@ from typing import Literal
 import numpy as np
 
 from sheetgen.engine.network import Network, Solution, solve
-from sheetgen.engine.roots import safe_newton
+from sheetgen.engine.roots import safe_newton_active
 
 # A quantity: (value, d/dω, d²/dω²) of a complex function of the solution (derivatives None
 # when the solution was computed without them).
@@ -118,11 +118,13 @@ def extremum(network: Network, low_hz, high_hz, *, kind: Literal["max", "min"] =
     hi = np.take_along_axis(grid_u, np.clip(best + 1, 0, points - 1)[..., None], -1)[..., 0]
     guess = np.take_along_axis(grid_u, best[..., None], -1)[..., 0]
 
-    def slope(u):
-        _, first, second = _power_and_slopes(network, quantity, u, 2)
+    trials = _Trials(network, value_shape)
+
+    def slope(index, u):
+        _, first, second = _power_and_slopes(trials.take(index), quantity, u, 2)
         return first, second
 
-    u = safe_newton(slope, lo, hi, guess)
+    u = safe_newton_active(slope, lo, hi, guess)
     power, _, curvature = _power_and_slopes(network, quantity, u, 2)
     nan = np.nan
     return Extremum(np.where(inside, np.exp(u), nan), np.where(inside, np.sqrt(power), nan),
@@ -153,6 +155,37 @@ def _expanded(network: Network) -> Network:
     return Network(tuple(parts), source, network.response, network.load)
 
 
+class _Trials:
+    """The network's trials, flattened, so that a root finder can solve only some of them:
+    `take(index)` is the network with every array value cut to those trials."""
+
+    def __init__(self, network: Network, shape: tuple[int, ...]):
+        from dataclasses import fields, replace
+
+        def flat(value):
+            if isinstance(value, np.ndarray) and value.ndim:
+                return np.broadcast_to(value, shape).ravel()
+            return value
+
+        self._network = network
+        self._parts = []
+        for part in network.parts:
+            arrays = {f.name: flat(getattr(part, f.name)) for f in fields(part)
+                      if isinstance(getattr(part, f.name), np.ndarray)}
+            self._parts.append((part, arrays))
+        self._source = network.source
+        self._source_array = flat(network.source.resistance_ohm)
+        self._replace = replace
+
+    def take(self, index: np.ndarray) -> Network:
+        parts = tuple(self._replace(part, **{k: v[index] for k, v in arrays.items()})
+                      if arrays else part for part, arrays in self._parts)
+        source = self._source
+        if isinstance(self._source_array, np.ndarray):
+            source = self._replace(source, resistance_ohm=self._source_array[index])
+        return Network(parts, source, self._network.response, self._network.load)
+
+
 @dataclass(frozen=True)
 class HalfPower:
     """The half-power (−3 dB) points either side of a maximum, NaN where none."""
@@ -179,23 +212,32 @@ def half_power_points(network: Network, peak: Extremum,
         offset = np.sqrt(peak.magnitude ** 2 / np.abs(peak.curvature))
     offset = np.clip(np.nan_to_num(offset, nan=0.1, posinf=0.1), 1e-12, _FARTHEST_LN)
 
-    def excess(u):
-        power, slope, _ = _power_and_slopes(network, quantity, u, 1)
-        return target - power, -slope
+    trials = _Trials(network, np.shape(u_peak))
+    flat_target = np.ravel(target)
+
+    def excess(index, u):
+        power, slope, _ = _power_and_slopes(trials.take(index), quantity, u, 1)
+        return flat_target[index] - power, -slope
 
     def side(sign: float) -> np.ndarray:
-        edge = u_peak + sign * offset
+        edge = np.ravel(u_peak + sign * offset).copy()
+        every = np.arange(edge.size)
+        short = np.isfinite(np.ravel(u_peak))
         for _ in range(_EXPANSIONS):
-            short = ~(excess(edge)[0] > 0) & np.isfinite(u_peak)
-            if not np.any(short):
+            index = every[short]
+            if index.size == 0:
                 break
-            wider = u_peak + np.clip(2.0 * (edge - u_peak), -_FARTHEST_LN, _FARTHEST_LN)
-            edge = np.where(short, wider, edge)
-        found = excess(edge)[0] > 0
+            below = excess(index, edge[index])[0] > 0
+            short[index[below]] = False
+            wider = np.ravel(u_peak)[index] + np.clip(
+                2.0 * (edge[index] - np.ravel(u_peak)[index]), -_FARTHEST_LN, _FARTHEST_LN)
+            edge[index] = np.where(below, edge[index], wider)
+        edge = edge.reshape(np.shape(u_peak))
+        found = excess(every, np.ravel(np.nan_to_num(edge)))[0].reshape(np.shape(u_peak)) > 0
         low, high = (edge, u_peak) if sign < 0 else (u_peak, edge)
         guess = u_peak + sign * np.minimum(offset, 0.999 * np.abs(edge - u_peak))
-        u = safe_newton(excess, np.nan_to_num(low), np.nan_to_num(high),
-                        np.nan_to_num(guess))
+        u = safe_newton_active(excess, np.nan_to_num(low), np.nan_to_num(high),
+                               np.nan_to_num(guess))
         return np.where(found & np.isfinite(u_peak), np.exp(u), np.nan)
 
     return HalfPower(side(-1.0), side(+1.0))
