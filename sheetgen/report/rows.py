@@ -276,6 +276,36 @@ def stress_rows(design: Design) -> list[Row]:
     ] + open_rows
 
 
+_DUTY_UNITS = {"resistor": "Ω", "source_resistance": "Ω", "capacitor": "F", "coil": "H"}
+_DUTY_NAMES = {"CSELF": "coil's self-capacitance", "CSTRAY": "wiring strays"}
+
+
+def duty_rows(design: Design) -> list[Row]:
+    """Every part of the circuit's network with what it carries, from one exact solve: at the
+    job's drive and, where it is worse, with the load open (design/kinds)."""
+    duties = design.duties
+    if duties is None:
+        return []
+    worst = {d.name: d for d in duties.worst}
+    rows = []
+    for d in duties.nominal:
+        unit = _DUTY_UNITS.get(d.kind)
+        what = (f"{quantity_text(d.value, unit, 4)}" if unit else f"ratio {format_number(d.value, 4)}:1")
+        label = f"{d.name} ({_DUTY_NAMES[d.name]})" if d.name in _DUTY_NAMES else f"{d.name}, {what}"
+        if d.kind == "source_resistance":
+            label = f"{d.name}, {what} (the source's own)"
+        figures = (f"{quantity_text(d.voltage_peak_v, 'V')} peak, "
+                   f"{quantity_text(d.current_rms_a, 'A')} rms, {quantity_text(d.power_w, 'W')}")
+        w = worst[d.name]
+        remark = ""
+        if w != d and duties.open_load_f_hz is not None:
+            remark = (f"load open: {quantity_text(w.voltage_peak_v, 'V')} peak, "
+                      f"{quantity_text(w.current_rms_a, 'A')} rms, {quantity_text(w.power_w, 'W')} "
+                      f"at {quantity_text(duties.open_load_f_hz, 'Hz')}")
+        rows.append(Row(label, figures, remark))
+    return rows
+
+
 def limits_rows(design: Design) -> list[Row]:
     """The test windows, each beside its nominal value, and how they were set."""
     a = design.assessment

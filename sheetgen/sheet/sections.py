@@ -44,6 +44,7 @@ from sheetgen.report.rows import (
     Row,
     coil_rows,
     component_rows,
+    duty_rows,
     limits_rows,
     performance_rows,
     rating_rows,
@@ -288,8 +289,14 @@ def performance_section(design: Design, kit: Kit) -> SectionContent:
 
 
 def stress_section(design: Design, kit: Kit) -> SectionContent:
-    return SectionContent("Stress at the response maximum",
-                          [rows_table(stress_rows(design), kit)])
+    items = [rows_table(stress_rows(design), kit)]
+    duties = duty_rows(design)
+    if duties:
+        items += [Spacer(1, 4), para("Every part of the circuit, from one exact solve of its "
+                                     "network (voltage across it, current through it, power "
+                                     "in its resistance):", kit.body),
+                  rows_table(duties, kit, heads=("Part", "At the drive", "Worst case"))]
+    return SectionContent("Stress at the response maximum", items)
 
 
 def response_section(design: Design, kit: Kit) -> SectionContent:
