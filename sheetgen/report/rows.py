@@ -291,7 +291,7 @@ def duty_rows(design: Design) -> list[Row]:
     for d in duties.nominal:
         unit = _DUTY_UNITS.get(d.kind)
         what = (f"{quantity_text(d.value, unit, 4)}" if unit else f"ratio {format_number(d.value, 4)}:1")
-        label = f"{d.name} ({_DUTY_NAMES[d.name]})" if d.name in _DUTY_NAMES else f"{d.name}, {what}"
+        label = f"{d.name}, {what}" + (f" ({_DUTY_NAMES[d.name]})" if d.name in _DUTY_NAMES else "")
         if d.kind == "source_resistance":
             label = f"{d.name}, {what} (the source's own)"
         figures = (f"{quantity_text(d.voltage_peak_v, 'V')} peak, "

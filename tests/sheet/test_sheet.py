@@ -108,6 +108,15 @@ def shown(path: str, key: str, value, results: dict) -> str | None:
     if value is None or isinstance(value, bool) or path in NOT_PRINTED or any(
             path.startswith(prefix) for prefix in NOT_PRINTED if prefix.endswith(".")):
         return None
+    part = re.fullmatch(r"parts\[(\d+)\]\.(\w+)", path)
+    if part and part[2] in ("unit", "condition"):
+        return None  # the unit is printed with the value; the condition is worded
+    if part and part[2] == "value":
+        row = results["parts"][int(part[1])]
+        return (format_number(value, 4) if row["kind"] == "turns_ratio"
+                else format_quantity(value, row["unit"], 4))
+    if re.fullmatch(r"parts\[\d+\]\.worst_case\.condition", path):
+        return None
     if re.fullmatch(r"ratings\[\d+\]\.(rating|derating|unit)", path):
         return None  # the derated (allowed) value is printed, with the unit
     if re.fullmatch(r"(cautions|checks)\[\d+\]\.(code|level)", path):
