@@ -298,8 +298,8 @@ def _batch(args, command: str) -> int:
             raise UsageError(f"--{option} names one file; for several jobs use --out-dir")
     if args.workers is not None and args.workers < 1:
         raise UsageError("-j needs at least 1 worker")
-    if args.out_dir is not None and not args.out_dir.is_dir():
-        raise UsageError(f"--out-dir {args.out_dir}: no such folder")
+    if args.out_dir is not None and args.out_dir.exists() and not args.out_dir.is_dir():
+        raise UsageError(f"--out-dir {args.out_dir}: exists and is not a folder")
     jobs = collect_jobs([args.job, *args.more_jobs])
     if not jobs:
         raise UsageError("no job files found (a job file has top-level sheet: and circuit:)")
@@ -313,6 +313,8 @@ def _batch(args, command: str) -> int:
             seen[output.resolve()] = job
         tasks.append(JobTask(command, job, output, args.library, getattr(args, "style", None),
                              getattr(args, "json", False), getattr(args, "format", "csv")))
+    if args.out_dir is not None and suffix is not None:  # made (parents too) once the
+        args.out_dir.mkdir(parents=True, exist_ok=True)  # jobs and outputs are known sound
     return run_batch(tasks, args.workers or default_workers())
 
 
