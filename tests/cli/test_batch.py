@@ -160,3 +160,11 @@ def test_build_batch_in_workers_writes_whole_sheets(tmp_path):
                                                      "solenoid.pdf"]
     for pdf in out.iterdir():
         assert len(PdfReader(pdf).pages) >= 2
+    # The same job gives the same bytes in a worker that inherited the fork server's fonts
+    # (sheet/warm.py) as in a cold single build of its own.
+    single = tmp_path / "single.pdf"
+    done = subprocess.run([sys.executable, "-m", "sheetgen", "build", str(jobs["series"]),
+                           "-o", str(single), "--style", str(TEMPLATES / "style-default.yaml")],
+                          capture_output=True, text=True, cwd=ROOT, timeout=600)
+    assert done.returncode == 0, done.stderr
+    assert single.read_bytes() == (out / "series.pdf").read_bytes()
