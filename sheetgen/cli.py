@@ -36,9 +36,13 @@ def build_parser() -> argparse.ArgumentParser:
     parser.add_argument("--version", action="version", version=f"sheetgen {__version__}")
     commands = parser.add_subparsers(dest="command", required=True, parser_class=_Parser)
 
-    check = commands.add_parser("check", help="compute the design and print a summary")
+    check = commands.add_parser("check", help="compute the design and print a summary "
+                                "(a single job may leave out its sheet identity, drive and "
+                                "part losses: the defaults taken are printed)")
     _job_arguments(check)
     check.add_argument("--json", action="store_true", help="print the results as JSON")
+    check.add_argument("--brief", action="store_true", help="print only the figures asked "
+                       "first (f0, Q, bandwidth, |Z|, stresses) and the checks")
     check.add_argument("--library", type=Path, help="parts library folder (default: see README)")
 
     build = commands.add_parser("build", help="write the PDF build-and-test sheet")
@@ -153,15 +157,22 @@ def _schema(args) -> int:
 def _check(args) -> int:
     if _is_batch(args):
         return _batch(args, "check")
-    from sheetgen.design.pipeline import design_from_file
-    from sheetgen.report.summary import summary_text
-    design = design_from_file(args.job, args.library)
+    if args.json and args.brief:
+        raise UsageError("--json and --brief: choose one")
+    from sheetgen.design.pipeline import quick_design_from_file
+    from sheetgen.report.summary import assumed_lines, brief_text, judged_checks, summary_text
+    design, assumed = quick_design_from_file(args.job, args.library)
     if args.json:
         from sheetgen.report.results import results_json
         sys.stdout.write(results_json(design))
+        for line in assumed_lines(assumed):  # the JSON stays a results document
+            print(line, file=sys.stderr)
     else:
-        sys.stdout.write(summary_text(design))
-    return _exit_for(design)
+        sys.stdout.write((brief_text if args.brief else summary_text)(design, assumed))
+    failures, _ = judged_checks(design, assumed)
+    for failure in failures:
+        print(f"check failed: {failure.field}: {failure.text}", file=sys.stderr)
+    return EXIT_CHECK_FAILED if failures else EXIT_OK
 
 
 def _limits(args) -> int:
@@ -316,8 +327,8 @@ def _batch(args, command: str) -> int:
             raise UsageError(f"--{option} names one file; for several jobs use --out-dir")
     if args.workers is not None and args.workers < 1:
         raise UsageError("-j needs at least 1 worker")
-    if args.out_dir is not None and not args.out_dir.is_dir():
-        raise UsageError(f"--out-dir {args.out_dir}: no such folder")
+    if args.out_dir is not None and args.out_dir.exists() and not args.out_dir.is_dir():
+        raise UsageError(f"--out-dir {args.out_dir}: exists and is not a folder")
     jobs = collect_jobs([args.job, *args.more_jobs])
     if not jobs:
         raise UsageError("no job files found (a job file has top-level sheet: and circuit:)")
@@ -331,6 +342,8 @@ def _batch(args, command: str) -> int:
             seen[output.resolve()] = job
         tasks.append(JobTask(command, job, output, args.library, getattr(args, "style", None),
                              getattr(args, "json", False), getattr(args, "format", "csv")))
+    if args.out_dir is not None and suffix is not None:  # made (parents too) once the
+        args.out_dir.mkdir(parents=True, exist_ok=True)  # jobs and outputs are known sound
     return run_batch(tasks, args.workers or default_workers())
 
 

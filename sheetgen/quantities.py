@@ -90,7 +90,7 @@ TEMPERATURE_COEFFICIENT = Dimension(
 # AL, the inductance factor, in each unit the trade uses (common practice):
 # nH/turn² (= nH/N²), µH per 100 turns (L = AL·(N/100)²) and mH per 1000 turns.
 INDUCTANCE_FACTOR = Dimension(
-    "inductance factor", "H/turn²", "henries per turn²", "49 nH/turn²",
+    "inductance factor", "H/turn²", "henries per turn²", "63 nH/turn²",
     {"H/turn²": 1.0, "H/turn^2": 1.0, "H/N²": 1.0, "H/N^2": 1.0, "H/t²": 1.0, "H/t^2": 1.0},
     {"µH/100 turns": _scale(1e-6 / 100**2), "uH/100 turns": _scale(1e-6 / 100**2),
      "µH/100t": _scale(1e-6 / 100**2), "uH/100t": _scale(1e-6 / 100**2),

@@ -177,8 +177,10 @@ def _in_process(tasks: Sequence[JobTask]):
 # Imported once by the fork server, so every worker starts with them loaded (the imports
 # cost more than a job); where there is no fork server, workers are spawned and import them.
 PRELOAD = ("sheetgen.batch.runner", "sheetgen.design.pipeline", "sheetgen.report.results",
-           "sheetgen.report.summary", "sheetgen.inputs.style")
-PRELOAD_SHEET = ("sheetgen.sheet",)
+           "sheetgen.report.summary", "sheetgen.inputs.style", "sheetgen.design.coil",
+           "scipy.special")  # the coil jobs' modules (scipy.special: the Kelvin functions)
+PRELOAD_SHEET = ("sheetgen.sheet", "sheetgen.sheet.warm", "sheetgen.sheet.glyphs",
+                 "sheetgen.bench.release")  # warm: the fonts, made once for every worker
 
 
 def _worker_context(multiprocessing, command: str):

@@ -107,7 +107,7 @@ def sweep_report(grading: Grading, sweep: MeasuredSweep, features: SweepFeatures
              p("Verdicts", head)]
     rows = [[p("Quantity"), p("Window"), p("Measured"), p("Verdict")]]
     for v in grading.values:
-        rows.append([p(("as found " if v.as_found else "") + v.label), p(window_text(v)),
+        rows.append([p(verdict_row_name(v)), p(window_text(v)),
                      p(v.typed or "—"), p(v.verdict)])
     rows.append([p("Overall"), p("every value in its window"), p(""),
                  p(grading.verdict)])
@@ -150,3 +150,9 @@ def sweep_report(grading: Grading, sweep: MeasuredSweep, features: SweepFeatures
     final = io.BytesIO()
     writer.write(final)
     return final.getvalue()
+
+
+def verdict_row_name(value) -> str:
+    """The row's quantity as the sheet labels it; a before-trimming reading is marked after
+    the label ("Frequency of the peak (as found)"), never as a capital mid-phrase."""
+    return f"{value.label} (as found)" if value.as_found else value.label

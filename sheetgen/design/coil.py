@@ -223,4 +223,19 @@ def coil_design(job: Job, parts: ResolvedToroid | None, coil: ToroidCoil | Solen
                       *core_size,
                       q_used, q_source,
                       CoilCurve(f_curve, np.asarray(coil_engine.coil_q_sweep(coil, f_curve))),
-                      as_built, link_wire, link_length)
+                      as_built, link_wire, link_length,
+                      _al_agreement(parts) if inductor.form == "toroid" else None)
+
+
+def _al_agreement(parts: ResolvedToroid):
+    """A stated AL against µ0·µi·Ae/le of the ring (None when the AL is computed)."""
+    if parts.core.al_h_per_turn2 is None:
+        return None
+    from sheetgen.engine.magnetics import al_agreement, toroid_effective_parameters
+    core, mu_tolerance = parts.core, parts.material_spec.mu_i_tolerance or 0.0
+    al_tolerance = parts.core_spec.al_tolerance
+    effective = toroid_effective_parameters(core.outer_diameter_m, core.inner_diameter_m,
+                                            core.height_m, core.chamfer_m)
+    return al_agreement(core.al_h_per_turn2, mu_tolerance if al_tolerance is None
+                        else al_tolerance, parts.material.mu_i, mu_tolerance,
+                        effective.le_m, effective.ae_m2)

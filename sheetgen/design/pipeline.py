@@ -13,6 +13,7 @@ from sheetgen.design.records import Design
 from sheetgen.errors import FieldError, InputError, Problem
 from sheetgen.inputs.library import find_library_folder, load_library
 from sheetgen.inputs.model import Job
+from sheetgen.inputs.quick import Assumed, load_quick_job
 from sheetgen.inputs.reader import field_position, load_job
 
 
@@ -27,7 +28,19 @@ def needs_library(job: Job) -> bool:
 def design_from_file(job_path: Path, library_folder: Path | None = None) -> Design:
     """The Design of the job file at job_path; InputError lists what is wrong with it."""
     job_path = Path(job_path)
-    job = load_job(job_path)
+    return _design(job_path, load_job(job_path), library_folder)
+
+
+def quick_design_from_file(job_path: Path, library_folder: Path | None = None
+                           ) -> tuple[Design, tuple[Assumed, ...]]:
+    """The Design of a quick job (sheet identity, drive and part losses optional, for
+    `check`), with what was assumed for each left out (inputs/quick.py)."""
+    job_path = Path(job_path)
+    job, assumed = load_quick_job(job_path)
+    return _design(job_path, job, library_folder), assumed
+
+
+def _design(job_path: Path, job: Job, library_folder: Path | None) -> Design:
     library = None
     if needs_library(job):
         library = load_library(find_library_folder(job_path, job.library, library_folder))

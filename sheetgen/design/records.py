@@ -15,6 +15,7 @@ from sheetgen.design.kinds import CircuitModel, PartDuties
 from sheetgen.design.plausibility import Finding
 from sheetgen.engine.bench import BenchSetup
 from sheetgen.engine.coil import SolenoidCoil, ToroidCoil
+from sheetgen.engine.magnetics import AlAgreement
 from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import StandardPair
 from sheetgen.engine.stress import Drive, Stress
@@ -155,6 +156,7 @@ class CoilDesign:
     coupling: Coupling | None = None
     link_wire: Wire | None = None  # the link winding's wire (the job's, else the tank's)
     link_wire_length_m: float | None = None  # its turns over the tank winding plus two leads
+    al_agreement: AlAgreement | None = None  # a stated AL against µi and the geometry
 
 
 @dataclass(frozen=True)

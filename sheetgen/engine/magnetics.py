@@ -75,6 +75,43 @@ def al_from_permeability(mu_i: float, le_m: float, ae_m2: float) -> float:
     return mu_0 * mu_i * ae_m2 / le_m
 
 
+# Common practice: ring cores are made to a few per cent in each dimension, and an AL is
+# measured on the finished (coated, edge-rounded) core, so µ0·µi·Ae/le from the nominal
+# size is good to about this much beyond µi's own tolerance.
+AL_GEOMETRY_ALLOWANCE = 0.05
+
+
+@dataclass(frozen=True)
+class AlAgreement:
+    """A stated AL against µ0·µi·Ae/le (IEC 60205) of the same ring and material.
+
+    mu_implied is the permeability the stated AL stands for on this geometry; `agrees` is
+    False when the stated AL's tolerance band and the computed AL's band (µi's tolerance
+    and AL_GEOMETRY_ALLOWANCE) do not overlap.
+    """
+
+    al_stated_h_per_turn2: float
+    al_tolerance: float
+    al_geometry_h_per_turn2: float
+    mu_i: float
+    mu_tolerance: float
+    mu_implied: float
+    agrees: bool
+
+
+def al_agreement(al_stated_h_per_turn2: float, al_tolerance: float, mu_i: float,
+                 mu_tolerance: float, le_m: float, ae_m2: float) -> AlAgreement:
+    """Do a stated AL and AL = µ0 µi Ae/le (IEC 60205) overlap within their tolerances?"""
+    geometric = al_from_permeability(mu_i, le_m, ae_m2)
+    stated_low = al_stated_h_per_turn2 * (1.0 - al_tolerance)
+    stated_high = al_stated_h_per_turn2 * (1.0 + al_tolerance)
+    geometric_low = geometric * (1.0 - mu_tolerance) * (1.0 - AL_GEOMETRY_ALLOWANCE)
+    geometric_high = geometric * (1.0 + mu_tolerance) * (1.0 + AL_GEOMETRY_ALLOWANCE)
+    agrees = stated_low <= geometric_high and geometric_low <= stated_high
+    return AlAgreement(al_stated_h_per_turn2, al_tolerance, geometric, mu_i, mu_tolerance,
+                       mu_i * al_stated_h_per_turn2 / geometric, agrees)
+
+
 @dataclass(frozen=True)
 class TurnsForInductance:
     """Whole turns for a target inductance and the inductance they give."""

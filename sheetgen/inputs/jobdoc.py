@@ -18,8 +18,8 @@ INTRO = """# Job file reference
 
 A job file is YAML (read with a safe loader: plain text, numbers, lists and mappings only).
 Quantities take units in engineering notation: `4.7 uH` or `4.7 µH`, `150pF`, `7.1 MHz`,
-`2.2 kohm` or `2.2 kΩ`, `0.1 %`, `20 mT`, `12.5 mm`, `10 mil`, `49 nH/turn²`,
-`340 µH/100 turns`, `30 dBm`. A plain number is taken in SI units (except AL, which needs
+`2.2 kohm` or `2.2 kΩ`, `0.1 %`, `20 mT`, `12.5 mm`, `10 mil`, `63 nH/turn²`,
+`505 µH/100 turns`, `30 dBm`. A plain number is taken in SI units (except AL, which needs
 its unit). `sheetgen schema` prints the same rules as JSON Schema for editors.
 
 Start from a starter job: `sheetgen new series|parallel|toroid|solenoid|power-tank`.

@@ -141,6 +141,9 @@ def _coil_failures(design: Design) -> list[CheckFailure]:
         return []
     r = coil.result
     failures = _coupling_failures(coil)
+    if coil.al_agreement is not None and not coil.al_agreement.agrees:
+        failures.append(CheckFailure("al-mismatch", _al_field(design),
+                                     al_mismatch_text(design)))
     if not r.fits and coil.form == "toroid":
         remedy = {
             "thinner_wire": f"use {r.remedy_wire.name} wire, which fits in one layer"
@@ -161,6 +164,33 @@ def _coil_failures(design: Design) -> list[CheckFailure]:
             f"the wire's overall diameter {format_quantity(r.wire.overall_diameter_m, 'm', 3)} "
             "and the length within the former's; use a thinner wire or a longer former"))
     return failures
+
+
+def _al_field(design: Design) -> str:
+    named = isinstance(design.job.inductor.core, str)
+    return "inductor.core" if named else "inductor.core.al"
+
+
+def al_mismatch_text(design: Design) -> str:
+    """A stated AL that µi and the ring's size cannot give: the turns are counted from the
+    AL, so an AL off by a factor misses the inductance by that factor and f0 by its root."""
+    from sheetgen.engine.magnetics import AL_GEOMETRY_ALLOWANCE
+    coil = design.coil
+    a = coil.al_agreement
+    size = " × ".join(f"{d * 1e3:.4g}" for d in (
+        coil.core_outer_diameter_m, coil.core_inner_diameter_m, coil.core_height_m))
+    core = coil.core_name if coil.core_name != "inline core" else "the core"
+    named = "" if coil.material_name == "inline material" else f"{coil.material_name}, "
+    mu = format_number(a.mu_i, 3)
+    return (f"{core} states AL {format_quantity(a.al_stated_h_per_turn2, 'H/turn²', 3)} "
+            f"± {a.al_tolerance * 100:g} %, but its material ({named}µi {mu} "
+            f"± {a.mu_tolerance * 100:g} %) on a {size} mm ring gives AL = µ0·µi·Ae/le = "
+            f"{format_quantity(a.al_geometry_h_per_turn2, 'H/turn²', 3)} (IEC 60205); the "
+            f"stated AL stands for µ ≈ {format_number(a.mu_implied, 3)}, beyond both "
+            f"tolerances and {AL_GEOMETRY_ALLOWANCE * 100:g} % for the core's size, so turns "
+            "counted from it would miss the inductance by that ratio; check the AL's unit "
+            "(nH/turn², µH/100 turns, mH/1000 turns) and the core's material, or leave al "
+            "out to wind from the AL of the geometry")
 
 
 def _q(finding: Finding) -> str:

@@ -21,6 +21,7 @@ from sheetgen.report.procedure import record_rows
 from sheetgen.report.winding import coil_check, winding_steps
 
 RESULTS_FORMAT = "sheetgen.results/1"
+LIMITS_FORMAT = "sheetgen.limits/1"  # `limits --format json`: its own shape, its own name
 
 
 def _clean(value):
@@ -469,16 +470,22 @@ def limits_csv(design: Design) -> str:
     return out.getvalue()
 
 
+CSV_FIGURES = 12  # beyond any window's resolution, short of a double's noise (~16 figures)
+
+
 def _csv_number(value) -> str:
+    """The shortest text that reads back as the value rounded to CSV_FIGURES significant
+    figures (Python's repr is the shortest round-trip form), so no float noise such as
+    4.0210000000000004e-10 reaches a work-order system."""
     if value is None or (isinstance(value, float) and not math.isfinite(value)):
         return ""
-    return repr(float(value))
+    return repr(float(f"{float(value):.{CSV_FIGURES}g}"))
 
 
 def limits_json(design: Design) -> str:
     """The limits section alone, with the sheet's identity, as JSON."""
     sheet = design.job.sheet
-    return json.dumps(_clean({"format": RESULTS_FORMAT, "tool_version": __version__,
+    return json.dumps(_clean({"format": LIMITS_FORMAT, "tool_version": __version__,
                               "sheet": {"id": sheet.id, "revision": sheet.revision},
                               "design_passed": not failed_checks(design),
                               "limits": limits_section(design)}),

@@ -59,8 +59,10 @@ CASES = [
      [(21, 8, "capacitor.esr", '"low" is not a resistance')]),
     ("missing required field", _edit("  title: 13.56 MHz series-tuned band-pass, 50 Ω line\n", ""),
      [(4, 3, "sheet.title", "is missing")]),
-    ("missing section", GOOD.split("\nsource:")[0] + "\n",
-     [(3, 1, "source", "is missing")]),
+    ("missing section", _edit("inductor:\n  form: given\n  inductance: 10 uH\n"
+                              "  resistance: 3.2 ohm    # series loss resistance at f0 (or give q)\n\n",
+                              ""),
+     [(3, 1, "inductor", "is missing")]),
     ("wrong choice", _edit("topology: series", "topology: ladder"),
      [(11, 13, "circuit.topology", "'series' or 'parallel'")]),
     ("two losses given", _edit("  resistance: 3.2 ohm", "  resistance: 3.2 ohm\n  q: 200"),
@@ -158,3 +160,11 @@ def test_real_process_prints_no_traceback(tmp_path):
     assert done.stderr.strip() == (f'{job}:21:8 capacitor.esr: "40 pH" is not a resistance '
                                    "(expected ohms, e.g. 2.2 kΩ)")
     assert done.stdout == ""
+
+
+def test_build_needs_the_sections_a_quick_check_may_leave_out(tmp_path, capsys):
+    """check takes a job without a source (a quick question); build reports it missing."""
+    job = _write(tmp_path, GOOD.split("\nsource:")[0] + "\n")
+    code, lines = _run(capsys, "build", job, "-o", tmp_path / "job.pdf")
+    assert code == 2 and lines == [f"{job}:3:1 source: is missing; this field is required"]
+    assert not (tmp_path / "job.pdf").exists()

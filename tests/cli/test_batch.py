@@ -104,8 +104,9 @@ def test_batch_usage_errors(tmp_path, capsys):
     jobs = _jobs(tmp_path / "jobs")
     code, _, err = _run(capsys, "build", jobs["series"], jobs["parallel"], "-o", tmp_path / "x.pdf")
     assert code == 2 and "--output names one file; for several jobs use --out-dir" in err
-    code, _, err = _run(capsys, "limits", jobs["series"], "--out-dir", tmp_path / "none")
-    assert code == 2 and "no such folder" in err
+    (tmp_path / "a-file").write_text("")
+    code, _, err = _run(capsys, "limits", jobs["series"], "--out-dir", tmp_path / "a-file")
+    assert code == 2 and "exists and is not a folder" in err
     other = tmp_path / "other"
     other.mkdir()
     (other / "series.yaml").write_text(jobs["series"].read_text())
@@ -113,6 +114,23 @@ def test_batch_usage_errors(tmp_path, capsys):
                         tmp_path)
     assert code == 2 and "would both write" in err
     assert not (tmp_path / "series.csv").exists()
+
+
+def test_out_dir_that_does_not_exist_is_made_with_its_parents(tmp_path, capsys):
+    """As `mkdir -p` (POSIX): a missing output folder and its parents are created."""
+    jobs = _jobs(tmp_path / "jobs")
+    out = tmp_path / "new" / "nested" / "limits"
+    code, _, err = _run(capsys, "limits", jobs["series"], jobs["parallel"], "--out-dir", out)
+    assert code == 0, err
+    assert sorted(p.name for p in out.iterdir()) == ["parallel.csv", "series.csv"]
+    # A usage error found before any job runs leaves no folder behind.
+    other = tmp_path / "other"
+    other.mkdir()
+    (other / "series.yaml").write_text(jobs["series"].read_text())
+    never = tmp_path / "never"
+    code, _, err = _run(capsys, "limits", jobs["series"], other / "series.yaml", "--out-dir",
+                        never)
+    assert code == 2 and "would both write" in err and not never.exists()
 
 
 def test_one_job_runs_exactly_as_before(tmp_path, capsys):
@@ -142,3 +160,11 @@ def test_build_batch_in_workers_writes_whole_sheets(tmp_path):
                                                      "solenoid.pdf"]
     for pdf in out.iterdir():
         assert len(PdfReader(pdf).pages) >= 2
+    # The same job gives the same bytes in a worker that inherited the fork server's fonts
+    # (sheet/warm.py) as in a cold single build of its own.
+    single = tmp_path / "single.pdf"
+    done = subprocess.run([sys.executable, "-m", "sheetgen", "build", str(jobs["series"]),
+                           "-o", str(single), "--style", str(TEMPLATES / "style-default.yaml")],
+                          capture_output=True, text=True, cwd=ROOT, timeout=600)
+    assert done.returncode == 0, done.stderr
+    assert single.read_bytes() == (out / "series.pdf").read_bytes()

@@ -103,7 +103,7 @@ def test_installed_command_runs_the_demo_from_any_folder(tmp_path):
     done = subprocess.run([command, "check", "coil.yaml", "--json"], cwd=tmp_path,
                           capture_output=True, text=True, timeout=300)
     assert done.returncode == 0, done.stderr
-    assert json.loads(done.stdout)["inductor"]["core"] == "ring-18x9.5x6.5-irn10"
+    assert json.loads(done.stdout)["inductor"]["core"] == "ring-19.3x10.7x7.4-irn14"
 
 
 def test_outputs_are_written_whole_with_ordinary_permissions(tmp_path, capsys):

@@ -52,3 +52,40 @@ def test_failing_design_gets_no_limits_unless_allowed(tmp_path, capsys):
     assert main(["limits", str(job), "--allow-failing"]) == 1
     rows = _rows(capsys.readouterr().out)
     assert rows and all(row["design_passed"] == "no" for row in rows.values())
+
+
+def test_csv_numbers_carry_no_float_noise():
+    """Binary floating point (IEEE 754) cannot hold 0.1 exactly: 0.1 + 0.2 is
+    0.30000000000000004 and a window edge computed as 4.021e-10 can come out as
+    4.0210000000000004e-10. The CSV prints the shortest text of the value rounded to 12
+    significant figures; reading it back gives that rounded value (Python's float/repr
+    round-trip guarantee)."""
+    from sheetgen.report.results import _csv_number
+    assert _csv_number(0.1 + 0.2) == "0.3"
+    assert _csv_number(4.0210000000000004e-10) == "4.021e-10"
+    assert _csv_number(455000.00000000006) == "455000.0"
+    assert _csv_number(1.23456789012e-7) == "1.23456789012e-07"  # 12 figures kept whole
+    assert _csv_number(None) == "" and _csv_number(math.nan) == ""
+
+
+def test_every_starters_csv_number_has_at_most_twelve_figures(capsys):
+    for starter in ("series", "parallel", "toroid", "solenoid", "power-tank", "demo"):
+        main(["limits", str(TEMPLATES / f"{starter}.yaml"), "--allow-failing"])
+        for row in _rows(capsys.readouterr().out).values():
+            for column in ("nominal", "minimum", "maximum", "coverage"):
+                if row[column]:
+                    value = float(row[column])
+                    assert float(f"{value:.12g}") == value, (starter, column, row[column])
+                    assert repr(value) == row[column], (starter, column, row[column])
+
+
+def test_limits_json_names_its_own_documented_format(capsys):
+    """The limits JSON is not a results document (no resonance, stress, ...): it carries
+    its own format name, and docs/results.md documents that name and its keys."""
+    import json
+    assert main(["limits", str(TEMPLATES / "series.yaml"), "--format", "json"]) == 0
+    document = json.loads(capsys.readouterr().out)
+    assert document["format"] == "sheetgen.limits/1"
+    assert set(document) == {"format", "tool_version", "sheet", "design_passed", "limits"}
+    docs = (ROOT / "docs" / "results.md").read_text(encoding="utf-8")
+    assert "# Limits contract (`sheetgen.limits/1`)" in docs

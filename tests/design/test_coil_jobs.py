@@ -31,11 +31,11 @@ def _run(capsys, *args):
 
 
 def test_unknown_core_names_the_known_ones(tmp_path, capsys):
-    job = _job(tmp_path, TOROID.replace("core: ring-18x9.5x6.5-irn10", "core: ring-99"))
+    job = _job(tmp_path, TOROID.replace("core: ring-19.3x10.7x7.4-irn14", "core: ring-99"))
     code, _, err = _run(capsys, "check", job, "--library", ROOT / "shared")
     assert code == 2
     assert re.match(rf"^{re.escape(str(job))}:19:9 inductor.core: no core named 'ring-99'", err)
-    assert "ring-18x9.5x6.5-irn10" in err
+    assert "ring-19.3x10.7x7.4-irn14" in err
 
 
 @pytest.mark.parametrize("size", ["AWG 99", "AWG -2", "banana", "-1 mm"])
@@ -69,11 +69,11 @@ def test_library_found_by_walking_up_from_the_job(tmp_path, capsys):
     team.mkdir()
     shutil.copy(ROOT / "shared" / "materials.yaml", team)
     (team / "cores.yaml").write_text(
-        "cores:\n  team-ring:\n    material: iron-powder-mu10\n    outer_diameter: 20 mm\n"
+        "cores:\n  team-ring:\n    material: iron-powder-mu14\n    outer_diameter: 20 mm\n"
         "    inner_diameter: 11 mm\n    height: 7 mm\n", encoding="utf-8")
     nested = tmp_path / "jobs" / "2026"
     nested.mkdir(parents=True)
-    job = _job(nested, TOROID.replace("core: ring-18x9.5x6.5-irn10", "core: team-ring"))
+    job = _job(nested, TOROID.replace("core: ring-19.3x10.7x7.4-irn14", "core: team-ring"))
     code, out, _ = _run(capsys, "check", job, "--json")
     assert code == 0 and json.loads(out)["inductor"]["core"] == "team-ring"
 
@@ -85,7 +85,7 @@ def test_job_names_its_library_and_bad_library_files_are_located(tmp_path, capsy
         "cores:\n  r1:\n    material: {mu_i: 10, flux_density_max: 10 mT,\n"
         "      loss: [{f: 1 MHz, q: 100}]}\n    outer_diameter: 9 mm\n"
         "    inner_diameter: 12 mm\n    height: 4 mm\n", encoding="utf-8")
-    job = _job(tmp_path, "library: parts\n" + TOROID.replace("ring-18x9.5x6.5-irn10", "r1"))
+    job = _job(tmp_path, "library: parts\n" + TOROID.replace("ring-19.3x10.7x7.4-irn14", "r1"))
     code, _, err = _run(capsys, "check", job)
     assert code == 2
     assert err.startswith(f"{parts / 'cores.yaml'}:3:5 cores.r1: inner_diameter must be below")
@@ -93,16 +93,16 @@ def test_job_names_its_library_and_bad_library_files_are_located(tmp_path, capsy
 
 def test_inline_core_needs_no_library(tmp_path, capsys):
     inline = TOROID.replace(
-        "core: ring-18x9.5x6.5-irn10",
-        "core:\n    material: {mu_i: 10, mu_i_tolerance: 5 %, flux_density_max: 10 mT,\n"
-        "               loss: [{f: 1 MHz, q: 150}, {f: 10 MHz, q: 230}]}\n"
-        "    outer_diameter: 18 mm\n    inner_diameter: 9.5 mm\n    height: 6.5 mm\n"
-        "    al: 82 µH/100 turns")
+        "core: ring-19.3x10.7x7.4-irn14",
+        "core:\n    material: {mu_i: 14, mu_i_tolerance: 5 %, flux_density_max: 9 mT,\n"
+        "               loss: [{f: 1 MHz, q: 135}, {f: 10 MHz, q: 205}]}\n"
+        "    outer_diameter: 19.3 mm\n    inner_diameter: 10.7 mm\n    height: 7.4 mm\n"
+        "    al: 121 µH/100 turns")
     code, out, _ = _run(capsys, "check", _job(tmp_path, inline), "--json")
     assert code == 0
     got = json.loads(out)["inductor"]
-    assert got["al_h_per_turn2"] == pytest.approx(8.2e-9, rel=1e-12)  # 82 µH/100 t = 8.2 nH/t²
-    assert got["turns"] ** 2 * 8.2e-9 == pytest.approx(got["inductance_built_h"], rel=1e-12)
+    assert got["al_h_per_turn2"] == pytest.approx(12.1e-9, rel=1e-12)  # 121 µH/100 t = 12.1 nH/t²
+    assert got["turns"] ** 2 * 12.1e-9 == pytest.approx(got["inductance_built_h"], rel=1e-12)
 
 
 @pytest.mark.parametrize("kind", ["toroid", "solenoid"])
@@ -165,13 +165,13 @@ def test_given_self_capacitance_sets_the_toroid_srf(tmp_path, capsys):
     assert got["q_estimated"] < plain["q_estimated"]
 
 
-@pytest.mark.parametrize("resistance, code_word", [("50 kohm", "more than the 23-turn"),
+@pytest.mark.parametrize("resistance, code_word", [("50 kohm", "more than the 19-turn"),
                                                    ("0.1 ohm", "below its reactance")])
 def test_link_that_cannot_present_the_tank_load_fails_with_a_remedy(tmp_path, capsys,
                                                                      resistance, code_word):
     """Ideal transformer (any textbook): R at M of N turns presents R·(N/M)². A link of more
-    turns than the tank (50 kΩ onto a ~23 kΩ tank load needs 23·√(50/23) ≈ 34 turns) steps
-    the load up; one that presents less than X0 (0.1 Ω · 23² = 53 Ω < X0 ≈ 97 Ω) leaves a
+    turns than the tank (50 kΩ onto a ~23 kΩ tank load needs 19·√(50/23) ≈ 28 turns) steps
+    the load up; one that presents less than X0 (0.1 Ω · 19² = 36 Ω < X0 ≈ 97 Ω) leaves a
     loaded Q under 1. Either is a failed check (exit 1), not "fits, all pass"."""
     text = TOROID.replace("    resistance: 50 ohm\n", f"    resistance: {resistance}\n")
     code, out, _ = _run(capsys, "check", _job(tmp_path, text), "--library", ROOT / "shared")

@@ -25,7 +25,7 @@ PARSED = [
     ("0.5 in", quantities.LENGTH, 0.0127), ("12.5 mm", quantities.LENGTH, 0.0125),
     ("30 dBm", quantities.POWER, 1.0), ("0 dBm", quantities.POWER, 1e-3), ("5 W", quantities.POWER, 5.0),
     ("-30 ppm/K", quantities.TEMPERATURE_COEFFICIENT, -30e-6), ("-40 °C", quantities.TEMPERATURE, -40.0),
-    ("49 nH/turn²", quantities.INDUCTANCE_FACTOR, 49e-9),
+    ("63 nH/turn²", quantities.INDUCTANCE_FACTOR, 63e-9),
     ("4.9 µH/100 turns", quantities.INDUCTANCE_FACTOR, 4.9e-10),
     ("49 mH/1000 turns", quantities.INDUCTANCE_FACTOR, 49e-9),
     (150, quantities.DIMENSIONLESS, 150.0), (2200, quantities.RESISTANCE, 2200.0),
