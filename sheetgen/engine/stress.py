@@ -2,8 +2,10 @@
 
 Phasor analysis of the circuits defined in resonance.py at one frequency (normally the
 response maximum): series, I = V / (Rs + Z); parallel, V = I_N / Y with the Norton
-current I_N = V/Rs (or the given current) and Y including 1/Rs. All figures are RMS
-unless named peak; peak = √2 · RMS for the sinusoidal drive.
+current I_N = V/Rs (or the given current) and Y including 1/Rs — a current source's own
+resistance is across it (Norton's theorem), so it loads the tank exactly as it does in
+the response. All figures are RMS unless named peak; peak = √2 · RMS for the sinusoidal
+drive.
 """
 
 from __future__ import annotations
@@ -73,15 +75,20 @@ def part_stress(circuit: Circuit, drive: Drive, f_hz: float) -> Stress:
     source_v = None if drive.kind == "current" else open_circuit_voltage_rms(drive, rs)
     if circuit.topology == "series":
         loop = z_coil + z_cap + (rl or 0.0)
-        current = drive.value if drive.kind == "current" else source_v / abs((rs or 0.0) + loop)
+        if drive.kind == "current" and rs:  # Norton I with Rs across = Thévenin I·Rs behind Rs
+            current = drive.value * rs / abs(rs + loop)
+        elif drive.kind == "current":
+            current = drive.value
+        else:
+            current = source_v / abs((rs or 0.0) + loop)
         i_coil = i_cap = current
         v_coil, v_cap = current * abs(z_coil), current * abs(z_cap)
         v_load = current * (rl or 0.0)
         line_current = current
     else:
         y_parts = 1.0 / z_coil + 1.0 / z_cap + (1.0 / rl if rl else 0.0)
-        if drive.kind == "current":
-            norton, y_total = drive.value, y_parts
+        if drive.kind == "current":  # the source's resistance is across it (Norton)
+            norton, y_total = drive.value, y_parts + (1.0 / rs if rs else 0.0)
         else:
             if not rs:
                 raise DriveError("a parallel tank driven by a voltage needs a source "
