@@ -17,7 +17,7 @@ from sheetgen.design.designators import designators
 from sheetgen.design.plausibility import CAPACITANCE_MIN_F, LOADED_Q_MIN, plausibility_findings
 from sheetgen.design.records import CoilDesign, Derivation, Design
 from sheetgen.engine import resonance
-from sheetgen.engine.stress import DriveError, open_load_stress, part_stress, worse_stress
+from sheetgen.engine.stress import DriveError, dc_feed, open_load_stress, part_stress, worst_case
 from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import Job
@@ -125,6 +125,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
         raise FieldError("source", str(error)) from None
     except resonance.NoResonanceError:
         open_stress = None
+    worst = worst_case(stress, open_stress)  # what the parts are rated and judged at
+    dc = dc_feed(circuit.topology, job.circuit.dc_voltage, job.circuit.dc_blocked)
     start, stop = resonance.default_sweep_range_hz(analysed)
     start = job.sweep.start if job.sweep.start is not None else start
     stop = job.sweep.stop if job.sweep.stop is not None else stop
@@ -134,7 +136,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     coil_result = None
     if coil is not None:
         from sheetgen.design.coil import coil_at_voltage, coil_design
-        loaded_coil = coil_at_voltage(coil, parts, stress.inductor_voltage_rms_v, f_design)
+        loaded_coil = coil_at_voltage(coil, parts, worst.stress.inductor_voltage_rms_v,
+                                      f_design)  # its heat and flux at the worst case
         coil_result = coil_design(job, parts, loaded_coil, target_l, circuit, q_used, q_source,
                                   f0, coupling)
     fixed = choice.fixed_parts_f
@@ -146,7 +149,7 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     bench = _bench(job, circuit, analysed, stress, coil_result)
     try:
         assessment = _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-                             coil_result, f0_target, open_stress, bench)
+                             coil_result, f0_target, worst, dc, bench)
     except FieldError:
         raise
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
@@ -156,7 +159,7 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                   plausibility=plausibility_findings(job, circuit, analysed, stress, fixed,
                                                      capacitance_f=required_c),
                   stress_open_load=open_stress,
-                  bleeder=bleeder_duty(job, worse_stress(stress, open_stress)), bench=bench)
+                  bleeder=bleeder_duty(job, worst.stress, dc), bench=bench, worst=worst, dc=dc)
 
 
 def _bench(job: Job, circuit, analysed, stress, coil: CoilDesign | None):
@@ -189,7 +192,7 @@ def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]
 
 
 def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-            coil: CoilDesign | None, f0_target, open_stress=None, bench=None):
+            coil: CoilDesign | None, f0_target, worst, dc=None, bench=None):
     """The limits and rating checks, with the coil's tolerance and temperature data."""
     if coil is None:
         tolerance = job.inductor.tolerance
@@ -197,7 +200,7 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
         return assess(job, circuit, analysed, stress, response, names,
                       f0_target_hz=f0_target, fixed_capacitance_f=choice.fixed_f,
                       inductance_tolerance=tolerance, inductance_tc=tc, fixed_parts_f=fixed,
-                      other_capacitance_f=_across(choice), open_load_stress=open_stress,
+                      other_capacitance_f=_across(choice), worst=worst, dc=dc,
                       bench=bench)
     r = coil.result
     return assess(job, circuit, analysed, stress, response, names, f0_target_hz=f0_target,
@@ -207,7 +210,7 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
                   flux_limit_t=coil.flux_density_max_t, wire_diameter_m=r.wire.diameter_m,
                   ac_to_dc_resistance=max(1.0, r.ac_resistance_ohm / r.dc_resistance_ohm),
                   fixed_parts_f=fixed, other_capacitance_f=_across(choice),
-                  open_load_stress=open_stress, bench=bench)
+                  worst=worst, dc=dc, bench=bench)
 
 
 def _across(choice) -> float:

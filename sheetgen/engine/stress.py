@@ -144,3 +144,59 @@ def worse_stress(nominal: Stress, other: Stress | None) -> Stress:
               "inductor_voltage_rms_v", "inductor_voltage_peak_v", "inductor_current_rms_a",
               "inductor_loss_w", "capacitor_loss_w")
     return replace(nominal, **{f: max(getattr(nominal, f), getattr(other, f)) for f in fields})
+
+
+WorstCondition = Literal["as driven", "load open"]
+
+
+@dataclass(frozen=True)
+class WorstCase:
+    """The worst credible case of the drive: each part's figure the larger of the nominal
+    operating point and the load-open case (for a parallel tank, the load disconnected is
+    also the worst mistune: see open_load_stress), and which case set the tank's voltage."""
+
+    stress: Stress
+    condition: WorstCondition
+
+
+def worst_case(nominal: Stress, open_load: Stress | None) -> WorstCase:
+    """The worst credible case (worse_stress) and the condition that gives its voltage."""
+    worse = open_load is not None and (open_load.capacitor_voltage_peak_v
+                                       > nominal.capacitor_voltage_peak_v)
+    return WorstCase(worse_stress(nominal, open_load), "load open" if worse else "as driven")
+
+
+@dataclass(frozen=True)
+class DcFeed:
+    """Where a DC supply the tank carries sits, in volts (0 where a part sees none).
+
+    across_capacitor_v: across the tuning capacitor(s) and anything across them;
+    to_chassis_v: between the tank's conductors and the chassis (ground);
+    across_blocking_v: across the blocking capacitor, None where there is none.
+    """
+
+    supply_v: float
+    across_capacitor_v: float
+    to_chassis_v: float
+    across_blocking_v: float | None
+
+
+def dc_feed(topology: str, supply_v: float | None, blocked: bool) -> DcFeed | None:
+    """Which parts of the tank see a DC supply (None without one).
+
+    Parallel tank, supply fed through the coil: the coil is across the capacitor and holds
+    both its ends at the supply, so the capacitor sees only the RF across it while every
+    conductor of the tank sits at the supply against the chassis. Parallel tank with a
+    blocking capacitor in series with the coil: the coil no longer shorts the tuning
+    capacitor for DC, so it is charged to the supply, as is the blocking capacitor.
+    Series loop: the capacitor is the only part that blocks DC in the loop and takes the
+    whole supply. In every arrangement the tank's hot end is at the supply plus the RF
+    peak against the chassis.
+    """
+    if not supply_v:
+        return None
+    if topology == "series":
+        return DcFeed(supply_v, supply_v, supply_v, None)
+    if blocked:
+        return DcFeed(supply_v, supply_v, supply_v, supply_v)
+    return DcFeed(supply_v, 0.0, supply_v, None)

@@ -101,6 +101,7 @@ def results_document(design: Design) -> dict:
             "inductor_loss_w": stress.inductor_loss_w,
             "capacitor_loss_w": stress.capacitor_loss_w,
             **_open_load(design.stress_open_load),
+            **_worst_case(design),
         },
         "inductor": _inductor(design),
         "limits": limits_section(design),
@@ -158,6 +159,23 @@ def _fixture(bench) -> dict:
         "generator_emf_rms_v": bench.drive.generator_emf_rms_v,
         "generator_level_dbm": bench.drive.generator_level_dbm,
         "part_voltage_peak_v": bench.drive.part_voltage_peak_v,
+    }
+
+
+def _worst_case(design: Design) -> dict:
+    """The case the parts are rated and the cautions worded at, and the DC supply's place
+    (volts across the tuning capacitor, against the chassis, across a blocking capacitor;
+    null without a supply)."""
+    worst, dc = design.worst, design.dc
+    return {
+        "worst_case_condition": worst.condition if worst is not None else None,
+        "worst_case_capacitor_voltage_peak_v": (worst.stress.capacitor_voltage_peak_v
+                                                if worst is not None else None),
+        "worst_case_inductor_current_rms_a": (worst.stress.inductor_current_rms_a
+                                              if worst is not None else None),
+        "dc_across_capacitor_v": dc.across_capacitor_v if dc else None,
+        "dc_to_chassis_v": dc.to_chassis_v if dc else None,
+        "dc_across_blocking_capacitor_v": dc.across_blocking_v if dc else None,
     }
 
 
