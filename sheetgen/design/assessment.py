@@ -174,7 +174,7 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
            bench=None) -> Assessment:
     """Limits, trimmer range and rating checks for the nominal design; parts are rated at
     the worst credible case (`worst`, default the nominal stress) plus the DC a part sits
-    at (`dc`); a designed coil (`coil`) is already evaluated at that case (its heat and
+    at (`dc`); a designed coil (`coil`) is given evaluated at that case (its heat and
     flux), and its winding's current density is kept as information.
 
     The bench windows are for the circuit the test set-up builds (`bench`, an

@@ -133,11 +133,13 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     if stop <= start:
         raise FieldError("sweep", f"start {start:.6g} Hz must be below stop {stop:.6g} Hz")
     response = resonance.sweep(circuit, np.linspace(start, stop, job.sweep.points))
-    coil_result = None
+    coil_result = coil_at_worst = None
     if coil is not None:
         from sheetgen.design.coil import coil_at_voltage, coil_design
-        loaded_coil = coil_at_voltage(coil, parts, worst.stress.inductor_voltage_rms_v,
-                                      f_design)  # its heat and flux at the worst case
+        loaded_coil = coil_at_voltage(coil, parts, stress.inductor_voltage_rms_v, f_design)
+        coil_at_worst = (coil_at_voltage(coil, parts, worst.stress.inductor_voltage_rms_v,
+                                         f_design)  # heat and flux are judged here
+                         if worst.stress is not stress else loaded_coil)
         coil_result = coil_design(job, parts, loaded_coil, target_l, circuit, q_used, q_source,
                                   f0, coupling)
     fixed = choice.fixed_parts_f
@@ -149,7 +151,7 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     bench = _bench(job, circuit, analysed, stress, coil_result)
     try:
         assessment = _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-                             coil_result, f0_target, worst, dc, bench)
+                             coil_result, f0_target, worst, dc, bench, coil_at_worst)
     except FieldError:
         raise
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
@@ -159,7 +161,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                   plausibility=plausibility_findings(job, circuit, analysed, stress, fixed,
                                                      capacitance_f=required_c),
                   stress_open_load=open_stress,
-                  bleeder=bleeder_duty(job, worst.stress, dc), bench=bench, worst=worst, dc=dc)
+                  bleeder=bleeder_duty(job, worst.stress, dc), bench=bench, worst=worst, dc=dc,
+                  coil_at_worst=coil_at_worst)
 
 
 def _bench(job: Job, circuit, analysed, stress, coil: CoilDesign | None):
@@ -192,7 +195,8 @@ def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]
 
 
 def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-            coil: CoilDesign | None, f0_target, worst, dc=None, bench=None):
+            coil: CoilDesign | None, f0_target, worst, dc=None, bench=None,
+            coil_at_worst=None):
     """The limits and rating checks, with the coil's tolerance and temperature data."""
     if coil is None:
         tolerance = job.inductor.tolerance
@@ -206,7 +210,7 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
     return assess(job, circuit, analysed, stress, response, names, f0_target_hz=f0_target,
                   fixed_capacitance_f=choice.fixed_f,
                   inductance_tolerance=coil.inductance_tolerance,
-                  inductance_tc=coil.inductance_tc, coil=r,
+                  inductance_tc=coil.inductance_tc, coil=coil_at_worst or r,
                   flux_limit_t=coil.flux_density_max_t, wire_diameter_m=r.wire.diameter_m,
                   ac_to_dc_resistance=max(1.0, r.ac_resistance_ohm / r.dc_resistance_ohm),
                   fixed_parts_f=fixed, other_capacitance_f=_across(choice),

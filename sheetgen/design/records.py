@@ -178,3 +178,4 @@ class Design:
     bench: BenchSetup | None = None  # the small-signal test set-up and the circuit it builds
     worst: WorstCase | None = None  # the worst credible case: what parts are rated at
     dc: DcFeed | None = None  # where the job's DC supply sits in the tank
+    coil_at_worst: ToroidCoil | SolenoidCoil | None = None  # the designed coil at `worst`

@@ -454,13 +454,15 @@ def cautions(parts: Iterable[PartHazard], f_hz: float, rf_power_w: float, *,
 
 
 def _capacitor_rise_k(design: Design) -> float | None:
-    """The hottest fixed capacitor's rise above ambient, ΔT = P·Rθ, with the ESR loss shared
-    in proportion to capacitance (None without a thermal resistance in the job)."""
+    """The hottest fixed capacitor's rise above ambient at the worst case, ΔT = P·Rθ, with
+    the ESR loss shared in proportion to capacitance (None without a thermal resistance in
+    the job)."""
     r_theta = design.job.capacitor.thermal_resistance
     if r_theta is None:
         return None
     share = max(design.capacitor_choice.fixed_parts_f) / design.circuit.capacitance_f
-    return design.stress.capacitor_loss_w * share * r_theta
+    stress = design.worst.stress if design.worst is not None else design.stress
+    return stress.capacitor_loss_w * share * r_theta
 
 
 def design_cautions(design: Design) -> tuple[Caution, ...]:
@@ -468,7 +470,7 @@ def design_cautions(design: Design) -> tuple[Caution, ...]:
     supply, and its coil's."""
     names = design.designators
     coil = design.coil
-    result = coil.result if coil is not None else None
+    result = design.coil_at_worst if coil is not None else None  # heat and flux judged there
     parts = parts_from_stress(design.circuit, design.stress, capacitors=names.capacitors,
                               inductor=names.coil,
                               bleeder_resistance_ohm=design.job.capacitor.bleeder,
@@ -480,7 +482,8 @@ def design_cautions(design: Design) -> tuple[Caution, ...]:
                      ambient_max_c=design.job.variation.temperature.maximum,
                      dc_voltage_v=design.job.circuit.dc_voltage, dc=design.dc)
     found += coil_cautions(result, design.resonance.f0_hz, names.coil,
-                           coil.flux_density_max_t if coil is not None else None)
+                           coil.flux_density_max_t if coil is not None else None,
+                           condition=design.worst.condition if design.worst else None)
     found += insulation_cautions(design)
     return tuple(sorted(found, key=lambda c: (-SEVERITY[c.level], _ORDER.index(c.code))))
 
@@ -531,7 +534,8 @@ def insulation_cautions(design: Design) -> tuple[Caution, ...]:
 
 
 def coil_cautions(coil, f0_hz: float, designator: str,
-                  flux_limit_t: float | None = None) -> tuple[Caution, ...]:
+                  flux_limit_t: float | None = None,
+                  condition: str | None = None) -> tuple[Caution, ...]:
     """NOTICEs (harm to the equipment, not to people) for a coil whose self-resonance is not
     well above f0, or whose core runs near its flux density limit (over the limit is a
     failed rating check instead)."""
@@ -548,7 +552,8 @@ def coil_cautions(coil, f0_hz: float, designator: str,
     if flux is not None and flux_limit_t and FLUX_WARNING_SHARE * flux_limit_t < flux <= flux_limit_t:
         found.append(Caution(
             "notice", "flux-near-limit",
-            f"The core of {designator} runs at {format_quantity(flux, 'T', 3)} peak, "
+            f"The core of {designator} runs at {format_quantity(flux, 'T', 3)} peak"
+            f"{' ' + condition_text(condition) if condition == 'load open' else ''}, "
             f"{flux / flux_limit_t * 100:.0f} % of its material's "
             f"{format_quantity(flux_limit_t, 'T', 3)} limit: it heats and its Q falls as the "
             "drive rises. Keep the drive at the design level or use a larger core."))

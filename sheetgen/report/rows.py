@@ -159,8 +159,8 @@ def coil_rows(design: Design) -> list[Row]:
     if coil.form == "toroid":
         rows += [
             Row("Peak flux density", quantity_text(r.flux_density_peak_t, "T", 3),
-                f"{format_number(r.flux_density_peak_t * 1e4, 3)} G "
-                f"{condition_text(design.worst.condition if design.worst else None)}; limit "
+                f"{format_number(r.flux_density_peak_t * 1e4, 3)} G as driven"
+                + _at_worst(design, "flux_density_peak_t", "T") + "; limit "
                 f"{quantity_text(coil.flux_density_max_t, 'T', 3)}"),
             Row("Core loss (used for heat)", _watts(r.core_loss_w), _core_loss_remark(r)),
             Row("Core loss from the loss table", _watts(r.core_loss_table_w),
@@ -173,12 +173,14 @@ def coil_rows(design: Design) -> list[Row]:
                 f"close-wound {format_number(r.close_wound_angle_deg, 3)}°"),
         ]
     case = condition_text(design.worst.condition if design.worst else None)
-    rows += [Row("Copper loss", _watts(r.copper_loss_w), f"I²·R_ac {case} (the worst case)"),
+    rows += [Row("Copper loss", _watts(r.copper_loss_w),
+                 "I²·R_ac at the design drive" + _at_worst(design, "copper_loss_w", "W")),
              Row("Temperature rise", (format_number(r.temperature_rise_k, 3) + " K")
                  if r.temperature_rise_k is not None else "—",
                  "natural convection from the " + ("core's" if coil.form == "toroid" else
-                                                    "winding's") + f" surface {case} "
-                 "(common practice); checked under Ratings")]
+                                                    "winding's") + " surface (common "
+                 "practice)" + _at_worst(design, "temperature_rise_k", "K")
+                 + "; the worst case is checked under Ratings")]
     density = design.assessment.current_density
     if density is not None:
         rows.append(Row("Current density", stress_text(density.actual_a_per_m2, "A/m²"),
@@ -198,6 +200,16 @@ def coil_rows(design: Design) -> list[Row]:
                         f"for {quantity_text(coil.tap_resistance_ohm, 'Ω')}: N√(R_tap/R_tank) rounded"
                         + _presented(coil)))
     return rows
+
+
+def _at_worst(design: Design, field: str, unit: str) -> str:
+    """'; 12.5 W with the load open': the coil's figure at the worst case, where it differs."""
+    worst = design.coil_at_worst
+    if (worst is None or design.worst is None or design.worst.condition == "as driven"
+            or getattr(worst, field, None) is None):
+        return ""
+    return (f"; {quantity_text(getattr(worst, field), unit, 3)} "
+            f"{condition_text(design.worst.condition)}")
 
 
 def _presented(coil) -> str:
