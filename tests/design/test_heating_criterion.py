@@ -74,3 +74,17 @@ def test_temperature_and_current_density_use_the_same_worst_case(tmp_path):
     check = next(c for c in d.assessment.ratings if c.quantity == "surface temperature")
     assert_close(check.actual, d.job.variation.temperature.maximum + rise_k, rel=1e-3,
                  what="winding temperature at the worst case")
+
+
+def test_the_coil_finish_stands_the_worst_case(tmp_path):
+    """Coil wax softens from about 50 °C (from memory; common practice). In a 15 °C
+    ambient the trap's winding runs about 30 K up as driven (wax would do) but about
+    48 K up with the load open: the finish is chosen for the worst case."""
+    from sheetgen.report.winding import coil_finish_text
+    path = tmp_path / "trap.yaml"
+    path.write_text(TRAP + "variation:\n  temperature: {minimum: 0 °C, maximum: 15 °C}\n",
+                    encoding="utf-8")
+    d = design_from_file(path)
+    assert 15.0 + d.coil.result.temperature_rise_k < 50.0 < 15.0 + d.coil_at_worst.temperature_rise_k
+    text = coil_finish_text(d)
+    assert "do not use wax" in text and "with the load open" in text
