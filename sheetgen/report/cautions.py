@@ -414,7 +414,10 @@ def _no_hazard_notice(parts: Iterable[PartHazard]) -> Caution:
     return Caution("notice", "no-hazardous-voltage", _text(
         f"No hazardous voltage was computed {case}: the highest is "
         f"{_worst_volts(highest)} on {highest.designator}, within {limit.describe()}.",
-        "A higher drive, a fault or mistuning can give more; check before raising the drive."))
+        ("A higher drive or a fault can give more (the load-open case is already the worst "
+         "mistune); check before raising the drive." if highest.condition == "load open" else
+         "A higher drive, a fault or mistuning can give more; check before raising the "
+         "drive.")))
 
 
 _ORDER = ("covers-interlocks", "hv-capacitor", "hv-coil", "insulation-distances", "dc-supply",
