@@ -26,11 +26,11 @@ from sheetgen.engine.limits import (
 )
 from sheetgen.engine.ratings import (
     DEFAULT_RESISTOR_POWER_DERATING,
+    CurrentDensity,
     RatingCheck,
     UnratedCheck,
     capacitor_current_check,
     capacitor_voltage_check,
-    current_density_check,
     esr_power_check,
     flux_density_check,
     resistor_power,
@@ -38,10 +38,11 @@ from sheetgen.engine.ratings import (
     resistor_voltage_check,
     surface_temperature_check,
     unrated_check,
+    winding_current_density,
 )
 from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import SERIES_TOLERANCE
-from sheetgen.engine.stress import Drive, Stress, worse_stress
+from sheetgen.engine.stress import DcFeed, Drive, Stress, WorstCase
 from sheetgen.engine.variation import (
     Envelope,
     Spread,
@@ -115,6 +116,7 @@ class Assessment:
     loss_spread: float | None = None
     loss_spread_source: str | None = None  # "job" or "estimate"
     band: BandTuning | None = None  # tuning across a band (circuit.targets.band)
+    current_density: CurrentDensity | None = None  # the winding's, at the worst case: shown
 
     @property
     def must_trim(self) -> bool:
@@ -195,10 +197,12 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
            wire_diameter_m: float | None = None, ac_to_dc_resistance: float = 1.0,
            fixed_parts_f: tuple[float, ...] = (),
            other_capacitance_f: float = 0.0,
-           open_load_stress: Stress | None = None, bench=None,
-           band_settings_f: tuple[float | None, ...] = ()) -> Assessment:
-    """Limits, trimmer range and rating checks for the nominal design; parts are rated
-    against the worse of the nominal and the open-load stress (B̂ ∝ V scales the flux).
+           worst: WorstCase | None = None, dc: DcFeed | None = None,
+           bench=None, band_settings_f: tuple[float | None, ...] = ()) -> Assessment:
+    """Limits, trimmer range and rating checks for the nominal design; parts are rated at
+    the worst credible case (`worst`, default the nominal stress) plus the DC a part sits
+    at (`dc`); a designed coil (`coil`) is given evaluated at that case (its heat and
+    flux), and its winding's current density is kept as information.
 
     The bench windows are for the circuit the test set-up builds (`bench`, an
     engine.bench.BenchSetup: the fixture's standard resistors and the 50 Ω ports, with
@@ -260,18 +264,17 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
     lcr = job.test.lcr_accuracy
     c_window = part_window(fixed_capacitance_f, c_tol, lcr)
     l_window = part_window(circuit.inductance_h, inductance_tolerance, lcr)
-    rated = worse_stress(stress, open_load_stress)
-    flux = (coil.flux_density_peak_t if coil is not None
-            and getattr(coil, "flux_density_peak_t", None) is not None else None)
-    if flux is not None and stress.inductor_voltage_peak_v > 0:  # Faraday: B̂ ∝ V
-        flux *= rated.inductor_voltage_peak_v / stress.inductor_voltage_peak_v
+    rated = worst.stress if worst is not None else stress
+    flux = getattr(coil, "flux_density_peak_t", None) if coil is not None else None
     checks = rating_checks(job, circuit, rated, names, fixed_parts_f or (circuit.capacitance_f,),
-                           flux=flux,
-                           flux_limit_t=flux_limit_t, wire_diameter_m=wire_diameter_m,
-                           ac_to_dc_resistance=ac_to_dc_resistance,
+                           flux=flux, flux_limit_t=flux_limit_t,
                            coil_rise_k=getattr(coil, "temperature_rise_k", None)
-                           if coil is not None else None)
-    checks += bleeder_checks(job, rated, names, stress.drive_power_w)
+                           if coil is not None else None,
+                           dc_across_capacitor_v=dc.across_capacitor_v if dc else 0.0)
+    checks += bleeder_checks(job, rated, names, stress.drive_power_w, dc)
+    density = (winding_current_density(rated.inductor_current_rms_a, wire_diameter_m,
+                                       ac_to_dc_resistance=ac_to_dc_resistance)
+               if wire_diameter_m is not None else None)
     loss_spread = job.variation.loss_tolerance or (ESTIMATED_LOSS_SPREAD if q_estimated
                                                    else None)
     return Assessment(spec, variation, limits, tuned, trim, checks,
@@ -288,7 +291,7 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
                       inductance_tc_assumed=tc_assumed, loss_spread=loss_spread,
                       loss_spread_source=("job" if job.variation.loss_tolerance else
                                           "estimate" if loss_spread else None),
-                      band=band_tuning)
+                      current_density=density, band=band_tuning)
 
 
 def band_points_hz(band) -> tuple[float, float, float]:
@@ -313,25 +316,27 @@ def _band_tuning(band, built, method, tested, tested_spec, fixed_capacitance_f, 
     return BandTuning(band.low, band.high, edge(band.low), edge(band.high), tuple(points))
 
 
-def bleeder_duty(job: Job, rated: Stress):
-    """What a bleeder across the capacitor dissipates and holds off (None without one)."""
+def bleeder_duty(job: Job, rated: Stress, dc: DcFeed | None = None):
+    """What a bleeder across the capacitor dissipates and holds off (None without one):
+    the RF at the worst case, V̂²/(2R), and any DC across the capacitor, V_dc²/R."""
     from sheetgen.design.records import BleederDuty
     r = job.capacitor.bleeder
     if r is None:
         return None
-    v = rated.capacitor_voltage_peak_v
-    p = resistor_power(v, r)
+    v_dc = dc.across_capacitor_v if dc else 0.0
+    v = rated.capacitor_voltage_peak_v + v_dc
+    p = resistor_power(rated.capacitor_voltage_peak_v, r) + v_dc * v_dc / r
     return BleederDuty(r, v, p, p / DEFAULT_RESISTOR_POWER_DERATING, v)
 
 
 def bleeder_checks(job: Job, rated: Stress, names: Designators,
-                   drive_power_w: float) -> tuple[RatingCheck, ...]:
+                   drive_power_w: float, dc: DcFeed | None = None) -> tuple[RatingCheck, ...]:
     """The bleeder's power and working-voltage ratings, when the job gives them."""
     cap = job.capacitor
     if cap.bleeder is None or names.bleeder is None:
         return ()
     accepted = {a.check.strip().lower(): a.reason for a in job.ratings.accept}
-    duty = bleeder_duty(job, rated)
+    duty = bleeder_duty(job, rated, dc)
     drive = job_drive(job)
     checks = []
     if cap.bleeder_rated_power is not None:
@@ -365,12 +370,14 @@ def job_drive(job: Job) -> Drive:
 
 def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators,
                   fixed_parts_f: tuple[float, ...], *, flux: float | None,
-                  flux_limit_t: float | None, wire_diameter_m: float | None,
-                  ac_to_dc_resistance: float = 1.0, coil_rise_k: float | None = None
+                  flux_limit_t: float | None, coil_rise_k: float | None = None,
+                  dc_across_capacitor_v: float = 0.0
                   ) -> tuple[RatingCheck | UnratedCheck, ...]:
     """Every rating the job gives, against the computed stress (parallel parts share the
-    capacitor current in proportion to their capacitance); a capacitor's voltage and ESR
-    power and the trimmer's voltage without a rating are UnratedChecks, never a pass."""
+    capacitor current in proportion to their capacitance); the capacitors' and the
+    trimmer's peak voltage is the RF peak plus the DC across them. A capacitor's voltage
+    and ESR power and the trimmer's voltage without a rating are UnratedChecks, never a
+    pass. The coil's heating is judged by its temperature (coil_rise_k)."""
     ratings = job.ratings
     accepted = {a.check.strip().lower(): a.reason for a in ratings.accept}
     power = stress.drive_power_w
@@ -384,12 +391,12 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
     total_c = circuit.capacitance_f
     for part, c_part in zip(names.fixed_capacitors, fixed_parts_f):
         share = c_part / total_c
-        peak = stress.capacitor_voltage_peak_v
+        peak = stress.capacitor_voltage_peak_v + dc_across_capacitor_v
         if cap.rated_voltage is not None:
             checks.append(capacitor_voltage_check(
-                part, peak, cap.rated_voltage,
+                part, stress.capacitor_voltage_peak_v, cap.rated_voltage,
                 derating=ratings.voltage_derating, drive_power_w=power, drive=drive,
-                acceptance=acceptance(part, "peak voltage")))
+                acceptance=acceptance(part, "peak voltage"), dc_v=dc_across_capacitor_v))
         else:  # a missing rating is not a pass
             checks.append(unrated_check(part, "peak voltage", "V", peak, peak,
                                         acceptance(part, "peak voltage")))
@@ -413,21 +420,16 @@ def rating_checks(job: Job, circuit: Circuit, stress: Stress, names: Designators
             checks.append(unrated_check(part, "power in ESR", "W",
                                         stress.capacitor_loss_w * share, peak,
                                         acceptance(part, "power in ESR")))
+    trimmer_peak = stress.capacitor_voltage_peak_v + dc_across_capacitor_v
     if names.trimmer and cap.trimmer is not None and cap.trimmer.rated_voltage is not None:
         checks.append(capacitor_voltage_check(
             names.trimmer, stress.capacitor_voltage_peak_v, cap.trimmer.rated_voltage,
             derating=ratings.voltage_derating, drive_power_w=power, drive=drive,
-            acceptance=acceptance(names.trimmer, "peak voltage")))
+            acceptance=acceptance(names.trimmer, "peak voltage"),
+            dc_v=dc_across_capacitor_v))
     elif names.trimmer and cap.trimmer is not None:
-        checks.append(unrated_check(names.trimmer, "peak voltage", "V",
-                                    stress.capacitor_voltage_peak_v,
-                                    stress.capacitor_voltage_peak_v,
-                                    acceptance(names.trimmer, "peak voltage")))
-    if wire_diameter_m is not None:
-        checks.append(current_density_check(
-            names.coil, stress.inductor_current_rms_a, wire_diameter_m,
-            ac_to_dc_resistance=ac_to_dc_resistance, drive_power_w=power, drive=drive,
-            acceptance=acceptance(names.coil, "current density")))
+        checks.append(unrated_check(names.trimmer, "peak voltage", "V", trimmer_peak,
+                                    trimmer_peak, acceptance(names.trimmer, "peak voltage")))
     if coil_rise_k is not None:
         checks.append(surface_temperature_check(
             names.coil, job.variation.temperature.maximum, coil_rise_k, drive_power_w=power,

@@ -21,10 +21,11 @@ from sheetgen.design.records import CoilDesign, Derivation, Design
 from sheetgen.engine import resonance
 from sheetgen.engine.stress import (
     DriveError,
+    dc_feed,
     open_circuit_voltage_rms,
     open_load_stress,
     part_stress,
-    worse_stress,
+    worst_case,
 )
 from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
@@ -143,16 +144,21 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
         raise FieldError("source", str(error)) from None
     except resonance.NoResonanceError:
         open_stress = None
+    worst = worst_case(stress, open_stress)  # what the parts are rated and judged at
+    dc = dc_feed(circuit.topology, job.circuit.dc_voltage, job.circuit.dc_blocked)
     start, stop = resonance.default_sweep_range_hz(analysed)
     start = job.sweep.start if job.sweep.start is not None else start
     stop = job.sweep.stop if job.sweep.stop is not None else stop
     if stop <= start:
         raise FieldError("sweep", f"start {start:.6g} Hz must be below stop {stop:.6g} Hz")
     response = resonance.sweep(circuit, np.linspace(start, stop, job.sweep.points))
-    coil_result = None
+    coil_result = coil_at_worst = None
     if coil is not None:
         from sheetgen.design.coil import coil_at_voltage, coil_design
         loaded_coil = coil_at_voltage(coil, parts, stress.inductor_voltage_rms_v, f_design)
+        coil_at_worst = (coil_at_voltage(coil, parts, worst.stress.inductor_voltage_rms_v,
+                                         f_design)  # heat and flux are judged here
+                         if worst.stress is not stress else loaded_coil)
         coil_result = coil_design(job, parts, loaded_coil, target_l, circuit, q_used, q_source,
                                   f0, coupling)
     fixed = choice.fixed_parts_f
@@ -167,7 +173,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     band_settings = _band_settings(job, model, names) if band is not None else ()
     try:
         assessment = _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-                             coil_result, f0_target, open_stress, bench, band_settings)
+                             coil_result, f0_target, worst, dc, bench, coil_at_worst,
+                             band_settings)
     except FieldError:
         raise
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
@@ -177,8 +184,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                   plausibility=plausibility_findings(job, circuit, analysed, stress, fixed,
                                                      capacitance_f=required_c),
                   stress_open_load=open_stress,
-                  bleeder=bleeder_duty(job, worse_stress(stress, open_stress)), bench=bench,
-                  model=model, duties=duties)
+                  bleeder=bleeder_duty(job, worst.stress, dc), bench=bench, worst=worst, dc=dc,
+                  coil_at_worst=coil_at_worst, model=model, duties=duties)
 
 
 def _drive_rms(drive, circuit) -> float:
@@ -232,8 +239,8 @@ def _band_settings(job: Job, model, names) -> tuple[float | None, ...]:
 
 
 def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
-            coil: CoilDesign | None, f0_target, open_stress=None, bench=None,
-            band_settings=()):
+            coil: CoilDesign | None, f0_target, worst, dc=None, bench=None,
+            coil_at_worst=None, band_settings=()):
     """The limits and rating checks, with the coil's tolerance and temperature data."""
     if coil is None:
         tolerance = job.inductor.tolerance
@@ -241,17 +248,17 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
         return assess(job, circuit, analysed, stress, response, names,
                       f0_target_hz=f0_target, fixed_capacitance_f=choice.fixed_f,
                       inductance_tolerance=tolerance, inductance_tc=tc, fixed_parts_f=fixed,
-                      other_capacitance_f=_across(choice), open_load_stress=open_stress,
+                      other_capacitance_f=_across(choice), worst=worst, dc=dc,
                       bench=bench, band_settings_f=band_settings)
     r = coil.result
     return assess(job, circuit, analysed, stress, response, names, f0_target_hz=f0_target,
                   fixed_capacitance_f=choice.fixed_f,
                   inductance_tolerance=coil.inductance_tolerance,
-                  inductance_tc=coil.inductance_tc, coil=r,
+                  inductance_tc=coil.inductance_tc, coil=coil_at_worst or r,
                   flux_limit_t=coil.flux_density_max_t, wire_diameter_m=r.wire.diameter_m,
                   ac_to_dc_resistance=max(1.0, r.ac_resistance_ohm / r.dc_resistance_ohm),
                   fixed_parts_f=fixed, other_capacitance_f=_across(choice),
-                  open_load_stress=open_stress, bench=bench, band_settings_f=band_settings)
+                  worst=worst, dc=dc, bench=bench, band_settings_f=band_settings)
 
 
 def _across(choice) -> float:

@@ -18,7 +18,7 @@ from sheetgen.engine.coil import SolenoidCoil, ToroidCoil
 from sheetgen.engine.magnetics import AlAgreement
 from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import StandardPair
-from sheetgen.engine.stress import Drive, Stress
+from sheetgen.engine.stress import DcFeed, Drive, Stress, WorstCase
 from sheetgen.engine.wire import Wire
 from sheetgen.inputs.model import Job
 
@@ -67,9 +67,10 @@ class CapacitorChoice:
 
 @dataclass(frozen=True)
 class BleederDuty:
-    """The bleeder across the capacitor sees the tank's RF voltage: P = V̂²/(2R) at the
-    worse of the nominal and open-load peak. The minimum ratings to buy are P/derating and
-    V̂ (what the sheet states when the job gives no rating)."""
+    """The bleeder across the capacitor sees the tank's RF voltage at the worst case and
+    any DC across the capacitor: P = V̂²/(2R) + V_dc²/R, peak V̂ + V_dc. The minimum
+    ratings to buy are P/derating and that peak (what the sheet states when the job gives
+    no rating)."""
 
     resistance_ohm: float
     voltage_peak_v: float
@@ -180,3 +181,6 @@ class Design:
     bench: BenchSetup | None = None  # the small-signal test set-up and the circuit it builds
     model: CircuitModel | None = None  # the circuit as a network of its parts (design/kinds)
     duties: PartDuties | None = None  # every part's V, I and P from the network's solve
+    worst: WorstCase | None = None  # the worst credible case: what parts are rated at
+    dc: DcFeed | None = None  # where the job's DC supply sits in the tank
+    coil_at_worst: ToroidCoil | SolenoidCoil | None = None  # the designed coil at `worst`

@@ -90,11 +90,14 @@ def creepage_mm(voltage_rms_v: float, pollution_degree: int,
 
 def insulation_distances(voltage_peak_v: float, *, pollution_degree: int = DEFAULT_POLLUTION_DEGREE,
                          material_group: MaterialGroup = DEFAULT_MATERIAL_GROUP,
-                         altitude_m: float = DEFAULT_ALTITUDE_M) -> InsulationDistances:
-    """Creepage and clearance around a point at voltage_peak_v of sinusoidal RF."""
-    rms = voltage_peak_v / 2.0 ** 0.5
+                         altitude_m: float = DEFAULT_ALTITUDE_M,
+                         dc_v: float = 0.0) -> InsulationDistances:
+    """Creepage and clearance around a point at voltage_peak_v of sinusoidal RF riding on
+    dc_v of DC: the clearance by the whole peak, V_dc + V̂; the creepage by the rms working
+    voltage √(V_dc² + (V̂/√2)²) (the rms of a DC plus a sine), as Table F.5 is read."""
+    rms = (dc_v * dc_v + voltage_peak_v * voltage_peak_v / 2.0) ** 0.5
+    peak = voltage_peak_v + dc_v
     factor = altitude_factor(altitude_m)
-    return InsulationDistances(voltage_peak_v, rms, creepage_mm(rms, pollution_degree,
-                                                                  material_group),
-                               CLEARANCE_MM_PER_KV_PEAK * voltage_peak_v / 1e3 * factor,
+    return InsulationDistances(peak, rms, creepage_mm(rms, pollution_degree, material_group),
+                               CLEARANCE_MM_PER_KV_PEAK * peak / 1e3 * factor,
                                factor, pollution_degree, material_group)

@@ -18,8 +18,7 @@ from typing import Literal
 from sheetgen.engine.stress import Drive
 from sheetgen.engine.wire import current_density_a_per_m2
 
-CheckQuantity = Literal["peak voltage", "RF current", "power in ESR", "current density",
-                        "flux density", "surface temperature", "power",
+CheckQuantity = Literal["peak voltage", "RF current", "power in ESR", "flux density", "surface temperature", "power",
                         "working voltage"]
 # The thermal class of the usual polyurethane and polyester-imide magnet-wire enamels
 # (IEC 60317, from memory): the hottest a winding may run.
@@ -35,7 +34,8 @@ DEFAULT_VOLTAGE_DERATING = 0.5
 # Common practice: RF current held to 80 % of the maker's RF current rating.
 DEFAULT_CURRENT_DERATING = 0.8
 # Common practice: 4 A/mm² for enamelled copper windings cooled by free air (figures of
-# 3 … 5 A/mm² are the usual range; the DC cross-section is used, skin effect aside).
+# 3 … 5 A/mm² are the usual range); shown beside the winding's current density as a
+# reference, not a limit (the winding's temperature is the criterion).
 DEFAULT_CURRENT_DENSITY_LIMIT_A_PER_M2 = 4.0e6
 # Common practice: a resistor dissipates at most half its rated power (it then runs cool
 # enough to keep its value and its neighbours' temperature).
@@ -59,7 +59,6 @@ class RatingRemedy:
     arrangement: Literal["series", "parallel"] | None = None
     drive_power_max_w: float | None = None
     esr_max_ohm: float | None = None
-    wire_diameter_min_m: float | None = None
     core_area_factor: float | None = None
     drive_max: float | None = None
     drive_kind: str | None = None
@@ -192,19 +191,29 @@ def capacitor_voltage_check(part: str, peak_voltage_v: float, rated_voltage_v: f
                             derating: float = DEFAULT_VOLTAGE_DERATING,
                             drive_power_w: float | None = None,
                             acceptance: str | None = None,
-                            drive: Drive | None = None) -> RatingCheck:
-    """Peak voltage on a capacitor against its rated voltage × derating.
+                            drive: Drive | None = None, dc_v: float = 0.0) -> RatingCheck:
+    """Peak voltage on a capacitor, the RF peak V̂ plus any DC across it, against its
+    rated voltage × derating.
 
-    Remedies: a part rated ≥ V̂/derating; n = ⌈V̂/allowed⌉ equal parts in series, each of n
-    times the capacitance (equal capacitors in series share the voltage equally); or the
-    drive P·(allowed/V̂)².
+    Remedies: a part rated ≥ (V̂ + V_dc)/derating; n = ⌈(V̂ + V_dc)/allowed⌉ equal parts in
+    series, each of n times the capacitance (equal capacitors in series share the RF
+    equally, and the DC too with equal resistors across them); or the drive at which the
+    RF peak fits in what the DC leaves, P·((allowed − V_dc)/V̂)² (none where the DC alone
+    takes it all).
     """
+    if not (math.isfinite(dc_v) and dc_v >= 0.0):
+        raise ValueError(f"{part}: the DC across it must be a finite value ≥ 0, not {dc_v!r}")
+    total = peak_voltage_v + dc_v
+
     def remedy(allowed):
-        return RatingRemedy(required_rating=peak_voltage_v / derating,
-                      parts_needed=math.ceil(peak_voltage_v / allowed), arrangement="series",
-                      drive_power_max_w=_drive_scaled(drive_power_w, allowed / peak_voltage_v, 2.0),
-                      **_drive_limit(drive, allowed / peak_voltage_v, 2.0))
-    return _make(part, "peak voltage", "V", peak_voltage_v, rated_voltage_v, derating,
+        room = max(allowed - dc_v, 0.0)
+        scale = room / peak_voltage_v if peak_voltage_v > 0 and room > 0 else None
+        return RatingRemedy(required_rating=total / derating,
+                            parts_needed=math.ceil(total / allowed), arrangement="series",
+                            drive_power_max_w=(_drive_scaled(drive_power_w, scale, 2.0)
+                                               if scale is not None else None),
+                            **(_drive_limit(drive, scale, 2.0) if scale is not None else {}))
+    return _make(part, "peak voltage", "V", total, rated_voltage_v, derating,
                  acceptance, remedy)
 
 
@@ -247,38 +256,44 @@ def esr_power_check(part: str, power_w: float, rated_power_w: float, *,
                  remedy)
 
 
-def current_density_check(part: str, current_rms_a: float, diameter_m: float, *,
-                          ac_to_dc_resistance: float = 1.0,
-                          limit_a_per_m2: float = DEFAULT_CURRENT_DENSITY_LIMIT_A_PER_M2,
-                          drive_power_w: float | None = None,
-                          acceptance: str | None = None,
-                          drive: Drive | None = None) -> RatingCheck:
-    """Current density in the winding wire at the working frequency, against a limit.
+@dataclass(frozen=True)
+class CurrentDensity:
+    """The winding's current density, shown as information beside its reference; the
+    winding's heating is judged by its temperature (surface_temperature_check).
+
+    actual: I over the crowded cross-section A_ac = (π d²/4)·R_dc/R_ac, A/m²;
+    reference: the DC figure of common practice raised to the same heat per metre in that
+    area, J_ref·√(R_ac/R_dc); dc_reference: J_ref itself.
+    """
+
+    current_rms_a: float
+    actual_a_per_m2: float
+    reference_a_per_m2: float
+    dc_reference_a_per_m2: float
+    ac_to_dc_resistance: float
+
+
+def winding_current_density(current_rms_a: float, diameter_m: float, *,
+                            ac_to_dc_resistance: float = 1.0,
+                            reference_a_per_m2: float = DEFAULT_CURRENT_DENSITY_LIMIT_A_PER_M2
+                            ) -> CurrentDensity:
+    """Current density in the winding wire at the working frequency, and its reference.
 
     The RF current flows in A_ac = (π d²/4)·R_dc/R_ac, the cross-section whose DC
     resistance equals the wire's AC resistance (skin and proximity effect), so
-    J = I/A_ac. The limit is a heating limit for DC (common practice): the same heat per
-    metre, I²R_ac = J_limit²·ρ·(π d²/4), allows J_limit·√(R_ac/R_dc) in the smaller area.
-    Remedies: a copper diameter d ≥ √(4 I·√(R_ac/R_dc)/(π J_limit)) (at the same crowding,
-    a first estimate); or the drive P·(allowed/J)².
+    J = I/A_ac. The reference is a DC heating figure (common practice): the same heat per
+    metre, I²R_ac = J_ref²·ρ·(π d²/4), allows J_ref·√(R_ac/R_dc) in the smaller area. It is
+    a rule for windings in general, not a limit of this one: a coil with a large surface
+    per watt runs cool above it, which the temperature check decides.
     """
     if not diameter_m > 0.0:
-        raise ValueError(f"{part}: the wire diameter must be positive")
+        raise ValueError("the wire diameter must be positive")
     if not ac_to_dc_resistance >= 1.0 - 1e-9:
-        raise ValueError(f"{part}: R_ac/R_dc cannot be below 1")
+        raise ValueError("R_ac/R_dc cannot be below 1")
     crowding = max(1.0, ac_to_dc_resistance)
     density = float(current_density_a_per_m2(current_rms_a, diameter_m)) * crowding
-    limit = limit_a_per_m2 * math.sqrt(crowding)
-
-    def remedy(allowed):
-        return RatingRemedy(required_rating=density,
-                            wire_diameter_min_m=math.sqrt(4.0 * current_rms_a
-                                                          * math.sqrt(crowding)
-                                                          / (math.pi * limit_a_per_m2)),
-                            drive_power_max_w=_drive_scaled(drive_power_w, allowed / density,
-                                                            2.0),
-                            **_drive_limit(drive, allowed / density, 2.0))
-    return _make(part, "current density", "A/m²", density, limit, 1.0, acceptance, remedy)
+    return CurrentDensity(current_rms_a, density, reference_a_per_m2 * math.sqrt(crowding),
+                          reference_a_per_m2, crowding)
 
 
 def surface_temperature_check(part: str, ambient_max_c: float, rise_k: float, *,

@@ -2,8 +2,10 @@
 
 Phasor analysis of the circuits defined in resonance.py at one frequency (normally the
 response maximum): series, I = V / (Rs + Z); parallel, V = I_N / Y with the Norton
-current I_N = V/Rs (or the given current) and Y including 1/Rs. All figures are RMS
-unless named peak; peak = √2 · RMS for the sinusoidal drive.
+current I_N = V/Rs (or the given current) and Y including 1/Rs — a current source's own
+resistance is across it (Norton's theorem), so it loads the tank exactly as it does in
+the response. All figures are RMS unless named peak; peak = √2 · RMS for the sinusoidal
+drive.
 """
 
 from __future__ import annotations
@@ -73,15 +75,20 @@ def part_stress(circuit: Circuit, drive: Drive, f_hz: float) -> Stress:
     source_v = None if drive.kind == "current" else open_circuit_voltage_rms(drive, rs)
     if circuit.topology == "series":
         loop = z_coil + z_cap + (rl or 0.0)
-        current = drive.value if drive.kind == "current" else source_v / abs((rs or 0.0) + loop)
+        if drive.kind == "current" and rs:  # Norton I with Rs across = Thévenin I·Rs behind Rs
+            current = drive.value * rs / abs(rs + loop)
+        elif drive.kind == "current":
+            current = drive.value
+        else:
+            current = source_v / abs((rs or 0.0) + loop)
         i_coil = i_cap = current
         v_coil, v_cap = current * abs(z_coil), current * abs(z_cap)
         v_load = current * (rl or 0.0)
         line_current = current
     else:
         y_parts = 1.0 / z_coil + 1.0 / z_cap + (1.0 / rl if rl else 0.0)
-        if drive.kind == "current":
-            norton, y_total = drive.value, y_parts
+        if drive.kind == "current":  # the source's resistance is across it (Norton)
+            norton, y_total = drive.value, y_parts + (1.0 / rs if rs else 0.0)
         else:
             if not rs:
                 raise DriveError("a parallel tank driven by a voltage needs a source "
@@ -137,3 +144,59 @@ def worse_stress(nominal: Stress, other: Stress | None) -> Stress:
               "inductor_voltage_rms_v", "inductor_voltage_peak_v", "inductor_current_rms_a",
               "inductor_loss_w", "capacitor_loss_w")
     return replace(nominal, **{f: max(getattr(nominal, f), getattr(other, f)) for f in fields})
+
+
+WorstCondition = Literal["as driven", "load open"]
+
+
+@dataclass(frozen=True)
+class WorstCase:
+    """The worst credible case of the drive: each part's figure the larger of the nominal
+    operating point and the load-open case (for a parallel tank, the load disconnected is
+    also the worst mistune: see open_load_stress), and which case set the tank's voltage."""
+
+    stress: Stress
+    condition: WorstCondition
+
+
+def worst_case(nominal: Stress, open_load: Stress | None) -> WorstCase:
+    """The worst credible case (worse_stress) and the condition that gives its voltage."""
+    worse = open_load is not None and (open_load.capacitor_voltage_peak_v
+                                       > nominal.capacitor_voltage_peak_v)
+    return WorstCase(worse_stress(nominal, open_load), "load open" if worse else "as driven")
+
+
+@dataclass(frozen=True)
+class DcFeed:
+    """Where a DC supply the tank carries sits, in volts (0 where a part sees none).
+
+    across_capacitor_v: across the tuning capacitor(s) and anything across them;
+    to_chassis_v: between the tank's conductors and the chassis (ground);
+    across_blocking_v: across the blocking capacitor, None where there is none.
+    """
+
+    supply_v: float
+    across_capacitor_v: float
+    to_chassis_v: float
+    across_blocking_v: float | None
+
+
+def dc_feed(topology: str, supply_v: float | None, blocked: bool) -> DcFeed | None:
+    """Which parts of the tank see a DC supply (None without one).
+
+    Parallel tank, supply fed through the coil: the coil is across the capacitor and holds
+    both its ends at the supply, so the capacitor sees only the RF across it while every
+    conductor of the tank sits at the supply against the chassis. Parallel tank with a
+    blocking capacitor in series with the coil: the coil no longer shorts the tuning
+    capacitor for DC, so it is charged to the supply, as is the blocking capacitor.
+    Series loop: the capacitor is the only part that blocks DC in the loop and takes the
+    whole supply. In every arrangement the tank's hot end is at the supply plus the RF
+    peak against the chassis.
+    """
+    if not supply_v:
+        return None
+    if topology == "series":
+        return DcFeed(supply_v, supply_v, supply_v, None)
+    if blocked:
+        return DcFeed(supply_v, supply_v, supply_v, supply_v)
+    return DcFeed(supply_v, 0.0, supply_v, None)

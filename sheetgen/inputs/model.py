@@ -253,9 +253,15 @@ class CircuitSection(Section):
         "and capacitor across one node, the load across it, fed through the source resistance")
     targets: DesignTargets | None = Field(None, description="design mode (optional)")
     dc_voltage: Voltage | None = Field(None, description="DC supply voltage the tank carries "
-                                       "(e.g. a supply fed through the coil); omit when none")
+                                       "(e.g. a supply fed through the coil); omit when none. "
+                                       "The tank then sits at it against the chassis (the "
+                                       "clearances count it); a series loop's capacitor takes "
+                                       "it across itself (its rating counts it)")
     dc_blocked: bool = Field(False, description="true when a series blocking capacitor keeps "
-                             "a parallel tank's coil from discharging its capacitor for DC")
+                             "a parallel tank's coil from discharging its capacitor for DC: "
+                             "the capacitor is then charged to dc_voltage and rated for it "
+                             "plus the RF peak; false: the coil holds both its ends at the "
+                             "supply and it is rated for the RF alone")
 
 
 class GivenInductor(Section):

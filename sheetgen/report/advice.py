@@ -60,11 +60,6 @@ def _esr_power(r: RatingRemedy) -> str:
             f"{format_quantity(r.required_rating, 'W')}{_or_drive(r)}")
 
 
-def _current_density(r: RatingRemedy) -> str:
-    return (f"Wind it with wire of at least {format_quantity(r.wire_diameter_min_m, 'm')} "
-            f"copper diameter{_or_drive(r)}")
-
-
 def _flux_density(r: RatingRemedy) -> str:
     return (f"Use a core with at least {format_number(r.core_area_factor, 3)}× the "
             f"cross-section Ae, or a material rated for at least "
@@ -89,6 +84,6 @@ def _working_voltage(r: RatingRemedy) -> str:
 
 
 _REMEDIES = {"peak voltage": _peak_voltage, "RF current": _rf_current,
-             "power in ESR": _esr_power, "current density": _current_density,
+             "power in ESR": _esr_power,
              "flux density": _flux_density, "surface temperature": _surface_temperature,
              "power": _resistor_power, "working voltage": _working_voltage}

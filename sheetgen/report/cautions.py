@@ -31,8 +31,9 @@ from sheetgen.engine.ratings import (
     stored_energy_j,
 )
 from sheetgen.engine.resonance import Circuit
-from sheetgen.engine.stress import Stress
+from sheetgen.engine.stress import DcFeed, Stress, WorstCase
 from sheetgen.quantities import format_quantity
+from sheetgen.report.formatting import condition_text
 
 if TYPE_CHECKING:
     from sheetgen.design.records import Design
@@ -136,8 +137,11 @@ class Caution:
 
 @dataclass(frozen=True)
 class PartHazard:
-    """What a part carries at the operating point (peak voltage, RMS current), and for a
-    capacitor its capacitance and any bleeder; temperature rise above ambient if known."""
+    """What a part carries at the worst credible case (RF peak voltage, RMS current), and
+    for a capacitor its capacitance and any bleeder; temperature rise above ambient if
+    known. condition names that case ("load open"; None: the given drive) and
+    nominal_peak_v the peak as driven; dc_across_v is the DC across the part and
+    dc_to_chassis_v the DC its conductors sit at against the chassis."""
 
     designator: str
     kind: Literal["capacitor", "inductor"]
@@ -148,6 +152,15 @@ class PartHazard:
     temperature_rise_k: float | None = None
     holds_charge: bool = True  # False when the coil discharges the capacitor (parallel tank)
     several: bool = False  # the designator names more than one part ("C1 and C2")
+    condition: str | None = None
+    nominal_peak_v: float | None = None
+    dc_across_v: float = 0.0
+    dc_to_chassis_v: float = 0.0
+
+    @property
+    def peak_to_chassis_v(self) -> float:
+        """The highest voltage on the part's conductors against the chassis: DC + RF peak."""
+        return self.dc_to_chassis_v + self.voltage_peak_v
 
 
 def threshold_for(measure: str, value: float) -> Threshold | None:
@@ -187,22 +200,44 @@ def _volts(peak_v: float) -> str:
             f"({format_quantity(peak_v / math.sqrt(2.0), 'V')} rms)")
 
 
+def _worst_volts(part: PartHazard) -> str:
+    """The part's RF peak at the worst case, with the case named and the peak as driven
+    beside it when the two differ: '1.21 kV peak (854 V rms) with the load open (616 V
+    peak as driven)'."""
+    if part.condition is None:
+        return _volts(part.voltage_peak_v)
+    driven = ("" if part.nominal_peak_v is None else
+              f" ({format_quantity(part.nominal_peak_v, 'V')} peak as driven)")
+    return f"{_volts(part.voltage_peak_v)} {condition_text(part.condition)}{driven}"
+
+
 def parts_from_stress(circuit: Circuit, stress: Stress, *, capacitors: tuple[str, ...] = ("C1",),
                       inductor: str = "L1", bleeder_resistance_ohm: float | None = None,
                       capacitor_rise_k: float | None = None,
                       inductor_rise_k: float | None = None,
-                      dc_blocked: bool = False) -> tuple[PartHazard, ...]:
-    """The capacitor(s) and the coil of one circuit, from its computed stresses. In a
-    parallel tank the coil is across the capacitor and discharges it for DC unless a
+                      dc_blocked: bool = False, worst: WorstCase | None = None,
+                      dc: DcFeed | None = None) -> tuple[PartHazard, ...]:
+    """The capacitor(s) and the coil of one circuit, from its computed stresses at the
+    worst credible case (`worst`; else `stress`, the given drive) and the DC they sit at.
+    In a parallel tank the coil is across the capacitor and discharges it for DC unless a
     blocking capacitor is in the way; in a series loop nothing does."""
+    rated = worst.stress if worst is not None else stress
+    named = worst is not None and worst.condition != "as driven"
+    condition = worst.condition if named else None
     return (
-        PartHazard(names_text(capacitors), "capacitor", stress.capacitor_voltage_peak_v,
-                   stress.capacitor_current_rms_a, circuit.capacitance_f,
+        PartHazard(names_text(capacitors), "capacitor", rated.capacitor_voltage_peak_v,
+                   rated.capacitor_current_rms_a, circuit.capacitance_f,
                    bleeder_resistance_ohm, capacitor_rise_k,
                    holds_charge=circuit.topology == "series" or dc_blocked,
-                   several=len(capacitors) > 1),
-        PartHazard(inductor, "inductor", stress.inductor_voltage_peak_v,
-                   stress.inductor_current_rms_a, temperature_rise_k=inductor_rise_k),
+                   several=len(capacitors) > 1, condition=condition,
+                   nominal_peak_v=stress.capacitor_voltage_peak_v if named else None,
+                   dc_across_v=dc.across_capacitor_v if dc else 0.0,
+                   dc_to_chassis_v=dc.to_chassis_v if dc else 0.0),
+        PartHazard(inductor, "inductor", rated.inductor_voltage_peak_v,
+                   rated.inductor_current_rms_a, temperature_rise_k=inductor_rise_k,
+                   condition=condition,
+                   nominal_peak_v=stress.inductor_voltage_peak_v if named else None,
+                   dc_to_chassis_v=dc.to_chassis_v if dc else 0.0),
     )
 
 
@@ -212,7 +247,7 @@ def _voltage_caution(part: PartHazard, f_hz: float) -> Caution | None:
         return None
     code = "hv-capacitor" if part.kind == "capacitor" else "hv-coil"
     return Caution(threshold.level, code, _text(
-        f"{_volts(part.voltage_peak_v)} on {part.designator} at "
+        f"{_worst_volts(part)} on {part.designator} at "
         f"{format_quantity(f_hz, 'Hz')}, above {threshold.describe()}.",
         f"Do not touch {part.designator} or {_possessive(part)} connections while the drive "
         "is on; "
@@ -222,7 +257,7 @@ def _voltage_caution(part: PartHazard, f_hz: float) -> Caution | None:
 def _stored_energy_caution(part: PartHazard) -> Caution | None:
     if part.kind != "capacitor" or part.capacitance_f is None or not part.holds_charge:
         return None
-    held_v = part.voltage_peak_v
+    held_v = part.voltage_peak_v + part.dc_across_v  # broken at a crest, on its DC
     level = level_for("held_voltage_v", held_v)
     if level is None:
         return None
@@ -250,9 +285,12 @@ def _stored_energy_caution(part: PartHazard) -> Caution | None:
     else:
         discharge = (f"No bleeder is given: discharge {name} with an insulated shorting tool "
                      f"and check with a meter before touching.")
+    charged = (f"{'are' if part.several else 'is'} charged to the "
+               f"{format_quantity(part.dc_across_v, 'V')} DC supply and "
+               if part.dc_across_v else "")
     return Caution(level, "stored-energy", _text(
-        f"{name} can keep up to {format_quantity(held_v, 'V')} DC if the circuit is broken at "
-        f"a crest of the RF: {format_quantity(energy, 'J')} and "
+        f"{name} {charged}can keep up to {format_quantity(held_v, 'V')} DC if the circuit is "
+        f"broken at a crest of the RF: {format_quantity(energy, 'J')} and "
         f"{format_quantity(charge, 'C')} stored (½CV², Q = CV).", severity, discharge))
 
 
@@ -265,9 +303,10 @@ def _rf_burn_caution(parts: Iterable[PartHazard], f_hz: float,
     hottest = max(parts, key=lambda p: p.current_rms_a)
     return Caution(_most_severe("caution", min(level, "warning", key=SEVERITY.__getitem__)),
                    "rf-burn", _text(
-        f"Radio frequency at {format_quantity(f_hz, 'Hz')}: {_volts(highest.voltage_peak_v)} "
+        f"Radio frequency at {format_quantity(f_hz, 'Hz')}: {_worst_volts(highest)} "
         f"on {highest.designator} and {format_quantity(hottest.current_rms_a, 'A')} rms "
-        f"through {hottest.designator}.",
+        f"through {hottest.designator}"
+        f"{' ' + condition_text(hottest.condition) if hottest.condition else ''}.",
         "RF current may not be felt as a shock yet burns deep under the skin, and it arcs "
         "from high-voltage points; keep hands, rings and tools off live parts while driven."))
 
@@ -280,8 +319,10 @@ def _hot_caution(part: PartHazard, ambient_max_c: float) -> Caution | None:
     if threshold is None:
         return None
     code = "hot-core" if part.kind == "inductor" else "hot-capacitor"
+    case = f" {condition_text(part.condition)}" if part.condition else ""
     return Caution(threshold.level, code, _text(
-        f"{part.designator} runs {format_quantity(part.temperature_rise_k, 'K')} above ambient: "
+        f"{part.designator} runs {format_quantity(part.temperature_rise_k, 'K')} above "
+        f"ambient{case}: "
         f"up to {format_quantity(surface_c, '°C')} in a "
         f"{format_quantity(ambient_max_c, '°C')} ambient, above {threshold.describe()}.",
         f"Let {part.designator} cool before handling and keep cables and plastics clear of it."))
@@ -306,29 +347,77 @@ def _enclosure_caution(parts: Iterable[PartHazard], level: Level | None,
         return None
     if level != "danger" and rf_power_w < ENCLOSURE_FROM_W:
         return None
-    highest = max(parts, key=lambda p: p.voltage_peak_v)
+    highest = max(parts, key=lambda p: p.peak_to_chassis_v)
+    if highest.dc_to_chassis_v:
+        case = f" {condition_text(highest.condition)}" if highest.condition else ""
+        driven = (f" ({format_quantity(highest.nominal_peak_v, 'V')} as driven)"
+                  if highest.condition and highest.nominal_peak_v else "")
+        figure = (f"{format_quantity(highest.peak_to_chassis_v, 'V')} peak on "
+                  f"{highest.designator} against the chassis{case}: the "
+                  f"{format_quantity(highest.dc_to_chassis_v, 'V')} DC supply plus "
+                  f"{format_quantity(highest.voltage_peak_v, 'V')} RF peak{driven}")
+    else:
+        case = f" {condition_text(highest.condition)}" if highest.condition else ""
+        driven = (f" ({format_quantity(highest.nominal_peak_v, 'V')} peak as driven)"
+                  if highest.condition and highest.nominal_peak_v else "")
+        figure = f"{_volts(highest.voltage_peak_v)} on {highest.designator}{case}{driven}"
     return Caution(level, "covers-interlocks", _text(
-        f"Up to {_volts(highest.voltage_peak_v)} on {highest.designator}: test inside a "
+        f"Up to {figure}: test inside a "
         f"screened enclosure with its covers fitted and its interlocks working, never defeat "
         f"an interlock to tune, and switch the drive off and discharge before opening."))
 
 
-def _dc_supply_caution(dc_voltage_v: float) -> Caution:
+def _dc_supply_caution(dc_voltage_v: float, parts: tuple[PartHazard, ...] = (),
+                       dc: DcFeed | None = None) -> Caution:
+    """The supply on the tank, and which parts see it: across them, or against the chassis."""
     threshold = threshold_for("dc_voltage_v", dc_voltage_v)
     above = f", above {threshold.describe()}" if threshold else ""
+    where = ""
+    capacitor = next((p for p in parts if p.kind == "capacitor"), None)
+    coil = next((p for p in parts if p.kind == "inductor"), None)
+    if dc is not None and capacitor is not None and coil is not None:
+        peak = max(p.peak_to_chassis_v for p in parts)
+        where = (" " + dc_feed_text(dc, capacitor.designator, coil.designator,
+                                    capacitor.several)
+                 + f" Up to {format_quantity(peak, 'V')} peak against the chassis, DC plus RF.")
     return Caution(threshold.level if threshold else "notice", "dc-supply", _text(
-        f"The tank carries {format_quantity(dc_voltage_v, 'V')} DC from its supply{above}.",
+        f"The tank carries {format_quantity(dc_voltage_v, 'V')} DC from its supply{above}."
+        + where,
         "It is live whenever the supply is on, with or without RF drive: switch the supply "
         "off, discharge its filter capacitors and check with a meter before touching."))
+
+
+def dc_feed_text(dc: DcFeed, capacitors: str, coil: str, several: bool) -> str:
+    """Which parts see the DC supply, for the feed arrangement the job describes."""
+    supply = format_quantity(dc.supply_v, "V")
+    them, are = ("them", "are") if several else ("it", "is")
+    if dc.across_blocking_v is not None:
+        return (f"{capacitors} and the blocking capacitor in series with {coil} are charged "
+                f"to it ({coil} no longer discharges {them}): the rating check of "
+                f"{capacitors} counts the {supply} plus the RF peak; the blocking capacitor "
+                f"is not on this sheet's parts list: rate it for the {supply} plus the RF "
+                "across it.")
+    if dc.across_capacitor_v:
+        return (f"{capacitors} {are} the only part{'s' if several else ''} in the loop that "
+                f"block{'' if several else 's'} it and take{'' if several else 's'} the whole "
+                f"{supply} plus the RF peak; the rating check counts both.")
+    return (f"It is fed through {coil}, which holds both ends of {capacitors} at it: "
+            f"{capacitors} {are} rated for the RF alone across {them}, but every conductor "
+            "of the tank sits at the supply against the chassis.")
 
 
 def _no_hazard_notice(parts: Iterable[PartHazard]) -> Caution:
     highest = max(parts, key=lambda p: p.voltage_peak_v)
     limit = THRESHOLDS[0]
+    case = ("at the given drive, nor with the load open" if highest.condition == "load open"
+            else "at the given drive")
     return Caution("notice", "no-hazardous-voltage", _text(
-        f"No hazardous voltage was computed at the given drive: the highest is "
-        f"{_volts(highest.voltage_peak_v)} on {highest.designator}, within {limit.describe()}.",
-        "A higher drive, a fault or mistuning can give more; check before raising the drive."))
+        f"No hazardous voltage was computed {case}: the highest is "
+        f"{_worst_volts(highest)} on {highest.designator}, within {limit.describe()}.",
+        ("A higher drive or a fault can give more (the load-open case is already the worst "
+         "mistune); check before raising the drive." if highest.condition == "load open" else
+         "A higher drive, a fault or mistuning can give more; check before raising the "
+         "drive.")))
 
 
 _ORDER = ("covers-interlocks", "hv-capacitor", "hv-coil", "insulation-distances", "dc-supply",
@@ -338,27 +427,29 @@ _ORDER = ("covers-interlocks", "hv-capacitor", "hv-coil", "insulation-distances"
 
 
 def cautions(parts: Iterable[PartHazard], f_hz: float, rf_power_w: float, *,
-             ambient_max_c: float = 25.0, dc_voltage_v: float | None = None
-             ) -> tuple[Caution, ...]:
+             ambient_max_c: float = 25.0, dc_voltage_v: float | None = None,
+             dc: DcFeed | None = None) -> tuple[Caution, ...]:
     """Every caution the computed stresses call for, most severe first.
 
-    parts: what each part carries at the operating frequency f_hz; rf_power_w: the RF
-    power the drive puts into the circuit; ambient_max_c: the highest ambient, to which a
-    part's temperature rise is added.
+    parts: what each part carries at the operating frequency f_hz, at the worst credible
+    case; rf_power_w: the RF power the drive puts into the circuit; ambient_max_c: the
+    highest ambient, to which a part's temperature rise is added; dc: where the supply of
+    dc_voltage_v sits.
     """
     parts = tuple(parts)
     if not parts:
         raise ValueError("cautions need at least one part")
-    voltage_level = _most_severe(*(level_for("voltage_rms_v", p.voltage_peak_v / math.sqrt(2.0))
-                                   for p in parts))
+    rf_level = _most_severe(*(level_for("voltage_rms_v", p.voltage_peak_v / math.sqrt(2.0))
+                              for p in parts))
+    voltage_level = _most_severe(rf_level, level_for("dc_voltage_v", dc_voltage_v or 0.0))
     found = [_voltage_caution(p, f_hz) for p in parts]
     found += [_stored_energy_caution(p) for p in parts]
-    found.append(_rf_burn_caution(parts, f_hz, voltage_level))
+    found.append(_rf_burn_caution(parts, f_hz, rf_level))
     found += [_hot_caution(p, ambient_max_c) for p in parts]
     found.append(_exposure_caution(rf_power_w))
     found.append(_enclosure_caution(parts, voltage_level, rf_power_w))
     if dc_voltage_v:
-        found.append(_dc_supply_caution(dc_voltage_v))
+        found.append(_dc_supply_caution(dc_voltage_v, parts, dc))
     if voltage_level is None:
         found.append(_no_hazard_notice(parts))
     kept = [caution for caution in found if caution is not None]
@@ -366,13 +457,15 @@ def cautions(parts: Iterable[PartHazard], f_hz: float, rf_power_w: float, *,
 
 
 def _capacitor_rise_k(design: Design) -> float | None:
-    """The hottest fixed capacitor's rise above ambient, ΔT = P·Rθ, with the ESR loss shared
-    in proportion to capacitance (None without a thermal resistance in the job)."""
+    """The hottest fixed capacitor's rise above ambient at the worst case, ΔT = P·Rθ, with
+    the ESR loss shared in proportion to capacitance (None without a thermal resistance in
+    the job)."""
     r_theta = design.job.capacitor.thermal_resistance
     if r_theta is None:
         return None
     share = max(design.capacitor_choice.fixed_parts_f) / design.circuit.capacitance_f
-    return design.stress.capacitor_loss_w * share * r_theta
+    stress = design.worst.stress if design.worst is not None else design.stress
+    return stress.capacitor_loss_w * share * r_theta
 
 
 def design_cautions(design: Design) -> tuple[Caution, ...]:
@@ -380,33 +473,38 @@ def design_cautions(design: Design) -> tuple[Caution, ...]:
     supply, and its coil's."""
     names = design.designators
     coil = design.coil
-    result = coil.result if coil is not None else None
+    result = design.coil_at_worst if coil is not None else None  # heat and flux judged there
     parts = parts_from_stress(design.circuit, design.stress, capacitors=names.capacitors,
                               inductor=names.coil,
                               bleeder_resistance_ohm=design.job.capacitor.bleeder,
                               capacitor_rise_k=_capacitor_rise_k(design),
                               inductor_rise_k=getattr(result, "temperature_rise_k", None),
-                              dc_blocked=design.job.circuit.dc_blocked)
+                              dc_blocked=design.job.circuit.dc_blocked,
+                              worst=design.worst, dc=design.dc)
     found = cautions(parts, design.stress.f_hz, design.stress.drive_power_w,
                      ambient_max_c=design.job.variation.temperature.maximum,
-                     dc_voltage_v=design.job.circuit.dc_voltage)
+                     dc_voltage_v=design.job.circuit.dc_voltage, dc=design.dc)
     found += coil_cautions(result, design.resonance.f0_hz, names.coil,
-                           coil.flux_density_max_t if coil is not None else None)
+                           coil.flux_density_max_t if coil is not None else None,
+                           condition=design.worst.condition if design.worst else None)
     found += insulation_cautions(design)
     return tuple(sorted(found, key=lambda c: (-SEVERITY[c.level], _ORDER.index(c.code))))
 
 
 def kilovolt_distances(design: Design) -> tuple[str, InsulationDistances] | None:
-    """The highest RF point of the design and the distances it needs, from 1 kV peak."""
-    stress, names = design.stress, design.designators
+    """The highest point of the design against the chassis at the worst credible case (RF
+    peak plus the DC the tank sits at) and the distances it needs, from 1 kV peak."""
+    stress = design.worst.stress if design.worst is not None else design.stress
+    names = design.designators
     part, peak = max(((names_text(names.capacitors), stress.capacitor_voltage_peak_v),
                       (names.coil, stress.inductor_voltage_peak_v)), key=lambda p: p[1])
-    if peak < KILOVOLT_POINT_V:
+    dc_v = design.dc.to_chassis_v if design.dc is not None else 0.0
+    if peak + dc_v < KILOVOLT_POINT_V:
         return None
     where = design.job.insulation
     return part, insulation_distances(peak, pollution_degree=where.pollution_degree,
                                       material_group=where.material_group,
-                                      altitude_m=where.altitude)
+                                      altitude_m=where.altitude, dc_v=dc_v)
 
 
 def insulation_cautions(design: Design) -> tuple[Caution, ...]:
@@ -415,6 +513,13 @@ def insulation_cautions(design: Design) -> tuple[Caution, ...]:
     if found is None:
         return ()
     part, d = found
+    worst = design.worst
+    case = (f" {condition_text(worst.condition)}" if worst is not None
+            and worst.condition != "as driven" else "")
+    dc_v = design.dc.to_chassis_v if design.dc is not None else 0.0
+    figure = (f"{format_quantity(d.voltage_peak_v, 'V')} peak against the chassis on {part} "
+              f"({format_quantity(dc_v, 'V')} DC plus the RF peak{case})" if dc_v else
+              f"{_volts(d.voltage_peak_v)} on {part}{case}")
     creepage = (f"at least {format_quantity(d.creepage_mm * 1e-3, 'm', 2)} along insulating "
                 f"surfaces (creepage, IEC 60664-1 for {format_quantity(d.voltage_rms_v, 'V')} "
                 f"rms, pollution degree {d.pollution_degree}, material group "
@@ -422,7 +527,7 @@ def insulation_cautions(design: Design) -> tuple[Caution, ...]:
                 "creepage beyond IEC 60664-1's tables: have the layout reviewed")
     altitude = (f", ×{d.altitude_factor:.2f} for the altitude" if d.altitude_factor > 1 else "")
     return (Caution("warning", "insulation-distances", _text(
-        f"{_volts(d.voltage_peak_v)} on {part}: keep {creepage}, and at least "
+        f"{figure}: keep {creepage}, and at least "
         f"{format_quantity(d.clearance_mm * 1e-3, 'm', 2)} through air to every other "
         f"conductor (clearance, {CLEARANCE_MM_PER_KV_PEAK:g} mm per kV peak at RF, common "
         f"practice{altitude}).",
@@ -432,7 +537,8 @@ def insulation_cautions(design: Design) -> tuple[Caution, ...]:
 
 
 def coil_cautions(coil, f0_hz: float, designator: str,
-                  flux_limit_t: float | None = None) -> tuple[Caution, ...]:
+                  flux_limit_t: float | None = None,
+                  condition: str | None = None) -> tuple[Caution, ...]:
     """NOTICEs (harm to the equipment, not to people) for a coil whose self-resonance is not
     well above f0, or whose core runs near its flux density limit (over the limit is a
     failed rating check instead)."""
@@ -449,7 +555,8 @@ def coil_cautions(coil, f0_hz: float, designator: str,
     if flux is not None and flux_limit_t and FLUX_WARNING_SHARE * flux_limit_t < flux <= flux_limit_t:
         found.append(Caution(
             "notice", "flux-near-limit",
-            f"The core of {designator} runs at {format_quantity(flux, 'T', 3)} peak, "
+            f"The core of {designator} runs at {format_quantity(flux, 'T', 3)} peak"
+            f"{' ' + condition_text(condition) if condition == 'load open' else ''}, "
             f"{flux / flux_limit_t * 100:.0f} % of its material's "
             f"{format_quantity(flux_limit_t, 'T', 3)} limit: it heats and its Q falls as the "
             "drive rises. Keep the drive at the design level or use a larger core."))

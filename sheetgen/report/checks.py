@@ -130,7 +130,7 @@ def _unrated_text(design: Design, check) -> str:
 
 def _rating_field(design: Design, check) -> str:
     """The job field to change for a failed rating check."""
-    if check.quantity in ("flux density", "current density"):
+    if check.quantity in ("flux density", "surface temperature") and check.part == design.designators.coil:
         return "inductor"
     return "capacitor.trimmer" if check.part == design.designators.trimmer else "capacitor"
 

@@ -56,3 +56,8 @@ def stress_text(value_si: float, unit: str, digits: int = 3) -> str:
     if unit == "A/m²":
         return f"{format_number(value_si * 1e-6, digits)} A/mm²"
     return format_quantity(value_si, unit, digits)
+
+
+def condition_text(condition: str | None) -> str:
+    """The drive case a worst-case figure is for, as words after the figure."""
+    return "with the load open" if condition == "load open" else "at the given drive"

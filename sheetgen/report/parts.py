@@ -12,7 +12,14 @@ from dataclasses import dataclass
 from sheetgen.design.records import Design
 from sheetgen.engine.variation import dielectric
 from sheetgen.quantities import format_number
-from sheetgen.report.formatting import plural, quantity_text, range_text, signed, tolerance_text
+from sheetgen.report.formatting import (
+    condition_text,
+    plural,
+    quantity_text,
+    range_text,
+    signed,
+    tolerance_text,
+)
 
 NO_DATA = "—"
 
@@ -101,8 +108,19 @@ def _bleeder_rows(design: Design) -> list[PartRow]:
     return [PartRow(name, "Bleeder resistor", quantity_text(duty.resistance_ohm, "Ω"),
                     rating="; ".join(given) or buy,
                     notes=f"across {across}; dissipates {quantity_text(duty.power_w, 'W', 3)} "
-                          f"at the {quantity_text(duty.voltage_peak_v, 'V', 3)} RF peak "
-                          f"(V̂²/2R){'' if not given else '; ' + buy}")]
+                          f"at {_bleeder_case(design)}{'' if not given else '; ' + buy}")]
+
+
+def _bleeder_case(design: Design) -> str:
+    """The voltage the bleeder's duty is for: the worst-case RF peak and any DC across it."""
+    duty, dc, worst = design.bleeder, design.dc, design.worst
+    case = (f" {condition_text(worst.condition)}" if worst is not None
+            and worst.condition != "as driven" else "")
+    if dc is not None and dc.across_capacitor_v:
+        rf = duty.voltage_peak_v - dc.across_capacitor_v
+        return (f"the {quantity_text(rf, 'V', 3)} RF peak{case} on "
+                f"{quantity_text(dc.across_capacitor_v, 'V', 3)} DC (V̂²/2R + V²/R)")
+    return f"the {quantity_text(duty.voltage_peak_v, 'V', 3)} RF peak{case} (V̂²/2R)"
 
 
 def _tolerance(fraction: float | None, source: str | None = None) -> str:

@@ -102,6 +102,7 @@ def results_document(design: Design) -> dict:
             "inductor_loss_w": stress.inductor_loss_w,
             "capacitor_loss_w": stress.capacitor_loss_w,
             **_open_load(design.stress_open_load),
+            **_worst_case(design),
         },
         "parts": _parts(design),
         "band": _band(design),
@@ -220,6 +221,23 @@ def _band(design: Design) -> dict | None:
                     "bandwidth_max_hz": p.limits.bandwidth_max_hz,
                     "q_loaded_min": p.limits.q_loaded_min, "q_loaded_max": p.limits.q_loaded_max}
                    for p in band.points],
+    }
+
+
+def _worst_case(design: Design) -> dict:
+    """The case the parts are rated and the cautions worded at, and the DC supply's place
+    (volts across the tuning capacitor, against the chassis, across a blocking capacitor;
+    null without a supply)."""
+    worst, dc = design.worst, design.dc
+    return {
+        "worst_case_condition": worst.condition if worst is not None else None,
+        "worst_case_capacitor_voltage_peak_v": (worst.stress.capacitor_voltage_peak_v
+                                                if worst is not None else None),
+        "worst_case_inductor_current_rms_a": (worst.stress.inductor_current_rms_a
+                                              if worst is not None else None),
+        "dc_across_capacitor_v": dc.across_capacitor_v if dc else None,
+        "dc_to_chassis_v": dc.to_chassis_v if dc else None,
+        "dc_across_blocking_capacitor_v": dc.across_blocking_v if dc else None,
     }
 
 

@@ -10,7 +10,9 @@ from dataclasses import dataclass
 
 from sheetgen.design.records import Design
 from sheetgen.quantities import format_number
+from sheetgen.report.cautions import dc_feed_text, names_text
 from sheetgen.report.formatting import (
+    condition_text,
     plural,
     quantity_text,
     range_text,
@@ -157,7 +159,8 @@ def coil_rows(design: Design) -> list[Row]:
     if coil.form == "toroid":
         rows += [
             Row("Peak flux density", quantity_text(r.flux_density_peak_t, "T", 3),
-                f"{format_number(r.flux_density_peak_t * 1e4, 3)} G; limit "
+                f"{format_number(r.flux_density_peak_t * 1e4, 3)} G as driven"
+                + _at_worst(design, "flux_density_peak_t", "T") + "; limit "
                 f"{quantity_text(coil.flux_density_max_t, 'T', 3)}"),
             Row("Core loss (used for heat)", _watts(r.core_loss_w), _core_loss_remark(r)),
             Row("Core loss from the loss table", _watts(r.core_loss_table_w),
@@ -169,11 +172,23 @@ def coil_rows(design: Design) -> list[Row]:
             Row("Winding spread", format_number(r.winding_angle_deg, 3) + "°",
                 f"close-wound {format_number(r.close_wound_angle_deg, 3)}°"),
         ]
-    rows += [Row("Copper loss", _watts(r.copper_loss_w), "I²·R_ac at the design drive"),
+    case = condition_text(design.worst.condition if design.worst else None)
+    rows += [Row("Copper loss", _watts(r.copper_loss_w),
+                 "I²·R_ac at the design drive" + _at_worst(design, "copper_loss_w", "W")),
              Row("Temperature rise", (format_number(r.temperature_rise_k, 3) + " K")
                  if r.temperature_rise_k is not None else "—",
                  "natural convection from the " + ("core's" if coil.form == "toroid" else
-                                                    "winding's") + " surface (common practice)")]
+                                                    "winding's") + " surface (common "
+                 "practice)" + _at_worst(design, "temperature_rise_k", "K")
+                 + "; the worst case is checked under Ratings")]
+    density = design.assessment.current_density
+    if density is not None:
+        rows.append(Row("Current density", stress_text(density.actual_a_per_m2, "A/m²"),
+                        f"information, {case}: over the skin-effect area; "
+                        f"{stress_text(density.dc_reference_a_per_m2, 'A/m²')} in DC (common "
+                        f"practice for enamelled windings in free air) is "
+                        f"{stress_text(density.reference_a_per_m2, 'A/m²')} here for the same "
+                        "heat per metre; the winding's temperature decides"))
     rows.append(Row("Winding fits", "yes" if r.fits else "NO"))
     if coil.link_turns is not None:
         rows.append(Row(f"Link winding {design.designators.link or ''}".rstrip(),
@@ -185,6 +200,16 @@ def coil_rows(design: Design) -> list[Row]:
                         f"for {quantity_text(coil.tap_resistance_ohm, 'Ω')}: N√(R_tap/R_tank) rounded"
                         + _presented(coil)))
     return rows
+
+
+def _at_worst(design: Design, field: str, unit: str) -> str:
+    """'; 12.5 W with the load open': the coil's figure at the worst case, where it differs."""
+    worst = design.coil_at_worst
+    if (worst is None or design.worst is None or design.worst.condition == "as driven"
+            or getattr(worst, field, None) is None):
+        return ""
+    return (f"; {quantity_text(getattr(worst, field), unit, 3)} "
+            f"{condition_text(design.worst.condition)}")
 
 
 def _presented(coil) -> str:
@@ -256,6 +281,13 @@ def stress_rows(design: Design) -> list[Row]:
         Row("Coil voltage, load open", quantity_text(o.inductor_voltage_peak_v, "V") + " peak"),
         Row("Coil current, load open", quantity_text(o.inductor_current_rms_a, "A") + " rms"),
     ]
+    dc = design.dc
+    names = design.designators
+    dc_rows = [] if dc is None else [
+        Row("DC supply on the tank", quantity_text(dc.supply_v, "V"),
+            dc_feed_text(dc, names_text(names.capacitors), names.coil,
+                         len(names.capacitors) > 1)),
+    ]
     return [
         Row("Drive", drive_text, f"at {quantity_text(s.f_hz, 'Hz')}"),
         Row("Power into the circuit", quantity_text(s.drive_power_w, "W")),
@@ -273,7 +305,7 @@ def stress_rows(design: Design) -> list[Row]:
             if design.coil is not None and design.coil.link_turns is not None else
             "across the tank; the tap steps it down to its load"
             if design.coil is not None and design.coil.tap_turns is not None else ""),
-    ] + open_rows
+    ] + open_rows + dc_rows
 
 
 _DUTY_UNITS = {"resistor": "Ω", "source_resistance": "Ω", "capacitor": "F", "coil": "H"}
@@ -486,8 +518,21 @@ def rating_rows(design: Design) -> list[Row]:
         status = {"pass": "pass", "fail": "FAIL", "accepted": "ACCEPTED"}[check.status]
         rows.append(Row(f"{check.part} {check.quantity}", f"{stress_text(check.actual, check.unit)} of "
                         f"{stress_text(check.allowed, check.unit)} allowed", f"{status}, margin "
-                        f"{signed(check.margin * 100, 0)} %"))
+                        f"{signed(check.margin * 100, 0)} %" + _rated_case(design, check)))
     return rows
+
+
+def _rated_case(design: Design, check) -> str:
+    """The case a rating is checked at: the worst credible one, and any DC in the figure."""
+    worst = design.worst
+    case = ("" if worst is None or worst.condition == "as driven"
+            else f"; {condition_text(worst.condition)}")
+    dc = design.dc
+    capacitors = (*design.designators.capacitors, design.designators.bleeder)
+    if (dc is not None and dc.across_capacitor_v and check.part in capacitors
+            and check.quantity in ("peak voltage", "working voltage")):
+        case += f"; RF peak plus {quantity_text(dc.across_capacitor_v, 'V')} DC"
+    return case
 
 
 def _watts(value: float | None) -> str:

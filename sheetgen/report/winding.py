@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from sheetgen.design.designators import Designators
 from sheetgen.design.records import CoilDesign, Design
 from sheetgen.quantities import format_number, format_quantity
-from sheetgen.report.formatting import plural, tolerance_text
+from sheetgen.report.formatting import condition_text, plural, tolerance_text
 
 LCR_TEST_FREQUENCIES_HZ = (100.0, 1e3, 10e3, 100e3, 1e6)  # usual bench meters (common practice)
 
@@ -165,14 +165,17 @@ def coil_finish_text(design: Design) -> str:
     """How to secure the turns, from the heat the coil makes (common practice: wax softens
     from about 50 °C (from memory), so it suits coils that stay cool; a coil that dissipates
     more gets a varnish rated above its surface temperature, or ties and no coating)."""
-    coil = design.coil
-    rise = getattr(coil.result, "temperature_rise_k", None)
-    power_w = design.stress.inductor_loss_w
+    worst = design.coil_at_worst or design.coil.result  # the finish must stand the worst case
+    rise = getattr(worst, "temperature_rise_k", None)
+    stress = design.worst.stress if design.worst is not None else design.stress
+    power_w = stress.inductor_loss_w
     hottest_c = design.job.variation.temperature.maximum + rise if rise is not None else None
+    case = ("" if design.worst is None or design.worst.condition == "as driven"
+            else f" {condition_text(design.worst.condition)}")
     if (hottest_c is not None and hottest_c > WAX_MAX_SURFACE_C) or power_w > WAX_MAX_POWER_W:
-        heat = (f"up to {format_quantity(hottest_c, '°C', 3)} at its surface"
+        heat = (f"up to {format_quantity(hottest_c, '°C', 3)} at its surface{case}"
                 if hottest_c is not None else
-                f"{format_quantity(power_w, 'W', 3)} of heat at the design drive")
+                f"{format_quantity(power_w, 'W', 3)} of heat{case or ' at the design drive'}")
         return (f"{design.designators.coil} makes {heat}: do not use wax. Secure the turns "
                 "with a low-loss RF varnish rated for at least that temperature (or with "
                 "PTFE cord ties and no coating), and let it cure before measuring.")

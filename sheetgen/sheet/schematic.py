@@ -276,12 +276,35 @@ def _source_resistor(g, s: Schematic, x, y_bottom, y_top, lead: float) -> tuple[
     return start + length, right
 
 
+def _norton_resistor(g, s: Schematic, x, y_bottom, y_top) -> tuple[float, float]:
+    """R1 across a current source (Norton: its output resistance is in parallel with it),
+    down between the rails right of the source; the source box closes right of R1's label.
+    Returns where the top wire goes on and where the drawing ends."""
+    x_r = x + 34.0
+    vertical(g, "resistor", x_r, y_bottom, y_top - y_bottom)
+    label_right(g, s.source_resistor, x_r, (y_top + y_bottom) / 2)
+    wire(g, x, y_top, x_r, y_top)
+    wire(g, x, y_bottom, x_r, y_bottom)
+    dot(g, x_r, y_top)
+    dot(g, x_r, y_bottom)
+    right = x_r + 14 + label_width(s.source_resistor) + LABEL_CLEARANCE
+    _source_box(g, y_bottom, y_top, right)
+    return x_r, right
+
+
+def _source_part(g, s: Schematic, x, y_bottom, y_top, lead: float) -> tuple[float, float]:
+    """The source's resistance: across a current source, in series with a voltage source."""
+    if s.source == "current":
+        return _norton_resistor(g, s, x, y_bottom, y_top)
+    return _source_resistor(g, s, x, y_bottom, y_top, lead)
+
+
 def _series(g, s: Schematic, x_source, y_bottom, y_top):
     """R1, L1 and C1 (‖ C2 …) along the top wire; the load R2 down the right side."""
     x, gap = x_source, 22.0
     frontier = x  # everything drawn so far lies left of this
     if s.source_resistor is not None:
-        x, frontier = _source_resistor(g, s, x, y_bottom, y_top, gap)
+        x, frontier = _source_part(g, s, x, y_bottom, y_top, gap)
     length = _LENGTH["inductor"]
     start = _start_clear_of(x + gap, length, s.inductor, frontier)
     wire(g, x, y_top, start, y_top)
@@ -331,10 +354,11 @@ def _capacitor_bank(g, capacitors, x, y) -> tuple[float, float]:
 
 
 def _parallel(g, s: Schematic, x_source, y_bottom, y_top):
-    """R1 along the top to the tank; C1, C2 …, L1 and the load R2 as branches across it."""
+    """R1 along the top to the tank (across the source when it is a current source); C1,
+    C2 …, L1 and the load R2 as branches across it."""
     x = frontier = x_source  # everything drawn so far lies left of `frontier`
     if s.source_resistor is not None:
-        x, frontier = _source_resistor(g, s, x, y_bottom, y_top, 18.0)
+        x, frontier = _source_part(g, s, x, y_bottom, y_top, 18.0)
     linked = s.link is not None
     tapped = s.tap_label is not None and s.load is not None and not linked
     coupled = linked or tapped  # L1 goes last, its label on its left, the load beside it

@@ -88,3 +88,28 @@ def test_power_tank_worst_case_is_the_open_load(designs):
     worst = rows["C1"]["worst_case"]
     assert worst["condition"] == "load_open"
     assert_close(worst["voltage_peak_v"], 1208.5, rel=1e-3, what="open-load V_C")
+
+
+@pytest.mark.parametrize("starter", STARTERS)
+def test_stress_and_the_networks_duties_are_one_circuit(designs, starter):
+    """The rated stress (engine/stress.py's phasor closed forms) and the network's duties
+    describe the same circuit: the capacitor and coil figures agree at the drive and with
+    the load open (≤ 1e-9), so ratings, cautions and the parts list cannot disagree."""
+    design = designs[starter]
+    nominal = {d.name: d for d in design.duties.nominal}
+    names = design.designators
+    s = design.stress
+    assert_close(nominal[names.coil].voltage_peak_v, s.inductor_voltage_peak_v, rel=1e-9,
+                 what="coil voltage")
+    assert_close(nominal[names.coil].current_rms_a, s.inductor_current_rms_a, rel=1e-9,
+                 what="coil current")
+    assert_close(nominal[names.capacitors[0]].voltage_peak_v, s.capacitor_voltage_peak_v,
+                 rel=1e-9, what="capacitor voltage")
+    caps = sum(nominal[c].current_rms_a for c in names.capacitors)
+    assert caps <= s.capacitor_current_rms_a * (1 + 1e-9)  # parts in phase: they add
+    o = design.stress_open_load
+    if o is not None:
+        opened = {d.name: d for d in design.duties.open_load}
+        assert_close(opened[names.coil].voltage_peak_v, o.inductor_voltage_peak_v, rel=1e-9,
+                     what="coil voltage, load open")
+        assert_close(design.duties.open_load_f_hz, o.f_hz, rel=1e-9, what="open-load peak")

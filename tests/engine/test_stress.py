@@ -8,6 +8,7 @@ parallel: the circulating current is Q times the line current) — section from 
 """
 
 import math
+from dataclasses import replace
 from pathlib import Path
 
 import pytest
@@ -27,8 +28,10 @@ REL = 1e-5  # ngspice's meas keeps 7 digits (tests/reference/ngspice.md)
 def _ngspice_stress(c: Circuit, drive: Drive, f_hz: float) -> dict[str, float]:
     """RMS magnitudes at f_hz: ngspice's AC source amplitude is the RMS drive."""
     if c.topology == "series":
-        if drive.kind == "current":
+        if drive.kind == "current":  # Norton: the source's resistance across it
             lines = [f"idrive 0 a dc 0 ac {drive.value!r}"]
+            if c.source_resistance_ohm is not None:
+                lines.append(f"rsource a 0 {c.source_resistance_ohm!r}")
         else:
             v = open_circuit_voltage_rms(drive, c.source_resistance_ohm)
             lines = [f"vdrive src 0 dc 0 ac {v!r}",
@@ -40,8 +43,10 @@ def _ngspice_stress(c: Circuit, drive: Drive, f_hz: float) -> dict[str, float]:
         lets = {"vl": "vm(a1,c)", "vc": "vm(c,e)", "il": "mag(i(vsense))",
                 "ic": "mag(i(vsense))"}
     else:
-        if drive.kind == "current":
+        if drive.kind == "current":  # Norton: the source's resistance across it
             lines = [f"idrive 0 out dc 0 ac {drive.value!r}"]
+            if c.source_resistance_ohm is not None:
+                lines.append(f"rsource out 0 {c.source_resistance_ohm!r}")
         else:
             v = open_circuit_voltage_rms(drive, c.source_resistance_ohm)
             lines = [f"vdrive src 0 dc 0 ac {v!r}",
@@ -99,3 +104,23 @@ def test_available_power_reaches_a_matched_load():
     c = Circuit("series", 1e-6, 0.0, 1e-9, 0.0, 50.0, 50.0)
     stress = part_stress(c, Drive("available_power", 2.0), analyse(c).f0_hz)
     assert_close(stress.load_power_w, 2.0, rel=1e-12, what="load power")
+
+
+NORTON_CASES = {  # a current source with its resistance across it (Norton)
+    "parallel": Circuit("parallel", 220e-6, 6.99, 556e-12, 0.63, 47e3, 84.2e3),
+    "series": Circuit("series", 10e-6, 3.2, 13.8e-12, 0.05, 50.0, 50.0),
+}
+
+
+@pytest.mark.parametrize("topology", sorted(NORTON_CASES))
+def test_current_drive_with_source_resistance_agrees_with_ngspice(topology):
+    """ngspice: `idrive` with `rsource` across it; the stress at the response maximum."""
+    c = NORTON_CASES[topology]
+    drive = Drive("current", 1e-3)
+    got = part_stress(c, drive, analyse(c).f_peak_hz)
+    measured = _ngspice_stress(c, drive, got.f_hz)
+    assert_close(got.capacitor_voltage_rms_v, measured["vc"], rel=REL, what=f"{topology} V_C")
+    assert_close(got.inductor_current_rms_a, measured["il"], rel=REL, what=f"{topology} I_L")
+    ideal = part_stress(replace(c, source_resistance_ohm=None), drive, got.f_hz)
+    assert abs(ideal.capacitor_voltage_rms_v - measured["vc"]) > 100 * REL * measured["vc"], \
+        "the comparison tells a source with Rs across from one without"

@@ -210,7 +210,8 @@ def test_several_capacitors_are_named_together_with_their_connections():
 
 
 def test_a_kilovolt_tank_states_creepage_clearance_and_corona(tmp_path):
-    """The power-tank starter at 1 kW: 2.01 kV peak = 1.42 kV rms on the capacitors, which
+    """The power-tank starter at 300 W: 2.09 kV peak = 1.48 kV rms on the capacitors with
+    the load open (the worst case the sheet computes, which the distances are for), which
     IEC 60664-1 Table F.5 (from memory) rounds up to its 1600 V row: 16 mm creepage at
     pollution degree 2, material group III; clearance 2 mm per kV peak (common practice)."""
     from pathlib import Path
@@ -219,10 +220,11 @@ def test_a_kilovolt_tank_states_creepage_clearance_and_corona(tmp_path):
     root = Path(__file__).resolve().parents[2]
     text = (root / "templates" / "power-tank.yaml").read_text(encoding="utf-8")
     job = tmp_path / "tank.yaml"
-    job.write_text(text.replace("available_power: 100 W", "available_power: 1 kW"),
+    job.write_text(text.replace("available_power: 100 W", "available_power: 300 W"),
                    encoding="utf-8")
     design = design_from_file(job)
-    peak = design.stress.capacitor_voltage_peak_v
+    peak = design.stress_open_load.capacitor_voltage_peak_v
+    assert peak > design.stress.capacitor_voltage_peak_v
     assert 1131.0 < peak / SQRT2 <= 1600.0, "between Table F.5's 1250 V and 1600 V rows"
     found = _by_code(cautions.design_cautions(design))
     text = found["insulation-distances"].text

@@ -177,3 +177,27 @@ def test_the_reader_sees_a_collision():
     drawing.add(Line(0, 14, 100, 14))
     assert collisions(drawing) == [("2.200 kΩ", "load"), ("2.200 kΩ", "wire"),
                                    ("load", "wire")]
+
+
+def _resistor_bodies(drawing) -> list[Box]:
+    _, ink = texts_and_ink(drawing)
+    return [box for box in ink if box.what == "resistor body"]
+
+
+def _label(drawing, text: str) -> Box:
+    texts, _ = texts_and_ink(drawing)
+    return next(box for box in texts if box.what == text)
+
+
+@pytest.mark.parametrize("name, across", [("parallel", True), ("demo", False)])
+def test_a_current_source_has_its_resistance_drawn_across_it(name, across):
+    """Norton's theorem: a current source's output resistance is in parallel with it (a
+    resistor in series with an ideal current source would do nothing). The parallel
+    starter (1 mA with 47 kΩ) draws R1 upright between the rails, beside the source; a
+    voltage source (demo: 2 V behind 10 kΩ) keeps R1 in series along the top wire."""
+    drawing = schematic_drawing(_starter(name), 515.0)
+    r1 = _label(drawing, "R1")
+    body = min(_resistor_bodies(drawing), key=lambda b: abs((b.x0 + b.x1) / 2 - r1.x0)
+               + abs((b.y0 + b.y1) / 2 - r1.y0))
+    upright = (body.y1 - body.y0) > (body.x1 - body.x0)
+    assert upright == across, f"{name}: R1 {'across' if across else 'in series with'} the source"
