@@ -132,6 +132,36 @@ def bandwidth_resolution_hz(results: dict) -> float | None:
     return None
 
 
+def window_problems(path: str, rows: list) -> list[Problem]:
+    """Each window of the record that is not a pair of finite numbers with min ≤ max (a
+    bound may be null: no edge on that side). Such a window judges nothing: a NaN edge
+    passes every value, and an inverted one fails every value."""
+    import math
+    problems = []
+    for index, row in enumerate(rows):
+        where = f"attachments.results.json test_record.values[{index}]"
+        if not isinstance(row, dict):
+            problems.append(Problem(path, 1, 1, where, "is not a window row",
+                                    "a mapping with field, quantity, min and max"))
+            continue
+        edges = {}
+        for key in ("min", "max"):
+            edge = row.get(key)
+            if edge is not None and (isinstance(edge, bool) or not isinstance(edge, (int, float))
+                                     or not math.isfinite(edge)):
+                problems.append(Problem(path, 1, 1, f"{where}.{key}",
+                                        f"the window edge {edge!r} is not a finite number",
+                                        "a finite number (SI) or null"))
+            else:
+                edges[key] = edge
+        if edges.get("min") is not None and edges.get("max") is not None \
+                and edges["min"] > edges["max"]:
+            problems.append(Problem(path, 1, 1, f"{where}.min",
+                                    f"the window's min {edges['min']!r} is above its max "
+                                    f"{edges['max']!r}", "min ≤ max"))
+    return problems
+
+
 def grade_sheet(sheet: SheetFile, features: SweepFeatures | None = None,
                 sweep_path: str | None = None) -> Grading:
     """Grade the form of `sheet` (and the sweep's `features`, which replace the typed
@@ -143,6 +173,10 @@ def grade_sheet(sheet: SheetFile, features: SweepFeatures | None = None,
                                   "the attached results have no test record windows "
                                   "(test_record.values)",
                                   "a sheet built by a sheetgen that records them")])
+    bad_windows = window_problems(sheet.path, record["values"])
+    if bad_windows:
+        from sheetgen.errors import InputError
+        raise InputError(bad_windows)
     values, problems = [], []
     for row in record["values"]:
         entries = [(row["field"], False)]

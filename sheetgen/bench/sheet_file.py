@@ -58,7 +58,28 @@ def _xmp_values(reader) -> dict[str, str]:
     values = {}
     for element in root.iter():
         if isinstance(element.tag, str) and element.tag.startswith("{" + XMP_NAMESPACE):
-            values[element.tag[len(XMP_NAMESPACE) + 1:]] = (element.text or "").strip()
+            values[element.tag[len(XMP_NAMESPACE) + 2:]] = (element.text or "").strip()
+    return values
+
+
+# Each property a sheet records twice: its document information key and its XMP name.
+RECORDED_TWICE = (("ContentSHA256", INFO_CONTENT_SHA256), ("SheetId", INFO_SHEET_ID),
+                  ("Revision", INFO_REVISION), ("ToolVersion", INFO_TOOL_VERSION))
+
+
+def _recorded_copies(path: str, info, xmp: dict[str, str]) -> dict[str, str]:
+    """Each recorded property from whichever copies are present (document information, XMP);
+    InputError when two present copies differ. A re-save that drops one copy leaves the
+    other to be read."""
+    values = {}
+    for name, info_key in RECORDED_TWICE:
+        in_info, in_xmp = str(info.get(info_key, "") or ""), xmp.get(name, "")
+        if in_info and in_xmp and in_info != in_xmp:
+            raise _fail(path, f"metadata.{name}",
+                        f"the {name} in the XMP metadata ({in_xmp}) differs from the one in "
+                        f"the document information ({in_info}): the metadata was edited",
+                        "the two copies to agree, as `sheetgen build` writes them")
+        values[name] = in_info or in_xmp
     return values
 
 
@@ -108,14 +129,12 @@ def read_sheet(path: str | Path) -> SheetFile:
         xmp = _xmp_values(reader)
     except Exception as error:  # noqa: BLE001 - pypdf raises many kinds on a damaged file
         raise _fail(shown, "", f"cannot be read as a PDF ({error})") from None
-    recorded = str(info.get(INFO_CONTENT_SHA256, "")) or xmp.get("ContentSHA256", "")
+    copies = _recorded_copies(shown, info, xmp)
+    recorded = copies["ContentSHA256"]
     if not recorded:
-        raise _fail(shown, "", "is a PDF but not a sheetgen sheet (its metadata records no "
-                               "sheetgen content hash)")
-    if xmp.get("ContentSHA256", recorded) != recorded:
-        raise _fail(shown, "content_sha256", "the content hash in the XMP metadata differs "
-                    "from the one in the document information: the metadata was edited",
-                    "the two to agree, as `sheetgen build` writes them")
+        raise _fail(shown, "", "is a PDF but not a sheetgen sheet (neither its document "
+                               "information nor its XMP metadata records a sheetgen content "
+                               "hash)")
     try:
         job, job_checksum = _attachment(reader, shown, JOB_ATTACHMENT)
         results, results_checksum = _attachment(reader, shown, RESULTS_ATTACHMENT)
@@ -145,9 +164,7 @@ def read_sheet(path: str | Path) -> SheetFile:
     return SheetFile(
         path=shown, job_text=job_text, results=results_data,
         content_sha256_recorded=recorded, content_sha256_computed=computed, fields=fields,
-        sheet_id=str(info.get(INFO_SHEET_ID, "")) or xmp.get("SheetId", "")
-        or str(sheet.get("id", "")),
-        revision=str(info.get(INFO_REVISION, "")) or xmp.get("Revision", "")
-        or str(sheet.get("revision", "")),
-        tool_version=str(info.get(INFO_TOOL_VERSION, "")) or xmp.get("ToolVersion", "")
+        sheet_id=copies["SheetId"] or str(sheet.get("id", "")),
+        revision=copies["Revision"] or str(sheet.get("revision", "")),
+        tool_version=copies["ToolVersion"]
         or str(results_data.get("tool_version", "") if isinstance(results_data, dict) else ""))

@@ -2,9 +2,11 @@
 hash recorded at build (bench/sheet_file.py), then the attached job is designed again with
 the installed sheetgen and every value that moved is listed (report/diff.py compares).
 
-Numbers agree within the diff's relative tolerance of 1e-9; a frequency window edge agrees
-when it moved by no more than the window's resolution (limits.resolution_hz), since edges
-are rounded outward to it.
+Every section of the results is compared, the test record's windows included (a sheet
+whose windows were widened and its hash recomputed does not reproduce). Numbers agree
+within the diff's relative tolerance of 1e-9; a frequency window edge (limits, or a test
+record row's min/max) agrees when it moved by no more than the window's resolution
+(limits.resolution_hz), since edges are rounded outward to it.
 """
 
 from __future__ import annotations
@@ -15,9 +17,7 @@ from pathlib import Path
 
 from sheetgen import __version__
 from sheetgen.bench.sheet_file import SheetFile, read_sheet
-from sheetgen.report.diff import DiffRow, diff_rows
-
-COMPARED = ("derived", "limits", "ratings", "cautions")  # the inputs are the same job
+from sheetgen.report.diff import DiffRow, diff_rows, unit_of
 
 
 @dataclass(frozen=True)
@@ -35,7 +35,10 @@ class Verification:
 
 
 def _within_resolution(row: DiffRow, resolution_hz: float | None) -> bool:
-    if row.section != "limits" or not row.key.endswith("_hz") or not resolution_hz:
+    edge = (row.key.endswith("_hz") if row.section == "limits" else
+            row.section == "test_record" and row.key.endswith((".min", ".max"))
+            and unit_of(row.key) == "Hz")
+    if not edge or not isinstance(resolution_hz, (int, float)) or not resolution_hz > 0:
         return False
     if not all(isinstance(v, (int, float)) for v in (row.a, row.b)):
         return False
@@ -59,5 +62,5 @@ def verify_sheet(path: Path, library_folder: Path | None = None) -> Verification
     archived = sheet.results
     resolution = (archived.get("limits") or {}).get("resolution_hz")
     drift = tuple(row for row in diff_rows(job, archived, job, fresh)
-                  if row.section in COMPARED and not _within_resolution(row, resolution))
+                  if not _within_resolution(row, resolution))
     return Verification(sheet, str(archived.get("tool_version", "unknown")), __version__, drift)
