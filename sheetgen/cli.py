@@ -50,6 +50,9 @@ def build_parser() -> argparse.ArgumentParser:
                        "sheet.style, else the default style)")
     build.add_argument("--force", action="store_true", help="replace a sheet of the same id "
                        "and revision whose content differs")
+    build.add_argument("--sign", type=Path, metavar="KEY.p12", help="sign the sheet with the "
+                       "key and certificate in this PKCS#12 file (its passphrase in the "
+                       "environment variable SHEETGEN_SIGN_PASSPHRASE)")
 
     limits = commands.add_parser("limits", help="write the test limits for a work order")
     _job_arguments(limits)
@@ -66,12 +69,14 @@ def build_parser() -> argparse.ArgumentParser:
     diff.add_argument("--json", action="store_true",
                       help="print the changes as JSON: a list of {section, key, a, b}")
     diff.add_argument("--library", type=Path, help="parts library folder (default: see README)")
+    _trust_argument(diff)
 
     verify = commands.add_parser("verify", help="check that archived sheets are intact and "
                                  "still reproduce with this version")
     verify.add_argument("sheets", type=Path, nargs="+", help="built sheets (.pdf)")
     verify.add_argument("--library", type=Path, help="parts library folder for jobs that name "
                         "cores (default: found from the sheet's folder, as for a job)")
+    _trust_argument(verify)
 
     demo = commands.add_parser("demo", help="build the bundled demo job's sheet")
     demo.add_argument("-o", "--output", type=Path, default=Path("demo.pdf"),
@@ -88,6 +93,19 @@ def build_parser() -> argparse.ArgumentParser:
     schema.add_argument("--markdown", action="store_true",
                         help="print the job file reference in Markdown instead")
     return parser
+
+
+def _trust_argument(command: argparse.ArgumentParser) -> None:
+    command.add_argument("--trust", type=Path, action="append", metavar="CERT.pem",
+                         help="a trust root (X.509 certificate, PEM or DER; repeatable): a "
+                         "sheet must be signed by a certificate it issued")
+
+
+def _trust_roots(args) -> list | None:
+    if not getattr(args, "trust", None):
+        return None
+    from sheetgen.bench.signature import load_trust_roots
+    return load_trust_roots(args.trust)
 
 
 def _job_arguments(command: argparse.ArgumentParser) -> None:
@@ -184,7 +202,7 @@ def _build_command(args) -> int:
     if _is_batch(args):
         return _batch(args, "build")
     return _build_sheet(args.job, args.output, args.results, args.style, args.library,
-                        args.force)
+                        args.force, args.sign)
 
 
 def _demo(args) -> int:
@@ -193,14 +211,20 @@ def _demo(args) -> int:
 
 def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
                  style_path: Path | None, library_folder: Path | None,
-                 force: bool = False) -> int:
+                 force: bool = False, sign_key: Path | None = None) -> int:
     from sheetgen.design.pipeline import design_from_file
     from sheetgen.inputs.style import resolve_style
+    sign = None
+    if sign_key is not None:
+        from sheetgen.bench.signature import load_signer, sign_pdf
+        signer = load_signer(sign_key)
+        def sign(pdf: bytes) -> bytes:
+            return sign_pdf(pdf, signer)
     design = design_from_file(job_path, library_folder)
     output = output or job_path.with_suffix(".pdf")
     style = resolve_style(job_path, design.job, style_path, library_folder)
-    if write_sheet(design, job_path, output, results_path, style, force):
-        print(f"wrote {output}")
+    if write_sheet(design, job_path, output, results_path, style, force, sign):
+        print(f"wrote {output}" + (f" (signed with {sign_key})" if sign else ""))
     else:
         sheet = design.job.sheet
         print(f"{output} already holds {sheet.id} rev {sheet.revision} with this content; "
@@ -240,6 +264,7 @@ def _grade_arguments(commands) -> None:
                        "to a running CSV log")
     grade.add_argument("-o", "--output", type=Path, metavar="PDF", help="write a graded copy "
                        "of the sheet (with --sweep: a test report with the measured curve)")
+    _trust_argument(grade)
 
 
 def _grade(args) -> int:
@@ -251,7 +276,7 @@ def _grade(args) -> int:
         raise UsageError(f"{args.sheet}: an output may not overwrite the sheet being graded")
     if args.parameter and args.sweep is None:
         raise UsageError("--parameter needs --sweep")
-    sheet = read_sheet(args.sheet)
+    sheet = read_sheet(args.sheet, _trust_roots(args))
     features = sweep = None
     if args.sweep is not None:
         from sheetgen.bench.sweep import sweep_features
@@ -293,6 +318,8 @@ def _grade(args) -> int:
 
 def _batch(args, command: str) -> int:
     from sheetgen.batch.runner import JobTask, collect_jobs, default_workers, output_path, run_batch
+    if getattr(args, "sign", None) is not None:
+        raise UsageError("--sign signs one sheet; build each job on its own to sign it")
     for option in ("output", "results"):
         if getattr(args, option, None) is not None:
             raise UsageError(f"--{option} names one file; for several jobs use --out-dir")
@@ -318,17 +345,20 @@ def _batch(args, command: str) -> int:
 
 def _diff(args) -> int:
     from sheetgen.report.diff import diff_json, diff_rows, diff_table
-    rows = diff_rows(*_diff_side(args.a, args.library), *_diff_side(args.b, args.library))
+    trust = _trust_roots(args)
+    rows = diff_rows(*_diff_side(args.a, args.library, trust),
+                     *_diff_side(args.b, args.library, trust))
     sys.stdout.write(diff_json(rows) if args.json else diff_table(rows, args.a, args.b))
     return EXIT_CHECK_FAILED if rows else EXIT_OK
 
 
-def _diff_side(path: Path, library_folder: Path | None) -> tuple[object, dict]:
+def _diff_side(path: Path, library_folder: Path | None,
+               trust_roots: list | None = None) -> tuple[object, dict]:
     """(job data, results document) of a job file, or of a built sheet's attachments."""
     from sheetgen.inputs.reader import compose_located
     if path.suffix.lower() == ".pdf":  # a built sheet: its attached job and results
         from sheetgen.bench.sheet_file import read_sheet
-        sheet = read_sheet(path)
+        sheet = read_sheet(path, trust_roots)
         return compose_located(sheet.job_text, str(path)).data, sheet.results
     from sheetgen.design.pipeline import design_from_file
     from sheetgen.report.results import results_document
@@ -338,13 +368,15 @@ def _diff_side(path: Path, library_folder: Path | None) -> tuple[object, dict]:
 
 def _verify(args) -> int:
     """Each sheet: reproduces (0), drifted (1, values listed) or not a sound sheet (2)."""
+    from sheetgen.bench.signature import signature_text
     from sheetgen.bench.verify import verify_sheet
     from sheetgen.report.diff import diff_table
     from sheetgen.report.formatting import plural
     worst = EXIT_OK
+    trust = _trust_roots(args)
     for path in args.sheets:
         try:
-            result = verify_sheet(path, args.library)
+            result = verify_sheet(path, args.library, trust)
         except InputError as error:
             for problem in error.problems:
                 print(problem, file=sys.stderr)
@@ -353,6 +385,7 @@ def _verify(args) -> int:
         versions = (f"built by sheetgen {result.archived_version}, checked with "
                     f"{result.checked_version}")
         sheet = result.sheet
+        print(f"{path}: {signature_text(sheet.signature)}")
         if result.reproduces:
             print(f"{path}: {sheet.sheet_id} rev {sheet.revision} reproduces ({versions})")
             continue

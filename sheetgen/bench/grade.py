@@ -29,6 +29,7 @@ from sheetgen.quantities import (
 from sheetgen.report.procedure import OVERALL_VERDICT, RECORD_TEXT_FIELDS
 
 from .sheet_file import SheetFile
+from .signature import SignatureCheck, signature_text
 from .sweep import SweepFeatures
 
 PASS, FAIL, NOT_MEASURED, UNREADABLE = "pass", "fail", "not measured", "unreadable"
@@ -81,6 +82,7 @@ class Grading:
     verdict: str
     source: str  # "form" or the sweep file's path
     problems: tuple[Problem, ...] = ()
+    signature: SignatureCheck | None = None  # the sheet's, as checked; None: unsigned
 
     @property
     def as_left(self) -> tuple[GradedValue, ...]:
@@ -199,7 +201,8 @@ def grade_sheet(sheet: SheetFile, features: SweepFeatures | None = None,
     return Grading(path=sheet.path, sheet_id=sheet.sheet_id, revision=sheet.revision,
                    title=str(title or ""), content_sha256=sheet.content_sha256_recorded,
                    tool_version=sheet.tool_version, unit=unit, values=tuple(values),
-                   verdict=verdict, source=sweep_path or "form", problems=tuple(problems))
+                   verdict=verdict, source=sweep_path or "form", problems=tuple(problems),
+                   signature=sheet.signature)
 
 
 def _grade_one(sheet: SheetFile, row: dict, field: str, as_found: bool,
@@ -254,7 +257,8 @@ def grading_table(grading: Grading) -> str:
         rows.append((name, window_text(v), v.typed or "—", v.verdict))
     widths = [max(len(r[k]) for r in rows) for k in range(4)]
     lines = [f"{grading.sheet_id} rev {grading.revision}  {grading.title}".rstrip(),
-             f"graded from {'the form' if grading.source == 'form' else grading.source}", ""]
+             f"graded from {'the form' if grading.source == 'form' else grading.source}",
+             f"sheet {signature_text(grading.signature)}", ""]
     for number, r in enumerate(rows):
         lines.append("  ".join(cell.ljust(widths[k]) for k, cell in enumerate(r)).rstrip())
         if number == 0:

@@ -36,7 +36,8 @@ def record_document(grading: Grading) -> dict:
         "tool_version": __version__,
         "sheet": {"id": grading.sheet_id, "revision": grading.revision,
                   "title": grading.title, "content_sha256": grading.content_sha256,
-                  "tool_version": grading.tool_version},
+                  "tool_version": grading.tool_version,
+                  "signature": _signature(grading)},
         "unit": {name: grading.unit.get(name, "") for name in UNIT_FIELDS},
         "source": grading.source,
         "values": [{"field": v.field, "quantity": v.quantity, "unit": v.unit,
@@ -46,6 +47,15 @@ def record_document(grading: Grading) -> dict:
                    for v in grading.values],
         "verdict": grading.verdict,
     }
+
+
+def _signature(grading: Grading) -> dict | None:
+    """The sheet's signature as checked (None: unsigned)."""
+    check = grading.signature
+    if check is None:
+        return None
+    return {"signer": check.signer, "trusted": check.trusted, "signed_at": check.signed_at,
+            "after_signing": check.after_signing}
 
 
 def record_json(grading: Grading) -> str:

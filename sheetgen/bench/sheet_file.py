@@ -1,8 +1,11 @@
 """Reading a sheet back: its attached job and results, the recorded content hash, the form.
 
 `read_sheet` accepts only a sheet that `sheetgen build` wrote and whose attachments still
-match the content hash recorded at build (sheetgen.report.content_hash); anything else is an
-`InputError` naming the file. Form values are the strings a PDF viewer saved, untouched.
+match the content hash recorded at build (sheetgen.report.content_hash), and, when it is
+signed, whose signature holds (bench/signature.py); anything else is an `InputError` naming
+the file. The hash and identity are recorded twice (document information and XMP): either
+copy is read (a re-save may drop one), and two copies present must agree. Form values are
+the strings a PDF viewer saved, untouched.
 """
 
 from __future__ import annotations
@@ -15,6 +18,8 @@ from pathlib import Path
 from sheetgen.errors import InputError, Problem
 from sheetgen.report import content_hash
 from sheetgen.report.content_hash import XMP_NAMESPACE, content_sha256
+
+from .signature import SignatureCheck, check_signature, has_signature
 
 JOB_ATTACHMENT = "job.yaml"
 RESULTS_ATTACHMENT = "results.json"
@@ -39,6 +44,7 @@ class SheetFile:
     sheet_id: str
     revision: str
     tool_version: str
+    signature: SignatureCheck | None = None  # None: the sheet is not signed
 
 
 def _fail(path: str, field: str, message: str, expected: str = EXPECTED) -> InputError:
@@ -83,16 +89,34 @@ def _recorded_copies(path: str, info, xmp: dict[str, str]) -> dict[str, str]:
     return values
 
 
-def _attachment(reader, path: str, name: str) -> tuple[bytes, bytes | None]:
-    """The attached file's bytes and the MD5 checksum its /Params recorded (if any)."""
+def _attached_stream(reader, name: str):
     names = reader.trailer["/Root"].get("/Names", {}).get("/EmbeddedFiles", {}).get("/Names", [])
     for index in range(0, len(names) - 1, 2):
         if str(names[index]) == name:
-            stream = names[index + 1].get_object()["/EF"]["/F"].get_object()
-            params = stream.get("/Params", {})
-            checksum = params.get("/CheckSum")
-            return stream.get_data(), (bytes(checksum.original_bytes)
-                                       if checksum is not None else None)
+            return names[index + 1].get_object()["/EF"]["/F"].get_object()
+    return None
+
+
+def all_attachments(reader) -> list[tuple[str, bytes]]:
+    """Every attached file as (name, bytes), in the order of the name tree."""
+    names = reader.trailer["/Root"].get("/Names", {}).get("/EmbeddedFiles", {}).get("/Names", [])
+    return [(str(names[index]), names[index + 1].get_object()["/EF"]["/F"].get_object().get_data())
+            for index in range(0, len(names) - 1, 2)]
+
+
+def recorded_metadata(reader) -> tuple[dict[str, str], dict[str, str]]:
+    """Our properties as the document information and the XMP packet record them."""
+    info = reader.metadata or {}
+    return ({key: str(info.get(key, "")) for _, key in RECORDED_TWICE}, _xmp_values(reader))
+
+
+def _attachment(reader, path: str, name: str) -> tuple[bytes, bytes | None]:
+    """The attached file's bytes and the MD5 checksum its /Params recorded (if any)."""
+    stream = _attached_stream(reader, name)
+    if stream is not None:
+        checksum = stream.get("/Params", {}).get("/CheckSum")
+        return stream.get_data(), (bytes(checksum.original_bytes)
+                                   if checksum is not None else None)
     raise _fail(path, f"attachments.{name}",
                 f"the sheet has no attached {name}; a sheet made by `sheetgen build` carries "
                 f"{JOB_ATTACHMENT} and {RESULTS_ATTACHMENT}")
@@ -101,6 +125,8 @@ def _attachment(reader, path: str, name: str) -> tuple[bytes, bytes | None]:
 def _field_values(reader) -> dict[str, str]:
     values = {}
     for name, field in (reader.get_fields() or {}).items():
+        if field.get("/FT") == "/Sig":  # the signature, not a value of the record
+            continue
         value = field.get("/V")
         if value is None:
             values[name] = "Off" if field.get("/FT") == "/Btn" else ""
@@ -111,8 +137,10 @@ def _field_values(reader) -> dict[str, str]:
     return values
 
 
-def read_sheet(path: str | Path) -> SheetFile:
-    """Read the sheet at `path`; raise InputError unless it is an intact sheetgen sheet."""
+def read_sheet(path: str | Path, trust_roots: list | None = None) -> SheetFile:
+    """Read the sheet at `path`; raise InputError unless it is an intact sheetgen sheet.
+    A signed sheet's signature is checked (bench/signature.py); with `trust_roots` (from
+    load_trust_roots) the sheet must be signed by a certificate that chains to one."""
     shown = str(path)
     try:
         data = Path(path).read_bytes()
@@ -139,6 +167,7 @@ def read_sheet(path: str | Path) -> SheetFile:
         job, job_checksum = _attachment(reader, shown, JOB_ATTACHMENT)
         results, results_checksum = _attachment(reader, shown, RESULTS_ATTACHMENT)
         fields = _field_values(reader)
+        signed = has_signature(reader)
     except InputError:
         raise
     except Exception as error:  # noqa: BLE001
@@ -154,6 +183,13 @@ def read_sheet(path: str | Path) -> SheetFile:
                     f"{what} {'was' if len(changed) == 1 else 'were'} changed after the build "
                     f"(content hash differs: recorded {recorded}, computed {computed})",
                     "the attachments exactly as `sheetgen build` wrote them")
+    if signed:
+        signature = check_signature(shown, data, trust_roots)
+    elif trust_roots:
+        raise _fail(shown, "signature", "is not signed, and a trust root was given",
+                    "a sheet signed by `sheetgen build --sign`")
+    else:
+        signature = None
     try:
         job_text = job.decode("utf-8")
         results_data = json.loads(results.decode("utf-8"))
@@ -162,7 +198,7 @@ def read_sheet(path: str | Path) -> SheetFile:
                     f"the attachments cannot be read ({error})") from None
     sheet = results_data.get("sheet", {}) if isinstance(results_data, dict) else {}
     return SheetFile(
-        path=shown, job_text=job_text, results=results_data,
+        path=shown, job_text=job_text, results=results_data, signature=signature,
         content_sha256_recorded=recorded, content_sha256_computed=computed, fields=fields,
         sheet_id=copies["SheetId"] or str(sheet.get("id", "")),
         revision=copies["Revision"] or str(sheet.get("revision", "")),

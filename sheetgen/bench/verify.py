@@ -45,13 +45,15 @@ def _within_resolution(row: DiffRow, resolution_hz: float | None) -> bool:
     return abs(row.a - row.b) <= resolution_hz * (1 + 1e-9)
 
 
-def verify_sheet(path: Path, library_folder: Path | None = None) -> Verification:
-    """Check one sheet; InputError when it is not a sheetgen sheet or was altered."""
+def verify_sheet(path: Path, library_folder: Path | None = None,
+                 trust_roots: list | None = None) -> Verification:
+    """Check one sheet; InputError when it is not a sheetgen sheet, was altered, or (with
+    `trust_roots`) is not signed by a certificate they issued."""
     from sheetgen.design.pipeline import design_from_file
     from sheetgen.inputs.library import find_library_folder
     from sheetgen.inputs.reader import compose_located
     from sheetgen.report.results import results_document
-    sheet = read_sheet(path)
+    sheet = read_sheet(path, trust_roots)
     job = compose_located(sheet.job_text, str(path)).data
     named = job.get("library") if isinstance(job, dict) else None
     with tempfile.TemporaryDirectory(prefix="sheetgen-verify-") as folder:
