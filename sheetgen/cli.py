@@ -168,6 +168,7 @@ def _check(args) -> int:
     from sheetgen.design.pipeline import design_from_file
     from sheetgen.report.summary import summary_text
     design = design_from_file(args.job, args.library)
+    _notices(design)
     if args.json:
         from sheetgen.report.results import results_json
         sys.stdout.write(results_json(design))
@@ -183,6 +184,7 @@ def _limits(args) -> int:
     from sheetgen.report.checks import failed_checks
     from sheetgen.report.results import limits_csv, limits_json
     design = design_from_file(args.job, args.library)
+    _notices(design)
     if failed_checks(design) and not args.allow_failing:
         code = _exit_for(design)
         print("limits not written: the design fails the checks above, so a unit built to it "
@@ -221,6 +223,7 @@ def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
         def sign(pdf: bytes) -> bytes:
             return sign_pdf(pdf, signer)
     design = design_from_file(job_path, library_folder)
+    _notices(design)
     output = output or job_path.with_suffix(".pdf")
     style = resolve_style(job_path, design.job, style_path, library_folder)
     if write_sheet(design, job_path, output, results_path, style, force, sign):
@@ -383,7 +386,9 @@ def _verify(args) -> int:
             worst = EXIT_BAD_INPUT
             continue
         versions = (f"built by sheetgen {result.archived_version}, checked with "
-                    f"{result.checked_version}")
+                    f"{result.checked_version}"
+                    + (f"; designed from {result.library_source}" if result.library_source
+                       else ""))
         sheet = result.sheet
         print(f"{path}: {signature_text(sheet.signature)}")
         if result.reproduces:
@@ -398,6 +403,13 @@ def _verify(args) -> int:
 
 COMMANDS = {"check": _check, "build": _build_command, "limits": _limits, "diff": _diff,
             "verify": _verify, "grade": _grade, "demo": _demo, "new": _new, "schema": _schema}
+
+
+def _notices(design) -> None:
+    """What the user should know that is not a failure (printed to stderr)."""
+    from sheetgen.report.parts import library_notices
+    for notice in library_notices(design):
+        print(notice, file=sys.stderr)
 
 
 def _exit_for(result) -> int:

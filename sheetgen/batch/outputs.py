@@ -62,6 +62,7 @@ def write_sheet(design, job_path: Path, output: Path, results_path: Path | None,
     bench/signature.sign_pdf with a key) signs the finished PDF before it is written. False
     when the output already holds this very sheet (nothing written; never when signing)."""
     from sheetgen.bench.release import SheetStamp, release_decision
+    from sheetgen.inputs.library import recorded_library_text
     from sheetgen.report.content_hash import content_sha256
     from sheetgen.report.results import results_json
     from sheetgen.sheet import render_sheet
@@ -72,8 +73,10 @@ def write_sheet(design, job_path: Path, output: Path, results_path: Path | None,
     job_text = job_path.read_text(encoding="utf-8")
     results_text = results_json(design)
     sheet = design.job.sheet
-    stamp = SheetStamp(sheet.id, sheet.revision, content_sha256(job_text.encode("utf-8"),
-                                                                results_text.encode("utf-8")))
+    library_text = recorded_library_text(design.library_entries)
+    stamp = SheetStamp(sheet.id, sheet.revision, content_sha256(
+        job_text.encode("utf-8"), results_text.encode("utf-8"),
+        None if library_text is None else library_text.encode("utf-8")))
     if release_decision(output, stamp, force) == "same" and sign is None:
         return False
     pdf = render_sheet(design, job_text=job_text, results_text=results_text,

@@ -23,6 +23,7 @@ from .signature import SignatureCheck, check_signature, has_signature
 
 JOB_ATTACHMENT = "job.yaml"
 RESULTS_ATTACHMENT = "results.json"
+LIBRARY_ATTACHMENT = "library.yaml"  # only on a sheet whose design used library entries
 INFO_CONTENT_SHA256 = "/" + content_hash.INFO_CONTENT_SHA256
 INFO_SHEET_ID = "/" + content_hash.INFO_SHEET_ID
 INFO_REVISION = "/" + content_hash.INFO_REVISION
@@ -45,6 +46,7 @@ class SheetFile:
     revision: str
     tool_version: str
     signature: SignatureCheck | None = None  # None: the sheet is not signed
+    library_text: str | None = None  # the attached library.yaml (None: none attached)
 
 
 def _fail(path: str, field: str, message: str, expected: str = EXPECTED) -> InputError:
@@ -166,19 +168,23 @@ def read_sheet(path: str | Path, trust_roots: list | None = None) -> SheetFile:
     try:
         job, job_checksum = _attachment(reader, shown, JOB_ATTACHMENT)
         results, results_checksum = _attachment(reader, shown, RESULTS_ATTACHMENT)
+        library_stream = _attached_stream(reader, LIBRARY_ATTACHMENT)
+        library = None if library_stream is None else library_stream.get_data()
         fields = _field_values(reader)
         signed = has_signature(reader)
     except InputError:
         raise
     except Exception as error:  # noqa: BLE001
         raise _fail(shown, "", f"cannot be read as a PDF ({error})") from None
-    computed = content_sha256(job, results)
+    computed = content_sha256(job, results, library)
     if computed != recorded:
         changed = [label for label, blob, checksum in (("job file", job, job_checksum),
                                                        ("results", results, results_checksum))
                    if checksum is not None and hashlib.md5(blob).digest() != checksum]
         what = (" and ".join(f"the attached {label}" for label in changed)
                 if changed else "the attached job file or results")
+        if not changed and library is not None:
+            what = "the attached job file, results or library entries"
         raise _fail(shown, "content_sha256",
                     f"{what} {'was' if len(changed) == 1 else 'were'} changed after the build "
                     f"(content hash differs: recorded {recorded}, computed {computed})",
@@ -192,6 +198,7 @@ def read_sheet(path: str | Path, trust_roots: list | None = None) -> SheetFile:
         signature = None
     try:
         job_text = job.decode("utf-8")
+        library_text = None if library is None else library.decode("utf-8")
         results_data = json.loads(results.decode("utf-8"))
     except (UnicodeDecodeError, json.JSONDecodeError) as error:
         raise _fail(shown, f"attachments.{RESULTS_ATTACHMENT}",
@@ -199,6 +206,7 @@ def read_sheet(path: str | Path, trust_roots: list | None = None) -> SheetFile:
     sheet = results_data.get("sheet", {}) if isinstance(results_data, dict) else {}
     return SheetFile(
         path=shown, job_text=job_text, results=results_data, signature=signature,
+        library_text=library_text,
         content_sha256_recorded=recorded, content_sha256_computed=computed, fields=fields,
         sheet_id=copies["SheetId"] or str(sheet.get("id", "")),
         revision=copies["Revision"] or str(sheet.get("revision", "")),

@@ -2,7 +2,9 @@
 hash recorded at build (bench/sheet_file.py), then the attached job is designed again with
 the installed sheetgen and every value that moved is listed (report/diff.py compares).
 
-Every section of the results is compared, the test record's windows included (a sheet
+A sheet whose design used parts-library entries carries them (library.yaml, covered by the
+content hash): the job is designed again from those, wherever the sheet is checked, unless
+--library names another folder. Every section of the results is compared, the test record's windows included (a sheet
 whose windows were widened and its hash recomputed does not reproduce). Numbers agree
 within the diff's relative tolerance of 1e-9; a frequency window edge (limits, or a test
 record row's min/max) agrees when it moved by no more than the window's resolution
@@ -28,6 +30,7 @@ class Verification:
     archived_version: str
     checked_version: str
     drift: tuple[DiffRow, ...]
+    library_source: str = ""  # where the parts-library entries came from ("" when none)
 
     @property
     def reproduces(self) -> bool:
@@ -59,10 +62,21 @@ def verify_sheet(path: Path, library_folder: Path | None = None,
     with tempfile.TemporaryDirectory(prefix="sheetgen-verify-") as folder:
         job_path = Path(folder) / "job.yaml"
         job_path.write_text(sheet.job_text, encoding="utf-8")
-        library = library_folder or find_library_folder(Path(path), named, None)
-        fresh = results_document(design_from_file(job_path, library))
+        if sheet.library_text is not None and library_folder is None:
+            library = Path(folder) / "recorded-library"
+            library.mkdir()
+            (library / "library.yaml").write_text(sheet.library_text, encoding="utf-8")
+            source = "the library entries recorded in the sheet"
+        else:
+            library = library_folder or find_library_folder(Path(path), named, None)
+            source = f"the parts library in {library}"
+        design = design_from_file(job_path, library)
+        fresh = results_document(design)
+        if not design.library_entries:
+            source = ""
     archived = sheet.results
     resolution = (archived.get("limits") or {}).get("resolution_hz")
     drift = tuple(row for row in diff_rows(job, archived, job, fresh)
                   if not _within_resolution(row, resolution))
-    return Verification(sheet, str(archived.get("tool_version", "unknown")), __version__, drift)
+    return Verification(sheet, str(archived.get("tool_version", "unknown")), __version__, drift,
+                        source)

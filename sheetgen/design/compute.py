@@ -35,12 +35,14 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     f0_target = targets.f0 if targets else None
     f_design = f0_target or float(resonance.resonant_frequency_hz(target_l, required_c))
     coil = parts = None
+    library_entries = ()
     if job.inductor.form == "given":
         inductance = target_l
     else:
-        from sheetgen.design.coil import design_coil, resolve_toroid
+        from sheetgen.design.coil import design_coil, resolve_toroid, used_library_entries
         if job.inductor.form == "toroid":
             parts = resolve_toroid(job.inductor, library)
+            library_entries = used_library_entries(parts, library)
         coil = design_coil(job.inductor, parts, target_l, f_design, None)
         inductance = coil.inductance_built_h
         if job.capacitor.capacitance is None:  # re-centre f0 on the whole-turn coil
@@ -156,7 +158,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                   plausibility=plausibility_findings(job, circuit, analysed, stress, fixed,
                                                      capacitance_f=required_c),
                   stress_open_load=open_stress,
-                  bleeder=bleeder_duty(job, worse_stress(stress, open_stress)), bench=bench)
+                  bleeder=bleeder_duty(job, worse_stress(stress, open_stress)), bench=bench,
+                  library_entries=library_entries)
 
 
 def _bench(job: Job, circuit, analysed, stress, coil: CoilDesign | None):

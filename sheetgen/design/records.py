@@ -18,6 +18,7 @@ from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import StandardPair
 from sheetgen.engine.stress import Drive, Stress
 from sheetgen.engine.wire import Wire
+from sheetgen.inputs.library import LibraryEntry
 from sheetgen.inputs.model import Job
 
 
@@ -175,3 +176,5 @@ class Design:
     stress_open_load: Stress | None = None  # the same drive with the load disconnected
     bleeder: BleederDuty | None = None
     bench: BenchSetup | None = None  # the small-signal test set-up and the circuit it builds
+    # the parts-library entries (core, material) the design used, as their files wrote them
+    library_entries: tuple[LibraryEntry, ...] = ()

@@ -25,10 +25,10 @@ pytestmark = pytest.mark.pdf
 INFO_HASH = "/SheetgenContentSHA256"
 
 
-def documented_hash(job: bytes, results: bytes) -> str:
-    """len(job) ‖ job ‖ len(results) ‖ results, lengths as 8-byte big-endian (the docs)."""
-    return hashlib.sha256(b"".join(len(b).to_bytes(8, "big") + b
-                                   for b in (job, results))).hexdigest()
+def documented_hash(*files: bytes) -> str:
+    """len(job) ‖ job ‖ len(results) ‖ results [‖ len(library) ‖ library], lengths as
+    8-byte big-endian (the docs)."""
+    return hashlib.sha256(b"".join(len(b).to_bytes(8, "big") + b for b in files)).hexdigest()
 
 
 @pytest.fixture(scope="module")
@@ -49,7 +49,9 @@ def forge(pdf: Path, out: Path, edit) -> Path:
         results = json.loads(doc.attachments["results.json"].get_file().read_bytes())
         edit(results)
         data = json.dumps(results, indent=2).encode("utf-8")
-        old, new = str(doc.docinfo[INFO_HASH]), documented_hash(job, data)
+        library = ([doc.attachments["library.yaml"].get_file().read_bytes()]
+                   if "library.yaml" in doc.attachments else [])
+        old, new = str(doc.docinfo[INFO_HASH]), documented_hash(job, data, *library)
         doc.attachments["results.json"] = pikepdf.AttachedFileSpec(
             doc, data, filename="results.json", mime_type="application/json")
         doc.docinfo[INFO_HASH] = new
