@@ -20,12 +20,31 @@ STAMP_SIZE = 11.0
 STAMP_CLEARANCE = 52.0  # pt below the page's lowest field: past the signature row
 
 
+NOTE_SIZE = 8.0
+
+
 def stamp_text(grading: Grading) -> str:
     date = grading.unit.get("date") or "no date recorded"
     return f"GRADED {grading.verdict.upper()} by sheetgen grade, {date}"
 
 
-def _overlay(width: float, height: float, text: str, x: float, y: float) -> bytes:
+def stamp_notes(grading: Grading) -> list[str]:
+    """Lines under the stamp: the technician's ticks the grade differs from (the copy's
+    verdict boxes show the computed verdicts) and values that disagree with each other."""
+    notes = []
+    ticks = [f"{v.quantity} {v.ticked.upper()}" for v in grading.as_left
+             if v.verdict_field and v.tick_disagrees]
+    if grading.ticked_overall and grading.ticked_overall != grading.verdict:
+        ticks.append(f"overall {grading.ticked_overall.upper()}")
+    if ticks:
+        notes.append("The technician had ticked " + ", ".join(ticks)
+                     + " (kept in the record; the boxes show the graded verdicts)")
+    notes += [finding.text() for finding in grading.consistency]
+    return notes
+
+
+def _overlay(width: float, height: float, text: str, x: float, y: float,
+             notes: list[str] = ()) -> bytes:
     from reportlab.lib.colors import black
     from reportlab.pdfgen import canvas
 
@@ -42,6 +61,9 @@ def _overlay(width: float, height: float, text: str, x: float, y: float) -> byte
     page.setLineWidth(1.2)
     page.rect(x - 5, y - 4, text_width + 10, STAMP_SIZE + 7, stroke=1, fill=0)
     page.drawString(x, y, text)
+    page.setFont(fonts.REGULAR, NOTE_SIZE)
+    for number, note in enumerate(notes, start=1):
+        page.drawRightString(width - 20.0, y - 8 - number * (NOTE_SIZE + 2), note)
     page.showPage()
     page.save()
     return out.getvalue()
@@ -117,7 +139,8 @@ def graded_copy(pdf_bytes: bytes, grading: Grading) -> bytes:
     width, height = float(page.mediabox.width), float(page.mediabox.height)
     # right-aligned, clear of the record's last row (the signature line below the fields)
     x, y = width, lowest.get(stamp_page, height - 40.0) - STAMP_CLEARANCE
-    overlay = PdfReader(io.BytesIO(_overlay(width, height, stamp_text(grading), x, y))).pages[0]
+    overlay = PdfReader(io.BytesIO(_overlay(width, height, stamp_text(grading), x, y,
+                                            stamp_notes(grading)))).pages[0]
     page.merge_page(overlay)
     out = io.BytesIO()
     writer.write(out)
