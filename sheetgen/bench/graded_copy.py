@@ -40,7 +40,39 @@ def stamp_notes(grading: Grading) -> list[str]:
         notes.append("The technician had ticked " + ", ".join(ticks)
                      + " (kept in the record; the boxes show the graded verdicts)")
     notes += [finding.text() for finding in grading.consistency]
+    if grading.signature is not None:
+        notes.append(f"The sheet graded was {grading.signature.summary()}; this copy is not "
+                     "signed")
     return notes
+
+
+def _drop_signatures(writer) -> None:
+    """Remove the sheet's signature fields, their widgets and the DocMDP permissions: the
+    copy's pages and form change, so a signature carried over would only read as broken."""
+    from pypdf.generic import ArrayObject, NameObject
+    root = writer._root_object
+    form = root.get("/AcroForm")
+    if form is None:
+        return
+    form = form.get_object()
+    signature_ids = set()
+    kept = ArrayObject()
+    for reference in form.get("/Fields", []):
+        if reference.get_object().get("/FT") == "/Sig":
+            signature_ids.add(id(reference.get_object()))
+        else:
+            kept.append(reference)
+    if not signature_ids:
+        return
+    form[NameObject("/Fields")] = kept
+    form.pop(NameObject("/SigFlags"), None)
+    root.pop(NameObject("/Perms"), None)
+    for page in writer.pages:
+        annotations = page.get("/Annots")
+        if annotations is None:
+            continue
+        page[NameObject("/Annots")] = ArrayObject(
+            a for a in annotations.get_object() if id(a.get_object()) not in signature_ids)
 
 
 def _overlay(width: float, height: float, text: str, x: float, y: float,
@@ -61,9 +93,12 @@ def _overlay(width: float, height: float, text: str, x: float, y: float,
     page.setLineWidth(1.2)
     page.rect(x - 5, y - 4, text_width + 10, STAMP_SIZE + 7, stroke=1, fill=0)
     page.drawString(x, y, text)
+    from reportlab.lib.utils import simpleSplit
     page.setFont(fonts.REGULAR, NOTE_SIZE)
-    for number, note in enumerate(notes, start=1):
-        page.drawRightString(width - 20.0, y - 8 - number * (NOTE_SIZE + 2), note)
+    lines = [line for note in notes
+             for line in simpleSplit(note, fonts.REGULAR, NOTE_SIZE, width - 40.0)]
+    for number, line in enumerate(lines, start=1):
+        page.drawRightString(width - 20.0, y - 8 - number * (NOTE_SIZE + 2), line)
     page.showPage()
     page.save()
     return out.getvalue()
@@ -108,6 +143,7 @@ def graded_copy(pdf_bytes: bytes, grading: Grading) -> bytes:
     from pypdf import PdfReader, PdfWriter
     from pypdf.generic import NameObject, NumberObject
     writer = PdfWriter(clone_from=PdfReader(io.BytesIO(pdf_bytes)))
+    _drop_signatures(writer)
     _own_text_appearances(writer)
     states = grading.verdict_states()
     stamp_page = None

@@ -244,7 +244,8 @@ def _draw_box(canvas: Canvas, box: TextBox, text: str) -> None:
             canvas.drawString(box.x, _baseline(box, size, index), line)
 
 
-def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size) -> None:
+def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size,
+                     attached: str = "job.yaml, results.json") -> None:
     """Header (organisation, logo) and the title block with signature lines."""
     page_w, page_h = page_size
     left, width = MARGIN, page_w - 2 * MARGIN
@@ -296,7 +297,7 @@ def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size) -> None:
     canvas.rect(left, y_c, width, _ROW_C, stroke=1, fill=0)
     canvas.setFont(fonts.REGULAR, 6.5)
     canvas.drawString(left + 3, y_c + 3.5, f"made by sheetgen {__version__} from the job file "
-                      "attached to this PDF (job.yaml, results.json)")
+                      f"attached to this PDF ({attached})")
     canvas.restoreState()
 
 
@@ -457,6 +458,7 @@ def _render(design: Design, job_text: str, results_text: str, job_dir: Path | No
     attachments = [(name, data, mime, description) for (name, mime, description), data
                    in zip(ATTACHMENTS, (job_bytes, results_bytes, library_bytes))
                    if data is not None]
+    attached = ", ".join(name for name, *_ in attachments)
     archive = _Archive(_sheet_moment(sheet.date), sheet.id, sheet.revision,
                        content_sha256(job_bytes, results_bytes, library_bytes))
     digest = hashlib.sha256()
@@ -473,6 +475,6 @@ def _render(design: Design, job_text: str, results_text: str, job_dir: Path | No
         leftMargin=MARGIN, rightMargin=MARGIN, topMargin=MARGIN, bottomMargin=MARGIN)
     doc.addPageTemplates([PageTemplate(
         "sheet", [frame], pagesize=page_size,
-        onPage=lambda canvas, _doc: _draw_page_frame(canvas, identity, page_size))])
+        onPage=lambda canvas, _doc: _draw_page_frame(canvas, identity, page_size, attached))])
     doc.build(story, canvasmaker=_canvas_class(attachments, digest.digest()[:16], archive))
     return buffer.getvalue()

@@ -178,3 +178,19 @@ def test_a_wrong_passphrase_writes_nothing(signed, tmp_path, monkeypatch, capsys
     err = capsys.readouterr().err
     assert "cannot be opened as a PKCS#12" in err and "Traceback" not in err
     assert not out.exists()
+
+
+def test_the_graded_copy_of_a_signed_sheet_is_not_signed_and_says_so(signed, tmp_path, capsys):
+    """The copy's pages and form change after signing, so it carries no signature (one
+    carried over would read as broken); its stamp names who signed the sheet graded."""
+    from pypdf import PdfReader
+
+    from sheetgen.bench.sheet_file import read_sheet
+    copy = tmp_path / "graded.pdf"
+    assert main(["grade", str(signed["sheet"]), "-o", str(copy)]) == 1  # nothing typed
+    fields = PdfReader(str(copy)).get_fields()
+    assert not any(field.get("/FT") == "/Sig" for field in fields.values())
+    assert read_sheet(copy).signature is None  # reads back as an intact, unsigned sheet
+    text = subprocess.run(["pdftotext", str(copy), "-"], capture_output=True, text=True,
+                          check=True).stdout
+    assert f"was signed by {SUBJECT}" in " ".join(text.split())
