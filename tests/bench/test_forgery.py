@@ -31,15 +31,19 @@ def documented_hash(*files: bytes) -> str:
     return hashlib.sha256(b"".join(len(b).to_bytes(8, "big") + b for b in files)).hexdigest()
 
 
-@pytest.fixture(scope="module")
-def built(tmp_path_factory):
-    root = tmp_path_factory.mktemp("forge")
+def build_demo(root: Path, name: str = "demo.pdf") -> tuple[Path, Path]:
+    """The demo starter's job in `root` (beside the repository's library) and its sheet."""
     job = root / "demo.yaml"
     job.write_bytes((REPO / "templates" / "demo.yaml").read_bytes())
     (root / "shared").symlink_to(REPO / "shared")
-    pdf = root / "demo.pdf"
+    pdf = root / name
     assert main(["build", str(job), "-o", str(pdf)]) in (0, 1)
-    return pdf
+    return job, pdf
+
+
+@pytest.fixture(scope="module")
+def built(tmp_path_factory):
+    return build_demo(tmp_path_factory.mktemp("forge"))[1]
 
 
 def forge(pdf: Path, out: Path, edit) -> Path:
