@@ -349,24 +349,30 @@ def _batch(args, command: str) -> int:
 def _diff(args) -> int:
     from sheetgen.report.diff import diff_json, diff_rows, diff_table
     trust = _trust_roots(args)
-    rows = diff_rows(*_diff_side(args.a, args.library, trust),
-                     *_diff_side(args.b, args.library, trust))
+    job_a, results_a, library_a = _diff_side(args.a, args.library, trust)
+    job_b, results_b, library_b = _diff_side(args.b, args.library, trust)
+    rows = diff_rows(job_a, results_a, job_b, results_b, library_a, library_b)
     sys.stdout.write(diff_json(rows) if args.json else diff_table(rows, args.a, args.b))
     return EXIT_CHECK_FAILED if rows else EXIT_OK
 
 
 def _diff_side(path: Path, library_folder: Path | None,
-               trust_roots: list | None = None) -> tuple[object, dict]:
-    """(job data, results document) of a job file, or of a built sheet's attachments."""
+               trust_roots: list | None = None) -> tuple[object, dict, dict]:
+    """(job data, results document, library entries used) of a job file, or of a built
+    sheet's attachments (its library.yaml; {} when it has none)."""
     from sheetgen.inputs.reader import compose_located
     if path.suffix.lower() == ".pdf":  # a built sheet: its attached job and results
         from sheetgen.bench.sheet_file import read_sheet
         sheet = read_sheet(path, trust_roots)
-        return compose_located(sheet.job_text, str(path)).data, sheet.results
+        library = (compose_located(sheet.library_text, str(path)).data
+                   if sheet.library_text is not None else {})
+        return compose_located(sheet.job_text, str(path)).data, sheet.results, library or {}
     from sheetgen.design.pipeline import design_from_file
+    from sheetgen.inputs.library import library_document
     from sheetgen.report.results import results_document
     design = design_from_file(path, library_folder)
-    return compose_located(path.read_text(encoding="utf-8"), str(path)).data, results_document(design)
+    return (compose_located(path.read_text(encoding="utf-8"), str(path)).data,
+            results_document(design), library_document(design.library_entries))
 
 
 def _verify(args) -> int:

@@ -133,8 +133,13 @@ def recorded_library_text(entries: tuple[LibraryEntry, ...]) -> str | None:
     if not entries:
         return None
     import yaml
+    return RECORDED_LIBRARY_HEADER + yaml.safe_dump(library_document(entries), sort_keys=False,
+                                                    allow_unicode=True, width=100)
+
+
+def library_document(entries: tuple[LibraryEntry, ...]) -> dict[str, dict]:
+    """The entries as a library file's data: {kind: {name: data}}."""
     document: dict[str, dict] = {}
     for entry in entries:
         document.setdefault(entry.kind, {})[entry.name] = entry.data
-    return RECORDED_LIBRARY_HEADER + yaml.safe_dump(document, sort_keys=False,
-                                                    allow_unicode=True, width=100)
+    return document

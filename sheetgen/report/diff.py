@@ -1,6 +1,6 @@
-"""What changed between two revisions of a design: inputs, derived values, limits, the test
-record (its windows), ratings, cautions and every other key of the results, from two job
-documents and two results documents (sheetgen.results/1).
+"""What changed between two revisions of a design: inputs, the parts-library entries used,
+derived values, limits, the test record (its windows), ratings, cautions and every other
+key of the results, from two job documents and two results documents (sheetgen.results/1).
 
 Pure: plain data in, rows out. Numbers are equal within a relative tolerance of 1e-9; a
 value is shown in engineering notation with the unit its key's suffix names.
@@ -80,8 +80,9 @@ def _by_name(items: list[dict], name) -> dict[str, dict]:
     return out
 
 
-def _sections(job: object, results: dict) -> dict[str, dict[str, object]]:
-    """Each section's flat {key: value} for one revision."""
+def _sections(job: object, results: dict, library: object = None) -> dict[str, dict[str, object]]:
+    """Each section's flat {key: value} for one revision (`library`: the parts-library
+    entries its design used, {kind: {name: data}}, or None when not known)."""
     derived = {}
     for name in DERIVED:
         derived.update(_flatten(results.get(name), (name,)))
@@ -106,6 +107,7 @@ def _sections(job: object, results: dict) -> dict[str, dict[str, object]]:
                            if isinstance(value, dict)}, ("variation",)))
     return {
         "inputs": _flatten(job),
+        "library": _flatten(library, ("library",)) if library else {},
         "derived": derived,
         "limits": _flatten(results.get("limits"), ("limits",)),
         "test_record": _test_record(results.get("test_record")),
@@ -130,10 +132,15 @@ def _test_record(record) -> dict[str, object]:
     return out
 
 
-def diff_rows(job_a: object, results_a: dict, job_b: object, results_b: dict) -> list[DiffRow]:
+def diff_rows(job_a: object, results_a: dict, job_b: object, results_b: dict,
+              library_a: object = None, library_b: object = None) -> list[DiffRow]:
     """Every value that differs between revision A and revision B, section by section, in
-    the order of A's keys (keys only in B after them)."""
-    a_sections, b_sections = _sections(job_a, results_a), _sections(job_b, results_b)
+    the order of A's keys (keys only in B after them). The library sections compare the
+    parts-library entries each design used, when both are given."""
+    if library_a is None or library_b is None:
+        library_a = library_b = None
+    a_sections = _sections(job_a, results_a, library_a)
+    b_sections = _sections(job_b, results_b, library_b)
     rows = []
     for section, a_values in a_sections.items():
         b_values = b_sections[section]

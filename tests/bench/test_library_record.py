@@ -102,3 +102,20 @@ def test_a_job_without_library_parts_attaches_no_library(tmp_path):
     assert main(["build", str(job), "-o", str(tmp_path / "series.pdf")]) in (0, 1)
     with pikepdf.open(tmp_path / "series.pdf") as doc:
         assert sorted(doc.attachments) == ["job.yaml", "results.json"]
+
+
+def test_diff_names_the_library_entry_that_differs(shadowed, tmp_path, capsys):
+    """The same job built against the shipped core (18 mm) and the local one (22 mm)."""
+    root, job = shadowed
+    local = job.with_suffix(".pdf")
+    assert main(["build", str(job), "-o", str(local)]) in (0, 1)
+    shipped = tmp_path / "shipped.pdf"
+    assert main(["build", str(job), "-o", str(shipped), "--library", str(REPO / "shared")]) \
+        in (0, 1)
+    capsys.readouterr()
+    assert main(["diff", str(shipped), str(local), "--json"]) == 1
+    import json
+    rows = json.loads(capsys.readouterr().out)
+    library = [(r["key"], r["a"], r["b"]) for r in rows if r["section"] == "library"]
+    assert library == [(f"library.cores.{CORE}.outer_diameter", "18.0 mm", "22.0 mm")]
+    assert not [r for r in rows if r["section"] == "inputs"]  # the same job file
