@@ -12,7 +12,7 @@ from pathlib import Path
 
 from sheetgen import __version__
 from sheetgen.batch.outputs import OutputFolderError, write_atomically, write_sheet
-from sheetgen.errors import InputError
+from sheetgen.errors import InputError, Problem
 from sheetgen.inputs.starters import TEMPLATE_NAMES, demo_job_path, template_text
 
 # The design and report rooms (pydantic, numpy, scipy) are imported by the commands that
@@ -220,8 +220,15 @@ def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
     if sign_key is not None:
         from sheetgen.bench.signature import load_signer, sign_pdf
         signer = load_signer(sign_key)
+
         def sign(pdf: bytes) -> bytes:
-            return sign_pdf(pdf, signer)
+            try:
+                return sign_pdf(pdf, signer)
+            except Exception as error:  # noqa: BLE001 - pyHanko's many kinds, worded once
+                raise InputError([Problem(str(sign_key), 1, 1, "signature",
+                                          f"the sheet cannot be signed with this key ({error})",
+                                          "a PKCS#12 file with an RSA or EC signing key and "
+                                          "its certificate")]) from None
     design = design_from_file(job_path, library_folder)
     _notices(design)
     output = output or job_path.with_suffix(".pdf")
