@@ -117,6 +117,12 @@ def sign_pdf(pdf: bytes, signer) -> bytes:
         def _update_meta(self):
             return None
 
+        def ensure_output_version(self, version):
+            """PDF/A-3 is PDF 1.x (ISO 19005-3, 6.1.2): an EC key would make pyHanko mark
+            the file PDF 2.0 (ISO 32002); the extension it registers says the same to a
+            reader of a PDF 1.7 file."""
+            super().ensure_output_version(min(tuple(version), (1, 7)))
+
     writer = MetadataKeepingWriter(io.BytesIO(pdf))
     metadata = signers.PdfSignatureMetadata(
         field_name=SIGNATURE_FIELD, md_algorithm="sha256", certify=True,
