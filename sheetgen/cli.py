@@ -12,7 +12,7 @@ from pathlib import Path
 
 from sheetgen import __version__
 from sheetgen.batch.outputs import OutputFolderError, write_atomically, write_sheet
-from sheetgen.errors import InputError
+from sheetgen.errors import InputError, Problem
 from sheetgen.inputs.starters import TEMPLATE_NAMES, demo_job_path, template_text
 
 # The design and report rooms (pydantic, numpy, scipy) are imported by the commands that
@@ -54,6 +54,9 @@ def build_parser() -> argparse.ArgumentParser:
                        "sheet.style, else the default style)")
     build.add_argument("--force", action="store_true", help="replace a sheet of the same id "
                        "and revision whose content differs")
+    build.add_argument("--sign", type=Path, metavar="KEY.p12", help="sign the sheet with the "
+                       "key and certificate in this PKCS#12 file (its passphrase in the "
+                       "environment variable SHEETGEN_SIGN_PASSPHRASE)")
 
     limits = commands.add_parser("limits", help="write the test limits for a work order")
     _job_arguments(limits)
@@ -70,12 +73,14 @@ def build_parser() -> argparse.ArgumentParser:
     diff.add_argument("--json", action="store_true",
                       help="print the changes as JSON: a list of {section, key, a, b}")
     diff.add_argument("--library", type=Path, help="parts library folder (default: see README)")
+    _trust_argument(diff)
 
     verify = commands.add_parser("verify", help="check that archived sheets are intact and "
                                  "still reproduce with this version")
     verify.add_argument("sheets", type=Path, nargs="+", help="built sheets (.pdf)")
     verify.add_argument("--library", type=Path, help="parts library folder for jobs that name "
                         "cores (default: found from the sheet's folder, as for a job)")
+    _trust_argument(verify)
 
     netlist = commands.add_parser("netlist", help="write the circuit as analysed as a SPICE "
                                   "netlist with its sweep and measures")
@@ -98,6 +103,19 @@ def build_parser() -> argparse.ArgumentParser:
     schema.add_argument("--markdown", action="store_true",
                         help="print the job file reference in Markdown instead")
     return parser
+
+
+def _trust_argument(command: argparse.ArgumentParser) -> None:
+    command.add_argument("--trust", type=Path, action="append", metavar="CERT.pem",
+                         help="a trust root (X.509 certificate, PEM or DER; repeatable): a "
+                         "sheet must be signed by a certificate it issued")
+
+
+def _trust_roots(args) -> list | None:
+    if not getattr(args, "trust", None):
+        return None
+    from sheetgen.bench.signature import load_trust_roots
+    return load_trust_roots(args.trust)
 
 
 def _job_arguments(command: argparse.ArgumentParser) -> None:
@@ -162,6 +180,7 @@ def _check(args) -> int:
     from sheetgen.design.pipeline import quick_design_from_file
     from sheetgen.report.summary import assumed_lines, brief_text, judged_checks, summary_text
     design, assumed = quick_design_from_file(args.job, args.library)
+    _notices(design)
     if args.json:
         from sheetgen.report.results import results_json
         sys.stdout.write(results_json(design))
@@ -182,6 +201,7 @@ def _limits(args) -> int:
     from sheetgen.report.checks import failed_checks
     from sheetgen.report.results import limits_csv, limits_json
     design = design_from_file(args.job, args.library)
+    _notices(design)
     if failed_checks(design) and not args.allow_failing:
         code = _exit_for(design)
         print("limits not written: the design fails the checks above, so a unit built to it "
@@ -213,7 +233,7 @@ def _build_command(args) -> int:
     if _is_batch(args):
         return _batch(args, "build")
     return _build_sheet(args.job, args.output, args.results, args.style, args.library,
-                        args.force)
+                        args.force, args.sign)
 
 
 def _demo(args) -> int:
@@ -222,14 +242,28 @@ def _demo(args) -> int:
 
 def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
                  style_path: Path | None, library_folder: Path | None,
-                 force: bool = False) -> int:
+                 force: bool = False, sign_key: Path | None = None) -> int:
     from sheetgen.design.pipeline import design_from_file
     from sheetgen.inputs.style import resolve_style
+    sign = None
+    if sign_key is not None:
+        from sheetgen.bench.signature import load_signer, sign_pdf
+        signer = load_signer(sign_key)
+
+        def sign(pdf: bytes) -> bytes:
+            try:
+                return sign_pdf(pdf, signer)
+            except Exception as error:  # noqa: BLE001 - pyHanko's many kinds, worded once
+                raise InputError([Problem(str(sign_key), 1, 1, "signature",
+                                          f"the sheet cannot be signed with this key ({error})",
+                                          "a PKCS#12 file with an RSA or EC signing key and "
+                                          "its certificate")]) from None
     design = design_from_file(job_path, library_folder)
+    _notices(design)
     output = output or job_path.with_suffix(".pdf")
     style = resolve_style(job_path, design.job, style_path, library_folder)
-    if write_sheet(design, job_path, output, results_path, style, force):
-        print(f"wrote {output}")
+    if write_sheet(design, job_path, output, results_path, style, force, sign):
+        print(f"wrote {output}" + (f" (signed with {sign_key})" if sign else ""))
     else:
         sheet = design.job.sheet
         print(f"{output} already holds {sheet.id} rev {sheet.revision} with this content; "
@@ -269,6 +303,7 @@ def _grade_arguments(commands) -> None:
                        "to a running CSV log")
     grade.add_argument("-o", "--output", type=Path, metavar="PDF", help="write a graded copy "
                        "of the sheet (with --sweep: a test report with the measured curve)")
+    _trust_argument(grade)
 
 
 def _grade(args) -> int:
@@ -280,7 +315,7 @@ def _grade(args) -> int:
         raise UsageError(f"{args.sheet}: an output may not overwrite the sheet being graded")
     if args.parameter and args.sweep is None:
         raise UsageError("--parameter needs --sweep")
-    sheet = read_sheet(args.sheet)
+    sheet = read_sheet(args.sheet, _trust_roots(args))
     features = sweep = None
     if args.sweep is not None:
         from sheetgen.bench.sweep import sweep_features
@@ -322,6 +357,8 @@ def _grade(args) -> int:
 
 def _batch(args, command: str) -> int:
     from sheetgen.batch.runner import JobTask, collect_jobs, default_workers, output_path, run_batch
+    if getattr(args, "sign", None) is not None:
+        raise UsageError("--sign signs one sheet; build each job on its own to sign it")
     for option in ("output", "results"):
         if getattr(args, option, None) is not None:
             raise UsageError(f"--{option} names one file; for several jobs use --out-dir")
@@ -349,41 +386,55 @@ def _batch(args, command: str) -> int:
 
 def _diff(args) -> int:
     from sheetgen.report.diff import diff_json, diff_rows, diff_table
-    rows = diff_rows(*_diff_side(args.a, args.library), *_diff_side(args.b, args.library))
+    trust = _trust_roots(args)
+    job_a, results_a, library_a = _diff_side(args.a, args.library, trust)
+    job_b, results_b, library_b = _diff_side(args.b, args.library, trust)
+    rows = diff_rows(job_a, results_a, job_b, results_b, library_a, library_b)
     sys.stdout.write(diff_json(rows) if args.json else diff_table(rows, args.a, args.b))
     return EXIT_CHECK_FAILED if rows else EXIT_OK
 
 
-def _diff_side(path: Path, library_folder: Path | None) -> tuple[object, dict]:
-    """(job data, results document) of a job file, or of a built sheet's attachments."""
+def _diff_side(path: Path, library_folder: Path | None,
+               trust_roots: list | None = None) -> tuple[object, dict, dict]:
+    """(job data, results document, library entries used) of a job file, or of a built
+    sheet's attachments (its library.yaml; {} when it has none)."""
     from sheetgen.inputs.reader import compose_located
     if path.suffix.lower() == ".pdf":  # a built sheet: its attached job and results
         from sheetgen.bench.sheet_file import read_sheet
-        sheet = read_sheet(path)
-        return compose_located(sheet.job_text, str(path)).data, sheet.results
+        sheet = read_sheet(path, trust_roots)
+        library = (compose_located(sheet.library_text, str(path)).data
+                   if sheet.library_text is not None else {})
+        return compose_located(sheet.job_text, str(path)).data, sheet.results, library or {}
     from sheetgen.design.pipeline import design_from_file
+    from sheetgen.inputs.library import library_document
     from sheetgen.report.results import results_document
     design = design_from_file(path, library_folder)
-    return compose_located(path.read_text(encoding="utf-8"), str(path)).data, results_document(design)
+    return (compose_located(path.read_text(encoding="utf-8"), str(path)).data,
+            results_document(design), library_document(design.library_entries))
 
 
 def _verify(args) -> int:
     """Each sheet: reproduces (0), drifted (1, values listed) or not a sound sheet (2)."""
+    from sheetgen.bench.signature import signature_text
     from sheetgen.bench.verify import verify_sheet
     from sheetgen.report.diff import diff_table
     from sheetgen.report.formatting import plural
     worst = EXIT_OK
+    trust = _trust_roots(args)
     for path in args.sheets:
         try:
-            result = verify_sheet(path, args.library)
+            result = verify_sheet(path, args.library, trust)
         except InputError as error:
             for problem in error.problems:
                 print(problem, file=sys.stderr)
             worst = EXIT_BAD_INPUT
             continue
         versions = (f"built by sheetgen {result.archived_version}, checked with "
-                    f"{result.checked_version}")
+                    f"{result.checked_version}"
+                    + (f"; designed from {result.library_source}" if result.library_source
+                       else ""))
         sheet = result.sheet
+        print(f"{path}: {signature_text(sheet.signature)}")
         if result.reproduces:
             print(f"{path}: {sheet.sheet_id} rev {sheet.revision} reproduces ({versions})")
             continue
@@ -396,6 +447,13 @@ def _verify(args) -> int:
 
 COMMANDS = {"check": _check, "build": _build_command, "limits": _limits, "diff": _diff,
             "verify": _verify, "grade": _grade, "netlist": _netlist, "demo": _demo, "new": _new, "schema": _schema}
+
+
+def _notices(design) -> None:
+    """What the user should know that is not a failure (printed to stderr)."""
+    from sheetgen.report.parts import library_notices
+    for notice in library_notices(design):
+        print(notice, file=sys.stderr)
 
 
 def _exit_for(result) -> int:

@@ -24,7 +24,8 @@ THIRD_PARTY = {  # beyond the standard library; None = anything
     "design": {"numpy"},
     "report": {"numpy"},
     "sheet": {"numpy", "reportlab", "matplotlib", "PIL", "fontTools"},
-    "bench": {"numpy", "skrf", "pypdf", "pikepdf", "reportlab", "matplotlib"},
+    "bench": {"numpy", "skrf", "pypdf", "pikepdf", "reportlab", "matplotlib", "pyhanko",
+              "pyhanko_certvalidator"},
     "batch": {"tqdm"},
 }
 FORBIDDEN_ROOMS = {"sheet": {"engine"}}  # the sheet draws what the design gives

@@ -54,13 +54,15 @@ def remove_leftovers(path: Path) -> None:
 
 
 def write_sheet(design, job_path: Path, output: Path, results_path: Path | None,
-                style=None, force: bool = False) -> bool:
+                style=None, force: bool = False, sign=None) -> bool:
     """Render the design's sheet (job and results attached) and write it, and the results
     JSON when asked; nothing is written if rendering fails. Text the sheet's font cannot
     draw is bad input, and a released sheet of the same id and revision with other content
-    is not replaced unless `force` (bench/release.py). False when the output already holds
-    this very sheet (nothing written)."""
+    is not replaced unless `force` (bench/release.py). `sign` (bytes → bytes, e.g.
+    bench/signature.sign_pdf with a key) signs the finished PDF before it is written. False
+    when the output already holds this very sheet (nothing written; never when signing)."""
     from sheetgen.bench.release import SheetStamp, release_decision
+    from sheetgen.inputs.library import recorded_library_text
     from sheetgen.report.content_hash import content_sha256
     from sheetgen.report.results import results_json
     from sheetgen.sheet import render_sheet
@@ -71,12 +73,16 @@ def write_sheet(design, job_path: Path, output: Path, results_path: Path | None,
     job_text = job_path.read_text(encoding="utf-8")
     results_text = results_json(design)
     sheet = design.job.sheet
-    stamp = SheetStamp(sheet.id, sheet.revision, content_sha256(job_text.encode("utf-8"),
-                                                                results_text.encode("utf-8")))
-    if release_decision(output, stamp, force) == "same":
+    library_text = recorded_library_text(design.library_entries)
+    stamp = SheetStamp(sheet.id, sheet.revision, content_sha256(
+        job_text.encode("utf-8"), results_text.encode("utf-8"),
+        None if library_text is None else library_text.encode("utf-8")))
+    if release_decision(output, stamp, force) == "same" and sign is None:
         return False
     pdf = render_sheet(design, job_text=job_text, results_text=results_text,
                        job_dir=job_path.resolve().parent, style=style)
+    if sign is not None:
+        pdf = sign(pdf)
     if results_path is not None:
         write_atomically(results_path, results_text.encode("utf-8"))
     write_atomically(output, pdf)

@@ -20,12 +20,63 @@ STAMP_SIZE = 11.0
 STAMP_CLEARANCE = 52.0  # pt below the page's lowest field: past the signature row
 
 
+NOTE_SIZE = 8.0
+
+
 def stamp_text(grading: Grading) -> str:
     date = grading.unit.get("date") or "no date recorded"
     return f"GRADED {grading.verdict.upper()} by sheetgen grade, {date}"
 
 
-def _overlay(width: float, height: float, text: str, x: float, y: float) -> bytes:
+def stamp_notes(grading: Grading) -> list[str]:
+    """Lines under the stamp: the technician's ticks the grade differs from (the copy's
+    verdict boxes show the computed verdicts) and values that disagree with each other."""
+    notes = []
+    ticks = [f"{v.quantity} {v.ticked.upper()}" for v in grading.as_left
+             if v.verdict_field and v.tick_disagrees]
+    if grading.ticked_overall and grading.ticked_overall != grading.verdict:
+        ticks.append(f"overall {grading.ticked_overall.upper()}")
+    if ticks:
+        notes.append("The technician had ticked " + ", ".join(ticks)
+                     + " (kept in the record; the boxes show the graded verdicts)")
+    notes += [finding.text() for finding in grading.consistency]
+    if grading.signature is not None:
+        notes.append(f"The sheet graded was {grading.signature.summary()}; this copy is not "
+                     "signed")
+    return notes
+
+
+def _drop_signatures(writer) -> None:
+    """Remove the sheet's signature fields, their widgets and the DocMDP permissions: the
+    copy's pages and form change, so a signature carried over would only read as broken."""
+    from pypdf.generic import ArrayObject, NameObject
+    root = writer._root_object
+    form = root.get("/AcroForm")
+    if form is None:
+        return
+    form = form.get_object()
+    signature_ids = set()
+    kept = ArrayObject()
+    for reference in form.get("/Fields", []):
+        if reference.get_object().get("/FT") == "/Sig":
+            signature_ids.add(id(reference.get_object()))
+        else:
+            kept.append(reference)
+    if not signature_ids:
+        return
+    form[NameObject("/Fields")] = kept
+    form.pop(NameObject("/SigFlags"), None)
+    root.pop(NameObject("/Perms"), None)
+    for page in writer.pages:
+        annotations = page.get("/Annots")
+        if annotations is None:
+            continue
+        page[NameObject("/Annots")] = ArrayObject(
+            a for a in annotations.get_object() if id(a.get_object()) not in signature_ids)
+
+
+def _overlay(width: float, height: float, text: str, x: float, y: float,
+             notes: list[str] = ()) -> bytes:
     from reportlab.lib.colors import black
     from reportlab.pdfgen import canvas
 
@@ -42,6 +93,12 @@ def _overlay(width: float, height: float, text: str, x: float, y: float) -> byte
     page.setLineWidth(1.2)
     page.rect(x - 5, y - 4, text_width + 10, STAMP_SIZE + 7, stroke=1, fill=0)
     page.drawString(x, y, text)
+    from reportlab.lib.utils import simpleSplit
+    page.setFont(fonts.REGULAR, NOTE_SIZE)
+    lines = [line for note in notes
+             for line in simpleSplit(note, fonts.REGULAR, NOTE_SIZE, width - 40.0)]
+    for number, line in enumerate(lines, start=1):
+        page.drawRightString(width - 20.0, y - 8 - number * (NOTE_SIZE + 2), line)
     page.showPage()
     page.save()
     return out.getvalue()
@@ -86,6 +143,7 @@ def graded_copy(pdf_bytes: bytes, grading: Grading) -> bytes:
     from pypdf import PdfReader, PdfWriter
     from pypdf.generic import NameObject, NumberObject
     writer = PdfWriter(clone_from=PdfReader(io.BytesIO(pdf_bytes)))
+    _drop_signatures(writer)
     _own_text_appearances(writer)
     states = grading.verdict_states()
     stamp_page = None
@@ -117,7 +175,8 @@ def graded_copy(pdf_bytes: bytes, grading: Grading) -> bytes:
     width, height = float(page.mediabox.width), float(page.mediabox.height)
     # right-aligned, clear of the record's last row (the signature line below the fields)
     x, y = width, lowest.get(stamp_page, height - 40.0) - STAMP_CLEARANCE
-    overlay = PdfReader(io.BytesIO(_overlay(width, height, stamp_text(grading), x, y))).pages[0]
+    overlay = PdfReader(io.BytesIO(_overlay(width, height, stamp_text(grading), x, y,
+                                            stamp_notes(grading)))).pages[0]
     page.merge_page(overlay)
     out = io.BytesIO()
     writer.write(out)

@@ -15,7 +15,8 @@ from pathlib import Path
 
 import numpy as np
 
-from .grade import Grading, window_text
+from .grade import Grading, grading_notes, verdict_text, window_text
+from .signature import signature_text
 from .sweep import HALF_POWER_DB, SweepFeatures
 from .sweep_files import MeasuredSweep
 
@@ -107,20 +108,27 @@ def sweep_report(grading: Grading, sweep: MeasuredSweep, features: SweepFeatures
              p("Verdicts", head)]
     rows = [[p("Quantity"), p("Window"), p("Measured"), p("Verdict")]]
     for v in grading.values:
-        rows.append([p(verdict_row_name(v)), p(window_text(v)),
-                     p(v.typed or "—"), p(v.verdict)])
+        rows.append([p(verdict_row_name(v)),
+                     p("—" if v.as_found else window_text(v)), p(v.typed or "—"),
+                     p(verdict_text(v))])
+        if v.form_typed:
+            rows.append([p(f"{v.label}, typed in the form"), p(window_text(v)),
+                         p(v.form_typed), p(f"{v.form_verdict} (not used: the sweep's is)")])
     rows.append([p("Overall"), p("every value in its window"), p(""),
                  p(grading.verdict)])
     table = Table(rows, colWidths=[0.34 * width, 0.3 * width, 0.22 * width, 0.14 * width],
                   repeatRows=1)
     table.setStyle(grid)
-    story += [table, p("Record", head)]
+    notes = grading_notes(grading)
+    story += [table] + ([Spacer(1, 4)] if notes else []) + [p(note, body) for note in notes] \
+        + [p("Record", head)]
     fields = [("Unit serial number", "serial"), ("Work order", "work_order"),
               ("Technician", "technician"), ("Date tested", "date"),
               ("Test ambient temperature (°C)", "ambient_c"), ("Instruments", "instruments"),
               ("Remarks", "remarks")]
     record = Table([[p(label), p(unit.get(key) or "—")] for label, key in fields]
-                   + [[p("Content hash of the sheet"), p(grading.content_sha256)]],
+                   + [[p("Content hash of the sheet"), p(grading.content_sha256)],
+                      [p("Signature of the sheet"), p(signature_text(grading.signature))]],
                    colWidths=[0.34 * width, 0.66 * width])
     record.setStyle(TableStyle([("GRID", (0, 0), (-1, -1), 0.5, black),
                                 ("VALIGN", (0, 0), (-1, -1), "MIDDLE")]))

@@ -1,8 +1,11 @@
 """Reading a sheet back: its attached job and results, the recorded content hash, the form.
 
 `read_sheet` accepts only a sheet that `sheetgen build` wrote and whose attachments still
-match the content hash recorded at build (sheetgen.report.content_hash); anything else is an
-`InputError` naming the file. Form values are the strings a PDF viewer saved, untouched.
+match the content hash recorded at build (sheetgen.report.content_hash), and, when it is
+signed, whose signature holds (bench/signature.py); anything else is an `InputError` naming
+the file. The hash and identity are recorded twice (document information and XMP): either
+copy is read (a re-save may drop one), and two copies present must agree. Form values are
+the strings a PDF viewer saved, untouched.
 """
 
 from __future__ import annotations
@@ -16,8 +19,11 @@ from sheetgen.errors import InputError, Problem
 from sheetgen.report import content_hash
 from sheetgen.report.content_hash import XMP_NAMESPACE, content_sha256
 
+from .signature import SignatureCheck, check_signature, has_signature
+
 JOB_ATTACHMENT = "job.yaml"
 RESULTS_ATTACHMENT = "results.json"
+LIBRARY_ATTACHMENT = "library.yaml"  # only on a sheet whose design used library entries
 INFO_CONTENT_SHA256 = "/" + content_hash.INFO_CONTENT_SHA256
 INFO_SHEET_ID = "/" + content_hash.INFO_SHEET_ID
 INFO_REVISION = "/" + content_hash.INFO_REVISION
@@ -39,6 +45,8 @@ class SheetFile:
     sheet_id: str
     revision: str
     tool_version: str
+    signature: SignatureCheck | None = None  # None: the sheet is not signed
+    library_text: str | None = None  # the attached library.yaml (None: none attached)
 
 
 def _fail(path: str, field: str, message: str, expected: str = EXPECTED) -> InputError:
@@ -58,20 +66,59 @@ def _xmp_values(reader) -> dict[str, str]:
     values = {}
     for element in root.iter():
         if isinstance(element.tag, str) and element.tag.startswith("{" + XMP_NAMESPACE):
-            values[element.tag[len(XMP_NAMESPACE) + 1:]] = (element.text or "").strip()
+            values[element.tag[len(XMP_NAMESPACE) + 2:]] = (element.text or "").strip()
     return values
+
+
+# Each property a sheet records twice: its document information key and its XMP name.
+RECORDED_TWICE = (("ContentSHA256", INFO_CONTENT_SHA256), ("SheetId", INFO_SHEET_ID),
+                  ("Revision", INFO_REVISION), ("ToolVersion", INFO_TOOL_VERSION))
+
+
+def _recorded_copies(path: str, info, xmp: dict[str, str]) -> dict[str, str]:
+    """Each recorded property from whichever copies are present (document information, XMP);
+    InputError when two present copies differ. A re-save that drops one copy leaves the
+    other to be read."""
+    values = {}
+    for name, info_key in RECORDED_TWICE:
+        in_info, in_xmp = str(info.get(info_key, "") or ""), xmp.get(name, "")
+        if in_info and in_xmp and in_info != in_xmp:
+            raise _fail(path, f"metadata.{name}",
+                        f"the {name} in the XMP metadata ({in_xmp}) differs from the one in "
+                        f"the document information ({in_info}): the metadata was edited",
+                        "the two copies to agree, as `sheetgen build` writes them")
+        values[name] = in_info or in_xmp
+    return values
+
+
+def _attached_stream(reader, name: str):
+    names = reader.trailer["/Root"].get("/Names", {}).get("/EmbeddedFiles", {}).get("/Names", [])
+    for index in range(0, len(names) - 1, 2):
+        if str(names[index]) == name:
+            return names[index + 1].get_object()["/EF"]["/F"].get_object()
+    return None
+
+
+def all_attachments(reader) -> list[tuple[str, bytes]]:
+    """Every attached file as (name, bytes), in the order of the name tree."""
+    names = reader.trailer["/Root"].get("/Names", {}).get("/EmbeddedFiles", {}).get("/Names", [])
+    return [(str(names[index]), names[index + 1].get_object()["/EF"]["/F"].get_object().get_data())
+            for index in range(0, len(names) - 1, 2)]
+
+
+def recorded_metadata(reader) -> tuple[dict[str, str], dict[str, str]]:
+    """Our properties as the document information and the XMP packet record them."""
+    info = reader.metadata or {}
+    return ({key: str(info.get(key, "")) for _, key in RECORDED_TWICE}, _xmp_values(reader))
 
 
 def _attachment(reader, path: str, name: str) -> tuple[bytes, bytes | None]:
     """The attached file's bytes and the MD5 checksum its /Params recorded (if any)."""
-    names = reader.trailer["/Root"].get("/Names", {}).get("/EmbeddedFiles", {}).get("/Names", [])
-    for index in range(0, len(names) - 1, 2):
-        if str(names[index]) == name:
-            stream = names[index + 1].get_object()["/EF"]["/F"].get_object()
-            params = stream.get("/Params", {})
-            checksum = params.get("/CheckSum")
-            return stream.get_data(), (bytes(checksum.original_bytes)
-                                       if checksum is not None else None)
+    stream = _attached_stream(reader, name)
+    if stream is not None:
+        checksum = stream.get("/Params", {}).get("/CheckSum")
+        return stream.get_data(), (bytes(checksum.original_bytes)
+                                   if checksum is not None else None)
     raise _fail(path, f"attachments.{name}",
                 f"the sheet has no attached {name}; a sheet made by `sheetgen build` carries "
                 f"{JOB_ATTACHMENT} and {RESULTS_ATTACHMENT}")
@@ -80,6 +127,8 @@ def _attachment(reader, path: str, name: str) -> tuple[bytes, bytes | None]:
 def _field_values(reader) -> dict[str, str]:
     values = {}
     for name, field in (reader.get_fields() or {}).items():
+        if field.get("/FT") == "/Sig":  # the signature, not a value of the record
+            continue
         value = field.get("/V")
         if value is None:
             values[name] = "Off" if field.get("/FT") == "/Btn" else ""
@@ -90,8 +139,10 @@ def _field_values(reader) -> dict[str, str]:
     return values
 
 
-def read_sheet(path: str | Path) -> SheetFile:
-    """Read the sheet at `path`; raise InputError unless it is an intact sheetgen sheet."""
+def read_sheet(path: str | Path, trust_roots: list | None = None) -> SheetFile:
+    """Read the sheet at `path`; raise InputError unless it is an intact sheetgen sheet.
+    A signed sheet's signature is checked (bench/signature.py); with `trust_roots` (from
+    load_trust_roots) the sheet must be signed by a certificate that chains to one."""
     shown = str(path)
     try:
         data = Path(path).read_bytes()
@@ -108,46 +159,56 @@ def read_sheet(path: str | Path) -> SheetFile:
         xmp = _xmp_values(reader)
     except Exception as error:  # noqa: BLE001 - pypdf raises many kinds on a damaged file
         raise _fail(shown, "", f"cannot be read as a PDF ({error})") from None
-    recorded = str(info.get(INFO_CONTENT_SHA256, "")) or xmp.get("ContentSHA256", "")
+    copies = _recorded_copies(shown, info, xmp)
+    recorded = copies["ContentSHA256"]
     if not recorded:
-        raise _fail(shown, "", "is a PDF but not a sheetgen sheet (its metadata records no "
-                               "sheetgen content hash)")
-    if xmp.get("ContentSHA256", recorded) != recorded:
-        raise _fail(shown, "content_sha256", "the content hash in the XMP metadata differs "
-                    "from the one in the document information: the metadata was edited",
-                    "the two to agree, as `sheetgen build` writes them")
+        raise _fail(shown, "", "is a PDF but not a sheetgen sheet (neither its document "
+                               "information nor its XMP metadata records a sheetgen content "
+                               "hash)")
     try:
         job, job_checksum = _attachment(reader, shown, JOB_ATTACHMENT)
         results, results_checksum = _attachment(reader, shown, RESULTS_ATTACHMENT)
+        library_stream = _attached_stream(reader, LIBRARY_ATTACHMENT)
+        library = None if library_stream is None else library_stream.get_data()
         fields = _field_values(reader)
+        signed = has_signature(reader)
     except InputError:
         raise
     except Exception as error:  # noqa: BLE001
         raise _fail(shown, "", f"cannot be read as a PDF ({error})") from None
-    computed = content_sha256(job, results)
+    computed = content_sha256(job, results, library)
     if computed != recorded:
         changed = [label for label, blob, checksum in (("job file", job, job_checksum),
                                                        ("results", results, results_checksum))
                    if checksum is not None and hashlib.md5(blob).digest() != checksum]
         what = (" and ".join(f"the attached {label}" for label in changed)
                 if changed else "the attached job file or results")
+        if not changed and library is not None:
+            what = "the attached job file, results or library entries"
         raise _fail(shown, "content_sha256",
                     f"{what} {'was' if len(changed) == 1 else 'were'} changed after the build "
                     f"(content hash differs: recorded {recorded}, computed {computed})",
                     "the attachments exactly as `sheetgen build` wrote them")
+    if signed:
+        signature = check_signature(shown, data, trust_roots)
+    elif trust_roots:
+        raise _fail(shown, "signature", "is not signed, and a trust root was given",
+                    "a sheet signed by `sheetgen build --sign`")
+    else:
+        signature = None
     try:
         job_text = job.decode("utf-8")
+        library_text = None if library is None else library.decode("utf-8")
         results_data = json.loads(results.decode("utf-8"))
     except (UnicodeDecodeError, json.JSONDecodeError) as error:
         raise _fail(shown, f"attachments.{RESULTS_ATTACHMENT}",
                     f"the attachments cannot be read ({error})") from None
     sheet = results_data.get("sheet", {}) if isinstance(results_data, dict) else {}
     return SheetFile(
-        path=shown, job_text=job_text, results=results_data,
+        path=shown, job_text=job_text, results=results_data, signature=signature,
+        library_text=library_text,
         content_sha256_recorded=recorded, content_sha256_computed=computed, fields=fields,
-        sheet_id=str(info.get(INFO_SHEET_ID, "")) or xmp.get("SheetId", "")
-        or str(sheet.get("id", "")),
-        revision=str(info.get(INFO_REVISION, "")) or xmp.get("Revision", "")
-        or str(sheet.get("revision", "")),
-        tool_version=str(info.get(INFO_TOOL_VERSION, "")) or xmp.get("ToolVersion", "")
+        sheet_id=copies["SheetId"] or str(sheet.get("id", "")),
+        revision=copies["Revision"] or str(sheet.get("revision", "")),
+        tool_version=copies["ToolVersion"]
         or str(results_data.get("tool_version", "") if isinstance(results_data, dict) else ""))

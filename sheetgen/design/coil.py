@@ -18,7 +18,7 @@ from sheetgen.engine.magnetics import CoreLossTable, link_turns, toroid_turn_len
 from sheetgen.engine.resonance import Circuit, capacitance_for_f0, resonant_frequency_hz
 from sheetgen.engine.wire import COPPER_REFERENCE_TEMPERATURE_C, Wire, wire_from_designation
 from sheetgen.errors import FieldError
-from sheetgen.inputs.library import PartsLibrary
+from sheetgen.inputs.library import LibraryEntry, PartsLibrary
 from sheetgen.inputs.model import CoreSpec, Job, MaterialSpec, SolenoidInductor, ToroidInductor
 
 AIR_CORE_TOLERANCE = 0.05  # hand-wound single-layer coils, set by turn spacing (common practice)
@@ -75,6 +75,16 @@ def _lookup(library: PartsLibrary | None, kind: str, name: str, field: str):
     known = ", ".join(sorted(table)) or "none"
     singular = kind[:-1]
     raise FieldError(field, f"no {singular} named {name!r} in {where}; known {kind}: {known}")
+
+
+def used_library_entries(parts: ResolvedToroid | None,
+                         library: PartsLibrary | None) -> tuple[LibraryEntry, ...]:
+    """The library entries a toroid's core and material came from (inline ones are in the
+    job itself): what a sheet records so its design can be made again anywhere."""
+    if parts is None or library is None:
+        return ()
+    found = (library.entry("cores", parts.core_name), library.entry("materials", parts.material_name))
+    return tuple(entry for entry in found if entry is not None)
 
 
 def resolve_wire(text: str, grade: int, field: str) -> Wire:

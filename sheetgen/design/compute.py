@@ -50,12 +50,14 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                          "give capacitor.trimmer (its minimum and maximum)")
     f_design = f0_target or float(resonance.resonant_frequency_hz(target_l, required_c))
     coil = parts = None
+    library_entries = ()
     if job.inductor.form == "given":
         inductance = target_l
     else:
-        from sheetgen.design.coil import design_coil, resolve_toroid
+        from sheetgen.design.coil import design_coil, resolve_toroid, used_library_entries
         if job.inductor.form == "toroid":
             parts = resolve_toroid(job.inductor, library)
+            library_entries = used_library_entries(parts, library)
         coil = design_coil(job.inductor, parts, target_l, f_design, None)
         inductance = coil.inductance_built_h
         if job.capacitor.capacitance is None:  # re-centre f0 on the whole-turn coil
@@ -185,7 +187,8 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                                                      capacitance_f=required_c),
                   stress_open_load=open_stress,
                   bleeder=bleeder_duty(job, worst.stress, dc), bench=bench, worst=worst, dc=dc,
-                  coil_at_worst=coil_at_worst, model=model, duties=duties)
+                  coil_at_worst=coil_at_worst, model=model, duties=duties,
+                  library_entries=library_entries)
 
 
 def _drive_rms(drive, circuit) -> float:

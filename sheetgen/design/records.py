@@ -20,6 +20,7 @@ from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import StandardPair
 from sheetgen.engine.stress import DcFeed, Drive, Stress, WorstCase
 from sheetgen.engine.wire import Wire
+from sheetgen.inputs.library import LibraryEntry
 from sheetgen.inputs.model import Job
 
 
@@ -184,3 +185,5 @@ class Design:
     worst: WorstCase | None = None  # the worst credible case: what parts are rated at
     dc: DcFeed | None = None  # where the job's DC supply sits in the tank
     coil_at_worst: ToroidCoil | SolenoidCoil | None = None  # the designed coil at `worst`
+    # the parts-library entries (core, material) the design used, as their files wrote them
+    library_entries: tuple[LibraryEntry, ...] = ()

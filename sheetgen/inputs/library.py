@@ -5,11 +5,16 @@ the job's own `library:` field (relative to the job file); the nearest folder na
 `shared/` above the job file that holds library files; the library shipped with sheetgen.
 Every *.yaml file of the folder is read except house styles (style-NAME.yaml); names must
 be unique across the files.
+
+A built sheet records the entries its design used (`recorded_library_text`: the data as
+written, attached as library.yaml), so the record re-designs anywhere from them; an entry
+of a local library that reuses a shipped entry's name with other data is noted
+(`LibraryEntry.shadows`) so the build can say which one it used.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 
 from sheetgen.errors import InputError, Problem
@@ -19,16 +24,37 @@ from sheetgen.inputs.reader import load_validated_located
 
 STYLE_FILE_PREFIX = "style-"  # house styles may share the team's library folder
 LIBRARY_MARKERS = ("cores.yaml", "materials.yaml")
+RECORDED_LIBRARY_HEADER = (
+    "# The parts-library entries the design of this sheet used, as written in the library\n"
+    "# at build (sheetgen build). `sheetgen verify` designs the attached job from these.\n")
+
+
+@dataclass(frozen=True)
+class LibraryEntry:
+    """One entry of a library as its file wrote it: `kind` "cores" or "materials", the
+    plain data, the file it came from, and the shipped library's file when that holds an
+    entry of the same name with other data (None otherwise)."""
+
+    kind: str
+    name: str
+    data: object
+    origin: str
+    shadows: str | None = None
 
 
 @dataclass(frozen=True)
 class PartsLibrary:
-    """Materials and cores by name, and where each came from (for messages)."""
+    """Materials and cores by name, and where each came from (for messages); `entries` the
+    data as written, by "kind.name"."""
 
     folder: str
     materials: dict[str, MaterialSpec]
     cores: dict[str, CoreSpec]
     origin: dict[str, str]
+    entries: dict[str, LibraryEntry] = field(default_factory=dict)
+
+    def entry(self, kind: str, name: str) -> LibraryEntry | None:
+        return self.entries.get(f"{kind}.{name}")
 
 
 def find_library_folder(job_path: Path, named: str | None, cli_folder: Path | None) -> Path:
@@ -59,6 +85,7 @@ def load_library(folder: Path) -> PartsLibrary:
     materials: dict[str, MaterialSpec] = {}
     cores: dict[str, CoreSpec] = {}
     origin: dict[str, str] = {}
+    entries: dict[str, LibraryEntry] = {}
     problems: list[Problem] = []
     for path in library_files(folder):
         try:
@@ -80,6 +107,39 @@ def load_library(folder: Path) -> PartsLibrary:
                     continue
                 store[name] = spec
                 origin[key] = str(path)
+                entries[key] = LibraryEntry(kind, name, located.data[kind][name], str(path))
     if problems:
         raise InputError(problems)
-    return PartsLibrary(str(folder), materials, cores, origin)
+    return PartsLibrary(str(folder), materials, cores, origin, _with_shadows(folder, entries))
+
+
+def _with_shadows(folder: Path, entries: dict[str, LibraryEntry]) -> dict[str, LibraryEntry]:
+    """`entries` with `shadows` set where the shipped library has the name with other data."""
+    shipped_folder = bundled_library_folder()
+    if not entries or Path(folder).resolve() == Path(shipped_folder).resolve():
+        return entries
+    shipped = load_library(shipped_folder).entries
+    out = {}
+    for key, entry in entries.items():
+        other = shipped.get(key)
+        if other is not None and other.data != entry.data:
+            entry = LibraryEntry(entry.kind, entry.name, entry.data, entry.origin, other.origin)
+        out[key] = entry
+    return out
+
+
+def recorded_library_text(entries: tuple[LibraryEntry, ...]) -> str | None:
+    """The entries used, as a library file of their own (None when none was used)."""
+    if not entries:
+        return None
+    import yaml
+    return RECORDED_LIBRARY_HEADER + yaml.safe_dump(library_document(entries), sort_keys=False,
+                                                    allow_unicode=True, width=100)
+
+
+def library_document(entries: tuple[LibraryEntry, ...]) -> dict[str, dict]:
+    """The entries as a library file's data: {kind: {name: data}}."""
+    document: dict[str, dict] = {}
+    for entry in entries:
+        document.setdefault(entry.kind, {})[entry.name] = entry.data
+    return document

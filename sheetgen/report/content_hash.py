@@ -19,20 +19,24 @@ INFO_TOOL_VERSION = "SheetgenToolVersion"
 XMP_NAMESPACE = "https://sheetgen.invalid/ns/sheet/1.0/"  # .invalid: reserved, RFC 2606
 
 
-def content_sha256(job_bytes: bytes, results_bytes: bytes) -> str:
+def content_sha256(job_bytes: bytes, results_bytes: bytes,
+                   library_bytes: bytes | None = None) -> str:
     """SHA-256 (FIPS 180-4) of the attachments, as 64 lowercase hexadecimal digits.
 
     The hashed byte sequence is
 
-        len(job) ‖ job ‖ len(results) ‖ results
+        len(job) ‖ job ‖ len(results) ‖ results [‖ len(library) ‖ library]
 
     where `job` is exactly the bytes attached as job.yaml, `results` exactly the bytes
-    attached as results.json, and each length is an unsigned 64-bit big-endian integer
-    (8 bytes) counting the bytes that follow it. The lengths keep the boundary between
-    the two files from moving: no other pair of files gives the same sequence.
+    attached as results.json, `library` exactly the bytes attached as library.yaml (only
+    a sheet whose design used parts-library entries has it; without it the sequence ends
+    after the results), and each length is an unsigned 64-bit big-endian integer (8 bytes)
+    counting the bytes that follow it. The lengths keep the boundaries between the files
+    from moving: no other set of files gives the same sequence.
     """
     digest = hashlib.sha256()
-    for part in (job_bytes, results_bytes):
+    parts = (job_bytes, results_bytes) + (() if library_bytes is None else (library_bytes,))
+    for part in parts:
         digest.update(len(part).to_bytes(8, "big"))
         digest.update(part)
     return digest.hexdigest()

@@ -1,5 +1,6 @@
-"""What changed between two revisions of a design: inputs, derived values, limits, ratings
-and cautions, from two job documents and two results documents (sheetgen.results/1).
+"""What changed between two revisions of a design: inputs, the parts-library entries used,
+derived values, limits, the test record (its windows), ratings, cautions and every other
+key of the results, from two job documents and two results documents (sheetgen.results/1).
 
 Pure: plain data in, rows out. Numbers are equal within a relative tolerance of 1e-9; a
 value is shown in engineering notation with the unit its key's suffix names.
@@ -18,7 +19,12 @@ REL_TOL = 1e-9
 UNIT_SUFFIXES = (("_hz", "Hz"), ("_f", "F"), ("_h", "H"), ("_ohm", "Ω"), ("_v", "V"),
                  ("_a", "A"), ("_w", "W"), ("_t", "T"), ("_m", "m"))
 DERIVED = ("components", "resonance", "stress", "inductor")
+# Results keys a section below reads; every other key but the computing tool's version goes
+# to the "other" section, so no part of the results is left uncompared.
+SECTIONED = {*DERIVED, "variation", "limits", "test_record", "ratings", "checks", "cautions",
+             "tool_version"}
 MISSING = "—"
+WRAP = 60  # characters of a text per line of the table (a word, path or key is not cut)
 
 
 @dataclass(frozen=True)
@@ -74,8 +80,9 @@ def _by_name(items: list[dict], name) -> dict[str, dict]:
     return out
 
 
-def _sections(job: object, results: dict) -> dict[str, dict[str, object]]:
-    """Each section's flat {key: value} for one revision."""
+def _sections(job: object, results: dict, library: object = None) -> dict[str, dict[str, object]]:
+    """Each section's flat {key: value} for one revision (`library`: the parts-library
+    entries its design used, {kind: {name: data}}, or None when not known)."""
     derived = {}
     for name in DERIVED:
         derived.update(_flatten(results.get(name), (name,)))
@@ -93,19 +100,47 @@ def _sections(job: object, results: dict) -> dict[str, dict[str, object]]:
     cautions = {key: f"{c.get('level', '').upper()}: {c.get('text')}"
                 for key, c in _by_name(results.get("cautions", []),
                                        lambda c: str(c.get("code"))).items()}
+    variation = results.get("variation") or {}
+    other = _flatten({key: value for key, value in results.items() if key not in SECTIONED})
+    # the variation's statistics, which the limits sum up, are compared too
+    other.update(_flatten({key: value for key, value in variation.items()
+                           if isinstance(value, dict)}, ("variation",)))
     return {
         "inputs": _flatten(job),
+        "library": _flatten(library, ("library",)) if library else {},
         "derived": derived,
         "limits": _flatten(results.get("limits"), ("limits",)),
+        "test_record": _test_record(results.get("test_record")),
         "ratings": ratings,
         "cautions": cautions,
+        "other": other,
     }
 
 
-def diff_rows(job_a: object, results_a: dict, job_b: object, results_b: dict) -> list[DiffRow]:
+def _test_record(record) -> dict[str, object]:
+    """The test record flat, each window row keyed by its form field
+    ('test_record.measured.f0_hz.min'), so a row reads the same wherever it is printed."""
+    if not isinstance(record, dict):
+        return _flatten(record, ("test_record",))
+    rows = record.get("values")
+    out = _flatten({k: v for k, v in record.items() if k != "values"}, ("test_record",))
+    if not isinstance(rows, list) or not all(isinstance(row, dict) for row in rows):
+        out.update(_flatten(rows, ("test_record", "values")))
+        return out
+    for key, row in _by_name(rows, lambda r: str(r.get("field"))).items():
+        out.update(_flatten(row, ("test_record", key)))
+    return out
+
+
+def diff_rows(job_a: object, results_a: dict, job_b: object, results_b: dict,
+              library_a: object = None, library_b: object = None) -> list[DiffRow]:
     """Every value that differs between revision A and revision B, section by section, in
-    the order of A's keys (keys only in B after them)."""
-    a_sections, b_sections = _sections(job_a, results_a), _sections(job_b, results_b)
+    the order of A's keys (keys only in B after them). The library sections compare the
+    parts-library entries each design used, when both are given."""
+    if library_a is None or library_b is None:
+        library_a = library_b = None
+    a_sections = _sections(job_a, results_a, library_a)
+    b_sections = _sections(job_b, results_b, library_b)
     rows = []
     for section, a_values in a_sections.items():
         b_values = b_sections[section]
@@ -155,16 +190,22 @@ def shown_pair(row: DiffRow) -> tuple[str, str]:
 
 def diff_table(rows: list[DiffRow], name_a: object = "A", name_b: object = "B") -> str:
     """The changes as an aligned table (section, field, A, B), or a line saying there are
-    none."""
+    none. A cell longer than WRAP characters (a caution's text) is wrapped onto more lines."""
     if not rows:
         return f"no differences between {name_a} and {name_b}\n"
+    import textwrap
     cells = [("section", "field", str(name_a), str(name_b))]
     cells += [(row.section, row.key, *shown_pair(row)) for row in rows]
-    widths = [max(len(line[k]) for line in cells) for k in range(3)]
+    wrapped = [[textwrap.wrap(text, WRAP, break_long_words=False,
+                                             break_on_hyphens=False) or [""] for text in line]
+               for line in cells]
+    widths = [max(len(part) for line in wrapped for part in line[k]) for k in range(3)]
     lines = []
-    for line in cells:
-        lines.append("  ".join(text.ljust(width) for text, width in zip(line[:3], widths))
-                     + "  " + line[3])
+    for line in wrapped:
+        for depth in range(max(len(parts) for parts in line)):
+            texts = [parts[depth] if depth < len(parts) else "" for parts in line]
+            lines.append("  ".join(text.ljust(width) for text, width in zip(texts[:3], widths))
+                         + "  " + texts[3])
     return "\n".join(line.rstrip() for line in lines) + "\n"
 
 

@@ -224,3 +224,11 @@ def headline(design: Design) -> str:
     if r.q_loaded is not None:
         parts.append(f"loaded Q {format_number(r.q_loaded, 4)}")
     return " · ".join(parts)
+
+
+def library_notices(design: Design) -> list[str]:
+    """A NOTICE for each library entry the design used from a local library that reuses a
+    shipped entry's name with other data: which file it came from, which it shadows."""
+    return [f"NOTICE: {entry.kind}.{entry.name} taken from {entry.origin}; the shipped "
+            f"library's {entry.name!r} ({entry.shadows}) has other data and was not used"
+            for entry in design.library_entries if entry.shadows]

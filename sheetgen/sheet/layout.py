@@ -31,6 +31,7 @@ from reportlab.platypus import BaseDocTemplate, Frame, PageTemplate, Spacer
 from sheetgen import __version__
 from sheetgen.design.records import Design
 from sheetgen.errors import FieldError, InputError, Problem
+from sheetgen.inputs.library import recorded_library_text
 from sheetgen.inputs.reader import field_position
 from sheetgen.inputs.style import HouseStyle, check_logo_inside, default_style
 from sheetgen.report.content_hash import (
@@ -56,9 +57,11 @@ LEADING = 1.18  # line pitch of the page frame's text, in font sizes
 TOO_LONG = f"is too long to print whole in its cell of the title block, even at {LEGIBLE_FLOOR} pt"
 PAGE_TOTAL_FORM = "sheetgenPageTotal"
 ATTACHMENTS = (("job.yaml", "application/x-yaml", "the job file this sheet was made from"),
-               ("results.json", "application/json", "the computed results (sheetgen.results/1)"))
+               ("results.json", "application/json", "the computed results (sheetgen.results/1)"),
+               ("library.yaml", "application/x-yaml", "the parts-library entries the design "
+                "used, as written in the library at build"))
 # How each attachment relates to the sheet (ISO 32000-2, 14.13.2; required by PDF/A-3).
-AF_RELATIONSHIP = {"job.yaml": "Source", "results.json": "Data"}
+AF_RELATIONSHIP = {"job.yaml": "Source", "results.json": "Data", "library.yaml": "Source"}
 
 
 # --- identity on every page ---------------------------------------------------------------
@@ -241,7 +244,8 @@ def _draw_box(canvas: Canvas, box: TextBox, text: str) -> None:
             canvas.drawString(box.x, _baseline(box, size, index), line)
 
 
-def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size) -> None:
+def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size,
+                     attached: str = "job.yaml, results.json") -> None:
     """Header (organisation, logo) and the title block with signature lines."""
     page_w, page_h = page_size
     left, width = MARGIN, page_w - 2 * MARGIN
@@ -293,7 +297,7 @@ def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size) -> None:
     canvas.rect(left, y_c, width, _ROW_C, stroke=1, fill=0)
     canvas.setFont(fonts.REGULAR, 6.5)
     canvas.drawString(left + 3, y_c + 3.5, f"made by sheetgen {__version__} from the job file "
-                      "attached to this PDF (job.yaml, results.json)")
+                      f"attached to this PDF ({attached})")
     canvas.restoreState()
 
 
@@ -449,12 +453,16 @@ def _render(design: Design, job_text: str, results_text: str, job_dir: Path | No
         heading = para(f"{number}  {content.title}", kit.heading)
         story += with_heading(heading, content.flowables)
     job_bytes, results_bytes = job_text.encode("utf-8"), results_text.encode("utf-8")
+    library_text = recorded_library_text(design.library_entries)
+    library_bytes = None if library_text is None else library_text.encode("utf-8")
     attachments = [(name, data, mime, description) for (name, mime, description), data
-                   in zip(ATTACHMENTS, (job_bytes, results_bytes))]
+                   in zip(ATTACHMENTS, (job_bytes, results_bytes, library_bytes))
+                   if data is not None]
+    attached = ", ".join(name for name, *_ in attachments)
     archive = _Archive(_sheet_moment(sheet.date), sheet.id, sheet.revision,
-                       content_sha256(job_bytes, results_bytes))
+                       content_sha256(job_bytes, results_bytes, library_bytes))
     digest = hashlib.sha256()
-    for part in (__version__, repr(style), job_text, results_text):
+    for part in (__version__, repr(style), job_text, results_text, library_text or ""):
         digest.update(part.encode("utf-8") + b"\0")
     buffer = io.BytesIO()
     doc = BaseDocTemplate(
@@ -467,6 +475,6 @@ def _render(design: Design, job_text: str, results_text: str, job_dir: Path | No
         leftMargin=MARGIN, rightMargin=MARGIN, topMargin=MARGIN, bottomMargin=MARGIN)
     doc.addPageTemplates([PageTemplate(
         "sheet", [frame], pagesize=page_size,
-        onPage=lambda canvas, _doc: _draw_page_frame(canvas, identity, page_size))])
+        onPage=lambda canvas, _doc: _draw_page_frame(canvas, identity, page_size, attached))])
     doc.build(story, canvasmaker=_canvas_class(attachments, digest.digest()[:16], archive))
     return buffer.getvalue()

@@ -237,3 +237,27 @@ def test_a_sweep_coarser_than_the_windows_is_refused(root, tmp_path, capsys):
     from sheetgen.quantities import FREQUENCY, parse_quantity
     assert parse_quantity(step.group(1), FREQUENCY) <= (high - low) / 2
     assert parse_quantity(span.group(1), FREQUENCY) >= 6 * bandwidth
+
+
+def test_a_typed_value_a_sweep_replaces_is_kept_and_graded(root, tmp_path, capsys):
+    """The form says f_high is one unit of its last printed digit above the window (fail);
+    the sweep's f_high (ngspice) passes. Both are shown; the verdict uses the sweep's."""
+    pdf, results = _sheet(root, "parallel")
+    frequency_hz, response, _, _ = _simulate(results, *_sheet_sweep("parallel"))
+    sweep = _csv(tmp_path / "tank.csv", frequency_hz, response)
+    from tests.bench.test_grade import nudged, printed_windows, typed
+    _, high, unit = printed_windows(pdf)["measured.f_high_hz"]
+    too_high = typed(nudged(high, +1), unit)
+    filled = fill(pdf, {**IDENTITY, "measured.f_high_hz": too_high}, tmp_path / "filled.pdf")
+    record, report = tmp_path / "r.json", tmp_path / "report.pdf"
+    capsys.readouterr()
+    main(["grade", str(filled), "--sweep", str(sweep), "--json", str(record), "-o", str(report)])
+    out = capsys.readouterr().out
+    value = next(v for v in _record(record)["values"] if v["field"] == "measured.f_high_hz")
+    assert value["verdict"] == "pass" and value["typed"].startswith("sweep: ")
+    assert value["form"]["typed"] == too_high and value["form"]["verdict"] == "fail"
+    assert f"f_high_hz: the form says {too_high} (fail), the sweep " in out
+    assert "the verdict uses the sweep's" in out
+    text = " ".join(subprocess.run(["pdftotext", str(report), "-"], capture_output=True,
+                                   text=True, check=True).stdout.split())
+    assert "typed in the form" in text and "not used: the sweep's is" in text

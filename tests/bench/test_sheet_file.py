@@ -43,8 +43,11 @@ def test_a_fresh_sheet_reads_back(sheet):
     read = read_sheet(pdf)
     assert read.job_text == job.read_text(encoding="utf-8")
     assert read.results == json.loads(results.read_text(encoding="utf-8"))
+    with pikepdf.open(pdf) as doc:  # the demo's core comes from the library: recorded too
+        library = doc.attachments["library.yaml"].get_file().read_bytes()
+    assert read.library_text == library.decode("utf-8")
     sequence = b"".join(len(b).to_bytes(8, "big") + b
-                        for b in (job.read_bytes(), results.read_bytes()))
+                        for b in (job.read_bytes(), results.read_bytes(), library))
     assert read.content_sha256_recorded == hashlib.sha256(sequence).hexdigest()
     assert read.content_sha256_computed == read.content_sha256_recorded
     assert read.sheet_id == read.results["sheet"]["id"]

@@ -151,15 +151,18 @@ def test_xmp_identifies_pdfa_and_agrees_with_the_document_information(built):
         assert meta[ns + "SheetId"] == sheet["id"] == str(info["/SheetgenSheetId"])
         assert meta[ns + "Revision"] == sheet["revision"]
         # FIPS 180-4 via hashlib over the documented sequence (sheetgen/content_hash.py):
-        # 8-byte big-endian length, job bytes, 8-byte big-endian length, results bytes.
+        # 8-byte big-endian length, job bytes, 8-byte big-endian length, results bytes, and
+        # the same for the library entries (the demo's core comes from the parts library).
         job_bytes = pdf.attachments["job.yaml"].get_file().read_bytes()
         results_bytes = pdf.attachments["results.json"].get_file().read_bytes()
+        library_bytes = pdf.attachments["library.yaml"].get_file().read_bytes()
         assert job_bytes == job.read_bytes() and results_bytes == results.read_bytes()
-        sequence = b"".join(len(b).to_bytes(8, "big") + b for b in (job_bytes, results_bytes))
+        sequence = b"".join(len(b).to_bytes(8, "big") + b
+                            for b in (job_bytes, results_bytes, library_bytes))
         assert recorded == hashlib.sha256(sequence).hexdigest()
         # ISO 19005-3 6.8: each attachment is an associated file with its relationship
         af = {str(spec.UF): str(spec.AFRelationship) for spec in pdf.Root.AF}
-        assert af == {"job.yaml": "/Source", "results.json": "/Data"}
+        assert af == {"job.yaml": "/Source", "results.json": "/Data", "library.yaml": "/Source"}
 
 
 def test_output_intent_carries_an_srgb_icc_profile(built):
