@@ -4,7 +4,12 @@ setting for the capacitance the design needs."""
 from __future__ import annotations
 
 from sheetgen.design.records import CapacitanceAcross, CapacitorChoice
-from sheetgen.engine.standard_values import SERIES_TOLERANCE, best_parallel_pair, nearest_standard
+from sheetgen.engine.standard_values import (
+    DEFAULT_STRAY_CAPACITANCE_F,
+    SERIES_TOLERANCE,
+    best_parallel_pair,
+    nearest_standard,
+)
 from sheetgen.errors import FieldError
 from sheetgen.inputs.model import Job
 
@@ -13,13 +18,23 @@ def capacitance_across(job: Job, coil=None) -> CapacitanceAcross:
     """What is across the tuning capacitor besides the parts: in a parallel tank the coil's
     self-capacitance (Medhurst's for a solenoid, the job's for a ring) and the strays
     (capacitor.stray); in a series circuit the strays only. The bench test puts nothing
-    across the tank: its receiver is in the load (engine/bench.py)."""
-    stray = job.capacitor.stray
+    across the tank: its receiver is in the load (engine/bench.py).
+
+    The default stray is counted only where sheetgen chooses the capacitor (design mode);
+    a capacitance the job states is the tank's, plus only the stray the job writes."""
+    cap = job.capacitor
+    stated = cap.capacitance is not None
+    if cap.stray is not None:
+        stray, stray_source = cap.stray, "job"
+    elif stated:
+        stray, stray_source = 0.0, "none"
+    else:
+        stray, stray_source = DEFAULT_STRAY_CAPACITANCE_F, "default"
     if job.circuit.topology != "parallel":
-        return CapacitanceAcross(0.0, stray, "none")
+        return CapacitanceAcross(0.0, stray, "none", stray_source, stated)
     own = getattr(coil, "self_capacitance_f", None) if coil is not None else None
     source = "none" if own is None else getattr(coil, "srf_basis", "job")
-    return CapacitanceAcross(own or 0.0, stray, source)
+    return CapacitanceAcross(own or 0.0, stray, source, stray_source, stated)
 
 
 def capacitor_choice(job: Job, required_c: float,

@@ -30,6 +30,8 @@ class CapacitanceAcross:
     self_capacitance_f: float
     stray_f: float
     self_source: str  # "medhurst_1947", "job" or "none"
+    stray_source: str = "job"  # "job", "default" (design mode) or "none"
+    added: bool = False  # added to a capacitance the job states, not subtracted from a fit
 
     @property
     def total_f(self) -> float:

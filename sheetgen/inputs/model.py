@@ -35,7 +35,7 @@ from sheetgen.engine.limits import (
     DEFAULT_LCR_ACCURACY,
 )
 from sheetgen.engine.ratings import DEFAULT_CURRENT_DERATING, DEFAULT_VOLTAGE_DERATING
-from sheetgen.engine.standard_values import SERIES_TOLERANCE
+from sheetgen.engine.standard_values import DEFAULT_STRAY_CAPACITANCE_F, SERIES_TOLERANCE
 from sheetgen.engine.variation import DEFAULT_COVERAGE, DEFAULT_SEED, DEFAULT_TRIALS
 
 
@@ -467,9 +467,12 @@ class CapacitorSection(Section):
     bleeder_rated_voltage: Voltage | None = Field(
         None, description="working-voltage rating of the bleeder (peak), checked against the "
         "tank's RF peak (omit: the sheet states the minimum to buy)")
-    stray: SmallCapacitance = Field(2e-12, description="wiring and layout capacitance across the "
-                               "capacitor, subtracted from the capacitance to fit (default "
-                               "2 pF, common practice for short point-to-point wiring)")
+    stray: SmallCapacitance | None = Field(
+        None, description="wiring and layout capacitance across the capacitor. Design mode "
+        "(no capacitance given): subtracted from the capacitance to fit (omit: "
+        f"{DEFAULT_STRAY_CAPACITANCE_F * 1e12:g} pF, common practice for short point-to-point "
+        "wiring). With a capacitance given: added to it (omit: none, the capacitance given is "
+        "the tank's)")
 
     @model_validator(mode="after")
     def _one_loss(self):

@@ -46,8 +46,7 @@ def component_rows(design: Design) -> list[Row]:
         Row("Topology", c.topology),
         Row("Inductance L", quantity_text(c.inductance_h, "H"), inductance_remark),
         Row("Coil loss resistance rL", quantity_text(c.inductor_resistance_ohm, "Ω"), loss_remark),
-        Row("Capacitance C", quantity_text(c.capacitance_f, "F"),
-            "as fitted, with what is already across it"),
+        Row("Capacitance C", quantity_text(c.capacitance_f, "F"), _capacitance_remark(design)),
     ]
     rows += capacitor_rows(design)
     rows += across_rows(design)
@@ -62,28 +61,42 @@ def component_rows(design: Design) -> list[Row]:
     return rows
 
 
+def _capacitance_remark(design: Design) -> str:
+    across = design.capacitor_choice.across
+    if across is not None and across.added:
+        return ("as the job states it" if across.total_f == 0.0
+                else "the job's capacitance, with what is across it")
+    return "as fitted, with what is already across it"
+
+
 def across_rows(design: Design) -> list[Row]:
-    """The capacitance across C that is not a part to fit, subtracted before choosing."""
+    """The capacitance across C that is not a part to fit: subtracted before choosing the
+    parts (design mode), or added to the capacitance the job states."""
     across = design.capacitor_choice.across
     if across is None:
         return []
     source = {"medhurst_1947": "Medhurst (1947)", "job": "from the job"}.get(across.self_source)
-    parts = [f"strays {quantity_text(across.stray_f, 'F')} (capacitor.stray)"]
+    stray = {"job": "strays {} (capacitor.stray)",
+             "default": "strays {} (default for short point-to-point wiring, common practice; "
+                        "capacitor.stray)",
+             "none": "no strays counted (capacitor.stray)"}[across.stray_source]
+    parts = [stray.format(quantity_text(across.stray_f, "F"))]
     if design.circuit.topology == "parallel":
         parts.insert(0, "coil self-capacitance none estimated (give inductor.self_capacitance)"
                      if across.self_source == "none" else
                      f"coil self-capacitance {quantity_text(across.self_capacitance_f, 'F')}"
                      f" ({source})")
+    how = ("added to the job's capacitance: " if across.added
+           else "subtracted from the capacitance to fit: ")
     return [Row("Capacitance already across C", quantity_text(across.total_f, "F"),
-                "subtracted from the capacitance to fit: " + ", ".join(parts))]
+                how + ", ".join(parts))]
 
 
 def capacitor_rows(design: Design) -> list[Row]:
     """What capacitance the design needs and which standard parts make it up."""
     choice = design.capacitor_choice
-    if not choice.from_standard_parts:
-        return [Row(f"Nearest {choice.series} value", quantity_text(choice.nearest_f, "F", 3),
-                    f"{signed((choice.nearest_f / choice.required_f - 1) * 100, 2)} %")]
+    if not choice.from_standard_parts:  # the job states the part built: nothing to pick
+        return []
     derived = {d.field: d.reason for d in design.derived}
     parts = " + ".join(quantity_text(v, "F", 3) for v in choice.fixed_parts_f)
     rows = [Row("Capacitance required", quantity_text(choice.required_f, "F"),
