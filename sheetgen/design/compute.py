@@ -18,6 +18,7 @@ from sheetgen.design.plausibility import CAPACITANCE_MIN_F, LOADED_Q_MIN, plausi
 from sheetgen.design.records import CoilDesign, Derivation, Design
 from sheetgen.engine import resonance
 from sheetgen.engine.stress import DriveError, open_load_stress, part_stress, worse_stress
+from sheetgen.engine.variation import BOUGHT_COIL_TOLERANCE
 from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import Job
@@ -191,8 +192,9 @@ def _coil_loss(job: Job, coil, x0: float, f0: float) -> tuple[float, float, str]
 def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
             coil: CoilDesign | None, f0_target, open_stress=None, bench=None):
     """The limits and rating checks, with the coil's tolerance and temperature data."""
-    if coil is None:
-        tolerance = job.inductor.tolerance
+    if coil is None:  # a bought coil: never exact unless the job says so
+        tolerance = (job.inductor.tolerance if job.inductor.tolerance is not None
+                     else BOUGHT_COIL_TOLERANCE)
         tc = job.inductor.temperature_coefficient
         return assess(job, circuit, analysed, stress, response, names,
                       f0_target_hz=f0_target, fixed_capacitance_f=choice.fixed_f,

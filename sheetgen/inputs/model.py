@@ -36,7 +36,13 @@ from sheetgen.engine.limits import (
 )
 from sheetgen.engine.ratings import DEFAULT_CURRENT_DERATING, DEFAULT_VOLTAGE_DERATING
 from sheetgen.engine.standard_values import DEFAULT_STRAY_CAPACITANCE_F, SERIES_TOLERANCE
-from sheetgen.engine.variation import DEFAULT_COVERAGE, DEFAULT_SEED, DEFAULT_TRIALS
+from sheetgen.engine.variation import (
+    BOUGHT_COIL_TOLERANCE,
+    COIL_Q_SPREAD,
+    DEFAULT_COVERAGE,
+    DEFAULT_SEED,
+    DEFAULT_TRIALS,
+)
 
 
 def _quantity(dimension: quantities.Dimension, minimum: float | None = 0.0, inclusive: bool = False,
@@ -223,6 +229,12 @@ class CircuitSection(Section):
                              "a parallel tank's coil from discharging its capacitor for DC")
 
 
+QTolerance = Field(None, description="± unit-to-unit spread of the coil's Q (of its loss "
+                   "resistance), e.g. 15 % (omit: variation.loss_tolerance, else "
+                   f"{COIL_Q_SPREAD * 100:g} %, common "
+                   "practice for a maker's stated Q, a measured prototype or an estimate)")
+
+
 class GivenInductor(Section):
     """A coil whose inductance and loss are known (measured or from its maker's sheet)."""
 
@@ -233,7 +245,10 @@ class GivenInductor(Section):
     resistance: LossResistance | None = Field(
         None, description="the coil's series loss resistance at f0 (instead of q)")
     tolerance: Tolerance | None = Field(None, description="± tolerance of the inductance, e.g. "
-                                       "5 % (omit: taken as exact)")
+                                       f"5 % (omit: {BOUGHT_COIL_TOLERANCE * 100:g} %, common "
+                                       "practice for a bought RF inductor; 0 % for a coil "
+                                       "measured and selected)")
+    q_tolerance: Tolerance | None = QTolerance
     temperature_coefficient: TemperatureCoefficient | None = Field(
         None, description="temperature coefficient of the inductance, e.g. 50 ppm/K")
 
@@ -365,6 +380,7 @@ class ToroidInductor(Section):
         "its Q near it")
     q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
                                      "the estimate (optional)")
+    q_tolerance: Tolerance | None = QTolerance
     tolerance: Tolerance | None = Field(None, description="± tolerance of the wound inductance "
                                        "(default: the core's AL tolerance, else its material's "
                                        "µi tolerance)")
@@ -396,6 +412,7 @@ class SolenoidInductor(Section):
                                  "(at most 300 mm)")
     q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
                                      "the estimate (optional)")
+    q_tolerance: Tolerance | None = QTolerance
     tolerance: Tolerance | None = Field(None, description="± tolerance of the wound inductance "
                                        "(default 5 %, common practice for hand-wound coils)")
     temperature_coefficient: TemperatureCoefficient | None = Field(
@@ -548,8 +565,9 @@ class VariationSection(Section):
     coverage: Fraction = Field(DEFAULT_COVERAGE, description="share of correctly built units the limits "
                                "must pass, e.g. 99.73 %")
     loss_tolerance: Tolerance | None = Field(
-        None, description="± spread of the coil's loss resistance and the capacitor's ESR "
-        "(omit: exact)")
+        None, description="± spread of the capacitor's ESR and (unless inductor.q_tolerance "
+        "is given) of the coil's loss resistance (omit: ESR exact, coil "
+        f"{COIL_Q_SPREAD * 100:g} %, common practice)")
     temperature: OperatingTemperature = Field(
         OperatingTemperature(), description="operating ambient range (default 15 to 35 °C, a "
         "bench and indoor range)")
@@ -666,7 +684,8 @@ class Job(Section):
         bands = {"inductor.tolerance": self.inductor.tolerance,
                  "capacitor.tolerance": self.capacitor.tolerance,
                  "load.tolerance": self.load.tolerance if self.load is not None else None,
-                 "variation.loss_tolerance": self.variation.loss_tolerance}
+                 "variation.loss_tolerance": self.variation.loss_tolerance,
+                 "inductor.q_tolerance": self.inductor.q_tolerance}
         for field, band in bands.items():
             if band is not None and band > NORMAL_BAND_MAX:
                 raise PydanticCustomError(

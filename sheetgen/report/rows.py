@@ -342,26 +342,46 @@ def limits_rows(design: Design) -> list[Row]:
             f"{operating.temperature_max_c:g} °C", "operating range: see over temperature"),
         Row("Capacitor tolerance", tolerance_text(a.capacitor_tolerance),
             f"from {a.capacitor_tolerance_source}"),
-        Row("Inductance tolerance", tolerance_text(a.inductance_tolerance)
-            if a.inductance_tolerance else "exact (none given)"),
+        _inductance_tolerance_row(design),
         _loss_spread_row(design),
         Row("Windows rounded outward to", quantity_text(a.resolution_hz, "Hz", 3)),
     ]
     return rows
 
 
+def _inductance_tolerance_row(design: Design) -> Row:
+    """The coil's tolerance and where it came from: the job, or a stated default."""
+    a = design.assessment
+    inductor = design.job.inductor
+    if not a.inductance_tolerance:
+        return Row("Inductance tolerance", "exact", "the job gives 0 %" if
+                   inductor.tolerance is not None else "none given (inductor.tolerance)")
+    if inductor.tolerance is not None:
+        origin = "from the job"
+    elif inductor.form == "given":
+        origin = "assumed for a bought coil (common practice); inductor.tolerance"
+    elif inductor.form == "solenoid":
+        origin = "assumed for a hand-wound coil (common practice); inductor.tolerance"
+    else:
+        origin = "the core's AL (or µi) tolerance; inductor.tolerance"
+    return Row("Inductance tolerance", tolerance_text(a.inductance_tolerance), origin)
+
+
 def _loss_spread_row(design: Design) -> Row:
     """How the coil's and capacitor's losses were varied: the job's spread, or the stated
-    default for a coil Q that is only an estimate."""
+    common-practice default for a coil Q (estimated, or stated by a maker)."""
     a = design.assessment
+    esr = design.job.variation.loss_tolerance
+    esr_text = (f"; capacitor ESR {tolerance_text(esr)}" if esr else "; capacitor ESR exact")
     if a.loss_spread_source == "job":
-        return Row("Loss resistance spread", tolerance_text(a.loss_spread),
-                   "coil loss and capacitor ESR")
-    if a.loss_spread_source == "estimate":
-        return Row("Loss resistance spread", tolerance_text(a.loss_spread),
-                   "coil loss: the coil Q is an estimate (common practice); give the "
-                   "measured inductor.q or variation.loss_tolerance to change it")
-    return Row("Loss resistance spread", "none given", "coil loss and ESR taken as exact")
+        return Row("Coil Q spread", tolerance_text(a.loss_spread),
+                   "coil loss resistance, from the job" + esr_text)
+    if a.loss_spread_source in ("default", "estimate"):
+        what = "an estimate" if a.loss_spread_source == "estimate" else "a stated figure"
+        return Row("Coil Q spread", tolerance_text(a.loss_spread),
+                   f"coil loss resistance: the coil Q is {what}, assumed to spread so "
+                   "(common practice); inductor.q_tolerance" + esr_text)
+    return Row("Coil Q spread", "exact", "the job gives 0 %" + esr_text)
 
 
 def _bench_rows(design: Design) -> list[Row]:
