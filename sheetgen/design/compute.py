@@ -12,7 +12,7 @@ from dataclasses import replace
 import numpy as np
 
 from sheetgen.design.assessment import assess, bleeder_duty, job_drive
-from sheetgen.design.capacitors import capacitance_across, capacitor_choice
+from sheetgen.design.capacitors import capacitance_across, capacitor_choice, target_offset
 from sheetgen.design.designators import designators
 from sheetgen.design.plausibility import CAPACITANCE_MIN_F, LOADED_Q_MIN, plausibility_findings
 from sheetgen.design.records import CoilDesign, Derivation, Design
@@ -152,12 +152,19 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
         raise
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
         raise FieldError("variation", str(error)) from None
+    offset = None
+    if f0_target is not None:
+        lim = assessment.limits
+        offset = target_offset(job, choice, inductance, f0_target, analysed.f0_hz,
+                               analysed.bandwidth_hz, (lim.f0_min_hz, lim.f0_max_hz),
+                               coil.turns if coil is not None else None)
     return Design(job, circuit, drive, analysed, stress, response, choice, tuple(derived),
                   coil_result, names, assessment,
                   plausibility=plausibility_findings(job, circuit, analysed, stress, fixed,
                                                      capacitance_f=required_c),
                   stress_open_load=open_stress,
-                  bleeder=bleeder_duty(job, worse_stress(stress, open_stress)), bench=bench)
+                  bleeder=bleeder_duty(job, worse_stress(stress, open_stress)), bench=bench,
+                  target_offset=offset)
 
 
 def _bench(job: Job, circuit, analysed, stress, coil: CoilDesign | None):

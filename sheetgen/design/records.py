@@ -159,6 +159,49 @@ class CoilDesign:
 
 
 @dataclass(frozen=True)
+class TargetRemedy:
+    """One change that brings the built f0 to within half a bandwidth of the target:
+    kind "pair" (two standard parts of the job's series), "series" (one part of a finer
+    series), "turns" (a turn more or less) or "trimmer" (the capacitance a trimmer adds
+    or takes away at mid-range)."""
+
+    kind: str
+    f0_hz: float  # the nominal f0 with the change
+    parts_f: tuple[float, ...] = ()  # "pair", "series": the fixed parts to fit
+    series: str | None = None  # "pair", "series": the IEC 60063 series
+    turns: int | None = None  # "turns": the new number of turns
+    capacitance_f: float | None = None  # "trimmer": the capacitance to make up (+ or −)
+
+
+@dataclass(frozen=True)
+class TargetOffset:
+    """The built f0 against the job's f0 target. It misses when the target lies outside
+    the built unit's half-power band (|offset| > bandwidth/2) or outside the f0 window."""
+
+    target_hz: float
+    built_hz: float
+    bandwidth_hz: float | None  # None: no half-power band (a very low Q)
+    window_hz: tuple[float, float]
+    remedies: tuple[TargetRemedy, ...] = ()
+
+    @property
+    def offset_hz(self) -> float:
+        return self.built_hz - self.target_hz
+
+    @property
+    def bandwidths(self) -> float | None:
+        """The offset in bandwidths (signed)."""
+        return self.offset_hz / self.bandwidth_hz if self.bandwidth_hz else None
+
+    @property
+    def misses(self) -> bool:
+        low, high = self.window_hz
+        outside_band = (self.bandwidth_hz is not None
+                        and abs(self.offset_hz) > 0.5 * self.bandwidth_hz)
+        return outside_band or not low <= self.target_hz <= high
+
+
+@dataclass(frozen=True)
 class Design:
     """Everything computed for one job; the results, the sheet and the CLI read only this."""
 
@@ -177,3 +220,4 @@ class Design:
     stress_open_load: Stress | None = None  # the same drive with the load disconnected
     bleeder: BleederDuty | None = None
     bench: BenchSetup | None = None  # the small-signal test set-up and the circuit it builds
+    target_offset: TargetOffset | None = None  # built f0 against the job's f0 target

@@ -225,6 +225,9 @@ def performance_rows(design: Design) -> list[Row]:
     parallel = design.circuit.topology == "parallel"
     rows = [
         Row("Resonant frequency f0", quantity_text(r.f0_hz, "Hz"), "1/(2π√(LC))"),
+    ]
+    rows += _offset_rows(design)
+    rows += [
         Row("Frequency of maximum response", quantity_text(r.f_peak_hz, "Hz"),
             "tank voltage" if parallel else "loop current"),
     ]
@@ -250,6 +253,24 @@ def performance_rows(design: Design) -> list[Row]:
         rows.append(Row("Dynamic resistance of the tank", quantity_text(r.dynamic_resistance_ohm, "Ω"),
                         "|Z| at zero phase (exact)"))
     return rows
+
+
+def _offset_rows(design: Design) -> list[Row]:
+    """The built f0 against the job's f0 target, in hertz and in bandwidths."""
+    o = design.target_offset
+    if o is None:
+        return []
+    exact = abs(o.offset_hz) < 1e-9 * o.target_hz  # re-centred: only rounding is left
+    off = quantity_text(0.0 if exact else o.offset_hz, "Hz")
+    if not off.startswith(("−", "-", "0")):
+        off = "+" + off
+    value = off.replace("-", "−")
+    if o.bandwidths is not None:
+        value += f" ({signed(0.0 if exact else o.bandwidths, 2)} bandwidths)"
+    verdict = ("MISSES the target: outside the half-power band or the f0 window"
+               if o.misses else "within half a bandwidth and the f0 window")
+    return [Row("Offset from the f0 target", value,
+                f"target {quantity_text(o.target_hz, 'Hz')}; {verdict}")]
 
 
 def stress_rows(design: Design) -> list[Row]:
