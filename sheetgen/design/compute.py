@@ -35,15 +35,16 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
     targets = job.circuit.targets
     f0_target = targets.f0 if targets else None
     f_design = f0_target or float(resonance.resonant_frequency_hz(target_l, required_c))
-    coil = parts = None
+    coil = parts = leads = None
     if job.inductor.form == "given":
         inductance = target_l
     else:
-        from sheetgen.design.coil import design_coil, resolve_toroid
+        from sheetgen.design.coil import design_coil, lead_inductance, resolve_toroid
         if job.inductor.form == "toroid":
             parts = resolve_toroid(job.inductor, library)
         coil = design_coil(job.inductor, parts, target_l, f_design, None)
-        inductance = coil.inductance_built_h
+        leads = lead_inductance(job.inductor, coil, parts, job.test.lcr_accuracy)
+        inductance = coil.inductance_built_h + (leads.inductance_h if leads.counted else 0.0)
         if job.capacitor.capacitance is None:  # re-centre f0 on the whole-turn coil
             required_c = float(resonance.capacitance_for_f0(f0_target, inductance))
             _replace_derivation(derived, "capacitor.capacitance", required_c,
@@ -137,7 +138,7 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
         from sheetgen.design.coil import coil_at_voltage, coil_design
         loaded_coil = coil_at_voltage(coil, parts, stress.inductor_voltage_rms_v, f_design)
         coil_result = coil_design(job, parts, loaded_coil, target_l, circuit, q_used, q_source,
-                                  f0, coupling)
+                                  f0, coupling, leads)
     fixed = choice.fixed_parts_f
     names = designators(len(fixed), choice.trimmer_setting_f is not None,
                         circuit.source_resistance_ohm is not None,

@@ -130,6 +130,17 @@ class Coupling:
 
 
 @dataclass(frozen=True)
+class Leads:
+    """A coil's two leads: their inductance (in series with the winding) and whether it is
+    counted in the coil's inductance (design/coil.py lead_inductance)."""
+
+    inductance_h: float
+    share: float  # of the winding's inductance
+    threshold: float  # the share above which it is counted
+    counted: bool
+
+
+@dataclass(frozen=True)
 class CoilDesign:
     """The coil sheetgen designed: the engine's result and what the design made of it."""
 
@@ -156,6 +167,8 @@ class CoilDesign:
     coupling: Coupling | None = None
     link_wire: Wire | None = None  # the link winding's wire (the job's, else the tank's)
     link_wire_length_m: float | None = None  # its turns over the tank winding plus two leads
+    stock: str | None = None  # what to pick from stores: core size and µi, or the former
+    leads: Leads | None = None  # the two leads' inductance
 
 
 @dataclass(frozen=True)

@@ -235,10 +235,15 @@ QTolerance = Field(None, description="± unit-to-unit spread of the coil's Q (of
                    "practice for a maker's stated Q, a measured prototype or an estimate)")
 
 
+PartDescription = Annotated[str | None, Field(min_length=1, max_length=300)]
+
+
 class GivenInductor(Section):
     """A coil whose inductance and loss are known (measured or from its maker's sheet)."""
 
     form: Literal["given"] = Field(description="given: inductance and loss are stated")
+    description: PartDescription = Field(None, description="what to buy, for the parts list, "
+                                         "e.g. axial moulded RF inductor, 0.5 A")
     inductance: Inductance | None = Field(
         None, description="inductance; omit to have it computed from targets.f0 and C")
     q: PositiveNumber | None = Field(None, description="the coil's unloaded Q at f0")
@@ -431,6 +436,8 @@ Inductor = Annotated[GivenInductor | ToroidInductor | SolenoidInductor,
 class Trimmer(Section):
     """A variable capacitor across the fixed one, for tuning f0 on the bench."""
 
+    description: PartDescription = Field(None, description="what to buy, for the parts list, "
+                                         "e.g. film-dielectric trimmer, 10 mm")
     minimum: Capacitance = Field(description="capacitance at minimum mesh")
     maximum: Capacitance = Field(description="capacitance at maximum mesh")
     rated_voltage: Voltage | None = Field(None, description="the trimmer's rated (peak) voltage")
@@ -445,6 +452,8 @@ class Trimmer(Section):
 class CapacitorSection(Section):
     """The tuning capacitor."""
 
+    description: PartDescription = Field(None, description="what to buy, for the parts list, "
+                                         "e.g. silver mica, radial leads")
     capacitance: Capacitance | None = Field(
         None, description="capacitance; omit to have it computed from targets.f0 and L")
     esr: LossResistance | None = Field(None, description="equivalent series resistance at f0")

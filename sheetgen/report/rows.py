@@ -11,6 +11,7 @@ from dataclasses import dataclass
 from sheetgen.design.records import Design
 from sheetgen.quantities import format_number
 from sheetgen.report.formatting import (
+    percent,
     plural,
     quantity_text,
     range_text,
@@ -18,6 +19,7 @@ from sheetgen.report.formatting import (
     stress_text,
     tolerance_text,
 )
+from sheetgen.report.winding import coil_check
 
 
 @dataclass(frozen=True)
@@ -36,7 +38,9 @@ def component_rows(design: Design) -> list[Row]:
     coil = design.coil
     if coil is not None:
         inductance_remark = (f"{plural(coil.result.turns, 'turn')}, built"
-                             + (f" on {coil.core_name}" if coil.core_name else ""))
+                             + (f" on {coil.core_name}" if coil.core_name else "")
+                             + (", with its leads" if coil.leads and coil.leads.counted
+                                else ""))
         loss_remark = ("estimated at f0" if coil.q_source == "estimate"
                        else "from the job's Q")
     else:
@@ -136,8 +140,15 @@ def coil_rows(design: Design) -> list[Row]:
         Row("Inductance wanted", quantity_text(coil.target_inductance_h, "H")),
         Row("Turns N", str(r.turns), "each pass through the centre is one turn"
             if coil.form == "toroid" else "whole turns"),
-        Row("Inductance built", quantity_text(r.inductance_built_h, "H")),
+        Row("Inductance built", quantity_text(r.inductance_built_h, "H"), "the winding"),
     ]
+    if coil.leads is not None:
+        leads = coil.leads
+        rows.append(Row("Lead inductance", quantity_text(leads.inductance_h, "H"),
+                        f"two {quantity_text(coil.lead_length_m, 'm', 3)} leads, "
+                        f"{percent(leads.share)} of the winding (straight wire, Rosa/Grover); "
+                        + ("counted in L" if leads.counted else "not counted")
+                        + f": above {percent(leads.threshold)} counts"))
     if coil.f0_with_whole_turns_hz is not None:
         rows.append(Row("f0 before re-centring", quantity_text(coil.f0_with_whole_turns_hz, "Hz"),
                         "whole turns, capacitance for the wanted L"))
@@ -433,8 +444,11 @@ def _bench_rows(design: Design) -> list[Row]:
                     range_text(lim.f_centre_min_hz, lim.f_centre_max_hz, "Hz", 6),
                     "midpoint of the −3 dB points; for broad peaks"))
     if a.inductance_window is not None:
+        check = coil_check(design)
+        meter = ("the analyser" if check is not None and check.method == "analyser"
+                 else "the LCR meter")
         rows.append(Row("Inductance window", range_text(*a.inductance_window, "H"),
-                        "as the LCR meter reads L1"))
+                        f"as {meter} reads {design.designators.coil}"))
     if a.capacitance_window is not None:
         rows.append(Row("Capacitance window", range_text(*a.capacitance_window, "F"),
                         "as the LCR meter reads the fixed part(s)"))

@@ -46,7 +46,7 @@ CASES = [
      [(18, 3, "inductor.resistnce", "did you mean 'resistance'")]),
     ("unknown key, nothing close", _edit("  esr: 0.05 ohm", "  esr: 0.05 ohm\n  colour: blue"),
      [(22, 3, "capacitor.colour", "expected one of: bleeder, bleeder_rated_power, "
-                                  "bleeder_rated_voltage, capacitance, dielectric")]),
+                                  "bleeder_rated_voltage, capacitance, description, dielectric")]),
     ("quantity in the wrong unit", _edit("  esr: 0.05 ohm", "  capacitance: 40 pH\n  esr: 0.05 ohm"),
      [(21, 16, "capacitor.capacitance", '"40 pH" is not a capacitance (expected farads, e.g. 40 pF)')]),
     ("zero", _edit("resistance: 50 ohm\n  available", "resistance: 0 ohm\n  available"),
