@@ -167,15 +167,22 @@ _Engineering.set_prefs(map_sf=Quantity.map_sf_to_greek, strip_zeros=False, space
                        prec=2, known_units=["Ω", "H", "F", "Hz", "V", "A", "W", "T", "m"])
 
 
+# A zero is written bare, in the unit a part of that kind is usually written in (a
+# capacitance in pF, a small inductance in nH): "0 pF", never "0.000 F".
+_ZERO_UNIT_PREFIX = {"F": "p", "H": "n"}
+
+
 def format_quantity(value_si: float | None, unit: str, digits: int = 3) -> str:
     """Engineering notation with `digits` significant figures: 4.7e-6, "H" → "4.70 µH".
 
-    None (a value that does not apply) is shown as an em dash.
+    None (a value that does not apply) is shown as an em dash; zero as "0 pF".
     """
     if value_si is None or (isinstance(value_si, float) and math.isnan(value_si)):
         return "—"
     if not math.isfinite(value_si):
         return "∞" if value_si > 0 else "−∞"
+    if value_si == 0:
+        return f"0 {_ZERO_UNIT_PREFIX.get(unit, '')}{unit}".rstrip()
     return _Engineering(value_si, unit).render(prec=max(digits - 1, 0))
 
 

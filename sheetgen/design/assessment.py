@@ -44,6 +44,7 @@ from sheetgen.engine.resonance import Circuit, Resonance, Sweep
 from sheetgen.engine.standard_values import SERIES_TOLERANCE
 from sheetgen.engine.stress import DcFeed, Drive, Stress, WorstCase
 from sheetgen.engine.variation import (
+    COIL_Q_SPREAD,
     Envelope,
     Spread,
     TemperatureCoefficient,
@@ -131,19 +132,17 @@ class Assessment:
 AIR_COIL_TC_PER_K = 17e-6
 # No dielectric named: the parts list allows any, so the widest class is assumed.
 ASSUMED_DIELECTRIC = "Y5V"
-# Common practice: a coil Q estimated from loss tables is good to about ±20 %.
-ESTIMATED_LOSS_SPREAD = 0.20
 
 
 def variation_spec(job: Job, circuit: Circuit, inductance_tolerance: float | None,
-                   inductance_tc: float | None, *, q_estimated: bool = False,
+                   inductance_tc: float | None, *,
                    temperature: tuple[float, float] | None = None
                    ) -> tuple[VariationSpec, float, str]:
     """The VariationSpec of a job; also the capacitor tolerance used and where it came from.
 
     temperature: the ambient range (default: the operating range). A capacitor with no
-    dielectric or coefficient is taken as ASSUMED_DIELECTRIC; an estimated coil Q spreads
-    the coil's loss by ESTIMATED_LOSS_SPREAD unless the job gives variation.loss_tolerance.
+    dielectric or coefficient is taken as ASSUMED_DIELECTRIC; the coil's loss spreads by
+    inductor.q_tolerance, else variation.loss_tolerance, else COIL_Q_SPREAD.
     """
     var = job.variation
     distribution = var.distribution
@@ -164,7 +163,8 @@ def variation_spec(job: Job, circuit: Circuit, inductance_tolerance: float | Non
     elif cap.temperature_coefficient is not None:
         c_temperature = TemperatureCoefficient(cap.temperature_coefficient)
     loss = (Spread(var.loss_tolerance, distribution) if var.loss_tolerance else None)
-    coil_loss = loss or (Spread(ESTIMATED_LOSS_SPREAD, distribution) if q_estimated else None)
+    coil_spread, _ = coil_loss_spread(job)
+    coil_loss = Spread(coil_spread, distribution) if coil_spread else None
     load_tol = job.load.tolerance if job.load is not None else None
     low, high = temperature or (var.temperature.minimum, var.temperature.maximum)
     spec = VariationSpec(
@@ -181,6 +181,17 @@ def variation_spec(job: Job, circuit: Circuit, inductance_tolerance: float | Non
         temperature_min_c=low, temperature_max_c=high,
         trials=var.trials, seed=var.seed, coverage=var.coverage)
     return spec, c_tol, c_source
+
+
+def coil_loss_spread(job: Job) -> tuple[float, str]:
+    """The ± unit-to-unit spread of the coil's loss resistance and where it came from:
+    inductor.q_tolerance, else variation.loss_tolerance ("job"), else COIL_Q_SPREAD
+    ("default": a stated Q or an estimate is never taken as exact)."""
+    if job.inductor.q_tolerance is not None:
+        return job.inductor.q_tolerance, "job"
+    if job.variation.loss_tolerance is not None:
+        return job.variation.loss_tolerance, "job"
+    return COIL_Q_SPREAD, "default"
 
 
 def default_resolution_hz(bandwidth_hz: float | None, f0_hz: float) -> float:
@@ -207,15 +218,13 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
     The bench windows are for the circuit the test set-up builds (`bench`, an
     engine.bench.BenchSetup: the fixture's standard resistors and the 50 Ω ports, with
     their tolerances); the over-temperature figures are for the design's own circuit."""
-    q_estimated = coil is not None and job.inductor.q is None
     tc_assumed = None
     if inductance_tc is None and job.inductor.form == "solenoid":
         inductance_tc = tc_assumed = AIR_COIL_TC_PER_K
     bench_range = (job.test.ambient.minimum, job.test.ambient.maximum)
     spec, c_tol, c_source = variation_spec(job, circuit, inductance_tolerance, inductance_tc,
-                                           q_estimated=q_estimated, temperature=bench_range)
-    operating, _, _ = variation_spec(job, circuit, inductance_tolerance, inductance_tc,
-                                     q_estimated=q_estimated)
+                                           temperature=bench_range)
+    operating, _, _ = variation_spec(job, circuit, inductance_tolerance, inductance_tc)
     resolution = (job.test.frequency_resolution
                   or default_resolution_hz(resonance.bandwidth_hz, resonance.f0_hz))
     method = (partial(settled_monte_carlo, resolution_hz=resolution)  # stops once settled
@@ -275,8 +284,10 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
     density = (winding_current_density(rated.inductor_current_rms_a, wire_diameter_m,
                                        ac_to_dc_resistance=ac_to_dc_resistance)
                if wire_diameter_m is not None else None)
-    loss_spread = job.variation.loss_tolerance or (ESTIMATED_LOSS_SPREAD if q_estimated
-                                                   else None)
+    loss_spread, loss_source = coil_loss_spread(job)
+    loss_spread = loss_spread or None  # 0 %: the job takes the coil's Q as exact
+    if loss_source == "default" and coil is not None and job.inductor.q is None:
+        loss_source = "estimate"  # the default spread of an estimated Q
     return Assessment(spec, variation, limits, tuned, trim, checks,
                       response_envelope(tested, variation, sweep.f_hz, spec.coverage if
                                job.variation.method == "monte-carlo" else None),
@@ -289,8 +300,7 @@ def assess(job: Job, circuit: Circuit, resonance: Resonance, stress: Stress,
                           ASSUMED_DIELECTRIC if job.capacitor.dielectric is None
                           and job.capacitor.temperature_coefficient is None else None),
                       inductance_tc_assumed=tc_assumed, loss_spread=loss_spread,
-                      loss_spread_source=("job" if job.variation.loss_tolerance else
-                                          "estimate" if loss_spread else None),
+                      loss_spread_source=loss_source if loss_spread else None,
                       current_density=density, band=band_tuning)
 
 

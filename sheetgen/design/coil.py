@@ -11,12 +11,17 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from sheetgen.design.records import CoilCurve, CoilDesign, Coupling
+from sheetgen.design.records import CoilCurve, CoilDesign, Coupling, Leads
 from sheetgen.engine import coil as coil_engine
 from sheetgen.engine.coil import SolenoidCoil, ToroidCoil
 from sheetgen.engine.magnetics import CoreLossTable, link_turns, toroid_turn_length_m
 from sheetgen.engine.resonance import Circuit, capacitance_for_f0, resonant_frequency_hz
-from sheetgen.engine.wire import COPPER_REFERENCE_TEMPERATURE_C, Wire, wire_from_designation
+from sheetgen.engine.wire import (
+    COPPER_REFERENCE_TEMPERATURE_C,
+    Wire,
+    straight_wire_inductance_h,
+    wire_from_designation,
+)
 from sheetgen.errors import FieldError
 from sheetgen.inputs.library import LibraryEntry, PartsLibrary
 from sheetgen.inputs.model import CoreSpec, Job, MaterialSpec, SolenoidInductor, ToroidInductor
@@ -41,15 +46,17 @@ def resolve_toroid(inductor: ToroidInductor, library: PartsLibrary | None) -> Re
     if isinstance(inductor.core, str):
         core_spec = _lookup(library, "cores", inductor.core, "inductor.core")
         core_name = inductor.core
-    else:
-        core_spec, core_name = inductor.core, "inline core"
+    else:  # inline: named by what the job says it is, else by its size
+        core_spec = inductor.core
+        core_name = core_spec.description or f"ring core {ring_size_text(core_spec)}"
     if isinstance(core_spec.material, str):
         material_spec = _lookup(library, "materials", core_spec.material,
-                                "inductor.core" if core_name != "inline core"
+                                "inductor.core" if isinstance(inductor.core, str)
                                 else "inductor.core.material")
         material_name = core_spec.material
     else:
-        material_spec, material_name = core_spec.material, "inline material"
+        material_spec = core_spec.material
+        material_name = material_spec.description or f"material of µi {material_spec.mu_i:g}"
     rows = material_spec.loss
     kind = "loss_factor" if rows[0].loss_factor is not None else "material_q"
     table = CoreLossTable(tuple(r.f for r in rows),
@@ -65,6 +72,12 @@ def resolve_toroid(inductor: ToroidInductor, library: PartsLibrary | None) -> Re
     core = coil_engine.ToroidCore(core_spec.outer_diameter, core_spec.inner_diameter,
                                   core_spec.height, core_spec.chamfer, core_spec.al)
     return ResolvedToroid(core_name, material_name, core, material, material_spec, core_spec)
+
+
+def ring_size_text(core: CoreSpec) -> str:
+    """A ring core's size as a storeman reads it: "18 × 9.5 × 6.5 mm" (OD × ID × height)."""
+    return " × ".join(f"{v * 1e3:.3g}" for v in (core.outer_diameter, core.inner_diameter,
+                                                 core.height)) + " mm"
 
 
 def _lookup(library: PartsLibrary | None, kind: str, name: str, field: str):
@@ -171,27 +184,52 @@ def as_built_coupling(inductor, tank_turns: int, circuit: Circuit) -> Coupling |
     return Coupling(kind, turns, exact, tank_turns, coupling.resistance, aimed, presented, x0)
 
 
+def coil_tolerance(inductor: ToroidInductor | SolenoidInductor,
+                   parts: ResolvedToroid | None) -> float | None:
+    """The wound coil's ± tolerance: the job's, else a ring core's AL (or µi) tolerance,
+    else AIR_CORE_TOLERANCE for a solenoid."""
+    if inductor.tolerance is not None:
+        return inductor.tolerance
+    if inductor.form == "toroid":
+        return (parts.core_spec.al_tolerance if parts.core_spec.al_tolerance is not None
+                else parts.material_spec.mu_i_tolerance)
+    return AIR_CORE_TOLERANCE
+
+
+def lead_inductance(inductor: ToroidInductor | SolenoidInductor,
+                    coil: ToroidCoil | SolenoidCoil, parts: ResolvedToroid | None,
+                    lcr_accuracy: float) -> Leads:
+    """Two straight leads of inductor.lead_length in the coil's wire, at high frequency
+    (engine.wire.straight_wire_inductance_h, Rosa 1908 / Grover 1946; the leads' mutual
+    inductance neglected). Our rule: they are counted in the coil's inductance when their
+    share is measurable — above the LCR meter's accuracy and above half the coil's own
+    tolerance band (below that they shift nothing a unit's window can show)."""
+    leads = 0.0  # the formula holds for l ≫ r; a stub shorter than that adds nothing here
+    if inductor.lead_length > coil.wire.diameter_m:
+        each = float(straight_wire_inductance_h(inductor.lead_length, coil.wire.diameter_m))
+        leads = 2.0 * max(each, 0.0)
+    share = leads / coil.inductance_built_h
+    threshold = max(lcr_accuracy, 0.5 * (coil_tolerance(inductor, parts) or 0.0))
+    return Leads(leads, share, threshold, share > threshold)
+
+
 def coil_design(job: Job, parts: ResolvedToroid | None, coil: ToroidCoil | SolenoidCoil,
                 target_l: float, circuit: Circuit, q_used: float, q_source: str,
-                f0: float, as_built: Coupling | None = None) -> CoilDesign:
+                f0: float, as_built: Coupling | None = None,
+                leads: Leads | None = None) -> CoilDesign:
     """What the design made of the engine's coil: tolerances, coupling turns, Q curve."""
     inductor = job.inductor
     core_name = material_name = flux_limit = None
     core_size = (None, None, None)
-    tolerance = inductor.tolerance
+    tolerance = coil_tolerance(inductor, parts)
     tc = inductor.temperature_coefficient
     if inductor.form == "toroid":
         core_name, material_name = parts.core_name, parts.material_name
         flux_limit = parts.material.flux_density_max_t
         core_size = (parts.core.outer_diameter_m, parts.core.inner_diameter_m,
                      parts.core.height_m)
-        if tolerance is None:
-            tolerance = (parts.core_spec.al_tolerance if parts.core_spec.al_tolerance is not None
-                         else parts.material_spec.mu_i_tolerance)
         if tc is None:
             tc = parts.material_spec.mu_tc  # AL ∝ µ, so L follows µ's coefficient
-    elif tolerance is None:
-        tolerance = AIR_CORE_TOLERANCE
     link_turns_n = link_r = tap_turns_n = tap_r = None
     link = getattr(inductor, "link", None)  # a solenoid has no link, only a tap
     kind, coupling = ("link", link) if link is not None else ("tap", inductor.tap)
@@ -227,6 +265,18 @@ def coil_design(job: Job, parts: ResolvedToroid | None, coil: ToroidCoil | Solen
                                     core.height_m, link_wire.overall_diameter_m,
                                     core.chamfer_m, layer=2)
         link_length = link_turns_n * turn + 2.0 * inductor.lead_length
+    stock = None
+    if parts is not None:  # what the storeman picks: size, material, the library's words
+        words = [f"ring {ring_size_text(parts.core_spec)}",
+                 f"µi {parts.material_spec.mu_i:g}"]
+        said = parts.core_spec.description or parts.material_spec.description
+        if said and said not in (core_name, material_name):
+            words.append(said)
+        stock = ", ".join(words)
+    elif inductor.form == "solenoid":
+        stock = (f"former Ø {inductor.former_diameter * 1e3:.3g} mm"
+                 + (f", at least {inductor.former_length * 1e3:.3g} mm long"
+                    if inductor.former_length else ""))
     return CoilDesign(inductor.form, coil, core_name, material_name, target_l, f0_whole,
                       link_turns_n, link_r, tap_turns_n, tap_r, flux_limit, tolerance, tc,
                       inductor.lead_length,
@@ -234,7 +284,7 @@ def coil_design(job: Job, parts: ResolvedToroid | None, coil: ToroidCoil | Solen
                       q_used, q_source,
                       CoilCurve(f_curve, np.asarray(coil_engine.coil_q_sweep(coil, f_curve))),
                       as_built, link_wire, link_length,
-                      _al_agreement(parts) if inductor.form == "toroid" else None)
+                      _al_agreement(parts) if inductor.form == "toroid" else None, stock, leads)
 
 
 def _al_agreement(parts: ResolvedToroid):

@@ -12,7 +12,7 @@ from dataclasses import replace
 import numpy as np
 
 from sheetgen.design.assessment import assess, bleeder_duty, job_drive
-from sheetgen.design.capacitors import capacitance_across, capacitor_choice
+from sheetgen.design.capacitors import capacitance_across, capacitor_choice, target_offset
 from sheetgen.design.designators import designators
 from sheetgen.design.kinds import duties_of
 from sheetgen.design.kinds.tank import tank_model
@@ -27,6 +27,7 @@ from sheetgen.engine.stress import (
     part_stress,
     worst_case,
 )
+from sheetgen.engine.variation import BOUGHT_COIL_TOLERANCE
 from sheetgen.errors import FieldError
 from sheetgen.inputs.library import PartsLibrary
 from sheetgen.inputs.model import Job
@@ -49,17 +50,23 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
         raise FieldError("circuit.targets.band", "a band is tuned with a variable capacitor: "
                          "give capacitor.trimmer (its minimum and maximum)")
     f_design = f0_target or float(resonance.resonant_frequency_hz(target_l, required_c))
-    coil = parts = None
+    coil = parts = leads = None
     library_entries = ()
     if job.inductor.form == "given":
         inductance = target_l
     else:
-        from sheetgen.design.coil import design_coil, resolve_toroid, used_library_entries
+        from sheetgen.design.coil import (
+            design_coil,
+            lead_inductance,
+            resolve_toroid,
+            used_library_entries,
+        )
         if job.inductor.form == "toroid":
             parts = resolve_toroid(job.inductor, library)
             library_entries = used_library_entries(parts, library)
         coil = design_coil(job.inductor, parts, target_l, f_design, None)
-        inductance = coil.inductance_built_h
+        leads = lead_inductance(job.inductor, coil, parts, job.test.lcr_accuracy)
+        inductance = coil.inductance_built_h + (leads.inductance_h if leads.counted else 0.0)
         if job.capacitor.capacitance is None:  # re-centre f0 on the whole-turn coil
             required_c = float(resonance.capacitance_for_f0(f0_target, inductance))
             _replace_derivation(derived, "capacitor.capacitance", required_c,
@@ -162,7 +169,7 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                                          f_design)  # heat and flux are judged here
                          if worst.stress is not stress else loaded_coil)
         coil_result = coil_design(job, parts, loaded_coil, target_l, circuit, q_used, q_source,
-                                  f0, coupling)
+                                  f0, coupling, leads)
     fixed = choice.fixed_parts_f
     names = designators(len(fixed), choice.trimmer_setting_f is not None,
                         circuit.source_resistance_ohm is not None,
@@ -181,6 +188,12 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
         raise
     except ValueError as error:  # e.g. an operating range beyond a dielectric's rating
         raise FieldError("variation", str(error)) from None
+    offset = None
+    if f0_target is not None:
+        lim = assessment.limits
+        offset = target_offset(job, choice, inductance, f0_target, analysed.f0_hz,
+                               analysed.bandwidth_hz, (lim.f0_min_hz, lim.f0_max_hz),
+                               coil.turns if coil is not None else None)
     return Design(job, circuit, drive, analysed, stress, response, choice, tuple(derived),
                   coil_result, names, assessment,
                   plausibility=plausibility_findings(job, circuit, analysed, stress, fixed,
@@ -188,7 +201,7 @@ def compute_design(job: Job, library: PartsLibrary | None = None) -> Design:
                   stress_open_load=open_stress,
                   bleeder=bleeder_duty(job, worst.stress, dc), bench=bench, worst=worst, dc=dc,
                   coil_at_worst=coil_at_worst, model=model, duties=duties,
-                  library_entries=library_entries)
+                  library_entries=library_entries, target_offset=offset)
 
 
 def _drive_rms(drive, circuit) -> float:
@@ -245,8 +258,9 @@ def _assess(job, circuit, analysed, stress, response, names, choice, fixed,
             coil: CoilDesign | None, f0_target, worst, dc=None, bench=None,
             coil_at_worst=None, band_settings=()):
     """The limits and rating checks, with the coil's tolerance and temperature data."""
-    if coil is None:
-        tolerance = job.inductor.tolerance
+    if coil is None:  # a bought coil: never exact unless the job says so
+        tolerance = (job.inductor.tolerance if job.inductor.tolerance is not None
+                     else BOUGHT_COIL_TOLERANCE)
         tc = job.inductor.temperature_coefficient
         return assess(job, circuit, analysed, stress, response, names,
                       f0_target_hz=f0_target, fixed_capacitance_f=choice.fixed_f,

@@ -33,6 +33,8 @@ class CapacitanceAcross:
     self_capacitance_f: float
     stray_f: float
     self_source: str  # "medhurst_1947", "job" or "none"
+    stray_source: str = "job"  # "job", "default" (design mode) or "none"
+    added: bool = False  # added to a capacitance the job states, not subtracted from a fit
 
     @property
     def total_f(self) -> float:
@@ -132,6 +134,17 @@ class Coupling:
 
 
 @dataclass(frozen=True)
+class Leads:
+    """A coil's two leads: their inductance (in series with the winding) and whether it is
+    counted in the coil's inductance (design/coil.py lead_inductance)."""
+
+    inductance_h: float
+    share: float  # of the winding's inductance
+    threshold: float  # the share above which it is counted
+    counted: bool
+
+
+@dataclass(frozen=True)
 class CoilDesign:
     """The coil sheetgen designed: the engine's result and what the design made of it."""
 
@@ -159,6 +172,51 @@ class CoilDesign:
     link_wire: Wire | None = None  # the link winding's wire (the job's, else the tank's)
     link_wire_length_m: float | None = None  # its turns over the tank winding plus two leads
     al_agreement: AlAgreement | None = None  # a stated AL against µi and the geometry
+    stock: str | None = None  # what to pick from stores: core size and µi, or the former
+    leads: Leads | None = None  # the two leads' inductance
+
+
+@dataclass(frozen=True)
+class TargetRemedy:
+    """One change that brings the built f0 to within half a bandwidth of the target:
+    kind "pair" (two standard parts of the job's series), "series" (one part of a finer
+    series), "turns" (a turn more or less) or "trimmer" (the capacitance a trimmer adds
+    or takes away at mid-range)."""
+
+    kind: str
+    f0_hz: float  # the nominal f0 with the change
+    parts_f: tuple[float, ...] = ()  # "pair", "series": the fixed parts to fit
+    series: str | None = None  # "pair", "series": the IEC 60063 series
+    turns: int | None = None  # "turns": the new number of turns
+    capacitance_f: float | None = None  # "trimmer": the capacitance to make up (+ or −)
+
+
+@dataclass(frozen=True)
+class TargetOffset:
+    """The built f0 against the job's f0 target. It misses when the target lies outside
+    the built unit's half-power band (|offset| > bandwidth/2) or outside the f0 window."""
+
+    target_hz: float
+    built_hz: float
+    bandwidth_hz: float | None  # None: no half-power band (a very low Q)
+    window_hz: tuple[float, float]
+    remedies: tuple[TargetRemedy, ...] = ()
+
+    @property
+    def offset_hz(self) -> float:
+        return self.built_hz - self.target_hz
+
+    @property
+    def bandwidths(self) -> float | None:
+        """The offset in bandwidths (signed)."""
+        return self.offset_hz / self.bandwidth_hz if self.bandwidth_hz else None
+
+    @property
+    def misses(self) -> bool:
+        low, high = self.window_hz
+        outside_band = (self.bandwidth_hz is not None
+                        and abs(self.offset_hz) > 0.5 * self.bandwidth_hz)
+        return outside_band or not low <= self.target_hz <= high
 
 
 @dataclass(frozen=True)
@@ -187,3 +245,4 @@ class Design:
     coil_at_worst: ToroidCoil | SolenoidCoil | None = None  # the designed coil at `worst`
     # the parts-library entries (core, material) the design used, as their files wrote them
     library_entries: tuple[LibraryEntry, ...] = ()
+    target_offset: TargetOffset | None = None  # built f0 against the job's f0 target

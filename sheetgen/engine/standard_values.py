@@ -51,6 +51,11 @@ def _clean(value: float) -> float:
 # of the layout and the leads (a few tenths of a pF) dominate it (common practice).
 MIN_SECOND_PART_F = 0.5e-12
 
+# Wiring and layout capacitance across a tuning capacitor that sheetgen chooses: about
+# 2 pF for short point-to-point wiring (common practice). A capacitance the job states is
+# taken as the tank's own; this default is never added to it.
+DEFAULT_STRAY_CAPACITANCE_F = 2e-12
+
 
 @dataclass(frozen=True)
 class StandardPair:

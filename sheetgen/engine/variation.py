@@ -41,6 +41,12 @@ REFERENCE_TEMPERATURE_C = 25.0
 DEFAULT_TRIALS = 100_000
 DEFAULT_COVERAGE = 0.9973  # the ±3σ central interval of a normal distribution
 DEFAULT_SEED = 1
+# Common practice: a coil's Q, estimated from loss tables or stated by a maker for the
+# type (a typical or minimum figure), spreads about ±20 % from unit to unit.
+COIL_Q_SPREAD = 0.20
+# Common practice: bought RF inductors are sold at ±5 % or ±10 %; with none stated the
+# wider is assumed.
+BOUGHT_COIL_TOLERANCE = 0.10
 
 # Independent random streams, spawned from the seed in this order. A new quantity is
 # added at the end, so existing jobs keep their draws.

@@ -186,6 +186,20 @@ def dc_resistance_ohm(length_m, diameter_m, resistivity_ohm_m):
     return resistivity_ohm_m * length_m / (math.pi * diameter_m**2 / 4.0)
 
 
+def straight_wire_inductance_h(length_m, diameter_m, high_frequency: bool = True):
+    """Self-inductance of a straight round wire of length l and radius r (l ≫ r), Rosa
+    (1908) and Grover, "Inductance Calculations" (1946):
+
+        L = (µ0·l / 2π)·(ln(2l/r) − 1)      at high frequency (current on the surface)
+        L = (µ0·l / 2π)·(ln(2l/r) − 3/4)    at DC (uniform current: + µ0·l/8π inside)
+    """
+    length = np.asarray(length_m, dtype=float)
+    r = 0.5 * np.asarray(diameter_m, dtype=float)
+    constant = 1.0 if high_frequency else 0.75
+    result = mu_0 * length / (2.0 * math.pi) * (np.log(2.0 * length / r) - constant)
+    return _like_input(result)
+
+
 def current_density_a_per_m2(current_rms_a, diameter_m):
     """J = I / (π d²/4), the DC (uniform) current density."""
     return current_rms_a / (math.pi * diameter_m**2 / 4.0)

@@ -36,8 +36,14 @@ from sheetgen.engine.limits import (
     DEFAULT_LCR_ACCURACY,
 )
 from sheetgen.engine.ratings import DEFAULT_CURRENT_DERATING, DEFAULT_VOLTAGE_DERATING
-from sheetgen.engine.standard_values import SERIES_TOLERANCE
-from sheetgen.engine.variation import DEFAULT_COVERAGE, DEFAULT_SEED, DEFAULT_TRIALS
+from sheetgen.engine.standard_values import DEFAULT_STRAY_CAPACITANCE_F, SERIES_TOLERANCE
+from sheetgen.engine.variation import (
+    BOUGHT_COIL_TOLERANCE,
+    COIL_Q_SPREAD,
+    DEFAULT_COVERAGE,
+    DEFAULT_SEED,
+    DEFAULT_TRIALS,
+)
 
 
 def _quantity(dimension: quantities.Dimension, minimum: float | None = 0.0, inclusive: bool = False,
@@ -264,17 +270,31 @@ class CircuitSection(Section):
                              "supply and it is rated for the RF alone")
 
 
+QTolerance = Field(None, description="± unit-to-unit spread of the coil's Q (of its loss "
+                   "resistance), e.g. 15 % (omit: variation.loss_tolerance, else "
+                   f"{COIL_Q_SPREAD * 100:g} %, common "
+                   "practice for a maker's stated Q, a measured prototype or an estimate)")
+
+
+PartDescription = Annotated[str | None, Field(min_length=1, max_length=300)]
+
+
 class GivenInductor(Section):
     """A coil whose inductance and loss are known (measured or from its maker's sheet)."""
 
     form: Literal["given"] = Field(description="given: inductance and loss are stated")
+    description: PartDescription = Field(None, description="what to buy, for the parts list, "
+                                         "e.g. axial moulded RF inductor, 0.5 A")
     inductance: Inductance | None = Field(
         None, description="inductance; omit to have it computed from targets.f0 and C")
     q: PositiveNumber | None = Field(None, description="the coil's unloaded Q at f0")
     resistance: LossResistance | None = Field(
         None, description="the coil's series loss resistance at f0 (instead of q)")
     tolerance: Tolerance | None = Field(None, description="± tolerance of the inductance, e.g. "
-                                       "5 % (omit: taken as exact)")
+                                       f"5 % (omit: {BOUGHT_COIL_TOLERANCE * 100:g} %, common "
+                                       "practice for a bought RF inductor; 0 % for a coil "
+                                       "measured and selected)")
+    q_tolerance: Tolerance | None = QTolerance
     temperature_coefficient: TemperatureCoefficient | None = Field(
         None, description="temperature coefficient of the inductance, e.g. 50 ppm/K")
 
@@ -406,6 +426,7 @@ class ToroidInductor(Section):
         "its Q near it")
     q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
                                      "the estimate (optional)")
+    q_tolerance: Tolerance | None = QTolerance
     tolerance: Tolerance | None = Field(None, description="± tolerance of the wound inductance "
                                        "(default: the core's AL tolerance, else its material's "
                                        "µi tolerance)")
@@ -437,6 +458,7 @@ class SolenoidInductor(Section):
                                  "(at most 300 mm)")
     q: PositiveNumber | None = Field(None, description="measured Q at f0, to use instead of "
                                      "the estimate (optional)")
+    q_tolerance: Tolerance | None = QTolerance
     tolerance: Tolerance | None = Field(None, description="± tolerance of the wound inductance "
                                        "(default 5 %, common practice for hand-wound coils)")
     temperature_coefficient: TemperatureCoefficient | None = Field(
@@ -455,6 +477,8 @@ Inductor = Annotated[GivenInductor | ToroidInductor | SolenoidInductor,
 class Trimmer(Section):
     """A variable capacitor across the fixed one, for tuning f0 on the bench."""
 
+    description: PartDescription = Field(None, description="what to buy, for the parts list, "
+                                         "e.g. film-dielectric trimmer, 10 mm")
     minimum: Capacitance = Field(description="capacitance at minimum mesh")
     maximum: Capacitance = Field(description="capacitance at maximum mesh")
     rated_voltage: Voltage | None = Field(None, description="the trimmer's rated (peak) voltage")
@@ -469,6 +493,8 @@ class Trimmer(Section):
 class CapacitorSection(Section):
     """The tuning capacitor."""
 
+    description: PartDescription = Field(None, description="what to buy, for the parts list, "
+                                         "e.g. silver mica, radial leads")
     capacitance: Capacitance | None = Field(
         None, description="capacitance; omit to have it computed from targets.f0 and L")
     esr: LossResistance | None = Field(None, description="equivalent series resistance at f0")
@@ -508,9 +534,12 @@ class CapacitorSection(Section):
     bleeder_rated_voltage: Voltage | None = Field(
         None, description="working-voltage rating of the bleeder (peak), checked against the "
         "tank's RF peak (omit: the sheet states the minimum to buy)")
-    stray: SmallCapacitance = Field(2e-12, description="wiring and layout capacitance across the "
-                               "capacitor, subtracted from the capacitance to fit (default "
-                               "2 pF, common practice for short point-to-point wiring)")
+    stray: SmallCapacitance | None = Field(
+        None, description="wiring and layout capacitance across the capacitor. Design mode "
+        "(no capacitance given): subtracted from the capacitance to fit (omit: "
+        f"{DEFAULT_STRAY_CAPACITANCE_F * 1e12:g} pF, common practice for short point-to-point "
+        "wiring). With a capacitance given: added to it (omit: none, the capacitance given is "
+        "the tank's)")
 
     @model_validator(mode="after")
     def _one_loss(self):
@@ -586,8 +615,9 @@ class VariationSection(Section):
     coverage: Fraction = Field(DEFAULT_COVERAGE, description="share of correctly built units the limits "
                                "must pass, e.g. 99.73 %")
     loss_tolerance: Tolerance | None = Field(
-        None, description="± spread of the coil's loss resistance and the capacitor's ESR "
-        "(omit: exact)")
+        None, description="± spread of the capacitor's ESR and (unless inductor.q_tolerance "
+        "is given) of the coil's loss resistance (omit: ESR exact, coil "
+        f"{COIL_Q_SPREAD * 100:g} %, common practice)")
     temperature: OperatingTemperature = Field(
         OperatingTemperature(), description="operating ambient range (default 15 to 35 °C, a "
         "bench and indoor range)")
@@ -704,7 +734,8 @@ class Job(Section):
         bands = {"inductor.tolerance": self.inductor.tolerance,
                  "capacitor.tolerance": self.capacitor.tolerance,
                  "load.tolerance": self.load.tolerance if self.load is not None else None,
-                 "variation.loss_tolerance": self.variation.loss_tolerance}
+                 "variation.loss_tolerance": self.variation.loss_tolerance,
+                 "inductor.q_tolerance": self.inductor.q_tolerance}
         for field, band in bands.items():
             if band is not None and band > NORMAL_BAND_MAX:
                 raise PydanticCustomError(

@@ -47,6 +47,9 @@ def failed_checks(design: Design) -> list[CheckFailure]:
             f"{format_quantity(a.limits.bandwidth_min_hz, 'Hz', 3)} bandwidth, and there is no "
             f"trimmer: add a trimmer of at least {format_quantity(a.trim_range_needed_f, 'F', 3)}"
             " range (capacitor.trimmer), or choose closer-tolerance parts"))
+    offset = design.target_offset
+    if offset is not None and offset.misses:
+        failures.append(CheckFailure("target-offset", "capacitor", _offset_text(design)))
     choice = design.capacitor_choice
     band = design.assessment.band
     if band is not None and not band.covers:
@@ -63,6 +66,40 @@ def failed_checks(design: Design) -> list[CheckFailure]:
                 "away; choose a smaller fixed part, or check the f0 target and the inductance")
         failures.append(CheckFailure("trimmer-range", "capacitor.trimmer", text))
     return failures
+
+
+def _offset_text(design: Design) -> str:
+    """The built f0 misses its target: by how much, and the changes that would meet it."""
+    o = design.target_offset
+    low, high = o.window_hz
+    how = (f"{format_number(abs(o.bandwidths), 3)} bandwidths "
+           if o.bandwidths is not None else "")
+    text = (f"the parts as chosen resonate at {format_quantity(o.built_hz, 'Hz', 4)}, "
+            f"{how}{'below' if o.offset_hz < 0 else 'above'} the "
+            f"{format_quantity(o.target_hz, 'Hz', 4)} target (f0 window "
+            f"{format_quantity(low, 'Hz', 4)} to {format_quantity(high, 'Hz', 4)})")
+    fixes = [_remedy_text(design, r) for r in o.remedies]
+    if fixes:
+        text += "; to meet it: " + "; or ".join(fixes)
+    return text
+
+
+def _remedy_text(design: Design, remedy) -> str:
+    f0 = format_quantity(remedy.f0_hz, "Hz", 4)
+    parts = " + ".join(format_quantity(v, "F", 3) for v in remedy.parts_f)
+    if remedy.kind == "pair":
+        return f"fit {parts} ({remedy.series}) in parallel, f0 {f0}"
+    if remedy.kind == "series":
+        return (f"fit {parts} from {remedy.series} (capacitor.preferred_series: "
+                f"{remedy.series}), f0 {f0}")
+    if remedy.kind == "turns":
+        return f"wind {remedy.turns} turns instead of {design.coil.result.turns}, f0 {f0}"
+    c = remedy.capacitance_f
+    if c >= 0:
+        return (f"add a trimmer across C that supplies about {format_quantity(c, 'F', 3)} "
+                "at mid-range (capacitor.trimmer)")
+    return (f"fit a fixed part about {format_quantity(-c, 'F', 3)} smaller with a trimmer "
+            "that makes up the rest (capacitor.trimmer)")
 
 
 def _trimmer_coverage_text(trim) -> str:

@@ -137,19 +137,22 @@ def _coil_row(design: Design) -> PartRow:
     name = design.designators.coil
     tolerance = _tolerance(design.assessment.inductance_tolerance)
     if coil is None:
+        said = design.job.inductor.description
         return PartRow(name, "Coil", quantity_text(c.inductance_h, "H"), tolerance=tolerance,
-                       notes=f"coil Q {format_number(r.q_inductor, 4)} at f0 "
-                             f"(loss {quantity_text(c.inductor_resistance_ohm, 'Ω')} in series)")
+                       notes=(f"{said}; " if said else "bought coil of this inductance; ")
+                       + f"coil Q {format_number(r.q_inductor, 4)} at f0 "
+                         f"(loss {quantity_text(c.inductor_resistance_ohm, 'Ω')} in series)")
     built = coil.result
     wire = (f"{built.wire.name} ({quantity_text(built.wire.diameter_m, 'm', 3)} copper), grade "
             f"{built.wire.grade} enamel")
     if coil.form == "toroid":
-        material = f"{coil.material_name} core; {wire}"
+        material = f"{coil.material_name} core ({coil.stock}); {wire}"
         rating = (f"core flux {quantity_text(coil.flux_density_max_t, 'T', 3)} peak"
                   if coil.flux_density_max_t else NO_DATA)
         where = f" on {coil.core_name}"
     else:
-        material, rating, where = f"air core; {wire}", NO_DATA, " on its former (air core)"
+        material, rating, where = (f"air core ({coil.stock}); {wire}", NO_DATA,
+                                   " on its former (air core)")
     return PartRow(name, f"Coil, {coil.form}", quantity_text(built.inductance_built_h, "H"),
                    tolerance=tolerance, rating=rating, material=material,
                    notes=f"{plural(built.turns, 'turn')}{where}; coil Q "
@@ -190,22 +193,29 @@ def _capacitor_rows(design: Design) -> list[PartRow]:
     fixed_part = dict(tolerance=_tolerance(a.capacitor_tolerance, a.capacitor_tolerance_source),
                       rating=_fixed_capacitor_rating(design), material=_dielectric(design))
     fixed = names.fixed_capacitors
+    said = design.job.capacitor.description
+    if said:
+        fixed_part["part"] = f"Capacitor, {said}"
     if not choice.from_standard_parts:
-        rows = [PartRow(fixed[0], "Capacitor", quantity_text(choice.fixed_f, "F"), **fixed_part,
+        rows = [PartRow(fixed[0], fixed_part.pop("part", "Capacitor"),
+                        quantity_text(choice.fixed_f, "F"), **fixed_part,
                         notes="as the job gives it")]
     elif pair.second is None:
-        rows = [PartRow(fixed[0], "Capacitor", quantity_text(pair.first, "F", 3), **fixed_part,
+        rows = [PartRow(fixed[0], fixed_part.pop("part", "Capacitor"),
+                        quantity_text(pair.first, "F", 3), **fixed_part,
                         notes=f"{choice.series} value; {quantity_text(choice.required_f, 'F')} required")]
     else:
-        rows = [PartRow(fixed[0], "Capacitor", quantity_text(pair.first, "F", 3), **fixed_part,
+        part = fixed_part.pop("part", "Capacitor")
+        rows = [PartRow(fixed[0], part, quantity_text(pair.first, "F", 3), **fixed_part,
                         notes=f"{choice.series}; with {fixed[1]} in parallel "
                               f"{quantity_text(pair.total, 'F')}, {quantity_text(choice.required_f, 'F')} required"),
-                PartRow(fixed[1], "Capacitor", quantity_text(pair.second, "F", 3), **fixed_part,
+                PartRow(fixed[1], part, quantity_text(pair.second, "F", 3), **fixed_part,
                         notes=f"{choice.series}; in parallel with {fixed[0]}")]
     trimmer = design.job.capacitor.trimmer
     if names.trimmer is not None and trimmer is not None:
         state = "" if choice.trimmer_in_range else "; OUT OF RANGE: choose another trimmer"
-        rows.append(PartRow(names.trimmer, "Trimmer capacitor",
+        rows.append(PartRow(names.trimmer, "Trimmer capacitor"
+                            + (f", {trimmer.description}" if trimmer.description else ""),
                             range_text(trimmer.minimum, trimmer.maximum, 'F', 3),
                             rating=(quantity_text(trimmer.rated_voltage, "V", 3) + " peak"
                                     if trimmer.rated_voltage is not None else NO_DATA),

@@ -34,7 +34,12 @@ from sheetgen.report.formatting import (
     signed,
     tolerance_text,
 )
-from sheetgen.report.winding import measuring_frequency_hz
+from sheetgen.report.winding import (
+    LCR_REACTANCE_MIN_OHM,
+    coil_check,
+    coil_measuring_text,
+    measuring_frequency_hz,
+)
 
 NO_WINDOW = "—"  # a record row with no window to judge against (e.g. no tolerance given)
 
@@ -327,6 +332,29 @@ def _lcr_settings(frequency_hz: float, note: str) -> tuple[tuple[str, str], ...]
             ("Why this setting", note))
 
 
+def _coil_step(design: Design, coil_name: str, wound: str, measure_at: float) -> tuple:
+    """The coil's measuring step: an LCR meter, or for a coil of too little reactance at
+    the meter's frequencies an analyser near the frequency of use (report/winding.py)."""
+    expected = f"Expected {quantity_text(design.circuit.inductance_h, 'H')}."
+    check = coil_check(design)
+    if check is None or check.method == "lcr":
+        return ("coil", "Measure the coil",
+                f"Measure {coil_name}{wound} with an LCR meter, with nothing connected, "
+                f"before fitting it. {expected}",
+                _lcr_settings(measure_at, _coil_level_note(design, measure_at)),
+                ("measured.inductance_h",))
+    at = quantity_text(check.measure_at_hz, "Hz", 3)
+    return ("coil", "Measure the coil",
+            f"Measure {coil_name}{wound} before fitting it: {coil_measuring_text(check)}. "
+            f"{expected}",
+            (("Analyser frequency", at),
+             ("Fixture", "short, compensated open and short at its clips"),
+             ("Why this setting", "below f0 and a tenth of the coil's self-resonance; at the "
+              "LCR meter's frequencies its reactance is under "
+              f"{quantity_text(LCR_REACTANCE_MIN_OHM, 'Ω', 2)}")),
+            ("measured.inductance_h",))
+
+
 def _coil_level_note(design: Design, frequency_hz: float) -> str:
     """Why the coil is measured where it is, and, on a ring core, the flux the meter's level
     drives (Faraday: B̂ = √2·V/(ωNAe)), far inside the material's limit."""
@@ -455,11 +483,7 @@ def procedure(design: Design) -> Procedure:
         ("parts", "Check the parts",
          "Check every part against the parts list: value, tolerance, dielectric or "
          "material, and rating where the list gives one.", (), ()),
-        ("coil", "Measure the coil",
-         f"Measure {coil_name}{wound} with an LCR meter, with nothing connected, before "
-         f"fitting it. Expected {quantity_text(design.circuit.inductance_h, 'H')}.",
-         _lcr_settings(measure_at, _coil_level_note(design, measure_at)),
-         ("measured.inductance_h",)),
+        _coil_step(design, coil_name, wound, measure_at),
         ("capacitance", "Measure the capacitance",
          f"Measure {fixed} together as they will be fitted"
          + (", without the trimmer" if trimmer else "")

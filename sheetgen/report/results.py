@@ -280,6 +280,8 @@ def _inductor(design: Design) -> dict:
                  "awg": r.wire.awg},
         "wire_length_m": r.wire_length_m,
         "lead_length_m": coil.lead_length_m,
+        "lead_inductance_h": coil.leads.inductance_h if coil.leads else None,
+        "lead_inductance_counted": coil.leads.counted if coil.leads else None,
         "dc_resistance_ohm": r.dc_resistance_ohm,
         "ac_resistance_ohm": r.ac_resistance_ohm,
         "core_loss_resistance_ohm": r.core_loss_resistance_ohm if toroid else 0.0,

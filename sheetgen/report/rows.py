@@ -13,6 +13,7 @@ from sheetgen.quantities import format_number
 from sheetgen.report.cautions import dc_feed_text, names_text
 from sheetgen.report.formatting import (
     condition_text,
+    percent,
     plural,
     quantity_text,
     range_text,
@@ -20,6 +21,7 @@ from sheetgen.report.formatting import (
     stress_text,
     tolerance_text,
 )
+from sheetgen.report.winding import coil_check
 
 
 @dataclass(frozen=True)
@@ -38,7 +40,9 @@ def component_rows(design: Design) -> list[Row]:
     coil = design.coil
     if coil is not None:
         inductance_remark = (f"{plural(coil.result.turns, 'turn')}, built"
-                             + (f" on {coil.core_name}" if coil.core_name else ""))
+                             + (f" on {coil.core_name}" if coil.core_name else "")
+                             + (", with its leads" if coil.leads and coil.leads.counted
+                                else ""))
         loss_remark = ("estimated at f0" if coil.q_source == "estimate"
                        else "from the job's Q")
     else:
@@ -48,8 +52,7 @@ def component_rows(design: Design) -> list[Row]:
         Row("Topology", c.topology),
         Row("Inductance L", quantity_text(c.inductance_h, "H"), inductance_remark),
         Row("Coil loss resistance rL", quantity_text(c.inductor_resistance_ohm, "Ω"), loss_remark),
-        Row("Capacitance C", quantity_text(c.capacitance_f, "F"),
-            "as fitted, with what is already across it"),
+        Row("Capacitance C", quantity_text(c.capacitance_f, "F"), _capacitance_remark(design)),
     ]
     rows += capacitor_rows(design)
     rows += across_rows(design)
@@ -64,28 +67,42 @@ def component_rows(design: Design) -> list[Row]:
     return rows
 
 
+def _capacitance_remark(design: Design) -> str:
+    across = design.capacitor_choice.across
+    if across is not None and across.added:
+        return ("as the job states it" if across.total_f == 0.0
+                else "the job's capacitance, with what is across it")
+    return "as fitted, with what is already across it"
+
+
 def across_rows(design: Design) -> list[Row]:
-    """The capacitance across C that is not a part to fit, subtracted before choosing."""
+    """The capacitance across C that is not a part to fit: subtracted before choosing the
+    parts (design mode), or added to the capacitance the job states."""
     across = design.capacitor_choice.across
     if across is None:
         return []
     source = {"medhurst_1947": "Medhurst (1947)", "job": "from the job"}.get(across.self_source)
-    parts = [f"strays {quantity_text(across.stray_f, 'F')} (capacitor.stray)"]
+    stray = {"job": "strays {} (capacitor.stray)",
+             "default": "strays {} (default for short point-to-point wiring, common practice; "
+                        "capacitor.stray)",
+             "none": "no strays counted (capacitor.stray)"}[across.stray_source]
+    parts = [stray.format(quantity_text(across.stray_f, "F"))]
     if design.circuit.topology == "parallel":
         parts.insert(0, "coil self-capacitance none estimated (give inductor.self_capacitance)"
                      if across.self_source == "none" else
                      f"coil self-capacitance {quantity_text(across.self_capacitance_f, 'F')}"
                      f" ({source})")
+    how = ("added to the job's capacitance: " if across.added
+           else "subtracted from the capacitance to fit: ")
     return [Row("Capacitance already across C", quantity_text(across.total_f, "F"),
-                "subtracted from the capacitance to fit: " + ", ".join(parts))]
+                how + ", ".join(parts))]
 
 
 def capacitor_rows(design: Design) -> list[Row]:
     """What capacitance the design needs and which standard parts make it up."""
     choice = design.capacitor_choice
-    if not choice.from_standard_parts:
-        return [Row(f"Nearest {choice.series} value", quantity_text(choice.nearest_f, "F", 3),
-                    f"{signed((choice.nearest_f / choice.required_f - 1) * 100, 2)} %")]
+    if not choice.from_standard_parts:  # the job states the part built: nothing to pick
+        return []
     derived = {d.field: d.reason for d in design.derived}
     parts = " + ".join(quantity_text(v, "F", 3) for v in choice.fixed_parts_f)
     rows = [Row("Capacitance required", quantity_text(choice.required_f, "F"),
@@ -125,8 +142,15 @@ def coil_rows(design: Design) -> list[Row]:
         Row("Inductance wanted", quantity_text(coil.target_inductance_h, "H")),
         Row("Turns N", str(r.turns), "each pass through the centre is one turn"
             if coil.form == "toroid" else "whole turns"),
-        Row("Inductance built", quantity_text(r.inductance_built_h, "H")),
+        Row("Inductance built", quantity_text(r.inductance_built_h, "H"), "the winding"),
     ]
+    if coil.leads is not None:
+        leads = coil.leads
+        rows.append(Row("Lead inductance", quantity_text(leads.inductance_h, "H"),
+                        f"two {quantity_text(coil.lead_length_m, 'm', 3)} leads, "
+                        f"{percent(leads.share)} of the winding (straight wire, Rosa/Grover); "
+                        + ("counted in L" if leads.counted else "not counted")
+                        + f": above {percent(leads.threshold)} counts"))
     if coil.f0_with_whole_turns_hz is not None:
         rows.append(Row("f0 before re-centring", quantity_text(coil.f0_with_whole_turns_hz, "Hz"),
                         "whole turns, capacitance for the wanted L"))
@@ -237,6 +261,9 @@ def performance_rows(design: Design) -> list[Row]:
     parallel = design.circuit.topology == "parallel"
     rows = [
         Row("Resonant frequency f0", quantity_text(r.f0_hz, "Hz"), "1/(2π√(LC))"),
+    ]
+    rows += _offset_rows(design)
+    rows += [
         Row("Frequency of maximum response", quantity_text(r.f_peak_hz, "Hz"),
             "tank voltage" if parallel else "loop current"),
     ]
@@ -262,6 +289,24 @@ def performance_rows(design: Design) -> list[Row]:
         rows.append(Row("Dynamic resistance of the tank", quantity_text(r.dynamic_resistance_ohm, "Ω"),
                         "|Z| at zero phase (exact)"))
     return rows
+
+
+def _offset_rows(design: Design) -> list[Row]:
+    """The built f0 against the job's f0 target, in hertz and in bandwidths."""
+    o = design.target_offset
+    if o is None:
+        return []
+    exact = abs(o.offset_hz) < 1e-9 * o.target_hz  # re-centred: only rounding is left
+    off = quantity_text(0.0 if exact else o.offset_hz, "Hz")
+    if not off.startswith(("−", "-", "0")):
+        off = "+" + off
+    value = off.replace("-", "−")
+    if o.bandwidths is not None:
+        value += f" ({signed(0.0 if exact else o.bandwidths, 2)} bandwidths)"
+    verdict = ("MISSES the target: outside the half-power band or the f0 window"
+               if o.misses else "within half a bandwidth and the f0 window")
+    return [Row("Offset from the f0 target", value,
+                f"target {quantity_text(o.target_hz, 'Hz')}; {verdict}")]
 
 
 def stress_rows(design: Design) -> list[Row]:
@@ -392,8 +437,7 @@ def limits_rows(design: Design) -> list[Row]:
             f"{operating.temperature_max_c:g} °C", "operating range: see over temperature"),
         Row("Capacitor tolerance", tolerance_text(a.capacitor_tolerance),
             f"from {a.capacitor_tolerance_source}"),
-        Row("Inductance tolerance", tolerance_text(a.inductance_tolerance)
-            if a.inductance_tolerance else "exact (none given)"),
+        _inductance_tolerance_row(design),
         _loss_spread_row(design),
         Row("Windows rounded outward to", quantity_text(a.resolution_hz, "Hz", 3)),
     ]
@@ -425,20 +469,39 @@ def band_rows(design: Design) -> list[Row]:
                         f"bandwidth {quantity_text(lim.bandwidth_min_hz, 'Hz')} to "
                         f"{quantity_text(lim.bandwidth_max_hz, 'Hz')}", setting))
     return rows
+def _inductance_tolerance_row(design: Design) -> Row:
+    """The coil's tolerance and where it came from: the job, or a stated default."""
+    a = design.assessment
+    inductor = design.job.inductor
+    if not a.inductance_tolerance:
+        return Row("Inductance tolerance", "exact", "the job gives 0 %" if
+                   inductor.tolerance is not None else "none given (inductor.tolerance)")
+    if inductor.tolerance is not None:
+        origin = "from the job"
+    elif inductor.form == "given":
+        origin = "assumed for a bought coil (common practice); inductor.tolerance"
+    elif inductor.form == "solenoid":
+        origin = "assumed for a hand-wound coil (common practice); inductor.tolerance"
+    else:
+        origin = "the core's AL (or µi) tolerance; inductor.tolerance"
+    return Row("Inductance tolerance", tolerance_text(a.inductance_tolerance), origin)
 
 
 def _loss_spread_row(design: Design) -> Row:
     """How the coil's and capacitor's losses were varied: the job's spread, or the stated
-    default for a coil Q that is only an estimate."""
+    common-practice default for a coil Q (estimated, or stated by a maker)."""
     a = design.assessment
+    esr = design.job.variation.loss_tolerance
+    esr_text = (f"; capacitor ESR {tolerance_text(esr)}" if esr else "; capacitor ESR exact")
     if a.loss_spread_source == "job":
-        return Row("Loss resistance spread", tolerance_text(a.loss_spread),
-                   "coil loss and capacitor ESR")
-    if a.loss_spread_source == "estimate":
-        return Row("Loss resistance spread", tolerance_text(a.loss_spread),
-                   "coil loss: the coil Q is an estimate (common practice); give the "
-                   "measured inductor.q or variation.loss_tolerance to change it")
-    return Row("Loss resistance spread", "none given", "coil loss and ESR taken as exact")
+        return Row("Coil Q spread", tolerance_text(a.loss_spread),
+                   "coil loss resistance, from the job" + esr_text)
+    if a.loss_spread_source in ("default", "estimate"):
+        what = "an estimate" if a.loss_spread_source == "estimate" else "a stated figure"
+        return Row("Coil Q spread", tolerance_text(a.loss_spread),
+                   f"coil loss resistance: the coil Q is {what}, assumed to spread so "
+                   "(common practice); inductor.q_tolerance" + esr_text)
+    return Row("Coil Q spread", "exact", "the job gives 0 %" + esr_text)
 
 
 def _bench_rows(design: Design) -> list[Row]:
@@ -469,8 +532,11 @@ def _bench_rows(design: Design) -> list[Row]:
                     range_text(lim.f_centre_min_hz, lim.f_centre_max_hz, "Hz", 6),
                     "midpoint of the −3 dB points; for broad peaks"))
     if a.inductance_window is not None:
+        check = coil_check(design)
+        meter = ("the analyser" if check is not None and check.method == "analyser"
+                 else "the LCR meter")
         rows.append(Row("Inductance window", range_text(*a.inductance_window, "H"),
-                        "as the LCR meter reads L1"))
+                        f"as {meter} reads {design.designators.coil}"))
     if a.capacitance_window is not None:
         rows.append(Row("Capacitance window", range_text(*a.capacitance_window, "F"),
                         "as the LCR meter reads the fixed part(s)"))

@@ -8,6 +8,7 @@ self-resonance, so the meter reads the inductance rather than the self-capacitan
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 from sheetgen.design.designators import Designators
@@ -16,6 +17,10 @@ from sheetgen.quantities import format_number, format_quantity
 from sheetgen.report.formatting import condition_text, plural, tolerance_text
 
 LCR_TEST_FREQUENCIES_HZ = (100.0, 1e3, 10e3, 100e3, 1e6)  # usual bench meters (common practice)
+# An ordinary LCR meter holds its basic accuracy from about 10 Ω of |Z| up (common
+# practice, from memory); a coil of less reactance at its highest usable frequency is
+# measured on an impedance or network analyser nearer the frequency of use.
+LCR_REACTANCE_MIN_OHM = 10.0
 
 
 @dataclass(frozen=True)
@@ -30,9 +35,10 @@ class WindingStep:
 class CoilCheck:
     """What the wound coil must measure before assembly."""
 
-    inductance_h: float
+    inductance_h: float  # the winding and, where counted, its leads
     tolerance: float | None  # fraction, ± ; None when the job gives no tolerance
     measure_at_hz: float
+    method: str = "lcr"  # "lcr" (an LCR meter) or "analyser" (impedance/network analyser)
 
 
 def measuring_frequency_hz(f0_hz: float, srf_hz: float | None) -> float:
@@ -48,8 +54,35 @@ def coil_check(design: Design) -> CoilCheck | None:
     if coil is None:
         return None
     r = coil.result
-    return CoilCheck(r.inductance_built_h, coil.inductance_tolerance,
-                     measuring_frequency_hz(design.resonance.f0_hz, r.srf_hz))
+    leads = coil.leads
+    inductance = r.inductance_built_h + (leads.inductance_h if leads and leads.counted else 0)
+    f0 = design.resonance.f0_hz
+    at = measuring_frequency_hz(f0, r.srf_hz)
+    if 2.0 * math.pi * at * inductance >= LCR_REACTANCE_MIN_OHM:
+        return CoilCheck(inductance, coil.inductance_tolerance, at)
+    return CoilCheck(inductance, coil.inductance_tolerance,
+                     analyser_frequency_hz(f0, r.srf_hz), "analyser")
+
+
+def analyser_frequency_hz(f0_hz: float, srf_hz: float | None) -> float:
+    """The analyser frequency for a small coil: the largest 1-2-5 value no higher than f0
+    and a tenth of the self-resonance (the module's rule, carried past the LCR meter)."""
+    ceiling = min(f0_hz, srf_hz / 10.0) if srf_hz else f0_hz
+    decade = 10.0 ** math.floor(math.log10(ceiling))
+    return max(m * decade for m in (1.0, 2.0, 5.0) if m * decade <= ceiling)
+
+
+def coil_measuring_text(check: CoilCheck) -> str:
+    """How to measure the coil: the instrument, frequency and fixture, and what the
+    reading holds."""
+    at = format_quantity(check.measure_at_hz, "Hz", 3)
+    if check.method == "lcr":
+        return f"measure its inductance at {at} with nothing connected"
+    return (f"its reactance is too small for an LCR meter's basic accuracy at 1 MHz, so "
+            f"measure its inductance on an impedance or network analyser at {at}, in a "
+            "short fixture compensated open and short at its clips, the leads cut to length "
+            "and clipped at their ends (the reading then holds the winding and its leads; "
+            "subtract nothing else)")
 
 
 def winding_steps(design: Design) -> list[WindingStep]:
@@ -66,8 +99,7 @@ def winding_steps(design: Design) -> list[WindingStep]:
     tolerance = (f" {tolerance_text(check.tolerance)}"
                  if check.tolerance is not None else "")
     texts.append(
-        f"Check the wound coil before assembly: measure its inductance at "
-        f"{format_quantity(check.measure_at_hz, 'Hz', 3)} with nothing connected. Expect "
+        f"Check the wound coil before assembly: {coil_measuring_text(check)}. Expect "
         f"{format_quantity(check.inductance_h, 'H', 4)}{tolerance}. Record the reading on the "
         "test record.")
     return [WindingStep(i + 1, text) for i, text in enumerate(texts)]

@@ -165,7 +165,10 @@ def test_series_touchstone_passes_and_the_report_is_written(root, tmp_path, caps
     pdf, results = _sheet(root, "series")
     frequency_hz, current, impedance, load = _simulate(results, *_series_fine(results))
     sweep = _touchstone(tmp_path / "unit.s2p", frequency_hz, current, impedance, load)
-    values = {"measured.capacitance_f": _fitted_pf(results), **IDENTITY}
+    # the starter's coil is ±5 %: L has a window now, so the record needs its reading
+    inductance = f"{results['components']['inductance_h'] * 1e6:.3f} µH"
+    values = {"measured.capacitance_f": _fitted_pf(results),
+              "measured.inductance_h": inductance, **IDENTITY}
     filled = fill(pdf, values, tmp_path / "filled.pdf")
     report = tmp_path / "report.pdf"
     assert main(["grade", str(filled), "--sweep", str(sweep), "-o", str(report)]) == 0

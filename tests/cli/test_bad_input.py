@@ -46,7 +46,7 @@ CASES = [
      [(18, 3, "inductor.resistnce", "did you mean 'resistance'")]),
     ("unknown key, nothing close", _edit("  esr: 0.05 ohm", "  esr: 0.05 ohm\n  colour: blue"),
      [(22, 3, "capacitor.colour", "expected one of: bleeder, bleeder_rated_power, "
-                                  "bleeder_rated_voltage, capacitance, dielectric")]),
+                                  "bleeder_rated_voltage, capacitance, description, dielectric")]),
     ("quantity in the wrong unit", _edit("  esr: 0.05 ohm", "  capacitance: 40 pH\n  esr: 0.05 ohm"),
      [(21, 16, "capacitor.capacitance", '"40 pH" is not a capacitance (expected farads, e.g. 40 pF)')]),
     ("zero", _edit("resistance: 50 ohm\n  available", "resistance: 0 ohm\n  available"),
@@ -59,9 +59,7 @@ CASES = [
      [(21, 8, "capacitor.esr", '"low" is not a resistance')]),
     ("missing required field", _edit("  title: 13.56 MHz series-tuned band-pass, 50 Ω line\n", ""),
      [(4, 3, "sheet.title", "is missing")]),
-    ("missing section", _edit("inductor:\n  form: given\n  inductance: 10 uH\n"
-                              "  resistance: 3.2 ohm    # series loss resistance at f0 (or give q)\n\n",
-                              ""),
+    ("missing section", re.sub(r"(?m)^inductor:\n(?:[ #].*\n|\n)*", "", GOOD),
      [(3, 1, "inductor", "is missing")]),
     ("wrong choice", _edit("topology: series", "topology: ladder"),
      [(11, 13, "circuit.topology", "'series' or 'parallel'")]),

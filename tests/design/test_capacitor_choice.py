@@ -18,6 +18,7 @@ inductor:
   form: given
   inductance: 10 uH
   q: 100
+  tolerance: 0.1 %     # a selected coil (omit: a bought coil's ±10 % is assumed)
 capacitor:
   capacitance: {c}
   tolerance: 0.1 %     # a selected part: no trimmer is needed to stay in the band

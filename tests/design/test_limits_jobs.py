@@ -57,9 +57,10 @@ def test_another_seed_moves_the_limits_but_not_the_nominal(tmp_path, capsys):
 def test_worst_case_window_holds_the_thomson_corners(tmp_path, capsys):
     """With ±5 % on L and C and no temperature drift, the exact f0 extremes are at the
     corners L(1±0.05)·C(1±0.05) (Thomson's formula)."""
-    text = ((TEMPLATES / "series.yaml").read_text(encoding="utf-8")
-            .replace("  inductance: 10 uH", "  inductance: 10 uH\n  tolerance: 5 %")
-            .replace("  esr: 0.05 ohm", "  esr: 0.05 ohm\n  tolerance: 5 %")
+    starter = (TEMPLATES / "series.yaml").read_text(encoding="utf-8")
+    assert "  resistance: 3.2 ohm    # series loss resistance at f0 (or give q)\n" \
+           "  tolerance: 5 %" in starter  # the starter's coil is ±5 % already
+    text = (starter.replace("  esr: 0.05 ohm", "  esr: 0.05 ohm\n  tolerance: 5 %")
             + "\nvariation: {method: worst-case, temperature: {minimum: 25 °C, maximum: 25 °C}}"
               "\ntest: {frequency_resolution: 1 Hz, frequency_accuracy: 0 %,"
               " ambient: {minimum: 25 °C, maximum: 25 °C}}\n")
