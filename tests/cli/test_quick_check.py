@@ -34,8 +34,8 @@ def _write(tmp_path, text):
 
 COIL_LOSS_JOB = """\
 circuit: {topology: series}
-inductor: {form: given, inductance: 50 uH, resistance: 22 ohm}
-capacitor: {capacitance: 40 pF, stray: 0 pF, tolerance: 1 %, dielectric: C0G}
+inductor: {form: given, inductance: 50 uH, resistance: 22 ohm, tolerance: 0.1 %}
+capacitor: {capacitance: 40 pF, stray: 0 pF, tolerance: 0.1 %, dielectric: C0G}
 """
 
 
@@ -75,8 +75,8 @@ def test_brief_prints_the_first_figures_and_the_assumptions(tmp_path, capsys):
 def test_losses_left_out_are_none_and_a_given_drive_gives_stresses(tmp_path, capsys):
     job = _write(tmp_path, """\
 circuit: {topology: series}
-inductor: {form: given, inductance: 50 uH}
-capacitor: {capacitance: 40 pF, stray: 0 pF, tolerance: 1 %, dielectric: C0G, rated_voltage: 500 V}
+inductor: {form: given, inductance: 50 uH, tolerance: 0.1 %}
+capacitor: {capacitance: 40 pF, stray: 0 pF, tolerance: 0.1 %, dielectric: C0G, rated_voltage: 500 V}
 source: {resistance: 22 ohm, voltage: 1 V}
 """)
     code, out, err = _run(capsys, "check", job, "--brief")
