@@ -193,6 +193,12 @@ class PortHookup:
     def is_resistor(self) -> bool:
         return self.kind in ("series_resistor", "shunt_resistor")
 
+    def power_rating_w(self, needed_rating_w: float | None) -> float | None:
+        """The resistor's rating: its style's own (a chip's) or the usual size needed."""
+        if self.style is not None and self.style.power_max_w is not None:
+            return self.style.power_max_w
+        return needed_rating_w
+
 
 def port_hookup(wanted_ohm: float, port_tolerance: float = DEFAULT_PORT_TOLERANCE,
                 port_ohm: float = GENERATOR_RESISTANCE_OHM) -> PortHookup:

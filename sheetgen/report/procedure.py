@@ -274,11 +274,9 @@ def fixture_names(design: Design) -> FixtureNames:
 
 
 def _resistor_text(name: str, hookup: PortHookup, rating_w: float | None) -> str:
-    style = hookup.style
-    rating = style.power_max_w if style.power_max_w else rating_w
     return (f"{name} {quantity_text(hookup.resistor_ohm, 'Ω', 3)} "
             f"{tolerance_text(hookup.resistor_tolerance)} (IEC 60063 E96), "
-            f"{rating:g} W {style.name}")
+            f"{hookup.power_rating_w(rating_w):g} W {hookup.style.name}")
 
 
 def fixture_settings(design: Design) -> tuple[tuple[str, str], ...]:
@@ -319,8 +317,8 @@ def fixture_settings(design: Design) -> tuple[tuple[str, str], ...]:
     sees += f", load {quantity_text(bench.circuit.load_resistance_ohm, 'Ω')}"
     sees += " across the tank" if design.circuit.topology == "parallel" else ""
     if probe:
-        sees += (f", and the tank's capacitance {quantity_text(bench.circuit.capacitance_f, 'F')}"
-                 f" with the probe's {quantity_text(found.hookup.capacitance_f, 'F', 2)}")
+        sees += (f"; tank capacitance {quantity_text(bench.circuit.capacitance_f, 'F')}, the "
+                 f"probe's {quantity_text(found.hookup.capacitance_f, 'F', 2)} included")
     rows.append(("The circuit sees", sees))
     resistors = _resistor_behaviour(design)
     if resistors:
@@ -369,34 +367,35 @@ def _port_text(design: Design, hookup: PortHookup, name: str | None, rating_w: f
 
 
 def _resistor_behaviour(design: Design) -> str:
-    """Why the fixture's resistors may be taken as resistors at the test frequency."""
+    """Why the fixture's resistors may be taken as resistors at the test frequency: the
+    parasitics assumed for their kind, and what those do to each."""
     bench = design.bench
-    parts = []
-    for hookup, effect in ((bench.source, bench.source_effect),
-                           (bench.receiver.hookup, bench.receiver_effect)):
-        if effect is None:
-            continue
-        style = hookup.style
-        parts.append(
-            f"{quantity_text(hookup.resistor_ohm, 'Ω', 3)} ({style.name}: about "
-            f"{style.shunt_capacitance_f * 1e12:g} pF across it and "
-            f"{style.lead_inductance_h * 1e9:g} nH in its leads, common practice) "
-            f"changes its impedance by {percent(effect.impedance_change, 2)} and moves the "
-            f"peak by {format_number(abs(effect.peak_shift_bandwidths) * 100, 2)} % of the "
-            "bandwidth")
+    names = fixture_names(design)
+    by_style: dict = {}
+    for hookup, effect, name in ((bench.source, bench.source_effect, names.source),
+                                 (bench.receiver.hookup, bench.receiver_effect,
+                                  names.receiver)):
+        if effect is not None:
+            by_style.setdefault(hookup.style, []).append(
+                f"{name} changes its impedance by {percent(effect.impedance_change, 2)} and "
+                f"moves the peak by {format_number(abs(effect.peak_shift_bandwidths) * 100, 2)}"
+                " % of the bandwidth")
+    parts = [f"{style.name}, about {style.shunt_capacitance_f * 1e12:g} pF across and "
+             f"{style.lead_inductance_h * 1e9:g} nH in series (common practice): "
+             + "; ".join(effects) for style, effects in by_style.items()]
     if not parts:
         return ""
-    return ("at the test frequency " + "; ".join(parts) + f" (allowed: "
-            f"{percent(PARASITIC_IMPEDANCE_CHANGE, 2)} and "
+    return ("; ".join(parts) + f" (allowed: {percent(PARASITIC_IMPEDANCE_CHANGE, 2)} and "
             f"{percent(PARASITIC_PEAK_SHIFT_BANDWIDTHS, 1)} of the bandwidth, common "
-            "practice), so it is a resistor there")
+            "practice), so each is a resistor at the test frequency")
 
 
 def _reading_text(design: Design) -> str:
     """What the receiver reads at the −3 dB points against its noise floor."""
     bench = design.bench
     at_half = bench.drive.received_dbm + HALF_POWER_DB
-    text = (f"about {signed(at_half, 1)} dBm at the half-power points; noise floor "
+    text = (f"about {signed(bench.drive.received_dbm, 1)} dBm at the peak, "
+            f"{signed(at_half, 1)} dBm at the half-power points; noise floor "
             f"{signed(bench.noise_floor_dbm, 1)} dBm in the receiver bandwidth "
             f"(test.receiver_noise_floor, {signed(design.job.test.receiver_noise_floor, 0)} "
             f"dBm/Hz): {format_number(bench.half_power_margin_db, 3)} dB above it")

@@ -145,7 +145,8 @@ def _fixture(bench) -> dict:
                 "resistor_lead_inductance_h": style.lead_inductance_h if style else None,
                 "capacitance_f": hookup.capacitance_f,  # coupling capacitor or probe input
                 "turns": list(hookup.turns) if hookup.turns else None,  # (circuit, port)
-                "power_rating_w": rating_w, "wanted_ohm": hookup.wanted_ohm,
+                "power_rating_w": hookup.power_rating_w(rating_w) if style else rating_w,
+                "wanted_ohm": hookup.wanted_ohm,
                 "presented_ohm": hookup.presented_ohm, "band": hookup.band}
     source_w = bench.drive.source_resistor_rating_w
     receiver_w = bench.drive.receiver_resistor_rating_w
