@@ -145,3 +145,21 @@ def _receiver_network(port: dict, at: str, node: str, parasitics: bool) -> list[
         return [f"vtxr {at} {at}e dc 0", f"etxr {at}e 0 {node} 0 {ratio!r}",
                 f"ftxr 0 {node} vtxr {ratio!r}", load]
     raise ValueError(f"no receiver hookup {kind!r}")
+
+
+def inside(value: float, low: float, high: float, what: str) -> None:
+    assert low <= value <= high, f"{what}: measured {value!r} outside the window {low!r}…{high!r}"
+
+
+def assert_inside_windows(measured: spice.ResonanceMeasurement, lim: dict, where: str) -> None:
+    """Every frequency feature ngspice measured, and the loaded Q, inside the sheet's
+    windows (results' limits)."""
+    centre = 0.5 * (measured.f_low_hz + measured.f_high_hz)
+    inside(measured.f_peak_hz, lim["f_peak_min_hz"], lim["f_peak_max_hz"], f"{where} f_peak")
+    inside(centre, lim["f_centre_min_hz"], lim["f_centre_max_hz"], f"{where} centre")
+    inside(measured.f_low_hz, lim["f_low_min_hz"], lim["f_low_max_hz"], f"{where} f_low")
+    inside(measured.f_high_hz, lim["f_high_min_hz"], lim["f_high_max_hz"], f"{where} f_high")
+    inside(measured.bandwidth_hz, lim["bandwidth_min_hz"], lim["bandwidth_max_hz"],
+           f"{where} bandwidth")
+    inside(measured.f_peak_hz / measured.bandwidth_hz, lim["q_loaded_min"],
+           lim["q_loaded_max"], f"{where} loaded Q")

@@ -12,7 +12,7 @@ import pytest
 from sheetgen.design.pipeline import design_from_file
 from sheetgen.report.results import results_document
 from tests import spice
-from tests.design.as_built import as_built_bench
+from tests.design.as_built import as_built_bench, assert_inside_windows
 from tests.support import assert_close
 
 pytestmark = pytest.mark.ngspice
@@ -102,14 +102,6 @@ def test_every_starter_built_as_its_sheet_says_meets_its_own_windows(name):
     measured = spice.measure_bench(as_built_bench(got))
     lim = got["limits"]
     where = f"{name} vs {spice.ngspice_version()}"
-    centre = 0.5 * (measured.f_low_hz + measured.f_high_hz)
-    _inside(measured.f_peak_hz, lim["f_peak_min_hz"], lim["f_peak_max_hz"], f"{where} f_peak")
-    _inside(centre, lim["f_centre_min_hz"], lim["f_centre_max_hz"], f"{where} centre")
-    _inside(measured.f_low_hz, lim["f_low_min_hz"], lim["f_low_max_hz"], f"{where} f_low")
-    _inside(measured.f_high_hz, lim["f_high_min_hz"], lim["f_high_max_hz"], f"{where} f_high")
-    _inside(measured.bandwidth_hz, lim["bandwidth_min_hz"], lim["bandwidth_max_hz"],
-            f"{where} bandwidth")
-    _inside(measured.f_peak_hz / measured.bandwidth_hz, lim["q_loaded_min"],
-            lim["q_loaded_max"], f"{where} loaded Q")
+    assert_inside_windows(measured, lim, where)
     _inside(measured.impedance_at_peak_ohm, lim["impedance_at_peak_min_ohm"],
             lim["impedance_at_peak_max_ohm"], f"{where} |Z| at the peak")

@@ -20,7 +20,7 @@ from sheetgen.design.pipeline import design_from_file
 from sheetgen.report.procedure import procedure
 from sheetgen.report.results import results_document
 from tests import spice
-from tests.design.as_built import as_built_bench
+from tests.design.as_built import as_built_bench, assert_inside_windows
 
 HEAD = "sheet: {id: FX-%s, title: %s, revision: A, designer: Test Bench, date: 2026-12-01}\n"
 CASES = {
@@ -148,10 +148,6 @@ def test_a_receiver_below_its_noise_floor_is_said_so(tmp_path):
     assert "less than the 20 dB needed" in settings["Receiver reading"]
 
 
-def _inside(value, low, high, what):
-    assert low <= value <= high, f"{what}: measured {value!r} outside {low!r}…{high!r}"
-
-
 @pytest.mark.ngspice
 @pytest.mark.parametrize("case", sorted(CASES))
 def test_built_on_its_fixture_the_unit_meets_its_windows(tmp_path, case):
@@ -160,15 +156,7 @@ def test_built_on_its_fixture_the_unit_meets_its_windows(tmp_path, case):
     measured by ngspice at the receiver's input: every feature inside the windows."""
     got = results_document(_design(tmp_path, case))
     measured = spice.measure_bench(as_built_bench(got), zero_phase=False)
-    lim = got["limits"]
-    where = f"{case} vs {spice.ngspice_version()}"
-    _inside(measured.f_peak_hz, lim["f_peak_min_hz"], lim["f_peak_max_hz"], f"{where} f_peak")
-    _inside(measured.f_low_hz, lim["f_low_min_hz"], lim["f_low_max_hz"], f"{where} f_low")
-    _inside(measured.f_high_hz, lim["f_high_min_hz"], lim["f_high_max_hz"], f"{where} f_high")
-    _inside(measured.bandwidth_hz, lim["bandwidth_min_hz"], lim["bandwidth_max_hz"],
-            f"{where} bandwidth")
-    _inside(measured.f_peak_hz / measured.bandwidth_hz, lim["q_loaded_min"],
-            lim["q_loaded_max"], f"{where} loaded Q")
+    assert_inside_windows(measured, got["limits"], f"{case} vs {spice.ngspice_version()}")
 
 
 @pytest.mark.ngspice
