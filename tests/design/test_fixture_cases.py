@@ -172,3 +172,16 @@ def test_the_check_fails_without_the_probes_loading(tmp_path):
         bench.f_start_hz, bench.f_stop_hz), zero_phase=False)
     lim = got["limits"]
     assert not lim["bandwidth_min_hz"] <= measured.bandwidth_hz <= lim["bandwidth_max_hz"]
+
+
+def test_the_noise_floor_is_scaled_to_the_receiver_bandwidth_the_sheet_sets(tmp_path):
+    """−130 dBm/Hz in the receiver bandwidth printed in the instrument step: a floor per
+    hertz scales with 10·log10(B) (thermal-noise arithmetic), and the margin is the −3 dB
+    reading (peak − 3.01 dB) less that floor."""
+    d = _design(tmp_path, "trap-14mhz")
+    plan = procedure(d)
+    rbw = plan.sweep.receiver_bandwidth_hz
+    floor = -130.0 + 10 * math.log10(rbw)
+    assert math.isclose(d.bench.noise_floor_dbm, floor, abs_tol=1e-9)
+    assert math.isclose(d.bench.half_power_margin_db,
+                        d.bench.drive.received_dbm - 3.0103 - floor, abs_tol=1e-3)
