@@ -379,15 +379,18 @@ def _resistor_behaviour(design: Design) -> str:
             by_style.setdefault(hookup.style, []).append(
                 f"{name} changes its impedance by {percent(effect.impedance_change, 2)} and "
                 f"moves the peak by {format_number(abs(effect.peak_shift_bandwidths) * 100, 2)}"
-                " % of the bandwidth")
+                " % of the bandwidth" + ("" if effect.negligible else
+                                         " — more than allowed, and no other hookup fits "
+                                         "here: the windows do not include it"))
     parts = [f"{style.name}, about {style.shunt_capacitance_f * 1e12:g} pF across and "
              f"{style.lead_inductance_h * 1e9:g} nH in series (common practice): "
              + "; ".join(effects) for style, effects in by_style.items()]
     if not parts:
         return ""
+    every = all(e.negligible for e in (bench.source_effect, bench.receiver_effect) if e)
     return ("; ".join(parts) + f" (allowed: {percent(PARASITIC_IMPEDANCE_CHANGE, 2)} and "
             f"{percent(PARASITIC_PEAK_SHIFT_BANDWIDTHS, 1)} of the bandwidth, common "
-            "practice), so each is a resistor at the test frequency")
+            "practice)" + (", so each is a resistor at the test frequency" if every else ""))
 
 
 def _reading_text(design: Design) -> str:

@@ -185,3 +185,20 @@ def test_the_noise_floor_is_scaled_to_the_receiver_bandwidth_the_sheet_sets(tmp_
     assert math.isclose(d.bench.noise_floor_dbm, floor, abs_tol=1e-9)
     assert math.isclose(d.bench.half_power_margin_db,
                         d.bench.drive.received_dbm - 3.0103 - floor, abs_tol=1e-3)
+
+
+def test_a_resistor_with_no_alternative_is_not_called_a_resistor(tmp_path):
+    """A 145 MHz tank with a 20 kΩ load: even a chip part (~0.05 pF) is 1/(ωC) ≈ 22 kΩ of
+    reactance there, its impedance changed by far more than 10 %, and no other hookup
+    makes a loaded tank's load: the sheet says so instead of calling it a resistor."""
+    path = tmp_path / "vhf-load.yaml"
+    path.write_text(CASES["tank-145mhz"].replace(
+        "source: {resistance: 2 kohm, voltage: 1 V}",
+        "source: {resistance: 50 ohm, voltage: 1 V}\nload: {resistance: 20 kohm}"),
+        encoding="utf-8")
+    d = design_from_file(path)
+    assert 1 / (2 * math.pi * d.resonance.f_peak_hz * 0.05e-12) < 25e3
+    assert not d.bench.receiver_effect.negligible
+    settings = dict(next(s for s in procedure(d).steps if s.key == "connect").settings)
+    assert "more than allowed" in settings["Fixture resistors"]
+    assert "so each is a resistor" not in settings["Fixture resistors"]
