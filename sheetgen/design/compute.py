@@ -223,7 +223,8 @@ def _bench(job: Job, circuit, analysed, stress, coil: CoilDesign | None):
     try:
         return bench_setup(circuit, analysed, stress, coupled=coupled,
                            port_resistor_ohm=at_port,
-                           port_tolerance=job.test.port_tolerance)
+                           port_tolerance=job.test.port_tolerance,
+                           noise_floor_dbm_per_hz=job.test.receiver_noise_floor)
     except resonance.NoResonanceError as error:
         raise FieldError("", str(error)) from None
 

@@ -5,8 +5,9 @@ The circuits (all resistances frequency-independent, evaluated at f0):
 * series: a source of resistance Rs, the coil L with its series loss rL, the capacitor C
   with its ESR rC and the load RL, all in one loop. The response is the loop current.
 * parallel: two branches across one node, (L + rL) and (C + rC), the load RL across the
-  node, driven through Rs (a Norton current source when Rs is absent). The response is
-  the node voltage.
+  node, driven through Rs (a Norton current source when Rs is absent), or through Rs and a
+  series coupling capacitor Cc (a test set-up's loose coupling). The response is the node
+  voltage.
 
 Every function here takes numpy arrays as well as floats: the variation analysis re-runs
 the same code on perturbed inputs, one element per trial.
@@ -47,6 +48,8 @@ class Circuit:
     capacitor_esr_ohm: float
     source_resistance_ohm: float | None = None
     load_resistance_ohm: float | None = None
+    # parallel only: a capacitor in series with Rs between the source and the tank
+    source_capacitance_f: float | None = None
 
 
 @dataclass(frozen=True)
@@ -152,7 +155,9 @@ def _response_denominator(circuit: Circuit, omega):
     """D(ω) with response ∝ 1/D, and its first two derivatives in ω.
 
     Series: D = Rs + RL + rL + rC + j(ωL − 1/(ωC)), the loop impedance.
-    Parallel: D = 1/(rL + jωL) + jωC/(1 + jωC·rC) + 1/RL + 1/Rs, the node admittance.
+    Parallel: D = 1/(rL + jωL) + jωC/(1 + jωC·rC) + 1/RL + 1/Rs, the node admittance; fed
+    through Zs = Rs + 1/(jωCc), the node voltage is E/(1 + Zs·Y) (a divider, Y the node
+    admittance without the source), so D = 1 + Zs·Y, its derivatives by the product rule.
     """
     L, C = circuit.inductance_h, circuit.capacitance_f
     r_l, r_c = circuit.inductor_resistance_ohm, circuit.capacitor_esr_ohm
@@ -165,12 +170,19 @@ def _response_denominator(circuit: Circuit, omega):
         return d, d1, d2
     inv_coil = 1.0 / (r_l + 1j * omega * L)  # one division each; the rest multiplies
     inv_cap = 1.0 / (1.0 + 1j * omega * C * r_c)
+    coupled = circuit.source_capacitance_f is not None
     d = (inv_coil + 1j * omega * C * inv_cap + _conductance(circuit.load_resistance_ohm)
-         + _conductance(circuit.source_resistance_ohm))
+         + (0.0 if coupled else _conductance(circuit.source_resistance_ohm)))
     inv_coil2, inv_cap2 = inv_coil * inv_coil, inv_cap * inv_cap
     d1 = -1j * L * inv_coil2 + 1j * C * inv_cap2
     d2 = -2.0 * L * L * inv_coil2 * inv_coil + 2.0 * C * C * r_c * inv_cap2 * inv_cap
-    return d, d1, d2
+    if not coupled:
+        return d, d1, d2
+    cc = circuit.source_capacitance_f
+    zs = _or_zero(circuit.source_resistance_ohm) - 1j / (omega * cc)
+    zs1 = 1j / (omega * omega * cc)
+    zs2 = -2j / (omega**3 * cc)
+    return 1.0 + zs * d, zs1 * d + zs * d1, zs2 * d + 2.0 * zs1 * d1 + zs * d2
 
 
 def _outer_edge(excess, u_peak, edge):

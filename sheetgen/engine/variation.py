@@ -480,7 +480,7 @@ def _trial_circuit(nominal: Circuit, parts: TrialParts, index=slice(None)) -> Ci
                    parts.inductor_resistance_ohm[index], parts.capacitance_f[index],
                    parts.capacitor_esr_ohm[index],
                    nominal.source_resistance_ohm if source is None else source[index],
-                   None if load is None else load[index])
+                   None if load is None else load[index], nominal.source_capacitance_f)
 
 
 def _evaluate(method: Method, circuit: Circuit, spec: VariationSpec, draws: _Draws,

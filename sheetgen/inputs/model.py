@@ -25,7 +25,7 @@ from pydantic import (
 from pydantic_core import PydanticCustomError
 
 from sheetgen import quantities
-from sheetgen.engine.bench import DEFAULT_PORT_TOLERANCE
+from sheetgen.engine.bench import DEFAULT_NOISE_FLOOR_DBM_PER_HZ, DEFAULT_PORT_TOLERANCE
 from sheetgen.engine.insulation import (
     DEFAULT_ALTITUDE_M,
     DEFAULT_MATERIAL_GROUP,
@@ -658,6 +658,13 @@ class TestSection(Section):
         "at the fixture's connectors or a 10 dB attenuator at each port, common practice); "
         "the fixture makes the circuit's source and load from these ports, and the windows "
         "include it")
+    receiver_noise_floor: float = Field(
+        DEFAULT_NOISE_FLOOR_DBM_PER_HZ, ge=-200.0, le=0.0,
+        description="the receiver's (or analyser's) noise floor in dBm per hertz of its "
+        "resolution bandwidth, a number such as -130 (default -130, i.e. -100 dBm in 1 kHz: "
+        "a bench receiver without a preamplifier, common practice); the test set-up is "
+        "chosen so the half-power points read at least 20 dB above it in the bandwidth the "
+        "sheet sets")
 
 
 class Acceptance(Section):

@@ -18,6 +18,11 @@ from sheetgen.engine.bench import (
     GENERATOR_RESISTANCE_OHM,
     HALF_POWER_DB,
     LCR_TEST_LEVEL_RMS_V,
+    NOISE_MARGIN_DB,
+    PARASITIC_IMPEDANCE_CHANGE,
+    PARASITIC_PEAK_SHIFT_BANDWIDTHS,
+    PROBE_GAIN,
+    PROBE_RESISTANCE_OHM,
     BenchSetup,
     PortHookup,
     SweepSettings,
@@ -99,6 +104,7 @@ class Procedure:
     steps: tuple[TestStep, ...]
     record: tuple[RecordRow, ...]
     full_power: tuple[TestStep, ...] = ()  # the optional run at the design's drive
+    fixture: FixtureNames | None = None  # the test set-up's own parts' designators
 
 
 MEASUREMENTS: tuple[Measurement, ...] = (
@@ -235,19 +241,54 @@ def _tolerance(window: tuple[float, float] | None, fraction: float | None, unit:
     return f"{range_text(*window, unit)} ({tolerance_text(fraction)} and the meter)"
 
 
-SOURCE_FIXTURE, RECEIVER_FIXTURE = "RT1", "RT2"  # the test fixture's resistors
+@dataclass(frozen=True)
+class FixtureNames:
+    """Designators of the test set-up's own parts (None where the hookup has no part).
+
+    IEC 81346-2 class letters, written as the single letters the schematic uses (R a
+    resistor, C a capacitor, T a transformer), numbered on after the unit's own parts so
+    that no fixture part shares a name with a part of the unit; a probe is an instrument's
+    accessory and has none.
+    """
+
+    source: str | None
+    receiver: str | None
+
+
+def _number(name: str | None) -> int:
+    return int(name[1:]) if name else 0
+
+
+def fixture_names(design: Design) -> FixtureNames:
+    """Name the source's and the receiver's fixture parts (see FixtureNames)."""
+    names = design.designators
+    following = {"R": max(_number(n) for n in (names.source_resistor, names.load_resistor,
+                                               names.bleeder, None)),
+                 "C": max((_number(n) for n in names.capacitors), default=0), "T": 0}
+    letter = {"series_resistor": "R", "shunt_resistor": "R", "transformer": "T",
+              "coupling_capacitor": "C"}
+    given = []
+    for hookup in (design.bench.source, design.bench.receiver.hookup):
+        kind = letter.get(hookup.kind)
+        if kind is None:
+            given.append(None)
+            continue
+        following[kind] += 1
+        given.append(f"{kind}{following[kind]}")
+    return FixtureNames(*given)
 
 
 def _resistor_text(name: str, hookup: PortHookup, rating_w: float | None) -> str:
     return (f"{name} {quantity_text(hookup.resistor_ohm, 'Ω', 3)} "
             f"{tolerance_text(hookup.resistor_tolerance)} (IEC 60063 E96), "
-            f"{rating_w:g} W metal film")
+            f"{hookup.power_rating_w(rating_w):g} W {hookup.style.name}")
 
 
 def fixture_settings(design: Design) -> tuple[tuple[str, str], ...]:
     """The test set-up as a parts list: how each 50 Ω port becomes the circuit's source or
-    load, with the standard resistors to fit and what the circuit then sees."""
+    load, with the parts to fit and what the circuit then sees."""
     bench, names = design.bench, design.designators
+    parts = fixture_names(design)
     rs = design.circuit.source_resistance_ohm
     source, found, drive = bench.source, bench.receiver, bench.drive
     rows: list[tuple[str, str]] = []
@@ -256,36 +297,120 @@ def fixture_settings(design: Design) -> tuple[tuple[str, str], ...]:
                   if design.circuit.topology == "series" else
                   "an ideal current source (100 × the tank's impedance)")
     rows.append(("Generator stands for", stands_for))
-    rows.append(("Generator hookup", _port_text(source, SOURCE_FIXTURE,
+    rows.append(("Generator hookup", _port_text(design, source, parts.source,
                                                 drive.source_resistor_rating_w,
                                                 "generator's output")))
     load_name = names.load_resistor
+    probe = found.hookup.kind == "probe"
     where = {"load": f"the load {load_name}",
              "link": f"the load {load_name} on the link {names.link}",
              "tap": f"the load {load_name} on the tap of {names.coil}",
-             "sense_resistor": "a sense resistance at the loop's cold end",
-             "pickup": f"a pickup from the tank's hot end ({names.coil}), 100 × its impedance"
+             "sense_resistor": ("a reading of the loop current at its cold end"
+                                if found.hookup.kind == "transformer"
+                                else "a sense resistance at the loop's cold end"),
+             "pickup": (f"a reading of the tank voltage at {names.coil}'s hot end" if probe
+                        else f"a pickup from the tank's hot end ({names.coil}), 100 × its "
+                        "impedance")
              }[found.place]
     rows.append(("Receiver stands for", where))
-    rows.append(("Receiver hookup", _port_text(found.hookup, RECEIVER_FIXTURE,
+    rows.append(("Receiver hookup", _port_text(design, found.hookup, parts.receiver,
                                                drive.receiver_resistor_rating_w,
                                                "receiver's input")))
-    rows.append(("The circuit sees", f"source {quantity_text(bench.circuit.source_resistance_ohm, 'Ω')}"
-                 f", load {quantity_text(bench.circuit.load_resistance_ohm, 'Ω')}"
-                 + (" across the tank" if design.circuit.topology == "parallel" else "")))
+    sees = f"source {quantity_text(bench.circuit.source_resistance_ohm, 'Ω')}"
+    if bench.circuit.source_capacitance_f is not None:
+        sees += f" in series with {quantity_text(bench.circuit.source_capacitance_f, 'F', 3)}"
+    sees += f", load {quantity_text(bench.circuit.load_resistance_ohm, 'Ω')}"
+    sees += " across the tank" if design.circuit.topology == "parallel" else ""
+    if probe:
+        sees += (f"; tank capacitance {quantity_text(bench.circuit.capacitance_f, 'F')}, the "
+                 f"probe's {quantity_text(found.hookup.capacitance_f, 'F', 2)} included")
+    rows.append(("The circuit sees", sees))
+    resistors = _resistor_behaviour(design)
+    if resistors:
+        rows.append(("Fixture resistors", resistors))
     rows.append(("Effect on the windows", _effect_text(design)))
+    rows.append(("Receiver reading", _reading_text(design)))
     rows.append(("Ports", f"50 Ω {tolerance_text(bench.port_tolerance)} (test.port_tolerance): "
                  "calibrate the analyser at the fixture's connectors, or fit a 10 dB "
                  "attenuator at each port and raise the generator level by 10 dB"))
     return tuple(rows)
 
 
-def _port_text(hookup: PortHookup, name: str, rating_w: float | None, port: str) -> str:
+def _port_text(design: Design, hookup: PortHookup, name: str | None, rating_w: float | None,
+               port: str) -> str:
     presented = quantity_text(hookup.presented_ohm, "Ω")
     if hookup.kind == "direct":
         return f"the {port} in its place, no resistor ({presented})"
-    how = "in series with" if hookup.kind == "series_resistor" else "across"
-    return f"{_resistor_text(name, hookup, rating_w)} {how} the {port}: {presented}"
+    if hookup.is_resistor:
+        how = "in series with" if hookup.kind == "series_resistor" else "across"
+        return f"{_resistor_text(name, hookup, rating_w)} {how} the {port}: {presented}"
+    if hookup.kind == "transformer":
+        unit_turns, port_turns = hookup.turns
+        wire = ("the circuit's own wire passed once through a ferrite ring"
+                if unit_turns == 1 else f"{unit_turns} turns of the circuit's wire on a ferrite ring")
+        al = hookup.magnetising_inductance_min_h / port_turns ** 2
+        return (f"{name}, a transformer: {wire}, {port_turns} turn"
+                f"{'s' if port_turns > 1 else ''} on the ring to the {port} "
+                f"({unit_turns}:{port_turns}): {presented} in the circuit "
+                f"(50 Ω × ({unit_turns}/{port_turns})²); ring AL at least "
+                f"{quantity_text(al, 'H', 3)}/turn², so the {port_turns}-turn winding has "
+                f"{quantity_text(hookup.magnetising_inductance_min_h, 'H', 3)} or more "
+                "(10 × the port's 50 Ω at the test frequency)")
+    if hookup.kind == "coupling_capacitor":
+        f = design.bench.resonance.f_peak_hz
+        omega = 2 * math.pi * f
+        y = 1.0 / (GENERATOR_RESISTANCE_OHM + 1.0 / (1j * omega * hookup.capacitance_f))
+        return (f"{name} {quantity_text(hookup.capacitance_f, 'F', 2)} C0G (IEC 60063 E12), "
+                f"short leads, from the {port} to the tank's hot end ({design.designators.coil}):"
+                f" with the port's 50 Ω it is {quantity_text(1.0 / y.real, 'Ω')} in parallel "
+                f"with {quantity_text(y.imag / omega, 'F', 3)} at the peak (a series RC, "
+                "worked exactly at every frequency)")
+    return (f"an active probe, {quantity_text(PROBE_RESISTANCE_OHM, 'Ω', 2)} ∥ "
+            f"{quantity_text(hookup.capacitance_f, 'F', 2)} input (common practice), its "
+            f"÷{1 / PROBE_GAIN:g} output into the {port}; tip at the tank's hot end "
+            f"({design.designators.coil}), its ground lead short to the cold end")
+
+
+def _resistor_behaviour(design: Design) -> str:
+    """Why the fixture's resistors may be taken as resistors at the test frequency: the
+    parasitics assumed for their kind, and what those do to each."""
+    bench = design.bench
+    names = fixture_names(design)
+    by_style: dict = {}
+    for hookup, effect, name in ((bench.source, bench.source_effect, names.source),
+                                 (bench.receiver.hookup, bench.receiver_effect,
+                                  names.receiver)):
+        if effect is not None:
+            by_style.setdefault(hookup.style, []).append(
+                f"{name} changes its impedance by {percent(effect.impedance_change, 2)} and "
+                f"moves the peak by {format_number(abs(effect.peak_shift_bandwidths) * 100, 2)}"
+                " % of the bandwidth" + ("" if effect.negligible else
+                                         " — more than allowed, and no other hookup fits "
+                                         "here: the windows do not include it"))
+    parts = [f"{style.name}, about {style.shunt_capacitance_f * 1e12:g} pF across and "
+             f"{style.lead_inductance_h * 1e9:g} nH in series (common practice): "
+             + "; ".join(effects) for style, effects in by_style.items()]
+    if not parts:
+        return ""
+    every = all(e.negligible for e in (bench.source_effect, bench.receiver_effect) if e)
+    return ("; ".join(parts) + f" (allowed: {percent(PARASITIC_IMPEDANCE_CHANGE, 2)} and "
+            f"{percent(PARASITIC_PEAK_SHIFT_BANDWIDTHS, 1)} of the bandwidth, common "
+            "practice)" + (", so each is a resistor at the test frequency" if every else ""))
+
+
+def _reading_text(design: Design) -> str:
+    """What the receiver reads at the −3 dB points against its noise floor."""
+    bench = design.bench
+    at_half = bench.drive.received_dbm + HALF_POWER_DB
+    text = (f"about {signed(bench.drive.received_dbm, 1)} dBm at the peak, "
+            f"{signed(at_half, 1)} dBm at the half-power points; noise floor "
+            f"{signed(bench.noise_floor_dbm, 1)} dBm in the receiver bandwidth "
+            f"(test.receiver_noise_floor, {signed(design.job.test.receiver_noise_floor, 0)} "
+            f"dBm/Hz): {format_number(bench.half_power_margin_db, 3)} dB above it")
+    if bench.readable:
+        return text + f" (at least {NOISE_MARGIN_DB:g} dB needed)"
+    return (text + f", less than the {NOISE_MARGIN_DB:g} dB needed: use a receiver with a "
+            "lower noise floor, a preamplifier or a narrower receiver bandwidth")
 
 
 def _effect_text(design: Design) -> str:
@@ -311,14 +436,19 @@ def _connect_text(design: Design) -> str:
              "link": "the tank through its link", "tap": "the tank through its tap",
              "sense_resistor": "the loop current", "pickup": "the tank voltage"}[found.place]
     divider = (GENERATOR_RESISTANCE_OHM / port.presented_ohm
-               if port.kind == "series_resistor" else 1.0)
-    level = (f" (the resistor divides it by {port.presented_ohm / GENERATOR_RESISTANCE_OHM:.4g},"
-             f" {signed(20 * math.log10(divider), 1)} dB)" if divider < 1 else "")
+               if port.kind == "series_resistor" else PROBE_GAIN if port.kind == "probe"
+               else 1.0)
+    level = (f" (the {'probe' if port.kind == 'probe' else 'resistor'} divides it by "
+             f"{1 / divider:.4g}, {signed(20 * math.log10(divider), 1)} dB)"
+             if divider < 1 else "")
+    loads = ("besides them only the probe below touches the circuit, and its loading is in "
+             "the windows" if port.kind == "probe"
+             else "nothing else is connected to the circuit, so no probe loads it")
     return ("Make the circuit's source from the generator and its load from the receiver, "
-            "as below; nothing else is connected to the circuit, so no probe loads it. Fit "
-            "each hookup where the schematic shows the part it stands for: a series resistor "
-            "on the circuit's side, each instrument's cable screen to the circuit's ground "
-            f"(cold) side. The receiver reads {reads}{level}. Keep the fixture's leads short.")
+            f"as below; {loads}. Fit each hookup where the "
+            "schematic shows the part it stands for: a series part on the circuit's side, "
+            "each instrument's cable screen to the circuit's ground (cold) side. The receiver "
+            f"reads {reads}{level}. Keep the fixture's leads short.")
 
 
 def _lcr_settings(frequency_hz: float, note: str) -> tuple[tuple[str, str], ...]:
@@ -546,4 +676,4 @@ def procedure(design: Design) -> Procedure:
                            as_left if key == "tune" else records, key)
                   for key, title, text, settings, records in plan)
     return Procedure(sweep, design.bench, steps, record_rows(design),
-                     full_power_steps(design, hazards))
+                     full_power_steps(design, hazards), fixture_names(design))

@@ -12,7 +12,7 @@ import math
 
 from sheetgen import __version__
 from sheetgen.design.records import Design
-from sheetgen.engine.bench import GENERATOR_RESISTANCE_OHM
+from sheetgen.engine.bench import GENERATOR_RESISTANCE_OHM, PROBE_GAIN
 from sheetgen.engine.limits import round_outward_significant
 from sheetgen.report.advice import rating_advice
 from sheetgen.report.cautions import DEFERRAL, design_cautions
@@ -142,9 +142,15 @@ def _fixture(bench) -> dict:
     """The test set-up as the sheet lists it: each 50 Ω port's hookup with its standard
     resistor, what the circuit sees, the bench circuit's response and the test level."""
     def port(hookup, rating_w):
+        style = hookup.style if hookup.is_resistor else None
         return {"hookup": hookup.kind, "resistor_ohm": hookup.resistor_ohm,
                 "resistor_tolerance": hookup.resistor_tolerance if hookup.resistor_ohm else None,
-                "power_rating_w": rating_w, "wanted_ohm": hookup.wanted_ohm,
+                "resistor_shunt_capacitance_f": style.shunt_capacitance_f if style else None,
+                "resistor_lead_inductance_h": style.lead_inductance_h if style else None,
+                "capacitance_f": hookup.capacitance_f,  # coupling capacitor or probe input
+                "turns": list(hookup.turns) if hookup.turns else None,  # (circuit, port)
+                "power_rating_w": hookup.power_rating_w(rating_w) if style else rating_w,
+                "wanted_ohm": hookup.wanted_ohm,
                 "presented_ohm": hookup.presented_ohm, "band": hookup.band}
     source_w = bench.drive.source_resistor_rating_w
     receiver_w = bench.drive.receiver_resistor_rating_w
@@ -155,7 +161,13 @@ def _fixture(bench) -> dict:
         "receiver": {"place": bench.receiver.place, "ratio": bench.receiver.ratio,
                      **port(bench.receiver.hookup, receiver_w)},
         "circuit": {"source_resistance_ohm": bench.circuit.source_resistance_ohm,
-                    "load_resistance_ohm": bench.circuit.load_resistance_ohm},
+                    "source_capacitance_f": bench.circuit.source_capacitance_f,
+                    "load_resistance_ohm": bench.circuit.load_resistance_ohm,
+                    "capacitance_f": bench.circuit.capacitance_f},
+        "probe_gain": PROBE_GAIN if bench.receiver.hookup.kind == "probe" else None,
+        "received_dbm": bench.drive.received_dbm,
+        "noise_floor_dbm": bench.noise_floor_dbm,
+        "half_power_margin_db": bench.half_power_margin_db,
         "resonance": {"f_peak_hz": r.f_peak_hz, "f_low_hz": r.f_low_hz,
                       "f_high_hz": r.f_high_hz, "bandwidth_hz": r.bandwidth_hz,
                       "q_loaded": r.q_loaded, "impedance_at_peak_ohm": r.impedance_at_peak_ohm},

@@ -101,7 +101,8 @@ def rework_rows(design: Design) -> tuple[Rework, ...]:
                "too wide: extra loss (a poor solder joint, a lossy former or core, the wrong "
                f"wire) or {load or 'the load'} too heavy; too narrow: "
                f"{load or 'the load'} missing, open or of too high a value (check the "
-               "test set-up's resistors and that each port is 50 Ω)",
+               "test set-up's parts against its list, a probe's ground lead, and that "
+               "each port is 50 Ω)",
                f"check {load + ' and ' if load else ''}the solder joints; the bandwidth goes "
                "with 1/Q, so a value outside the window with the right f0 points to the "
                "losses or the load, not the tuning."),

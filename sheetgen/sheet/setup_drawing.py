@@ -4,7 +4,9 @@
 the unit under test with the terminals the hookups join, the receiver hookup and the
 receiver. `setup_drawing` draws it left to right in the schematic's house style: fixture
 resistors as IEC 60617 rectangles (a series one in the signal path, a shunt one from the
-path to the cold rail), instruments as boxes with a coaxial port, the unit as a dashed box.
+path to the cold rail), a coupling capacitor as the IEC 60617 capacitor in the path, a
+transformer or an active probe as a box of text in the path, instruments as boxes with a
+coaxial port, the unit as a dashed box.
 """
 
 from __future__ import annotations
@@ -14,7 +16,7 @@ from typing import Literal
 
 from sheetgen.design.designators import Designators
 from sheetgen.report.formatting import quantity_text, signed
-from sheetgen.report.procedure import RECEIVER_FIXTURE, SOURCE_FIXTURE, Procedure
+from sheetgen.report.procedure import FixtureNames, Procedure
 from sheetgen.sheet import drawing
 from sheetgen.sheet.schematic import (
     LABEL_CLEARANCE,
@@ -33,7 +35,8 @@ from sheetgen.sheet.schematic import (
     wire,
 )
 
-HookupKind = Literal["direct", "series_resistor", "shunt_resistor"]
+HookupKind = Literal["direct", "series_resistor", "shunt_resistor", "transformer",
+                     "coupling_capacitor", "probe"]
 
 RAIL_LABEL = "cold side / cable screens"
 DIRECT_LABEL = "direct"
@@ -55,10 +58,13 @@ class Instrument:
 
 @dataclass(frozen=True)
 class Hookup:
-    """How a port joins the unit: directly, or through a fixture resistor (RTn, E96 value)."""
+    """How a port joins the unit: directly, through a fixture part (a resistor of E96
+    value or a coupling capacitor, with its designator), or through a block of text (a
+    transformer, an active probe)."""
 
     kind: HookupKind
-    resistor: Part | None = None
+    part: Part | None = None
+    lines: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -83,8 +89,10 @@ class SetupView:
 
 def setup_of(procedure: Procedure, designators: Designators,
              sheet_id: str | None = None) -> SetupView:
-    """The set-up of `procedure.bench`, its terminals named by the unit's designators."""
+    """The set-up of `procedure.bench`, its terminals named by the unit's designators and
+    its parts by procedure.fixture (the names the procedure's words use)."""
     bench = procedure.bench
+    parts: FixtureNames = procedure.fixture
     source_terminal = (f"where {designators.source_resistor} stands"
                        if designators.source_resistor is not None
                        else "where the source stands" if bench.circuit.topology == "series"
@@ -94,20 +102,33 @@ def setup_of(procedure: Procedure, designators: Designators,
                          "tap": f"tap of {designators.coil} to its cold end",
                          "sense_resistor": "loop's cold end",
                          "pickup": "tank's hot end"}[bench.receiver.place]
+    if bench.source.kind == "coupling_capacitor":
+        source_terminal = "tank's hot end"
     level = signed(bench.drive.generator_level_dbm, 1) + " dBm"
     return SetupView(
         Instrument("generator", ("50 Ω output", f"level {level}")),
-        _hookup(bench.source, SOURCE_FIXTURE),
+        _hookup(bench.source, parts.source),
         Unit("unit under test" + (f", sheet {sheet_id}" if sheet_id else ""),
              source_terminal, receiver_terminal),
-        _hookup(bench.receiver.hookup, RECEIVER_FIXTURE),
+        _hookup(bench.receiver.hookup, parts.receiver),
         Instrument("receiver", ("50 Ω input",)))
 
 
-def _hookup(port, name: str) -> Hookup:
-    """A bench PortHookup as drawn: its kind, and its E96 resistor named `name`."""
+def _hookup(port, name: str | None) -> Hookup:
+    """A bench PortHookup as drawn: its kind, and its part named `name`."""
     if port.kind == "direct":
         return Hookup("direct")
+    if port.kind == "coupling_capacitor":
+        return Hookup(port.kind, Part(name, "capacitor", quantity_text(port.capacitance_f, "F", 2)))
+    if port.kind == "transformer":
+        unit_turns, port_turns = port.turns
+        return Hookup(port.kind, lines=(f"{name} {unit_turns}:{port_turns}",
+                                        "ferrite ring",
+                                        "circuit : port"))
+    if port.kind == "probe":
+        return Hookup(port.kind, lines=("active probe",
+                                        f"{quantity_text(port.presented_ohm, 'Ω', 2)} ∥ "
+                                        f"{quantity_text(port.capacitance_f, 'F', 2)}"))
     return Hookup(port.kind, Part(name, "resistor", quantity_text(port.resistor_ohm, "Ω", 3)))
 
 
@@ -140,9 +161,19 @@ def _instrument(g, instrument: Instrument, left: float, port_right: bool) -> flo
     port's x."""
     from reportlab.graphics.shapes import Circle
     from reportlab.lib.colors import black
-    lines = (instrument.name, *instrument.lines)
-    width = 2 * _PAD + max(text_width(instrument.name, bold=True),
-                           *(text_width(t) for t in instrument.lines))
+    width = _text_box(g, (instrument.name, *instrument.lines), left)
+    x_port = left + width + _PORT_R if port_right else left - _PORT_R
+    g.add(Circle(x_port, _Y_SIGNAL, _PORT_R, strokeWidth=0.8, fillColor=None,
+                 strokeColor=black))
+    dot(g, x_port, _Y_SIGNAL)
+    wire(g, x_port, _Y_SIGNAL - _PORT_R, x_port, _Y_RAIL)
+    return x_port
+
+
+def _text_box(g, lines: tuple[str, ...], left: float) -> float:
+    """A solid box from `left`, centred on the signal path, holding `lines` (the first in
+    bold); returns its width."""
+    width = 2 * _PAD + max(text_width(lines[0], bold=True), *(text_width(t) for t in lines))
     height = 2 * _PAD + _LINE_PITCH * len(lines)
     bottom = _Y_SIGNAL - height / 2
     for x1, y1, x2, y2 in ((left, bottom, left + width, bottom),
@@ -151,14 +182,9 @@ def _instrument(g, instrument: Instrument, left: float, port_right: bool) -> flo
                            (left, bottom + height, left, bottom)):
         drawing.line(g, x1, y1, x2, y2, LINE_WIDTH, cap=2)  # square corners
     for index, content in enumerate(lines):
-        label_text(g, left + width / 2, bottom + height - _PAD - 7.5 - _LINE_PITCH * index, content,
-              LABEL_SIZE, "middle", bold=index == 0)
-    x_port = left + width + _PORT_R if port_right else left - _PORT_R
-    g.add(Circle(x_port, _Y_SIGNAL, _PORT_R, strokeWidth=0.8, fillColor=None,
-                 strokeColor=black))
-    dot(g, x_port, _Y_SIGNAL)
-    wire(g, x_port, _Y_SIGNAL - _PORT_R, x_port, _Y_RAIL)
-    return x_port
+        label_text(g, left + width / 2, bottom + height - _PAD - 7.5 - _LINE_PITCH * index,
+                   content, LABEL_SIZE, "middle", bold=index == 0)
+    return width
 
 
 def _hookup_drawn(g, hookup: Hookup, x: float) -> float:
@@ -169,12 +195,14 @@ def _hookup_drawn(g, hookup: Hookup, x: float) -> float:
         wire(g, x, _Y_SIGNAL, x + length, _Y_SIGNAL)
         label_text(g, x + length / 2, _Y_SIGNAL + 5, DIRECT_LABEL, LABEL_SIZE, "middle")
         return x + length
-    part = hookup.resistor
+    if hookup.lines:
+        return _block(g, hookup.lines, x, gap)
+    part = hookup.part
     label = label_width(part)
-    if hookup.kind == "series_resistor":
+    if hookup.kind in ("series_resistor", "coupling_capacitor"):
         start = x + gap + max(0.0, label / 2 - _RESISTOR_LENGTH / 2)
         wire(g, x, _Y_SIGNAL, start, _Y_SIGNAL)
-        horizontal(g, "resistor", start, _Y_SIGNAL, _RESISTOR_LENGTH)
+        horizontal(g, part.kind, start, _Y_SIGNAL, _RESISTOR_LENGTH)
         label_above(g, part, start + _RESISTOR_LENGTH / 2, _Y_SIGNAL)
         end = start + _RESISTOR_LENGTH + max(0.0, label / 2 - _RESISTOR_LENGTH / 2) + gap
         wire(g, start + _RESISTOR_LENGTH, _Y_SIGNAL, end, _Y_SIGNAL)
@@ -187,6 +215,20 @@ def _hookup_drawn(g, hookup: Hookup, x: float) -> float:
     end = x_shunt + 14 + label + LABEL_CLEARANCE + gap
     wire(g, x, _Y_SIGNAL, end, _Y_SIGNAL)
     return end
+
+
+def _block(g, lines: tuple[str, ...], x: float, gap: float) -> float:
+    """A box of text in the signal path from `x` (a transformer, a probe), its cold side
+    down to the rail; returns where the path goes on."""
+    left = x + gap
+    width = _text_box(g, lines, left)
+    height = 2 * _PAD + _LINE_PITCH * len(lines)
+    bottom = _Y_SIGNAL - height / 2
+    wire(g, x, _Y_SIGNAL, left, _Y_SIGNAL)
+    wire(g, left + width, _Y_SIGNAL, left + width + gap, _Y_SIGNAL)
+    wire(g, left + width / 2, bottom, left + width / 2, _Y_RAIL)
+    dot(g, left + width / 2, _Y_RAIL)
+    return left + width + gap
 
 
 def _unit(g, unit: Unit, x: float) -> tuple[float, float]:

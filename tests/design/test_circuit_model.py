@@ -113,3 +113,21 @@ def test_stress_and_the_networks_duties_are_one_circuit(designs, starter):
         assert_close(opened[names.coil].voltage_peak_v, o.inductor_voltage_peak_v, rel=1e-9,
                      what="coil voltage, load open")
         assert_close(design.duties.open_load_f_hz, o.f_hz, rel=1e-9, what="open-load peak")
+
+
+def test_a_source_coupled_through_a_capacitor(designs):
+    """The bench's coupling-capacitor source (engine/resonance.py's source_capacitance_f,
+    held to ngspice in tests/design) as a network part: the same peak and −3 dB points."""
+    from dataclasses import replace
+
+    from sheetgen.design.kinds.tank import tank_model
+    from sheetgen.engine import resonance
+    design = designs["demo"]  # 7.1 MHz, a voltage source
+    circuit = replace(design.circuit, source_capacitance_f=1.5e-12, source_resistance_ohm=50.0)
+    expected = resonance.analyse(circuit)
+    model = tank_model(circuit, design.designators, design.capacitor_choice, None, "voltage")
+    peak = extremum(model.network, expected.f0_hz / 50, expected.f0_hz * 50)
+    points = half_power_points(model.network, peak)
+    assert_close(float(peak.f_hz), expected.f_peak_hz, rel=1e-9, what="f_peak")
+    assert_close(float(points.f_low_hz), expected.f_low_hz, rel=1e-9, what="f_low")
+    assert_close(float(points.f_high_hz), expected.f_high_hz, rel=1e-9, what="f_high")

@@ -123,3 +123,32 @@ def test_comparison_catches_coil_loss_ten_percent_high():
     for name in ("f_low_hz", "f_high_hz", "impedance_at_peak_ohm"):
         with pytest.raises(AssertionError):
             assert_close(*values[name], rel=rel, what=name)
+
+
+# (L, rL, C, rC, Rs, Cc, RL): a tank fed from a 50 Ω port through a small coupling
+# capacitor (the test set-up's loose coupling), loaded or not.
+COUPLED = [
+    pytest.param(5e-6, 1.1, 103e-12, 0.11, 50.0, 1.5e-12, 1e6, id="7MHz-trap-1.5pF-probe"),
+    pytest.param(220e-6, 7.0, 560e-12, 0.5, 50.0, 33e-12, 30e3, id="455kHz-33pF-loaded"),
+    pytest.param(63e-9, 0.37, 21e-12, 0.03, 50.0, 4.7e-12, None, id="145MHz-4.7pF-heavy"),
+]
+
+
+@pytest.mark.parametrize("L, r_l, C, r_c, r_s, c_c, r_load", COUPLED)
+def test_a_tank_fed_through_a_coupling_capacitor(L, r_l, C, r_c, r_s, c_c, r_load):
+    """Circuit.source_capacitance_f: the series Rs + 1/(jωCc) feed, worked exactly at every
+    frequency; ngspice measures the tank voltage of the same netlist with Cc in series."""
+    bench = spice.parallel_netlist(L, r_l, C, r_c, r_s, r_load)
+    body = bench.body.replace("rsource src feed", "rsource src cc")
+    body += f"\nccoup cc feed {c_c!r}"
+    measured = spice.measure_bench(spice.BenchCircuit(
+        bench.topology, body, bench.response, bench.port_voltage, bench.port_current,
+        bench.f_start_hz, bench.f_stop_hz), zero_phase=False)
+    got = analyse(Circuit("parallel", L, r_l, C, r_c, r_s, r_load, source_capacitance_f=c_c))
+    where = f"vs {spice.ngspice_version()}"
+    for name, mine, theirs in (("f_peak_hz", got.f_peak_hz, measured.f_peak_hz),
+                               ("f_low_hz", got.f_low_hz, measured.f_low_hz),
+                               ("f_high_hz", got.f_high_hz, measured.f_high_hz)):
+        assert_close(mine, theirs, rel=REL, what=f"{name} {where}")
+    plain = analyse(Circuit("parallel", L, r_l, C, r_c, r_s, r_load))
+    assert abs(plain.f_peak_hz / measured.f_peak_hz - 1) > 10 * REL, "Cc moves the peak"

@@ -150,16 +150,29 @@ def test_a_shunt_makes_a_low_source_resistance(tmp_path):
     assert_close(d.bench.circuit.source_resistance_ohm, 12.4 * 50 / 62.4, rel=1e-12)
 
 
-def test_an_ideal_current_source_is_a_large_feed_resistor(tmp_path):
-    """No Rs, a current drive: the generator feeds the tank through the E96 value nearest
-    100 × |Z| − 50 Ω (a current source within about 1 %, common practice)."""
+def test_an_ideal_current_source_is_fed_through_a_small_coupling_capacitor(tmp_path):
+    """No Rs, a current drive: a feed resistor of 100 × |Z| − 50 Ω (about 1.9 MΩ) with the
+    ~0.2 pF across a leaded resistor (common practice) is a capacitor at 455 kHz
+    (ωRC ≈ 1.1), so the generator feeds the tank through a small coupling capacitor:
+    50 Ω + 1/(jωCc) is the parallel R = 50·(1 + Qc²), Qc = 1/(ωCc·50) (series-to-parallel
+    conversion), so Cc = 1/(ω·50·√(R/50 − 1)), the nearest E12 value; the circuit sees
+    the port's 50 Ω in series with it."""
     d, res = _design(tmp_path, "parallel", {"  resistance: 47 kohm    # output resistance of "
                                             "the driving stage\n": ""})
     z_peak = res["resonance"]["impedance_at_peak_ohm"]
     source = d.bench.source
-    assert source.kind == "series_resistor"
-    assert abs(math.log(source.resistor_ohm / (100 * z_peak - 50))) <= math.log(10) / 96 / 2 + 1e-9
-    assert_close(d.bench.circuit.source_resistance_ohm, source.resistor_ohm + 50, rel=1e-12)
+    assert source.kind == "coupling_capacitor"
+    omega = 2 * math.pi * res["resonance"]["f_peak_hz"]
+    assert omega * 0.2e-12 * (100 * z_peak - 50) > 1.0, "no resistor at this frequency"
+    cc = 1 / (omega * 50 * math.sqrt(100 * z_peak / 50 - 1))
+    e12 = (1.0, 1.2, 1.5, 1.8, 2.2, 2.7, 3.3, 3.9, 4.7, 5.6, 6.8, 8.2)  # IEC 60063
+    nearest = min((m * 10.0 ** k for m in e12 for k in range(-13, -9)),
+                  key=lambda c: abs(math.log(c / cc)))
+    assert_close(source.capacitance_f, nearest, rel=1e-9)
+    assert_close(d.bench.circuit.source_capacitance_f, nearest, rel=1e-12)
+    assert d.bench.circuit.source_resistance_ohm == 50.0
+    settings = dict(next(s for s in procedure(d).steps if s.key == "connect").settings)
+    assert settings["Generator hookup"].startswith("C3 33 pF C0G"), settings["Generator hookup"]
 
 
 def test_a_link_coupled_tank_is_measured_through_its_link(tmp_path):
@@ -187,8 +200,8 @@ def test_a_parallel_load_is_a_resistor_into_the_receiver(tmp_path):
     settings = dict(next(s for s in procedure(d).steps
                          if s.title == "Connect the test set-up").settings)
     from sheetgen.quantities import format_quantity
-    assert (f"RT2 {format_quantity(port.resistor_ohm, 'Ω', 3)} ± 1.00 % (IEC 60063 E96)"
-            in settings["Receiver hookup"])
+    assert (f"R4 {format_quantity(port.resistor_ohm, 'Ω', 3)} ± 1.00 % (IEC 60063 E96)"
+            in settings["Receiver hookup"]), "numbered on after the unit's R1 and R2"
 
 
 def test_the_lcr_level_drives_a_small_flux_in_a_ring_core(tmp_path):

@@ -42,34 +42,43 @@ EDITS = {
     "toroid-tap": ("toroid", {"  link:\n    resistance: 50 ohm": "  tap:\n    resistance: 2 kohm"}),
 }
 
-# case: (receiver place, source (kind, RT1 value), terminals, receiver (kind, RT2 value)).
-# E96 values are those the bench procedure's own tests derive by hand.
+# case: (receiver place, source (kind, designator, value or first line), terminals,
+# receiver (kind, designator, value or first line)). E96 values are those the bench
+# procedure's own tests derive by hand. Fixture parts are numbered on after the unit's own
+# (R1 source, R2 load, R3 bleeder): demo has R1 and R2, so R3 and R4; power-tank also has a
+# bleeder R3, so R4 and R5.
+# series-ideal / series-sense: the loop (3.2 + 0.05 + 50 Ω) needs 1/100 of it, 0.5325 Ω,
+# below any metal-film part: a current transformer of N = √(50/0.5325) = 9.7 → 10 turns,
+# presenting 50/10² = 0.5 Ω. parallel-ideal: 100 × the tank's impedance (1.9 MΩ) at 455 kHz
+# is no resistor with 0.2 pF across it (ωRC ≈ 1.1): a coupling capacitor
+# 1/(ω·50·√(R/50 − 1)) ≈ 35 pF → the nearest E12 value, 33 pF. parallel-pickup: 100 × |Z|
+# (5.2 MΩ) is no resistor either: the active probe.
 EXPECTED = {
-    "series": ("load", ("direct", None), ("where R1 stands", "where R2 stands"),
-               ("direct", None)),
-    "parallel": ("load", ("series_resistor", "47.5 kΩ"), ("where R1 stands", "where R2 stands"),
-                 ("series_resistor", "84.5 kΩ")),
-    "toroid": ("link", ("series_resistor", "20.0 kΩ"), ("where R1 stands", "L2's ends"),
-               ("direct", None)),
-    "solenoid": ("load", ("series_resistor", "15.0 kΩ"), ("where R1 stands", "where R2 stands"),
-                 ("series_resistor", "12.1 kΩ")),
-    "power-tank": ("load", ("series_resistor", "1.96 kΩ"),
-                   ("where R1 stands", "where R2 stands"), ("series_resistor", "1.96 kΩ")),
-    "demo": ("load", ("series_resistor", "10.0 kΩ"), ("where R1 stands", "where R2 stands"),
-             ("series_resistor", "34.0 kΩ")),
-    "series-shunt": ("load", ("shunt_resistor", "12.4 Ω"),
-                     ("where R1 stands", "where R2 stands"), ("direct", None)),
-    "series-ideal": ("load", ("shunt_resistor", "536 mΩ"),
-                     ("where the source stands", "where R2 stands"), ("direct", None)),
-    "series-sense": ("sense_resistor", ("direct", None), ("where R1 stands", "loop's cold end"),
-                     ("shunt_resistor", "536 mΩ")),
-    "parallel-ideal": ("load", ("series_resistor", "1.91 MΩ"),
-                       ("tank's hot end", "where R2 stands"), ("series_resistor", "30.1 kΩ")),
-    "parallel-pickup": ("pickup", ("series_resistor", "47.5 kΩ"),
-                        ("where R1 stands", "tank's hot end"), ("series_resistor", "5.23 MΩ")),
-    "toroid-tap": ("tap", ("series_resistor", "20.0 kΩ"),
+    "series": ("load", ("direct", None, None), ("where R1 stands", "where R2 stands"),
+               ("direct", None, None)),
+    "parallel": ("load", ("series_resistor", "R3", "47.5 kΩ"),
+                 ("where R1 stands", "where R2 stands"), ("series_resistor", "R4", "84.5 kΩ")),
+    "toroid": ("link", ("series_resistor", "R3", "20.0 kΩ"), ("where R1 stands", "L2's ends"),
+               ("direct", None, None)),
+    "solenoid": ("load", ("series_resistor", "R3", "15.0 kΩ"),
+                 ("where R1 stands", "where R2 stands"), ("series_resistor", "R4", "12.1 kΩ")),
+    "power-tank": ("load", ("series_resistor", "R4", "1.96 kΩ"),
+                   ("where R1 stands", "where R2 stands"), ("series_resistor", "R5", "1.96 kΩ")),
+    "demo": ("load", ("series_resistor", "R3", "10.0 kΩ"), ("where R1 stands", "where R2 stands"),
+             ("series_resistor", "R4", "34.0 kΩ")),
+    "series-shunt": ("load", ("shunt_resistor", "R3", "12.4 Ω"),
+                     ("where R1 stands", "where R2 stands"), ("direct", None, None)),
+    "series-ideal": ("load", ("transformer", "T1", "T1 1:10"),
+                     ("where the source stands", "where R2 stands"), ("direct", None, None)),
+    "series-sense": ("sense_resistor", ("direct", None, None),
+                     ("where R1 stands", "loop's cold end"), ("transformer", "T1", "T1 1:10")),
+    "parallel-ideal": ("load", ("coupling_capacitor", "C3", "33 pF"),
+                       ("tank's hot end", "where R2 stands"), ("series_resistor", "R3", "30.1 kΩ")),
+    "parallel-pickup": ("pickup", ("series_resistor", "R2", "47.5 kΩ"),
+                        ("where R1 stands", "tank's hot end"), ("probe", None, "active probe")),
+    "toroid-tap": ("tap", ("series_resistor", "R3", "20.0 kΩ"),
                    ("where R1 stands", "tap of L1 to its cold end"),
-                   ("series_resistor", "1.96 kΩ")),
+                   ("series_resistor", "R4", "1.96 kΩ")),
 }
 
 
@@ -95,10 +104,13 @@ def _fonts():
     fonts.register_fonts()
 
 
-def _hookup_as(hookup: Hookup, fixture: str) -> tuple[str, str | None]:
-    if hookup.resistor is not None:
-        assert hookup.resistor.designator == fixture
-    return hookup.kind, hookup.resistor.value if hookup.resistor else None
+def _hookup_as(hookup: Hookup) -> tuple[str, str | None, str | None]:
+    if hookup.part is not None:
+        return hookup.kind, hookup.part.designator, hookup.part.value
+    if hookup.lines:
+        first = hookup.lines[0]
+        return hookup.kind, first.split()[0] if first[1:2].isdigit() else None, first
+    return hookup.kind, None, None
 
 
 @pytest.mark.parametrize("case", sorted(EXPECTED))
@@ -108,9 +120,9 @@ def test_the_view_names_the_benchs_hookups(tmp_path, case):
     assert bench.receiver.place == place, "the job edit gives the case it is named for"
     assert (view.source.kind, view.receiver_hookup.kind) == (bench.source.kind,
                                                             bench.receiver.hookup.kind)
-    assert _hookup_as(view.source, "RT1") == source
+    assert _hookup_as(view.source) == source
     assert (view.unit.source_terminal, view.unit.receiver_terminal) == terminals
-    assert _hookup_as(view.receiver_hookup, "RT2") == found
+    assert _hookup_as(view.receiver_hookup) == found
 
 
 def test_the_instruments_are_50_ohm_ports_at_the_benchs_level(tmp_path):
@@ -135,16 +147,26 @@ def test_no_label_collides(tmp_path, case):
 
 def _long_view(kind: str) -> SetupView:
     """Both hookups of `kind`, with long values, designators and terminals."""
-    resistor = None if kind == "direct" else Part("RT101", "resistor", "1.234 MΩ ± 0.1 %")
+    if kind in ("transformer", "probe"):
+        lines = ("T1001 1:1000", "ferrite ring of a long description", "circuit : port")
+        return SetupView(Instrument("generator", ("50 Ω output", "level −123.4 dBm")),
+                         Hookup(kind, lines=lines),
+                         Unit("unit under test, sheet LONG-SHEET-ID-0001-REV-ZZ",
+                              "where R1001 stands, hot side", "tap of L1001 to its cold end"),
+                         Hookup(kind, lines=("active probe", "1.0 MΩ ∥ 1.0 pF")),
+                         Instrument("receiver", ("50 Ω input",)))
+    part_kind = "capacitor" if kind == "coupling_capacitor" else "resistor"
+    resistor = None if kind == "direct" else Part("R101", part_kind, "1.234 MΩ ± 0.1 %")
     return SetupView(Instrument("generator", ("50 Ω output", "level −123.4 dBm")),
-                     Hookup(kind, resistor and Part("RT100", "resistor", resistor.value)),
+                     Hookup(kind, resistor and Part("R100", part_kind, resistor.value)),
                      Unit("unit under test, sheet LONG-SHEET-ID-0001-REV-ZZ",
                           "where R1001 stands, hot side", "tap of L1001 to its cold end"),
                      Hookup(kind, resistor),
                      Instrument("receiver", ("50 Ω input",)))
 
 
-@pytest.mark.parametrize("kind", ["direct", "series_resistor", "shunt_resistor"])
+@pytest.mark.parametrize("kind", ["direct", "series_resistor", "shunt_resistor",
+                                  "coupling_capacitor", "transformer", "probe"])
 def test_no_label_collides_with_long_labels(kind):
     view = _long_view(kind)
     drawing = setup_drawing(view, WIDTH)
@@ -154,13 +176,14 @@ def test_no_label_collides_with_long_labels(kind):
 
 def test_every_label_is_drawn_whole():
     """The collision check would pass if a label were dropped: each one is there."""
-    for kind in ("series_resistor", "shunt_resistor"):
+    for kind in ("series_resistor", "shunt_resistor", "coupling_capacitor", "transformer"):
         view = _long_view(kind)
         wanted = {view.generator.name, *view.generator.lines, view.receiver.name,
                   *view.receiver.lines, view.unit.caption, view.unit.source_terminal,
                   view.unit.receiver_terminal, RAIL_LABEL}
         for hookup in (view.source, view.receiver_hookup):
-            wanted |= {hookup.resistor.designator, hookup.resistor.value}
+            wanted |= ({hookup.part.designator, hookup.part.value} if hookup.part
+                       else set(hookup.lines))
         assert wanted <= _drawn_texts(view)
     assert DIRECT_LABEL in _drawn_texts(_long_view("direct"))
 
@@ -190,7 +213,7 @@ def test_the_rendered_drawing_reads_back_without_overlaps(tmp_path):
     path = tmp_path / "setup.pdf"
     renderPDF.drawToFile(setup_drawing(view, WIDTH), str(path))
     text = page_text(path)
-    for label in ("RT1", "10.0 kΩ", "RT2", "34.0 kΩ", "where R1 stands", "where R2 stands",
+    for label in ("R3", "10.0 kΩ", "R4", "34.0 kΩ", "where R1 stands", "where R2 stands",
                   "50 Ω output", "50 Ω input", RAIL_LABEL):
         assert label in text
     assert overlapping_words(page_words(path)[0].words) == []

@@ -232,8 +232,22 @@ def _fixture_text(path: str, key: str, value, results: dict):
         return format_quantity(value, "Ω", 3)  # an E96 value has three figures
     if key == "power_rating_w":
         return f"{value:g} W"
-    if key == "generator_level_dbm":
+    if key in ("generator_level_dbm", "received_dbm", "noise_floor_dbm"):
         return f"{value:+.1f} dBm".replace("-", "\u2212")
+    if key == "half_power_margin_db":
+        return format_number(value, 3) + " dB"
+    if key == "resistor_shunt_capacitance_f":
+        return f"{value * 1e12:g} pF"
+    if key == "resistor_lead_inductance_h":
+        return f"{value * 1e9:g} nH"
+    if key == "probe_gain":
+        return f"÷{1 / value:g}"
+    if path.endswith(("source.capacitance_f", "receiver.capacitance_f")):
+        return format_quantity(value, "F", 2)  # a coupling capacitor or a probe's input
+    if key == "source_capacitance_f":
+        return format_quantity(value, "F", 3)
+    if path == "test_record.fixture.circuit.capacitance_f":
+        return format_quantity(value, "F", 4)
     if path == "test_record.fixture.resonance.f_peak_hz":
         q = results["test_record"]["fixture"]["resonance"]["q_loaded"]
         trimmed = results["components"]["capacitor_build"]["trimmer_setting_f"] is not None

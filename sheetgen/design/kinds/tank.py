@@ -33,6 +33,7 @@ from sheetgen.engine.stress import DriveKind
 SELF_CAPACITANCE = "CSELF"  # the coil's self-capacitance, across a parallel tank
 STRAYS = "CSTRAY"  # the wiring strays
 TAP = "TAP1"  # the tap of L1 as an ideal turns ratio (a link is its own winding, L2)
+COUPLING = "CC"  # a capacitor in series with the source (a bench fixture's coupling)
 MEASURED = ("f_peak", "f_low", "f_high", "bandwidth")
 
 
@@ -48,14 +49,19 @@ def tank_model(circuit: Circuit, names: Designators, choice: CapacitorChoice,
     capacitors = _capacitors(circuit, names, choice, top, bottom)
     load_parts = _load(circuit, names, coupling, "t" if parallel else "b")
     current = drive_kind == "current" or (parallel and circuit.source_resistance_ohm is None)
+    coupling_parts = ()
+    if parallel and circuit.source_capacitance_f is not None:  # the source through Cc
+        coupling_parts = (Capacitor(COUPLING, "src", feed, circuit.source_capacitance_f),)
+        feed = "src"
     source = Source(feed, "current" if current else "voltage", circuit.source_resistance_ohm,
                     names.source_resistor)
     response = Response("voltage", coil.name) if parallel else Response("current", coil.name)
     load = names.load_resistor if load_parts else None
-    network = Network((coil, *capacitors, *load_parts), source, response, load)
-    open_load = (Network((coil, *capacitors), source, response, None)
+    network = Network((coil, *capacitors, *coupling_parts, *load_parts), source, response, load)
+    open_load = (Network((coil, *capacitors, *coupling_parts), source, response, None)
                  if parallel and load_parts else None)
-    built = tuple(p.name for p in network.parts if p.name not in (SELF_CAPACITANCE, STRAYS, TAP))
+    built = tuple(p.name for p in network.parts
+                  if p.name not in (SELF_CAPACITANCE, STRAYS, TAP, COUPLING))
     return CircuitModel(network, open_load, (names.trimmer,) if names.trimmer else (), built,
                         MEASURED)
 
