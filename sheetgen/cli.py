@@ -11,7 +11,7 @@ import sys
 from pathlib import Path
 
 from sheetgen import __version__
-from sheetgen.batch.outputs import OutputFolderError, write_atomically, write_sheet
+from sheetgen.batch.outputs import OutputFolderError, refuse_overlaps, write_all, write_sheet
 from sheetgen.errors import InputError
 from sheetgen.inputs.starters import TEMPLATE_NAMES, demo_job_path, template_text
 
@@ -103,6 +103,10 @@ def _job_arguments(command: argparse.ArgumentParser) -> None:
 
 
 def main(argv: list[str] | None = None) -> int:
+    import logging
+    # pypdf's own notes on a damaged PDF are not ours to print: a file we cannot read is
+    # reported once, by name, as bad input.
+    logging.getLogger("pypdf").setLevel(logging.CRITICAL)
     try:
         args = build_parser().parse_args(argv)
     except UsageError as error:
@@ -164,6 +168,8 @@ def _limits(args) -> int:
     from sheetgen.design.pipeline import design_from_file
     from sheetgen.report.checks import failed_checks
     from sheetgen.report.results import limits_csv, limits_json
+    if args.output is not None:
+        refuse_overlaps([("the job file", args.job)], [("--output", args.output)])
     design = design_from_file(args.job, args.library)
     if failed_checks(design) and not args.allow_failing:
         code = _exit_for(design)
@@ -175,7 +181,7 @@ def _limits(args) -> int:
     if args.output is None:
         sys.stdout.write(text)
     else:
-        write_atomically(args.output, text.encode("utf-8"))
+        write_all([(args.output, text.encode("utf-8"))])
         print(f"wrote {args.output}")
     return _exit_for(design)
 
@@ -196,9 +202,15 @@ def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
                  force: bool = False) -> int:
     from sheetgen.design.pipeline import design_from_file
     from sheetgen.inputs.style import resolve_style
-    design = design_from_file(job_path, library_folder)
     output = output or job_path.with_suffix(".pdf")
+    outputs = [("--output", output)] + ([("--results", results_path)] if results_path else [])
+    inputs = [("the job file", job_path)] + ([("--style", style_path)] if style_path else [])
+    refuse_overlaps(inputs, outputs)
+    design = design_from_file(job_path, library_folder)
     style = resolve_style(job_path, design.job, style_path, library_folder)
+    if style is not None:  # the style the job named, and its logo, are inputs too
+        refuse_overlaps([("the style file", Path(style.source))]
+                        + ([("the logo", style.logo_path)] if style.logo_path else []), outputs)
     if write_sheet(design, job_path, output, results_path, style, force):
         print(f"wrote {output}")
     else:
@@ -244,11 +256,12 @@ def _grade_arguments(commands) -> None:
 
 def _grade(args) -> int:
     from sheetgen.bench.grade import UNIT_PASS, bandwidth_resolution_hz, grade_sheet, grading_table
-    from sheetgen.bench.record import append_record, record_csv, record_json
+    from sheetgen.bench.record import append_data, append_record, record_csv, record_json
     from sheetgen.bench.sheet_file import read_sheet
-    outputs = [p for p in (args.json, args.csv, args.append, args.output) if p is not None]
-    if any(p.resolve() == args.sheet.resolve() for p in outputs):
-        raise UsageError(f"{args.sheet}: an output may not overwrite the sheet being graded")
+    outputs = [(option, path) for option, path in (("--output", args.output), ("--json", args.json),
+               ("--csv", args.csv), ("--append", args.append)) if path is not None]
+    refuse_overlaps([("the sheet", args.sheet)]
+                    + ([("the sweep", args.sweep)] if args.sweep is not None else []), outputs)
     if args.parameter and args.sweep is None:
         raise UsageError("--parameter needs --sweep")
     sheet = read_sheet(args.sheet)
@@ -263,23 +276,29 @@ def _grade(args) -> int:
     if grading.problems:
         raise InputError(list(grading.problems))
     record_text = record_json(grading)
+    # Every output is made first (the log's line checked against its header too), then all
+    # are written: all of them, or none.
+    items = []
     if args.output is not None:
         if sweep is not None:
             from sheetgen.bench.report_pdf import sweep_report
             pdf = sweep_report(grading, sweep, features, record_text, args.sweep)
         else:
             from sheetgen.bench.graded_copy import graded_copy
-            pdf = graded_copy(args.sheet.read_bytes(), grading)
-        write_atomically(args.output, pdf)
-        print(f"wrote {args.output}")
+            from sheetgen.bench.sheet_file import MAX_SHEET_BYTES
+            from sheetgen.inputs.files import read_bounded
+            pdf = graded_copy(read_bounded(args.sheet, MAX_SHEET_BYTES, "sheet PDF"), grading)
+        items.append((args.output, pdf))
     if args.json is not None:
-        write_atomically(args.json, record_text.encode("utf-8"))
-        print(f"wrote {args.json}")
+        items.append((args.json, record_text.encode("utf-8")))
     if args.csv is not None:
-        write_atomically(args.csv, record_csv(grading).encode("utf-8"))
-        print(f"wrote {args.csv}")
-    if args.append is not None:
-        append_record(args.append, grading)
+        items.append((args.csv, record_csv(grading).encode("utf-8")))
+    appended = append_data(args.append, grading) if args.append is not None else None
+    write_all(items)
+    for path, _ in items:
+        print(f"wrote {path}")
+    if appended is not None:
+        append_record(args.append, grading, appended)
         print(f"added a line to {args.append}")
     if grading.verdict != UNIT_PASS:
         for value in grading.as_left:
