@@ -268,8 +268,9 @@ def _grade(args) -> int:
     features = sweep = None
     if args.sweep is not None:
         from sheetgen.bench.sweep import sweep_features
-        from sheetgen.bench.sweep_files import read_sweep
+        from sheetgen.bench.sweep_files import read_sweep, require_reach
         sweep = read_sweep(args.sweep, args.parameter)
+        require_reach(sweep, sheet.results)
         features = sweep_features(sweep, bandwidth_resolution_hz(sheet.results))
     grading = grade_sheet(sheet, features, str(args.sweep) if args.sweep else None)
     sys.stdout.write(grading_table(grading))

@@ -25,6 +25,7 @@ from sheetgen.quantities import (
     format_number,
     format_quantity,
     parse_quantity,
+    shortened,
 )
 from sheetgen.report.procedure import OVERALL_VERDICT, RECORD_TEXT_FIELDS
 
@@ -217,7 +218,7 @@ def grading_table(grading: Grading) -> str:
     rows = [("Quantity", "Window", "Measured", "Verdict")]
     for v in grading.values:
         name = ("as found " if v.as_found else "") + v.quantity
-        rows.append((name, window_text(v), v.typed or "—", v.verdict))
+        rows.append((name, window_text(v), shortened(v.typed) or "—", v.verdict))
     widths = [max(len(r[k]) for r in rows) for k in range(4)]
     lines = [f"{grading.sheet_id} rev {grading.revision}  {grading.title}".rstrip(),
              f"graded from {'the form' if grading.source == 'form' else grading.source}", ""]

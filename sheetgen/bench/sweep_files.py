@@ -173,7 +173,10 @@ def _scan_touchstone(path: str, text: str, ports: int) -> tuple[list[Problem], s
                 version = stripped.split("]", 1)[1].strip() or version
                 in_data = False
             elif keyword == "number of frequencies":
-                declared = (number, line.index("]") + 2, stripped.split("]", 1)[1].strip())
+                after = line.index("]") + 1
+                value = line[after:].strip()
+                column = (line.index(value, after) if value else after) + 1
+                declared = (number, column, value)
             elif keyword == "reference":
                 problems += _reference_problems(path, number, line, "reference")
             elif keyword == "network data":
@@ -510,3 +513,31 @@ def _read_csv(path: str, text: str) -> MeasuredSweep:
         source=f"CSV columns {described}",
         parameter=magnitude_column.header,
     )
+
+
+# --------------------------------------------------------------------------- reach
+
+REACH_QUANTITIES = ("f0_hz", "f_low_hz", "f_high_hz")  # the windows a sweep is graded on
+
+
+def require_reach(sweep: MeasuredSweep, results: dict) -> None:
+    """A sweep must span every frequency window of the sheet's test record it is graded
+    against (f0 and the half-power points); one that does not (a unit's kHz written
+    under a header in Hz, a span set for another sheet) is bad input, not a failed unit."""
+    rows = ((results.get("test_record") or {}).get("values") or []) if isinstance(results, dict) \
+        else []
+    edges = [edge for row in rows if isinstance(row, dict)
+             and row.get("quantity") in REACH_QUANTITIES
+             for edge in (row.get("min"), row.get("max"))
+             if isinstance(edge, (int, float)) and not isinstance(edge, bool) and math.isfinite(edge)]
+    if not edges:
+        return
+    low, high = min(edges), max(edges)
+    first, last = float(sweep.frequency_hz[0]), float(sweep.frequency_hz[-1])
+    if first > low or last < high:
+        raise InputError([_problem(
+            sweep.path, 1, 1, "", f"spans {format_quantity(first, 'Hz', 6)} to "
+            f"{format_quantity(last, 'Hz', 6)}, which does not reach the sheet's windows "
+            f"({format_quantity(low, 'Hz', 6)} to {format_quantity(high, 'Hz', 6)}); check "
+            "the frequency unit of the file and the span swept",
+            "a sweep across every frequency window of the sheet")])
