@@ -100,6 +100,8 @@ def _job_arguments(command: argparse.ArgumentParser) -> None:
                          help="batch: worker processes (default: the number of CPUs)")
     command.add_argument("--out-dir", type=Path, metavar="DIR",
                          help="batch: write each job's output here, named after the job")
+    command.add_argument("--timeout", type=float, metavar="SECONDS", help="batch: stop a job "
+                         "that runs longer than this (default: 300)")
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -312,17 +314,29 @@ def _grade(args) -> int:
 # --------------------------------------------------------------------------- commands
 
 def _batch(args, command: str) -> int:
-    from sheetgen.batch.runner import JobTask, collect_jobs, default_workers, output_path, run_batch
+    from sheetgen.batch.runner import (
+        JOB_TIMEOUT_S,
+        JobTask,
+        collect,
+        default_workers,
+        output_path,
+        run_batch,
+    )
     for option in ("output", "results"):
         if getattr(args, option, None) is not None:
             raise UsageError(f"--{option} names one file; for several jobs use --out-dir")
     if args.workers is not None and args.workers < 1:
         raise UsageError("-j needs at least 1 worker")
+    if args.timeout is not None and not 0 < args.timeout <= 86_400:
+        raise UsageError("--timeout needs a number of seconds above 0 (at most a day, 86400)")
     if args.out_dir is not None and not args.out_dir.is_dir():
         raise UsageError(f"--out-dir {args.out_dir}: no such folder")
-    jobs = collect_jobs([args.job, *args.more_jobs])
+    jobs, skipped = collect([args.job, *args.more_jobs])
+    for path, reason in skipped:
+        print(f"skipped {path}: {reason}", file=sys.stderr)
     if not jobs:
-        raise UsageError("no job files found (a job file has top-level sheet: and circuit:)")
+        raise UsageError("no job files found (every *.yaml but house styles and parts library "
+                         "files is taken as a job)")
     suffix = {"build": ".pdf", "limits": "." + getattr(args, "format", "csv")}.get(command)
     tasks, seen = [], {}
     for job in jobs:
@@ -332,8 +346,17 @@ def _batch(args, command: str) -> int:
         if output is not None:
             seen[output.resolve()] = job
         tasks.append(JobTask(command, job, output, args.library, getattr(args, "style", None),
-                             getattr(args, "json", False), getattr(args, "format", "csv")))
-    return run_batch(tasks, args.workers or default_workers())
+                             getattr(args, "json", False), getattr(args, "format", "csv"),
+                             args.timeout or JOB_TIMEOUT_S))
+    refuse_overlaps([("the job file", job) for job in jobs]
+                    + ([("--style", args.style)] if getattr(args, "style", None) else []),
+                    [(f"the output of {task.job}", task.output) for task in tasks
+                     if task.output is not None])
+    cpus = default_workers()
+    if args.workers is not None and args.workers > cpus:
+        print(f"sheetgen: -j {args.workers}: running {cpus} workers, the CPUs this process may "
+              "use", file=sys.stderr)
+    return run_batch(tasks, min(args.workers or cpus, cpus))
 
 
 def _diff(args) -> int:

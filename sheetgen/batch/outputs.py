@@ -28,30 +28,44 @@ def _file_mode(path: Path) -> int:
     return 0o666 & ~mask
 
 
-def same_file(a: Path, b: Path) -> bool:
-    """True when `a` and `b` name one file: the same resolved path (links followed), or,
-    where both exist, the same file by device and inode (hard links)."""
+def _identities(path: Path) -> list[tuple]:
+    """What makes two names one file: the resolved path (links followed), and where the
+    file exists its device and inode (hard links)."""
+    found: list[tuple] = []
     try:
-        if Path(a).resolve() == Path(b).resolve():
-            return True
-        return os.path.samefile(a, b)
-    except (OSError, ValueError):
-        return False
+        found.append(("path", Path(path).resolve()))
+        status = os.stat(path)
+        found.append(("inode", status.st_dev, status.st_ino))
+    except (OSError, ValueError, RuntimeError):
+        pass
+    return found
+
+
+def same_file(a: Path, b: Path) -> bool:
+    """True when `a` and `b` name one file (the same resolved path, or the same inode)."""
+    return bool(set(_identities(a)) & set(_identities(b)))
 
 
 def refuse_overlaps(inputs: Sequence[tuple[str, Path]], outputs: Sequence[tuple[str, Path]]) -> None:
     """Refuse an output that is one of the command's inputs or another of its outputs
     (`(what, path)` pairs, e.g. ("--results", Path("j.yaml"))): nothing may be overwritten
     by the command that reads it, nor written twice."""
-    for index, (label, output) in enumerate(outputs):
-        for what, source in inputs:
-            if same_file(output, source):
-                raise OutputFolderError(f"{output}: {label} would overwrite {what} {source}, an "
-                                        "input of this command; write it to another file")
-        for other_label, other in outputs[:index]:
-            if same_file(output, other):
-                raise OutputFolderError(f"{output}: {label} and {other_label} name the same "
-                                        "file; give each output its own")
+    seen: dict[tuple, tuple[str, str, Path]] = {}
+    for what, source in inputs:
+        for identity in _identities(source):
+            seen.setdefault(identity, ("input", what, source))
+    for label, output in outputs:
+        identities = _identities(output)
+        for identity in identities:
+            if identity in seen:
+                kind, what, other = seen[identity]
+                if kind == "input":
+                    raise OutputFolderError(f"{output}: {label} would overwrite {what} {other}, "
+                                            "an input of this command; write it to another file")
+                raise OutputFolderError(f"{output}: {label} and {what} name the same file; give "
+                                        "each output its own")
+        for identity in identities:
+            seen[identity] = ("output", label, output)
 
 
 def _cannot_write(path: Path, error: OSError) -> OutputFolderError:
