@@ -128,15 +128,16 @@ def test_a_fifo_as_a_job_is_refused_without_waiting(tmp_path, capsys):
     assert code == 2 and "is not a regular file" in lines[0]
 
 
-def _png(width: int, height: int) -> bytes:
+def _png(width: int, height: int, pixels: bytes | None = None) -> bytes:
     """A PNG whose IHDR (ISO/IEC 15948 §11.2.2) declares width × height, 8-bit grey; its one
-    IDAT holds a single row, so the file is small whatever it declares."""
+    IDAT holds a single row (or `pixels`), so the file is small whatever it declares."""
     def chunk(kind: bytes, body: bytes) -> bytes:
         return (struct.pack(">I", len(body)) + kind + body
                 + struct.pack(">I", zlib.crc32(kind + body) & 0xFFFFFFFF))
     header = struct.pack(">IIBBBBB", width, height, 8, 0, 0, 0, 0)
     return (b"\x89PNG\r\n\x1a\n" + chunk(b"IHDR", header)
-            + chunk(b"IDAT", zlib.compress(b"\x00" * (width + 1))) + chunk(b"IEND", b""))
+            + chunk(b"IDAT", pixels or zlib.compress(b"\x00" * (width + 1)))
+            + chunk(b"IEND", b""))
 
 
 def test_the_png_and_jpeg_sizes_are_read_from_their_headers():
@@ -156,6 +157,18 @@ def test_a_decompression_bomb_logo_is_refused(tmp_path, capsys):
     match = LOCATED.match(lines[0])
     assert match and match["file"] == str(style) and match["rest"].startswith("logo: ")
     assert f"30,000 × 30,000 pixels; a logo is at most {MAX_LOGO_PIXELS:,}" in lines[0]
+    assert not (tmp_path / "job.pdf").exists()
+
+
+def test_a_logo_whose_pixels_do_not_decode_is_named(tmp_path, capsys):
+    """Reproduced: "sheetgen: : handle_pageBegin … broken data stream", naming no file."""
+    (tmp_path / "logo.png").write_bytes(_png(40, 20, pixels=b"not a zlib stream"))
+    job = _write(tmp_path, GOOD)
+    style = _write(tmp_path, STYLE + "logo: logo.png\n", "house.yaml")
+    code, lines = _run(capsys, "build", job, "--style", style)
+    assert code == 2 and lines == [f"{style}:2:7 logo: logo.png cannot be decoded as an image "
+                                   "(broken data stream when reading image file); save it "
+                                   "again as PNG or JPEG"]
     assert not (tmp_path / "job.pdf").exists()
 
 
