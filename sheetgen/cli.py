@@ -210,9 +210,14 @@ def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
     refuse_overlaps(inputs, outputs)
     design = design_from_file(job_path, library_folder)
     style = resolve_style(job_path, design.job, style_path, library_folder)
+    from sheetgen.inputs.library import find_library_folder, library_files
+    folder = find_library_folder(job_path, design.job.library, library_folder)
+    used = [("the parts library file", path) for path in
+            (library_files(folder) if folder.is_dir() else [])]
     if style is not None:  # the style the job named, and its logo, are inputs too
-        refuse_overlaps([("the style file", Path(style.source))]
-                        + ([("the logo", style.logo_path)] if style.logo_path else []), outputs)
+        used += [("the style file", Path(style.source))]
+        used += [("the logo", style.logo_path)] if style.logo_path else []
+    refuse_overlaps(used, outputs)
     if write_sheet(design, job_path, output, results_path, style, force):
         print(f"wrote {output}")
     else:
@@ -368,7 +373,7 @@ def _diff(args) -> int:
 
 def _diff_side(path: Path, library_folder: Path | None) -> tuple[object, dict]:
     """(job data, results document) of a job file, or of a built sheet's attachments."""
-    from sheetgen.inputs.reader import compose_located
+    from sheetgen.inputs.reader import compose_located, read_job_text
     if path.suffix.lower() == ".pdf":  # a built sheet: its attached job and results
         from sheetgen.bench.sheet_file import read_sheet
         sheet = read_sheet(path)
@@ -376,7 +381,7 @@ def _diff_side(path: Path, library_folder: Path | None) -> tuple[object, dict]:
     from sheetgen.design.pipeline import design_from_file
     from sheetgen.report.results import results_document
     design = design_from_file(path, library_folder)
-    return compose_located(path.read_text(encoding="utf-8"), str(path)).data, results_document(design)
+    return compose_located(read_job_text(path), str(path)).data, results_document(design)
 
 
 def _verify(args) -> int:

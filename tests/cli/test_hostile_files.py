@@ -58,6 +58,21 @@ def test_an_output_that_is_an_input_is_refused(tmp_path, capsys, arguments):
     assert not (tmp_path / "out.pdf").exists() and not (tmp_path / "job.pdf").exists()
 
 
+def test_build_may_not_write_over_a_parts_library_file(tmp_path, capsys):
+    toroid = (Path(__file__).resolve().parents[2] / "templates" / "toroid.yaml").read_text(
+        encoding="utf-8")
+    job = _write(tmp_path, toroid)
+    library = Path(__file__).resolve().parents[2] / "shared"
+    copy = tmp_path / "parts"
+    copy.mkdir()
+    for name in ("cores.yaml", "materials.yaml"):
+        (copy / name).write_bytes((library / name).read_bytes())
+    before = (copy / "cores.yaml").read_bytes()
+    code, lines = _run(capsys, "build", job, "--library", copy, "--results", copy / "cores.yaml")
+    assert code == 2 and "would overwrite the parts library file" in lines[0]
+    _unchanged(copy / "cores.yaml", before)
+
+
 @pytest.mark.parametrize("option", ["-o", "--json", "--csv", "--append"])
 def test_grade_outputs_may_not_be_the_sweep_or_the_sheet(tmp_path, capsys, option):
     """Refused before anything is read: the sheet need not even be a sheet."""
