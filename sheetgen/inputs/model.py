@@ -126,6 +126,10 @@ Fraction = _quantity(quantities.FRACTION, minimum=0.0, inclusive=True)
 PortTolerance = _quantity(quantities.FRACTION, minimum=0.0, inclusive=True, maximum=0.5,
                           why="a port further than ±50 % from 50 Ω is not a 50 Ω port")
 PositiveNumber = _quantity(quantities.DIMENSIONLESS)
+# Steinmetz exponents of real materials lie between about 1 and 3 (common practice); 5
+# admits any fit while f**alpha and B**beta stay inside the float range.
+SteinmetzExponent = _quantity(quantities.DIMENSIONLESS, maximum=5.0,
+                              why=" (a Steinmetz exponent; real materials lie near 1 to 3)")
 Length = _quantity(quantities.LENGTH)
 LeadLength = _quantity(quantities.LENGTH, minimum=0.0, inclusive=True)
 # Common practice: a tuned circuit's leads are kept to centimetres; 300 mm is already a
@@ -304,8 +308,8 @@ class SteinmetzSpec(Section):
     """Core loss per volume P_v = k · f^alpha · B^beta (W/m³, f in Hz, peak B in T)."""
 
     k: PositiveNumber = Field(description="Steinmetz coefficient k, SI units")
-    alpha: PositiveNumber = Field(description="frequency exponent")
-    beta: PositiveNumber = Field(description="flux density exponent")
+    alpha: SteinmetzExponent = Field(description="frequency exponent (at most 5)")
+    beta: SteinmetzExponent = Field(description="flux density exponent (at most 5)")
 
 
 class MaterialSpec(Section):
