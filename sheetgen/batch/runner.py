@@ -273,7 +273,8 @@ def _in_workers(tasks: Sequence[JobTask], workers: int):
     from concurrent.futures.process import BrokenProcessPool
     context = _worker_context(multiprocessing, tasks[0].command)
     broken = []
-    pool = ProcessPoolExecutor(max_workers=workers, mp_context=context)
+    pool = ProcessPoolExecutor(max_workers=workers, mp_context=context,
+                               initializer=_leave_ctrl_c_to_the_parent)
     try:
         futures = {pool.submit(run_job, task): index for index, task in enumerate(tasks)}
         for future in as_completed(futures):
@@ -302,6 +303,12 @@ def _in_workers(tasks: Sequence[JobTask], workers: int):
         yield index, outcome
 
 
+def _leave_ctrl_c_to_the_parent() -> None:
+    """In a worker: ignore SIGINT. Ctrl-C reaches the whole process group; the parent
+    alone answers it, by terminating the workers (_stop), so none prints a traceback."""
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+
+
 def _stop(pool, tasks: Sequence[JobTask]) -> None:
     """Cancel what has not started, terminate the workers, remove half-written outputs."""
     processes = list((getattr(pool, "_processes", None) or {}).values())  # no public handle
@@ -311,6 +318,7 @@ def _stop(pool, tasks: Sequence[JobTask]) -> None:
             process.terminate()
     for process in processes:
         process.join(timeout=5)
+    pool.shutdown(wait=True)  # its manager thread sees the workers gone and ends
     for task in tasks:
         if task.output is not None:
             remove_leftovers(task.output)

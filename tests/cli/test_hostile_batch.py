@@ -110,7 +110,7 @@ def test_ctrl_c_stops_a_batch_promptly(tmp_path):
     assert time.monotonic() - stopped < 15, err
     assert process.returncode == 130, err
     summary = err.splitlines()[-1]
-    assert "interrupted:" in summary and "jobs not run, nothing written for them" in summary
+    assert "interrupted:" in summary and "jobs not run, nothing written for them" in summary, err
     assert "Traceback" not in err
     assert len(list(out.glob("*.pdf"))) < 20
     assert not list(out.glob(".*.part"))
