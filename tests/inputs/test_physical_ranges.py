@@ -75,3 +75,22 @@ def test_a_steinmetz_exponent_beyond_5_is_bad_input(tmp_path, capsys):
     assert any(line.startswith(f"{library / 'materials.yaml'}:") and
                'materials.iron-powder-mu10.steinmetz.alpha: "1e12" must be at most 5.00'
                in line for line in lines), lines
+
+
+def test_a_solenoid_of_millions_of_turns_is_refused_at_once(tmp_path, capsys):
+    """Found by the fuzz test: 7.3 H (inside the inductance range) on the solenoid starter
+    asked for some 50 million turns, and the search for whole turns (O(N) per candidate)
+    ran for minutes at 1.9 GB. A single layer is at most 10,000 turns (common practice:
+    tens to hundreds): refused at the inductor in about a second."""
+    import time
+    from pathlib import Path
+    text = (Path(__file__).resolve().parents[2] / "templates" / "solenoid.yaml").read_text(
+        encoding="utf-8")
+    assert "  inductance: 1.8 uH" in text
+    job = _write(tmp_path, text.replace("  inductance: 1.8 uH", "  inductance: 7.3 H"))
+    started = time.monotonic()
+    code, lines = _run(capsys, "check", job)
+    assert time.monotonic() - started < 20
+    assert code == 2 and any("inductor: a single-layer winding would need" in line
+                             and "at most 10,000 are wound in one layer" in line
+                             for line in lines), lines
