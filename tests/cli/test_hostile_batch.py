@@ -77,15 +77,24 @@ def test_the_cpus_available_follow_the_affinity_mask():
     assert runner.default_workers() == len(os.sched_getaffinity(0))
 
 
-def test_a_job_past_its_time_is_stopped_and_the_others_run(tmp_path, capsys):
-    slow = _write(tmp_path, GOOD + "variation:\n  trials: 2000000\n", "slow.yaml")
+def test_a_job_past_its_time_is_stopped_and_the_others_run(tmp_path, capsys, monkeypatch):
+    """A job that hangs (here: one that sleeps a minute before its design) is stopped at
+    --timeout; the next job runs. In this process (-j 1), as in a worker."""
+    original = runner._run
+
+    def hanging(task):
+        if task.job.name == "slow.yaml":
+            time.sleep(60)
+        return original(task)
+    monkeypatch.setattr(runner, "_run", hanging)
+    slow = _write(tmp_path, GOOD, "slow.yaml")
     quick = _write(tmp_path, GOOD, "quick.yaml")
     started = time.monotonic()
-    code, lines = _run(capsys, "check", slow, quick, "-j", "1", "--timeout", "0.5")
+    code, lines = _run(capsys, "check", slow, quick, "-j", "1", "--timeout", "2")
     assert time.monotonic() - started < 30
     assert code == 2
     assert f"timed out: {slow}" in lines
-    assert any("ran past 0.5 s (--timeout) and was stopped" in line for line in lines)
+    assert any("ran past 2 s (--timeout) and was stopped" in line for line in lines)
     assert f"checked {quick}" in lines
 
 
