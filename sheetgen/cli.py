@@ -11,7 +11,7 @@ import sys
 from pathlib import Path
 
 from sheetgen import __version__
-from sheetgen.batch.outputs import OutputFolderError, write_atomically, write_sheet
+from sheetgen.batch.outputs import OutputFolderError, refuse_overlaps, write_all, write_sheet
 from sheetgen.errors import InputError, Problem
 from sheetgen.inputs.starters import TEMPLATE_NAMES, demo_job_path, template_text
 
@@ -128,9 +128,15 @@ def _job_arguments(command: argparse.ArgumentParser) -> None:
                          help="batch: worker processes (default: the number of CPUs)")
     command.add_argument("--out-dir", type=Path, metavar="DIR",
                          help="batch: write each job's output here, named after the job")
+    command.add_argument("--timeout", type=float, metavar="SECONDS", help="batch: stop a job "
+                         "that runs longer than this (default: 300)")
 
 
 def main(argv: list[str] | None = None) -> int:
+    import logging
+    # pypdf's own notes on a damaged PDF are not ours to print: a file we cannot read is
+    # reported once, by name, as bad input.
+    logging.getLogger("pypdf").setLevel(logging.CRITICAL)
     try:
         args = build_parser().parse_args(argv)
     except UsageError as error:
@@ -200,6 +206,8 @@ def _limits(args) -> int:
     from sheetgen.design.pipeline import design_from_file
     from sheetgen.report.checks import failed_checks
     from sheetgen.report.results import limits_csv, limits_json
+    if args.output is not None:
+        refuse_overlaps([("the job file", args.job)], [("--output", args.output)])
     design = design_from_file(args.job, args.library)
     _notices(design)
     if failed_checks(design) and not args.allow_failing:
@@ -212,7 +220,7 @@ def _limits(args) -> int:
     if args.output is None:
         sys.stdout.write(text)
     else:
-        write_atomically(args.output, text.encode("utf-8"))
+        write_all([(args.output, text.encode("utf-8"))])
         print(f"wrote {args.output}")
     return _exit_for(design)
 
@@ -220,11 +228,13 @@ def _limits(args) -> int:
 def _netlist(args) -> int:
     from sheetgen.design.pipeline import design_from_file
     from sheetgen.report.netlist import spice_netlist
+    if args.output is not None:
+        refuse_overlaps([("the job file", args.job)], [("--output", args.output)])
     text = spice_netlist(design_from_file(args.job, args.library))
     if args.output is None:
         sys.stdout.write(text)
     else:
-        write_atomically(args.output, text.encode("ascii"))
+        write_all([(args.output, text.encode("ascii"))])
         print(f"wrote {args.output}")
     return EXIT_OK
 
@@ -258,10 +268,20 @@ def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
                                           f"the sheet cannot be signed with this key ({error})",
                                           "a PKCS#12 file with an RSA or EC signing key and "
                                           "its certificate")]) from None
-    design = design_from_file(job_path, library_folder)
-    _notices(design)
     output = output or job_path.with_suffix(".pdf")
+    outputs = [("--output", output)] + ([("--results", results_path)] if results_path else [])
+    inputs = [("the job file", job_path)] + ([("--style", style_path)] if style_path else [])
+    refuse_overlaps(inputs, outputs)
+    design = design_from_file(job_path, library_folder)
     style = resolve_style(job_path, design.job, style_path, library_folder)
+    from sheetgen.inputs.library import find_library_folder, library_files
+    folder = find_library_folder(job_path, design.job.library, library_folder)
+    used = [("the parts library file", path) for path in
+            (library_files(folder) if folder.is_dir() else [])]
+    if style is not None:  # the style the job named, and its logo, are inputs too
+        used += [("the style file", Path(style.source))]
+        used += [("the logo", style.logo_path)] if style.logo_path else []
+    refuse_overlaps(used, outputs)
     if write_sheet(design, job_path, output, results_path, style, force, sign):
         print(f"wrote {output}" + (f" (signed with {sign_key})" if sign else ""))
     else:
@@ -308,42 +328,50 @@ def _grade_arguments(commands) -> None:
 
 def _grade(args) -> int:
     from sheetgen.bench.grade import UNIT_PASS, bandwidth_resolution_hz, grade_sheet, grading_table
-    from sheetgen.bench.record import append_record, record_csv, record_json
+    from sheetgen.bench.record import append_data, append_record, record_csv, record_json
     from sheetgen.bench.sheet_file import read_sheet
-    outputs = [p for p in (args.json, args.csv, args.append, args.output) if p is not None]
-    if any(p.resolve() == args.sheet.resolve() for p in outputs):
-        raise UsageError(f"{args.sheet}: an output may not overwrite the sheet being graded")
+    outputs = [(option, path) for option, path in (("--output", args.output), ("--json", args.json),
+               ("--csv", args.csv), ("--append", args.append)) if path is not None]
+    refuse_overlaps([("the sheet", args.sheet)]
+                    + ([("the sweep", args.sweep)] if args.sweep is not None else []), outputs)
     if args.parameter and args.sweep is None:
         raise UsageError("--parameter needs --sweep")
     sheet = read_sheet(args.sheet, _trust_roots(args))
     features = sweep = None
     if args.sweep is not None:
         from sheetgen.bench.sweep import sweep_features
-        from sheetgen.bench.sweep_files import read_sweep
+        from sheetgen.bench.sweep_files import read_sweep, require_reach
         sweep = read_sweep(args.sweep, args.parameter)
+        require_reach(sweep, sheet.results)
         features = sweep_features(sweep, bandwidth_resolution_hz(sheet.results))
     grading = grade_sheet(sheet, features, str(args.sweep) if args.sweep else None)
     sys.stdout.write(grading_table(grading))
     if grading.problems:
         raise InputError(list(grading.problems))
     record_text = record_json(grading)
+    # Every output is made first (the log's line checked against its header too), then all
+    # are written: all of them, or none.
+    items = []
     if args.output is not None:
         if sweep is not None:
             from sheetgen.bench.report_pdf import sweep_report
             pdf = sweep_report(grading, sweep, features, record_text, args.sweep)
         else:
             from sheetgen.bench.graded_copy import graded_copy
-            pdf = graded_copy(args.sheet.read_bytes(), grading)
-        write_atomically(args.output, pdf)
-        print(f"wrote {args.output}")
+            from sheetgen.bench.sheet_file import MAX_SHEET_BYTES
+            from sheetgen.inputs.files import read_bounded
+            pdf = graded_copy(read_bounded(args.sheet, MAX_SHEET_BYTES, "sheet PDF"), grading)
+        items.append((args.output, pdf))
     if args.json is not None:
-        write_atomically(args.json, record_text.encode("utf-8"))
-        print(f"wrote {args.json}")
+        items.append((args.json, record_text.encode("utf-8")))
     if args.csv is not None:
-        write_atomically(args.csv, record_csv(grading).encode("utf-8"))
-        print(f"wrote {args.csv}")
-    if args.append is not None:
-        append_record(args.append, grading)
+        items.append((args.csv, record_csv(grading).encode("utf-8")))
+    appended = append_data(args.append, grading) if args.append is not None else None
+    write_all(items)
+    for path, _ in items:
+        print(f"wrote {path}")
+    if appended is not None:
+        append_record(args.append, grading, appended)
         print(f"added a line to {args.append}")
     if grading.verdict != UNIT_PASS:
         for value in grading.as_left:
@@ -356,7 +384,14 @@ def _grade(args) -> int:
 # --------------------------------------------------------------------------- commands
 
 def _batch(args, command: str) -> int:
-    from sheetgen.batch.runner import JobTask, collect_jobs, default_workers, output_path, run_batch
+    from sheetgen.batch.runner import (
+        JOB_TIMEOUT_S,
+        JobTask,
+        collect,
+        default_workers,
+        output_path,
+        run_batch,
+    )
     if getattr(args, "sign", None) is not None:
         raise UsageError("--sign signs one sheet; build each job on its own to sign it")
     for option in ("output", "results"):
@@ -364,11 +399,16 @@ def _batch(args, command: str) -> int:
             raise UsageError(f"--{option} names one file; for several jobs use --out-dir")
     if args.workers is not None and args.workers < 1:
         raise UsageError("-j needs at least 1 worker")
+    if args.timeout is not None and not 0 < args.timeout <= 86_400:
+        raise UsageError("--timeout needs a number of seconds above 0 (at most a day, 86400)")
     if args.out_dir is not None and args.out_dir.exists() and not args.out_dir.is_dir():
         raise UsageError(f"--out-dir {args.out_dir}: exists and is not a folder")
-    jobs = collect_jobs([args.job, *args.more_jobs])
+    jobs, skipped = collect([args.job, *args.more_jobs])
+    for path, reason in skipped:
+        print(f"skipped {path}: {reason}", file=sys.stderr)
     if not jobs:
-        raise UsageError("no job files found (a job file has top-level sheet: and circuit:)")
+        raise UsageError("no job files found (every *.yaml but house styles and parts library "
+                         "files is taken as a job)")
     suffix = {"build": ".pdf", "limits": "." + getattr(args, "format", "csv")}.get(command)
     tasks, seen = [], {}
     for job in jobs:
@@ -378,10 +418,19 @@ def _batch(args, command: str) -> int:
         if output is not None:
             seen[output.resolve()] = job
         tasks.append(JobTask(command, job, output, args.library, getattr(args, "style", None),
-                             getattr(args, "json", False), getattr(args, "format", "csv")))
+                             getattr(args, "json", False), getattr(args, "format", "csv"),
+                             args.timeout or JOB_TIMEOUT_S))
+    refuse_overlaps([("the job file", job) for job in jobs]
+                    + ([("--style", args.style)] if getattr(args, "style", None) else []),
+                    [(f"the output of {task.job}", task.output) for task in tasks
+                     if task.output is not None])
     if args.out_dir is not None and suffix is not None:  # made (parents too) once the
         args.out_dir.mkdir(parents=True, exist_ok=True)  # jobs and outputs are known sound
-    return run_batch(tasks, args.workers or default_workers())
+    cpus = default_workers()
+    if args.workers is not None and args.workers > cpus:
+        print(f"sheetgen: -j {args.workers}: running {cpus} workers, the CPUs this process may "
+              "use", file=sys.stderr)
+    return run_batch(tasks, min(args.workers or cpus, cpus))
 
 
 def _diff(args) -> int:
@@ -398,7 +447,7 @@ def _diff_side(path: Path, library_folder: Path | None,
                trust_roots: list | None = None) -> tuple[object, dict, dict]:
     """(job data, results document, library entries used) of a job file, or of a built
     sheet's attachments (its library.yaml; {} when it has none)."""
-    from sheetgen.inputs.reader import compose_located
+    from sheetgen.inputs.reader import compose_located, read_job_text
     if path.suffix.lower() == ".pdf":  # a built sheet: its attached job and results
         from sheetgen.bench.sheet_file import read_sheet
         sheet = read_sheet(path, trust_roots)
@@ -409,7 +458,7 @@ def _diff_side(path: Path, library_folder: Path | None,
     from sheetgen.inputs.library import library_document
     from sheetgen.report.results import results_document
     design = design_from_file(path, library_folder)
-    return (compose_located(path.read_text(encoding="utf-8"), str(path)).data,
+    return (compose_located(read_job_text(path), str(path)).data,
             results_document(design), library_document(design.library_entries))
 
 

@@ -154,9 +154,21 @@ def _finite(si_value: float, written: object, dimension: Dimension) -> float:
     return si_value
 
 
+ECHO_LIMIT = 60  # characters of a user's value a message quotes
+
+
+def shortened(text: str, limit: int = ECHO_LIMIT) -> str:
+    """`text` cut to `limit` characters, saying how long it was: a message never echoes a
+    megabyte a hostile file or form field holds."""
+    if len(text) <= limit:
+        return text
+    return f"{text[:limit]}… ({len(text):,} characters)"
+
+
 def shown_input(value: object) -> str:
-    """What the user wrote, as a message quotes it: text in quotes, numbers as written."""
-    return f'"{value}"' if isinstance(value, str) else repr(value)
+    """What the user wrote, as a message quotes it: text in quotes, numbers as written
+    (either cut to ECHO_LIMIT characters)."""
+    return f'"{shortened(value)}"' if isinstance(value, str) else shortened(repr(value))
 
 
 class _Engineering(Quantity):

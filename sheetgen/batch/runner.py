@@ -10,15 +10,25 @@ from __future__ import annotations
 
 import json
 import os
+import signal
 import sys
+import threading
 from collections.abc import Iterable, Sequence
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from sheetgen.batch.outputs import OutputFolderError, remove_leftovers, write_atomically, write_sheet
 from sheetgen.errors import InputError
+from sheetgen.inputs.files import read_bounded
+from sheetgen.inputs.reader import MAX_JOB_BYTES
 
 EXIT_OK, EXIT_CHECK_FAILED, EXIT_BAD_INPUT = 0, 1, 2
+EXIT_INTERRUPTED = 130  # 128 + SIGINT, as a shell reports a command stopped by Ctrl-C
+# The time one job of a batch may take (README "Limits"): a starter builds in about two
+# seconds and the heaviest job (2,000,000 Monte Carlo trials) in well under a minute here,
+# so five minutes stops only a job that hangs. `--timeout` sets another.
+JOB_TIMEOUT_S = 300.0
 STYLE_PREFIX = "style-"  # house style files kept beside jobs are not jobs
 JOB_KEYS = ("sheet", "circuit")  # top-level keys every job file has
 
@@ -36,6 +46,7 @@ class JobTask:
     style: Path | None = None
     json: bool = False  # check: a results document instead of a summary
     format: str = "csv"  # limits
+    timeout: float = 300.0  # seconds the job may take (JOB_TIMEOUT_S)
 
 
 @dataclass(frozen=True)
@@ -50,35 +61,65 @@ class JobOutcome:
     written: tuple[Path, ...] = field(default=())
 
 
-def is_job_file(path: Path) -> bool:
-    """True when the YAML file's top level has both `sheet:` and `circuit:` keys."""
+LIBRARY_KEYS = {"materials", "cores"}  # the top-level keys of a parts library file
+
+
+def not_a_job(path: Path) -> str | None:
+    """Why a *.yaml file found in a folder is not a job (a house style, a parts library
+    file), or None: it is a job, and runs as one; a file that cannot be read or has a
+    misspelt section is then reported as bad input like any job, never skipped silently."""
     if path.name.startswith(STYLE_PREFIX):
-        return False
+        return "a house style (style-NAME.yaml)"
     try:
-        lines = path.read_text(encoding="utf-8").splitlines()
-    except (OSError, UnicodeDecodeError):
-        return False
-    keys = {line.split(":", 1)[0] for line in lines if line[:1].isalpha() and ":" in line}
-    return all(key in keys for key in JOB_KEYS)
+        text = read_bounded(path, MAX_JOB_BYTES, "job file").decode("utf-8")
+    except (InputError, UnicodeDecodeError):
+        return None
+    keys = {line.split(":", 1)[0] for line in text.splitlines()
+            if line[:1].isalpha() and ":" in line}
+    if keys and keys <= LIBRARY_KEYS:
+        return "a parts library file (materials: and cores: only)"
+    return None
 
 
-def collect_jobs(paths: Iterable[Path]) -> list[Path]:
-    """The job files named, a folder standing for its *.yaml job files (sorted; house
-    styles and parts-library files skipped). A named file is taken as it is."""
-    jobs = []
+def is_job_file(path: Path) -> bool:
+    """True when the YAML file is to run as a job (see not_a_job)."""
+    return not_a_job(path) is None
+
+
+def collect(paths: Iterable[Path]) -> tuple[list[Path], list[tuple[Path, str]]]:
+    """The jobs to run and the files skipped, with why. A named file is taken as it is; a
+    folder stands for its *.yaml files (sorted), every one a job but house styles and
+    parts library files, which are listed as skipped."""
+    jobs, skipped = [], []
     for path in paths:
         path = Path(path)
         if path.is_dir():
-            jobs.extend(p for p in sorted(path.glob("*.yaml")) if p.is_file() and is_job_file(p))
+            for found in sorted(path.glob("*.yaml")):
+                if found.is_dir():
+                    continue
+                reason = not_a_job(found)
+                if reason is None:
+                    jobs.append(found)
+                else:
+                    skipped.append((found, reason))
         else:
             jobs.append(path)
-    return jobs
+    return jobs, skipped
+
+
+def collect_jobs(paths: Iterable[Path]) -> list[Path]:
+    """The job files `collect` finds."""
+    return collect(paths)[0]
 
 
 def default_workers() -> int:
-    """The CPUs this process may use."""
-    count = getattr(os, "process_cpu_count", os.cpu_count)()
-    return max(1, count or 1)
+    """The CPUs this process may use (its affinity mask where the platform has one)."""
+    count = getattr(os, "process_cpu_count", None)
+    if count is not None:
+        return max(1, count() or 1)
+    if hasattr(os, "sched_getaffinity"):
+        return max(1, len(os.sched_getaffinity(0)))
+    return max(1, os.cpu_count() or 1)
 
 
 def output_path(job: Path, out_dir: Path | None, suffix: str) -> Path:
@@ -92,11 +133,42 @@ def _failures(design) -> tuple[str, ...]:
     return tuple(f"check failed: {f.field}: {f.text}" for f in failed_checks(design))
 
 
-def run_job(task: JobTask) -> JobOutcome:
-    """Run one job; every problem is caught and reported in the outcome (the worker's
-    entry point: a top-level function, so it can be started by spawn)."""
+class JobTimeout(Exception):
+    """A job ran past its time (JobTask.timeout)."""
+
+
+@contextmanager
+def _time_limit(seconds: float):
+    """Raise JobTimeout in this thread after `seconds` (a real-time interval timer, where
+    the platform has one and this is the main thread; else no limit)."""
+    if not seconds or not hasattr(signal, "setitimer") \
+            or threading.current_thread() is not threading.main_thread():
+        yield
+        return
+
+    def expire(signum, frame):
+        raise JobTimeout()
+    previous = signal.signal(signal.SIGALRM, expire)
+    signal.setitimer(signal.ITIMER_REAL, seconds)
     try:
-        return _run(task)
+        yield
+    finally:
+        signal.setitimer(signal.ITIMER_REAL, 0)
+        signal.signal(signal.SIGALRM, previous)
+
+
+def run_job(task: JobTask) -> JobOutcome:
+    """Run one job within its time; every problem is caught and reported in the outcome
+    (the worker's entry point: a top-level function, so it can be started by spawn)."""
+    try:
+        with _time_limit(task.timeout):
+            return _run(task)
+    except JobTimeout:
+        if task.output is not None:
+            remove_leftovers(task.output)
+        return JobOutcome(task.job, EXIT_BAD_INPUT, "timed out", (
+            f"sheetgen: the job ran past {task.timeout:g} s (--timeout) and was stopped; "
+            "nothing written for it",))
     except InputError as error:
         return JobOutcome(task.job, EXIT_BAD_INPUT, "bad input",
                           tuple(str(p) for p in error.problems))
@@ -195,13 +267,17 @@ def _worker_context(multiprocessing, command: str):
 
 def _in_workers(tasks: Sequence[JobTask], workers: int):
     """(index, outcome) as jobs finish. A job whose worker died is run again alone in a
-    fresh worker; if that one dies too the job is reported as crashed."""
+    fresh worker; if that one dies too the job is reported as crashed. Stopped (Ctrl-C, or
+    the caller closing this generator), the queued jobs are cancelled and the workers
+    terminated at once; what they were writing is removed."""
     import multiprocessing
     from concurrent.futures import ProcessPoolExecutor, as_completed
     from concurrent.futures.process import BrokenProcessPool
     context = _worker_context(multiprocessing, tasks[0].command)
     broken = []
-    with ProcessPoolExecutor(max_workers=workers, mp_context=context) as pool:
+    pool = ProcessPoolExecutor(max_workers=workers, mp_context=context,
+                               initializer=_leave_ctrl_c_to_the_parent)
+    try:
         futures = {pool.submit(run_job, task): index for index, task in enumerate(tasks)}
         for future in as_completed(futures):
             index = futures[future]
@@ -209,6 +285,10 @@ def _in_workers(tasks: Sequence[JobTask], workers: int):
                 yield index, future.result()
             except BrokenProcessPool:
                 broken.append(index)
+    except BaseException:
+        _stop(pool, tasks)
+        raise
+    pool.shutdown(wait=True)
     for index in sorted(broken):
         task = tasks[index]
         if task.output is not None:  # what the dead worker may have left half-written
@@ -223,6 +303,27 @@ def _in_workers(tasks: Sequence[JobTask], workers: int):
                                  ("sheetgen: the worker process running this job stopped; "
                                   "nothing written for it",))
         yield index, outcome
+
+
+def _leave_ctrl_c_to_the_parent() -> None:
+    """In a worker: ignore SIGINT. Ctrl-C reaches the whole process group; the parent
+    alone answers it, by terminating the workers (_stop), so none prints a traceback."""
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+
+
+def _stop(pool, tasks: Sequence[JobTask]) -> None:
+    """Cancel what has not started, terminate the workers, remove half-written outputs."""
+    processes = list((getattr(pool, "_processes", None) or {}).values())  # no public handle
+    pool.shutdown(wait=False, cancel_futures=True)
+    for process in processes:
+        if process.is_alive():
+            process.terminate()
+    for process in processes:
+        process.join(timeout=5)
+    pool.shutdown(wait=True)  # its manager thread sees the workers gone and ends
+    for task in tasks:
+        if task.output is not None:
+            remove_leftovers(task.output)
 
 
 def run_batch(tasks: Sequence[JobTask], workers: int, *, stdout=None, stderr=None,
@@ -245,10 +346,11 @@ def run_batch(tasks: Sequence[JobTask], workers: int, *, stdout=None, stderr=Non
         else:
             print(line, file=stderr)
 
-    workers = max(1, min(workers, len(tasks)))
+    workers = max(1, min(workers, len(tasks), default_workers()))
     runs = _in_process(tasks) if workers == 1 else _in_workers(tasks, workers)
     waiting: dict[int, JobOutcome] = {}
     next_index = 0
+    interrupted = False
     try:
         for index, outcome in runs:
             if bar is not None:
@@ -264,8 +366,21 @@ def run_batch(tasks: Sequence[JobTask], workers: int, *, stdout=None, stderr=Non
                 if bar is None or done.code != EXIT_OK:
                     for line in outcome_lines(done):
                         say(line)
+    except KeyboardInterrupt:
+        interrupted = True
+        if hasattr(runs, "close"):
+            runs.close()  # stops the workers (see _in_workers)
     finally:
         if bar is not None:
             bar.close()
+    if interrupted:
+        for index in sorted(waiting):  # finished out of order before the stop: report them
+            tally.add(waiting[index])
+            for line in outcome_lines(waiting[index]):
+                say(line)
+        finished = sum(tally.counts.values())
+        print(f"{tally.line()}; interrupted: {len(tasks) - finished} of {len(tasks)} jobs not "
+              "run, nothing written for them", file=stderr)
+        return EXIT_INTERRUPTED
     print(tally.line(), file=stderr)
     return tally.code

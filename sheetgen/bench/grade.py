@@ -32,6 +32,7 @@ from sheetgen.quantities import (
     format_number,
     format_quantity,
     parse_quantity,
+    shortened,
 )
 from sheetgen.report.procedure import OVERALL_VERDICT, RECORD_TEXT_FIELDS
 
@@ -425,8 +426,8 @@ def grading_table(grading: Grading) -> str:
     rows = [("Quantity", "Window", "Measured", "Verdict", "Ticked")]
     for v in grading.values:
         ticked = v.ticked + (" (differs)" if v.tick_disagrees else "") if v.ticked else ""
-        rows.append((value_name(v), "—" if v.as_found else window_text(v), v.typed or "—",
-                     verdict_text(v), ticked))
+        rows.append((value_name(v), "—" if v.as_found else window_text(v),
+                     shortened(v.typed) or "—", verdict_text(v), ticked))
     widths = [max(len(r[k]) for r in rows) for k in range(5)]
     lines = [f"{grading.sheet_id} rev {grading.revision}  {grading.title}".rstrip(),
              f"graded from {'the form' if grading.source == 'form' else grading.source}",

@@ -144,34 +144,46 @@ def record_csv(grading: Grading) -> str:
     return csv_header() + csv_line(grading)
 
 
-def append_record(path: Path, grading: Grading) -> None:
-    """Add the unit's line to the log at `path` with one write in append mode; the header
-    goes first (in that same write) when the file is new or empty. A file whose first line
-    is not our header is an InputError (nothing written)."""
+def append_data(path: Path, grading: Grading) -> bytes:
+    """What `append_record` adds to the log at `path`: the unit's line, after the header
+    when the file is new or empty (and after a newline when the last line has none). A log
+    begun before the added columns gets a line in its own columns; a file whose first line
+    is not a record header is an InputError. Nothing is written here."""
     header = csv_header()
-    descriptor = os.open(path, os.O_WRONLY | os.O_APPEND | os.O_CREAT, 0o666)
+    first_header = csv_header(FIRST_HEADER)
     try:
         with open(path, "rb") as existing:
-            first = existing.readline()
+            first = existing.readline(len(header.encode("utf-8")) + 1)
             existing.seek(0, os.SEEK_END)
             size = existing.tell()
+            last = b"\n"
             if size:
                 existing.seek(size - 1)
                 last = existing.read(1)
-        columns = CSV_HEADER
-        if first.decode("utf-8", "replace") == csv_header(FIRST_HEADER):
-            columns = FIRST_HEADER  # a log begun before the added columns: its own columns
-        line = csv_line(grading, columns)
-        if size == 0:
-            data = header + line
-        else:
-            if columns is CSV_HEADER and first.decode("utf-8", "replace") != header:
-                raise InputError([Problem(str(path), 1, 1, "", "the log's header is not the "
-                                          "record header of sheetgen grade (" + RECORD_FORMAT
-                                          + ")", "a log written by `sheetgen grade --append`, "
-                                          "or a new file; its header begins "
-                                          + header[:60].rstrip() + "…")])
-            data = ("\n" if last != b"\n" else "") + line
-        os.write(descriptor, data.encode("utf-8"))
+    except FileNotFoundError:
+        size = 0
+    except OSError as error:
+        raise InputError([Problem(str(path), 1, 1, "", f"the log cannot be read "
+                                  f"({error.strerror or error})")]) from None
+    if size == 0:
+        return (header + csv_line(grading, CSV_HEADER)).encode("utf-8")
+    found = first.decode("utf-8", "replace")
+    if found not in (header, first_header):
+        raise InputError([Problem(str(path), 1, 1, "", "the log's header is not the "
+                                  "record header of sheetgen grade (" + RECORD_FORMAT
+                                  + ")", "a log written by `sheetgen grade --append`, "
+                                  "or a new file; its header begins "
+                                  + header[:60].rstrip() + "…")])
+    columns = FIRST_HEADER if found == first_header else CSV_HEADER  # the log's own columns
+    return (("\n" if last != b"\n" else "") + csv_line(grading, columns)).encode("utf-8")
+
+
+def append_record(path: Path, grading: Grading, data: bytes | None = None) -> None:
+    """Add the unit's line to the log at `path` with one write in append mode (`data`:
+    what append_data made for it, else made here)."""
+    data = append_data(path, grading) if data is None else data
+    descriptor = os.open(path, os.O_WRONLY | os.O_APPEND | os.O_CREAT, 0o666)
+    try:
+        os.write(descriptor, data)
     finally:
         os.close(descriptor)

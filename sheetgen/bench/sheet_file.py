@@ -15,7 +15,10 @@ import json
 from dataclasses import dataclass
 from pathlib import Path
 
+from sheetgen.bench.results_shape import check_results
 from sheetgen.errors import InputError, Problem
+from sheetgen.inputs.files import read_bounded
+from sheetgen.inputs.reader import MAX_JOB_BYTES
 from sheetgen.report import content_hash
 from sheetgen.report.content_hash import XMP_NAMESPACE, content_sha256
 
@@ -29,6 +32,11 @@ INFO_SHEET_ID = "/" + content_hash.INFO_SHEET_ID
 INFO_REVISION = "/" + content_hash.INFO_REVISION
 INFO_TOOL_VERSION = "/" + content_hash.INFO_TOOL_VERSION
 EXPECTED = "a build-and-test sheet PDF written by `sheetgen build`"
+# Reading bounds (README "Limits"): a sheet is a few hundred kB, a logo at most 5 MB; an
+# attachment is held to the job file's own cap, so a sheet cannot smuggle in what a job
+# file could not be.
+MAX_SHEET_BYTES = 20_000_000
+MAX_ATTACHMENT_BYTES = MAX_JOB_BYTES
 
 
 @dataclass(frozen=True)
@@ -117,8 +125,8 @@ def _attachment(reader, path: str, name: str) -> tuple[bytes, bytes | None]:
     stream = _attached_stream(reader, name)
     if stream is not None:
         checksum = stream.get("/Params", {}).get("/CheckSum")
-        return stream.get_data(), (bytes(checksum.original_bytes)
-                                   if checksum is not None else None)
+        return _bounded_data(stream, path, name), (bytes(checksum.original_bytes)
+                                                   if checksum is not None else None)
     raise _fail(path, f"attachments.{name}",
                 f"the sheet has no attached {name}; a sheet made by `sheetgen build` carries "
                 f"{JOB_ATTACHMENT} and {RESULTS_ATTACHMENT}")
@@ -144,10 +152,7 @@ def read_sheet(path: str | Path, trust_roots: list | None = None) -> SheetFile:
     A signed sheet's signature is checked (bench/signature.py); with `trust_roots` (from
     load_trust_roots) the sheet must be signed by a certificate that chains to one."""
     shown = str(path)
-    try:
-        data = Path(path).read_bytes()
-    except OSError as error:
-        raise _fail(shown, "", f"cannot be read ({error.strerror or error})") from None
+    data = read_bounded(path, MAX_SHEET_BYTES, "sheet PDF written by `sheetgen build`")
     if b"%PDF-" not in data[:1024]:
         raise _fail(shown, "", "is not a PDF file (no %PDF- header)")
     import io
@@ -155,10 +160,15 @@ def read_sheet(path: str | Path, trust_roots: list | None = None) -> SheetFile:
     from pypdf import PdfReader
     try:
         reader = PdfReader(io.BytesIO(data))
+        if reader.is_encrypted:
+            raise _fail(shown, "", "is encrypted (saved with a password); sheetgen reads a "
+                        "sheet as it was built", "the sheet saved without a password")
         info = reader.metadata or {}
         xmp = _xmp_values(reader)
+    except InputError:
+        raise
     except Exception as error:  # noqa: BLE001 - pypdf raises many kinds on a damaged file
-        raise _fail(shown, "", f"cannot be read as a PDF ({error})") from None
+        raise _fail(shown, "", f"cannot be read as a PDF ({_short(error)})") from None
     copies = _recorded_copies(shown, info, xmp)
     recorded = copies["ContentSHA256"]
     if not recorded:
@@ -175,7 +185,7 @@ def read_sheet(path: str | Path, trust_roots: list | None = None) -> SheetFile:
     except InputError:
         raise
     except Exception as error:  # noqa: BLE001
-        raise _fail(shown, "", f"cannot be read as a PDF ({error})") from None
+        raise _fail(shown, "", f"cannot be read as a PDF ({_short(error)})") from None
     computed = content_sha256(job, results, library)
     if computed != recorded:
         changed = [label for label, blob, checksum in (("job file", job, job_checksum),
@@ -202,7 +212,11 @@ def read_sheet(path: str | Path, trust_roots: list | None = None) -> SheetFile:
         results_data = json.loads(results.decode("utf-8"))
     except (UnicodeDecodeError, json.JSONDecodeError) as error:
         raise _fail(shown, f"attachments.{RESULTS_ATTACHMENT}",
-                    f"the attachments cannot be read ({error})") from None
+                    f"the attachments cannot be read ({_short(error)})") from None
+    except RecursionError:
+        raise _fail(shown, f"attachments.{RESULTS_ATTACHMENT}", "nests too deep to read",
+                    "the results document sheetgen build attaches") from None
+    check_results(results_data, shown)
     sheet = results_data.get("sheet", {}) if isinstance(results_data, dict) else {}
     return SheetFile(
         path=shown, job_text=job_text, results=results_data, signature=signature,
@@ -212,3 +226,42 @@ def read_sheet(path: str | Path, trust_roots: list | None = None) -> SheetFile:
         revision=copies["Revision"] or str(sheet.get("revision", "")),
         tool_version=copies["ToolVersion"]
         or str(results_data.get("tool_version", "") if isinstance(results_data, dict) else ""))
+
+
+# --------------------------------------------------------------------------- reading bounds
+
+
+def _short(error: Exception, limit: int = 200) -> str:
+    """A library's complaint, one line, cut to `limit` characters."""
+    text = " ".join(str(error).split()) or type(error).__name__
+    return text if len(text) <= limit else text[:limit - 1] + "…"
+
+
+def _bounded_data(stream, path: str, name: str) -> bytes:
+    """An attachment's bytes, at most MAX_ATTACHMENT_BYTES: a stored or Flate-compressed
+    stream (what PDF writers use) is inflated no further than the cap; any other filter
+    is refused."""
+    import zlib
+    filters = stream.get("/Filter")
+    filters = [filters] if isinstance(filters, str) else list(filters or [])
+    too_big = _fail(path, f"attachments.{name}", f"the attached {name} is larger than "
+                    f"{MAX_ATTACHMENT_BYTES:,} bytes", f"at most {MAX_ATTACHMENT_BYTES:,} bytes, "
+                    "as for a job file")
+    if not filters:
+        data = stream.get_data()
+    elif filters == ["/FlateDecode"] and stream.get("/DecodeParms") is None:
+        raw = stream._data  # the stream as stored (pypdf keeps it until decoded)
+        if len(raw) > MAX_SHEET_BYTES:
+            raise too_big
+        try:
+            inflater = zlib.decompressobj()
+            data = inflater.decompress(raw, MAX_ATTACHMENT_BYTES + 1)
+        except zlib.error as error:
+            raise _fail(path, f"attachments.{name}", f"the attached {name} cannot be "
+                        f"inflated ({error})") from None
+    else:
+        raise _fail(path, f"attachments.{name}", f"the attached {name} is encoded with "
+                    f"{', '.join(map(str, filters))}", "a stored or Flate-compressed attachment")
+    if len(data) > MAX_ATTACHMENT_BYTES:
+        raise too_big
+    return data

@@ -18,9 +18,14 @@ from pathlib import Path
 import numpy as np
 
 from sheetgen.errors import InputError, Problem
+from sheetgen.inputs.files import read_bounded
 from sheetgen.quantities import FREQUENCY, QuantityError, format_quantity, parse_quantity
 
-MAX_SWEEP_BYTES = 64 * 1024 * 1024
+# Caps on a sweep file (README "Limits"): the most points the job's own sweep.points allows
+# (20 001), more than a bench analyser records in one sweep (common practice), and the bytes
+# such a file takes as a 2-port Touchstone file (about 150 bytes a line) with room to spare.
+MAX_SWEEP_POINTS = 20_001
+MAX_SWEEP_BYTES = 5_000_000
 MIN_POINTS = 5  # a parabola through the top needs 3; a handful more to see a response at all
 MAX_DB = 300.0  # beyond this 10**(dB/20) leaves the float range; no bench measures it
 MAX_LISTED = 20  # bad cells listed one by one before the rest are counted
@@ -82,19 +87,7 @@ def _problem(path, line, column, field, message, expected=""):
 
 def _read_text(path: Path) -> str:
     shown = str(path)
-    try:
-        if path.is_dir():
-            raise InputError([_problem(shown, 1, 1, "", "is a directory; expected a sweep file")])
-        size = path.stat().st_size
-        if size > MAX_SWEEP_BYTES:
-            raise InputError([_problem(shown, 1, 1, "", f"is {size:,} bytes; a sweep file is at "
-                                       f"most {MAX_SWEEP_BYTES:,} bytes")])
-        raw = path.read_bytes()
-    except FileNotFoundError:
-        raise InputError([_problem(shown, 1, 1, "", "no such file",
-                                   "a measured sweep (.s1p, .s2p or .csv)")]) from None
-    except OSError as exc:
-        raise InputError([_problem(shown, 1, 1, "", f"cannot be read ({exc.strerror or exc})")]) from None
+    raw = read_bounded(path, MAX_SWEEP_BYTES, "measured sweep (.s1p, .s2p, .ts or .csv)")
     try:
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
@@ -162,6 +155,7 @@ def _scan_touchstone(path: str, text: str, ports: int) -> tuple[list[Problem], s
     problems: list[Problem] = []
     frequencies: list[float] = []
     places: list[tuple[int, int]] = []
+    declared = None  # (line, column, text) of [Number of Frequencies]
     scale = TOUCHSTONE_UNITS["ghz"]  # the standard's default when the option line says none
     for number, raw_line in enumerate(text.splitlines(), start=1):
         line = raw_line.split("!", 1)[0]
@@ -171,12 +165,20 @@ def _scan_touchstone(path: str, text: str, ports: int) -> tuple[list[Problem], s
         if stripped.startswith("#"):
             units = [t.lower() for t in stripped[1:].split() if t.lower() in TOUCHSTONE_UNITS]
             scale = TOUCHSTONE_UNITS[units[0]] if units else scale
+            problems += _reference_problems(path, number, line)
             continue
         if stripped.startswith("["):
             keyword = stripped[1:].split("]", 1)[0].strip().lower()
             if keyword == "version":
                 version = stripped.split("]", 1)[1].strip() or version
                 in_data = False
+            elif keyword == "number of frequencies":
+                after = line.index("]") + 1
+                value = line[after:].strip()
+                column = (line.index(value, after) if value else after) + 1
+                declared = (number, column, value)
+            elif keyword == "reference":
+                problems += _reference_problems(path, number, line, "reference")
             elif keyword == "network data":
                 in_data = True
             elif keyword in ("noise data", "end"):
@@ -202,8 +204,53 @@ def _scan_touchstone(path: str, text: str, ports: int) -> tuple[list[Problem], s
         if first is not None:
             frequencies.append(first)
             places.append((number, tokens[0][0]))
+            if len(frequencies) > MAX_SWEEP_POINTS:
+                raise InputError([_too_many(path, number)])
+    if declared is not None:
+        problems += _count_problems(path, declared, len(frequencies))
     problems += _check_frequencies(path, [f * scale for f in frequencies], places, "")
     return problems, version
+
+
+def _reference_problems(path: str, number: int, line: str, keyword: str = "") -> list[Problem]:
+    """The reference resistance of an option line (`# MHz S MA R 50`) or of a Touchstone
+    2.0 [Reference] line: each a positive, finite number of ohms (the standard's default,
+    50 Ω, when the option line gives none)."""
+    tokens = [(m.start() + 1, m.group(0)) for m in re.finditer(r"[^\s\]]+", line.split("!", 1)[0])]
+    if keyword:
+        values = [(at, token) for at, token in tokens if not token.startswith("[")
+                  and token.lower() != keyword]
+    else:
+        after = [index for index, (_, token) in enumerate(tokens) if token.lower() == "r"]
+        values = [tokens[index + 1] for index in after if index + 1 < len(tokens)]
+        if after and after[-1] + 1 >= len(tokens):
+            return [_problem(path, number, tokens[-1][0], "reference resistance",
+                             "R is given without a value", "R and the port reference in ohms, "
+                             "e.g. R 50")]
+    problems = []
+    for at, token in values:
+        value = _number(token)
+        if value is None or not math.isfinite(value) or value <= 0.0:
+            problems.append(_problem(path, number, at, "reference resistance",
+                                     f'"{token}" Ω is not a positive, finite resistance',
+                                     "the port reference resistance in ohms, e.g. 50"))
+    return problems
+
+
+def _count_problems(path: str, declared: tuple[int, int, str], found: int) -> list[Problem]:
+    """A Touchstone 2.0 [Number of Frequencies] that disagrees with the data records."""
+    number, column, text = declared
+    if text.isdigit() and int(text) == found:
+        return []
+    return [_problem(path, number, column, "number of frequencies",
+                     f"[Number of Frequencies] says {text or 'nothing'} but the file holds "
+                     f"{found} frequencies", "the count of the data records")]
+
+
+def _too_many(path: str, number: int) -> Problem:
+    return _problem(path, number, 1, "", f"holds more than {MAX_SWEEP_POINTS:,} points",
+                    f"at most {MAX_SWEEP_POINTS:,} (README, Limits); sweep a narrower span or "
+                    "fewer points")
 
 
 def _declared_ports(path: str, text: str) -> int:
@@ -440,6 +487,8 @@ def _read_csv(path: str, text: str) -> MeasuredSweep:
             for kind, value in row.items():
                 values[kind].append(value)
             places.append((number, cells[columns["frequency"].index][0]))
+            if len(places) > MAX_SWEEP_POINTS:
+                raise InputError([_too_many(path, number)])
     frequency_hz = [value * columns["frequency"].scale for value in values["frequency"]]
     problems += _check_frequencies(path, frequency_hz, places, columns["frequency"].header)
     if not problems and len(frequency_hz) < MIN_POINTS:
@@ -464,3 +513,31 @@ def _read_csv(path: str, text: str) -> MeasuredSweep:
         source=f"CSV columns {described}",
         parameter=magnitude_column.header,
     )
+
+
+# --------------------------------------------------------------------------- reach
+
+REACH_QUANTITIES = ("f0_hz", "f_low_hz", "f_high_hz")  # the windows a sweep is graded on
+
+
+def require_reach(sweep: MeasuredSweep, results: dict) -> None:
+    """A sweep must span every frequency window of the sheet's test record it is graded
+    against (f0 and the half-power points); one that does not (a unit's kHz written
+    under a header in Hz, a span set for another sheet) is bad input, not a failed unit."""
+    rows = ((results.get("test_record") or {}).get("values") or []) if isinstance(results, dict) \
+        else []
+    edges = [edge for row in rows if isinstance(row, dict)
+             and row.get("quantity") in REACH_QUANTITIES
+             for edge in (row.get("min"), row.get("max"))
+             if isinstance(edge, (int, float)) and not isinstance(edge, bool) and math.isfinite(edge)]
+    if not edges:
+        return
+    low, high = min(edges), max(edges)
+    first, last = float(sweep.frequency_hz[0]), float(sweep.frequency_hz[-1])
+    if first > low or last < high:
+        raise InputError([_problem(
+            sweep.path, 1, 1, "", f"spans {format_quantity(first, 'Hz', 6)} to "
+            f"{format_quantity(last, 'Hz', 6)}, which does not reach the sheet's windows "
+            f"({format_quantity(low, 'Hz', 6)} to {format_quantity(high, 'Hz', 6)}); check "
+            "the frequency unit of the file and the span swept",
+            "a sweep across every frequency window of the sheet")])

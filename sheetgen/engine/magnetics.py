@@ -324,6 +324,12 @@ class SolenoidTurns:
     round_wire_correction_h: float = 0.0  # Rosa's ΔL, subtracted from the current sheet
 
 
+# Single-layer tuned-circuit coils carry tens to a few hundred turns (common practice);
+# 10,000 leaves room for any of them and keeps the search for whole turns (each candidate
+# costs O(N), Rosa's sum) to a fraction of a second.
+MAX_SOLENOID_TURNS = 10_000
+
+
 def solenoid_turns_for_inductance(inductance_h: float, diameter_m: float, *,
                                   pitch_m: float | None = None,
                                   length_m: float | None = None,
@@ -356,6 +362,10 @@ def solenoid_turns_for_inductance(inductance_h: float, diameter_m: float, *,
             high *= 2.0
         from scipy.optimize import brentq  # imported on first use
         exact = brentq(excess, 1e-6, high, xtol=1e-9, rtol=1e-12)
+    if exact > MAX_SOLENOID_TURNS:
+        raise ValueError(f"a single-layer winding would need {exact:,.0f} turns; at most "
+                         f"{MAX_SOLENOID_TURNS:,} are wound in one layer: ask for less "
+                         "inductance, or wind on a wider former or a core")
 
     def wound(turns: int) -> SolenoidTurns:
         length = length_m if length_m is not None else turns * pitch_m

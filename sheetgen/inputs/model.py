@@ -45,11 +45,52 @@ from sheetgen.engine.variation import (
     DEFAULT_TRIALS,
 )
 
+# The physical range of every quantity a job, library or style file may hold: the size
+# (magnitude) of a non-zero value must lie within it. The bounds are wide, so no real part
+# or bench is refused, and they keep every product and power the engine forms inside the
+# float range (1e+308 V, 1e-300 Hz reached overflow and division by zero). Each is common
+# practice unless a source is named; README "Physical ranges" lists them.
+PHYSICAL_RANGES: dict[str, tuple[float, float, str]] = {
+    # 1 pH is a fraction of a millimetre of lead; 100 H is a large mains choke.
+    "inductance": (1e-12, 100.0, "from 1 pH (a millimetre of lead) to 100 H (a large choke)"),
+    # 1 fF is below any fixture's stray capacitance; 10 F is a large electrolytic bank.
+    "capacitance": (1e-15, 10.0, "from 1 fF (below any stray) to 10 F"),
+    "resistance": (1e-6, 1e12, "from 1 µΩ (a busbar joint) to 1 TΩ (an insulation test)"),
+    # 1 Hz … 10 GHz: below, not a tuned LC circuit; above, lumped parts stop being lumped.
+    "frequency": (1.0, 10e9, "from 1 Hz to 10 GHz (beyond, parts are not lumped)"),
+    "voltage": (1e-9, 1e6, "from 1 nV to 1 MV"),
+    "current": (1e-12, 1e5, "from 1 pA to 100 kA"),
+    "power": (1e-15, 1e7, "from 1 fW (−120 dBm) to 10 MW"),
+    # 0.1 µm is thinner than any wire's insulation film; 20 km is above any altitude of use
+    # IEC 60664-1 table A.2 lists (it stops at 20 000 m).
+    "length": (1e-7, 20e3, "from 0.1 µm to 20 km (IEC 60664-1 table A.2 ends at 20 000 m)"),
+    # The highest saturation of any core material is about 2.4 T (cobalt-iron, from memory).
+    "flux density": (1e-9, 10.0, "from 1 nT to 10 T (no core material saturates above 2.5 T)"),
+    "inductance factor": (1e-12, 1e-3, "from 1 pH/turn² to 1 mH/turn²"),
+    "temperature": (-273.15, 1000.0, "from −273.15 °C (absolute zero) to 1000 °C"),
+    # Thermistors reach a few %/K (from memory); 10 %/K is beyond any part.
+    "temperature coefficient": (0.0, 0.1, "a size up to 10 %/K (a thermistor's is a few %/K)"),
+    "fraction": (0.0, 100.0, "up to 10 000 %"),
+    "number": (1e-12, 1e12, "from 1e-12 to 1e12"),
+}
+
+
+def _check_physical(number: float, dimension: quantities.Dimension, value: object) -> None:
+    """Refuse a value whose size is outside the dimension's PHYSICAL_RANGES (0 passes here:
+    whether zero is allowed is the field's own minimum)."""
+    low, high, text = PHYSICAL_RANGES[dimension.name]
+    size = abs(number) if dimension is not quantities.TEMPERATURE else number
+    if number != 0.0 and not low <= size <= high:
+        raise PydanticCustomError(
+            "quantity", f"{quantities.shown_input(value)} is outside the physical range of "
+            f"{'an' if dimension.name[0] in 'aeiou' else 'a'} {dimension.name}; expected {text}")
+
 
 def _quantity(dimension: quantities.Dimension, minimum: float | None = 0.0, inclusive: bool = False,
               maximum: float | None = None, maximum_inclusive: bool = True, why: str = ""):
     """A float field read from engineering notation, checked finite and above `minimum`
-    (and not beyond `maximum`; `why` says what the maximum stands for)."""
+    (and not beyond `maximum`; `why` says what the maximum stands for), and inside the
+    dimension's physical range (PHYSICAL_RANGES)."""
 
     def parse(value: object) -> float:
         try:
@@ -68,6 +109,7 @@ def _quantity(dimension: quantities.Dimension, minimum: float | None = 0.0, incl
                      else quantities.format_quantity(maximum, dimension.si_unit))
             raise PydanticCustomError(
                 "quantity", f"{quantities.shown_input(value)} must be {bound} {limit}{why}")
+        _check_physical(number, dimension, value)
         return number
 
     schema = {
@@ -91,6 +133,10 @@ Fraction = _quantity(quantities.FRACTION, minimum=0.0, inclusive=True)
 PortTolerance = _quantity(quantities.FRACTION, minimum=0.0, inclusive=True, maximum=0.5,
                           why="a port further than ±50 % from 50 Ω is not a 50 Ω port")
 PositiveNumber = _quantity(quantities.DIMENSIONLESS)
+# Steinmetz exponents of real materials lie between about 1 and 3 (common practice); 5
+# admits any fit while f**alpha and B**beta stay inside the float range.
+SteinmetzExponent = _quantity(quantities.DIMENSIONLESS, maximum=5.0,
+                              why=" (a Steinmetz exponent; real materials lie near 1 to 3)")
 Length = _quantity(quantities.LENGTH)
 LeadLength = _quantity(quantities.LENGTH, minimum=0.0, inclusive=True)
 # Common practice: a tuned circuit's leads are kept to centimetres; 300 mm is already a
@@ -323,8 +369,8 @@ class SteinmetzSpec(Section):
     """Core loss per volume P_v = k · f^alpha · B^beta (W/m³, f in Hz, peak B in T)."""
 
     k: PositiveNumber = Field(description="Steinmetz coefficient k, SI units")
-    alpha: PositiveNumber = Field(description="frequency exponent")
-    beta: PositiveNumber = Field(description="flux density exponent")
+    alpha: SteinmetzExponent = Field(description="frequency exponent (at most 5)")
+    beta: SteinmetzExponent = Field(description="flux density exponent (at most 5)")
 
 
 class MaterialSpec(Section):

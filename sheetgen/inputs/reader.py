@@ -18,6 +18,7 @@ import yaml
 from pydantic import BaseModel, ValidationError
 
 from sheetgen.errors import InputError, Problem, field_parts, field_path
+from sheetgen.inputs.files import read_bounded
 from sheetgen.inputs.model import BY_NAME, INLINE, Job
 from sheetgen.quantities import shown_input
 
@@ -25,6 +26,9 @@ UNION_TAGS = {BY_NAME, INLINE}
 
 MAX_JOB_BYTES = 1_000_000
 MAX_NODES = 100_000
+# No input file nests deeper than a handful of levels (a job's deepest field is about six);
+# 64 leaves room and keeps every reader far from Python's recursion limit.
+MAX_DEPTH = 64
 _PLAIN_TAGS = {
     "tag:yaml.org,2002:" + name
     for name in ("str", "int", "float", "bool", "null", "map", "seq", "timestamp")
@@ -52,19 +56,7 @@ def read_yaml_text(path: Path, kind: str, max_bytes: int, missing_hint: str = ""
     """The file's text, refusing what is not a readable, sane-sized UTF-8 file; `kind`
     ("job file", "style file" …) names it in the messages."""
     shown = str(path)
-    if not path.exists():
-        raise InputError([Problem(shown, 1, 1, "", f"no such file; expected a YAML {kind}"
-                                    f"{missing_hint}")])
-    if path.is_dir():
-        raise InputError([Problem(shown, 1, 1, "", f"is a directory; expected a YAML {kind}")])
-    size = path.stat().st_size
-    if size > max_bytes:
-        raise InputError([Problem(shown, 1, 1, "", f"is {size:,} bytes; a {kind} is at most "
-                                    f"{max_bytes:,} bytes")])
-    try:
-        raw = path.read_bytes()
-    except OSError as error:
-        raise InputError([Problem(shown, 1, 1, "", f"cannot be read ({error.strerror})")]) from None
+    raw = read_bounded(path, max_bytes, kind, missing_hint, f"a YAML {kind}")
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as error:
@@ -90,6 +82,9 @@ def compose_located(text: str, shown: str) -> Located:
                                   "allowed in a YAML file; remove it")]) from None
     try:
         node = loader.get_single_node()
+    except RecursionError:  # PyYAML composes recursively: thousands of levels exhaust it
+        raise InputError([Problem(shown, 1, 1, "", f"nested more than {MAX_DEPTH} levels deep; "
+                                  "an input file is a few levels of mappings and lists")]) from None
     except yaml.MarkedYAMLError as error:
         mark = error.problem_mark or error.context_mark
         what = error.problem or "not valid YAML"
@@ -118,6 +113,10 @@ def compose_located(text: str, shown: str) -> Located:
             raise InputError([Problem(shown, *at(n), field_path(path),
                                         f"more than {MAX_NODES:,} YAML nodes (aliases expanded); "
                                         "a job file is far smaller")])
+        if len(path) > MAX_DEPTH:
+            raise InputError([Problem(shown, *at(n), field_path(path[:MAX_DEPTH]),
+                                      f"nested more than {MAX_DEPTH} levels deep; an input "
+                                      "file is a few levels of mappings and lists")])
         marks[path] = at(n)
         if n.tag not in _PLAIN_TAGS:
             problems.append(Problem(shown, *at(n), field_path(path),

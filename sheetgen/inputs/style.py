@@ -3,7 +3,8 @@
 A style is a small YAML file (templates/style-default.yaml is the default), read with the
 job file's own located reader so a bad style is reported as `FILE:LINE:COL field: message`.
 The logo is a PNG or JPEG named relative to the job's folder and must stay inside that
-folder tree: absolute paths, `..` and links that lead out are refused.
+folder tree: absolute paths, `..` and links that lead out are refused; so must a style file
+the job names by path (sheet.style). A logo is at most MAX_LOGO_BYTES and MAX_LOGO_PIXELS.
 """
 
 from __future__ import annotations
@@ -16,6 +17,7 @@ from typing import Annotated, Literal
 from pydantic import Field
 
 from sheetgen.errors import InputError, Problem
+from sheetgen.inputs.files import read_bounded
 from sheetgen.inputs.library import STYLE_FILE_PREFIX, find_library_folder
 from sheetgen.inputs.model import Job, Section
 from sheetgen.inputs.package_data import templates_folder
@@ -31,6 +33,10 @@ SECTION_NAMES: tuple[str, ...] = typing.get_args(SectionName)
 DEFAULT_STYLE_NAME = "style-default"
 MAX_STYLE_BYTES = 100_000
 MAX_LOGO_BYTES = 5_000_000
+# A logo is printed a few centimetres wide: 16 million pixels is 4000 × 4000, over 1000 dpi
+# at 10 cm (common practice), and far below the 89 million at which Pillow, which decodes
+# it, warns of a decompression bomb.
+MAX_LOGO_PIXELS = 16_000_000
 _LOGO_SIGNATURES = {b"\x89PNG\r\n\x1a\n": "PNG", b"\xff\xd8\xff": "JPEG"}
 
 
@@ -129,35 +135,98 @@ def _logo(value: object, job_dir: Path | None, problem) -> Path | None:
     if not isinstance(value, str) or not value.strip():
         problem("expected a path to a PNG or JPEG file, relative to the job's folder")
         return None
-    if (PurePosixPath(value).is_absolute() or PureWindowsPath(value).is_absolute()
-            or PureWindowsPath(value).drive or value.startswith(("/", "\\", "~"))):
-        problem(f'"{value}" is an absolute path; give the logo relative to the job\'s folder')
-        return None
-    if ".." in PurePosixPath(value.replace("\\", "/")).parts:
-        problem(f'"{value}" leads out of the job\'s folder with ".."; keep the logo in the '
-                "job's folder or below it")
-        return None
     if job_dir is None:
         problem("a logo needs the job's folder to be found in; this style has none")
         return None
     root = Path(job_dir).resolve()
+    target = _inside(value, root, "logo", problem)
+    if target is None:
+        return None
+    if not target.exists():
+        problem(f'"{value}" does not exist in {root}; expected a PNG or JPEG file there')
+        return None
+    try:
+        data = read_bounded(target, MAX_LOGO_BYTES, "logo", expected="a PNG or JPEG file")
+    except InputError as error:
+        problem(f'"{value}": {error.problems[0].message}')
+        return None
+    kind = next((name for signature, name in _LOGO_SIGNATURES.items()
+                 if data.startswith(signature)), None)
+    if kind is None:
+        problem(f'"{value}" is not a PNG or JPEG image')
+        return None
+    size = image_size(data)
+    if size is None:
+        problem(f'"{value}" is a damaged {kind} image (its size cannot be read)')
+        return None
+    width, height = size
+    if width < 1 or height < 1 or width * height > MAX_LOGO_PIXELS:
+        problem(f'"{value}" is {width:,} × {height:,} pixels; a logo is at most '
+                f"{MAX_LOGO_PIXELS:,} pixels (e.g. 4000 × 4000)")
+        return None
+    return target
+
+
+def image_size(data: bytes) -> tuple[int, int] | None:
+    """(width, height) in pixels from a PNG's IHDR chunk (ISO/IEC 15948 §11.2.2) or a
+    JPEG's start-of-frame marker (ITU-T T.81 B.2.2); None when neither can be found."""
+    if data.startswith(b"\x89PNG\r\n\x1a\n"):
+        if len(data) < 24 or data[12:16] != b"IHDR":
+            return None
+        return int.from_bytes(data[16:20], "big"), int.from_bytes(data[20:24], "big")
+    at = 2  # after SOI
+    while at + 4 <= len(data):
+        if data[at] != 0xFF:
+            return None
+        marker = data[at + 1]
+        if marker == 0xFF:  # fill byte
+            at += 1
+            continue
+        if marker in (0x01, *range(0xD0, 0xD8)):  # markers without a length
+            at += 2
+            continue
+        length = int.from_bytes(data[at + 2:at + 4], "big")
+        if marker in (*range(0xC0, 0xC4), *range(0xC5, 0xC8), *range(0xC9, 0xCC),
+                      *range(0xCD, 0xD0)):  # SOFn: precision, height, width
+            if at + 9 > len(data):
+                return None
+            return int.from_bytes(data[at + 7:at + 9], "big"), int.from_bytes(data[at + 5:at + 7], "big")
+        at += 2 + length
+    return None
+
+
+def _inside(value: str, root: Path, what: str, problem) -> Path | None:
+    """`value`, a path relative to `root`, resolved; None after reporting (through
+    `problem`) an absolute path, a `..` or a link that leads out of `root`'s tree."""
+    if (PurePosixPath(value).is_absolute() or PureWindowsPath(value).is_absolute()
+            or PureWindowsPath(value).drive or value.startswith(("/", "\\", "~"))):
+        problem(f'"{value}" is an absolute path; give the {what} relative to the job\'s folder')
+        return None
+    if ".." in PurePosixPath(value.replace("\\", "/")).parts:
+        problem(f'"{value}" leads out of the job\'s folder with ".."; keep the {what} in the '
+                "job's folder or below it")
+        return None
+    root = Path(root).resolve()
     target = (root / value).resolve()
     if not target.is_relative_to(root):
         problem(f'"{value}" resolves to {target}, outside the job\'s folder {root} (through a '
-                "link); keep the logo inside the job's folder tree")
+                f"link); keep the {what} inside the job's folder tree")
         return None
-    if not target.is_file():
-        problem(f'"{value}" does not exist in {root}; expected a PNG or JPEG file there')
-        return None
-    size = target.stat().st_size
-    if size > MAX_LOGO_BYTES:
-        problem(f'"{value}" is {size:,} bytes; a logo is at most {MAX_LOGO_BYTES:,} bytes')
-        return None
-    with target.open("rb") as stream:
-        head = stream.read(8)
-    if not any(head.startswith(signature) for signature in _LOGO_SIGNATURES):
-        problem(f'"{value}" is not a PNG or JPEG image')
-        return None
+    return target
+
+
+def _confined_style(job_path: Path, wanted: str) -> Path:
+    """The style file a job names by path: inside the job's folder tree, like the logo (a
+    style from elsewhere is named by --style, or kept in the library as style-NAME.yaml)."""
+    problems: list[Problem] = []
+
+    def problem(message: str) -> None:
+        line, column = field_position(job_path, "sheet.style")
+        problems.append(Problem(str(job_path), line, column, "sheet.style", message))
+
+    target = _inside(wanted, job_path.resolve().parent, "style file", problem)
+    if target is None:
+        raise InputError(problems)
     return target
 
 
@@ -184,7 +253,7 @@ def resolve_style(job_path: Path, job: Job, cli_style: Path | None,
     if wanted is None:
         return None
     if wanted.endswith((".yaml", ".yml")) or "/" in wanted or "\\" in wanted:
-        return load_style(job_dir / wanted, job_dir)
+        return load_style(_confined_style(job_path, wanted), job_dir)
     folders = [find_library_folder(job_path, job.library, library_folder),
                templates_folder()]
     for folder in folders:

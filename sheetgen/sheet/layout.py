@@ -143,6 +143,22 @@ _ROW_C, _ROW_B = 12.0, 36.0  # heights of the tool-and-note row and the signatur
 _ROW_A = BLOCK_HEIGHT - _ROW_C - _ROW_B
 
 
+def _check_logo_decodes(style: HouseStyle) -> None:
+    """A logo whose header reads but whose pixels do not decode (a broken data stream) is
+    bad input at the style's `logo`, not an error from deep inside the page drawing."""
+    if style.logo_path is None:
+        return
+    from reportlab.lib.utils import ImageReader
+    try:
+        ImageReader(str(style.logo_path)).getRGBData()
+    except Exception as error:  # noqa: BLE001 - the image decoder raises many kinds
+        line, column = style.logo_mark
+        text = " ".join(str(error).split()).rsplit("] ", 1)[-1][:120] or type(error).__name__
+        raise InputError([Problem(style.source, line, column, "logo", (
+            f"{style.logo_path.name} cannot be decoded as an image ({text}); save it again "
+            "as PNG or JPEG"))]) from None
+
+
 def _logo_width(logo: Path | None) -> float:
     """How wide the header draws the logo (LOGO_HEIGHT high, at most 90 pt wide); 0 without
     one."""
@@ -431,6 +447,7 @@ def _render(design: Design, job_text: str, results_text: str, job_dir: Path | No
             style: HouseStyle | None) -> bytes:
     style = style or default_style()
     check_logo_inside(style, job_dir)
+    _check_logo_decodes(style)
     page_size = PAGE_SIZES[style.page_size]
     sheet = design.job.sheet
     identity = _identity(sheet, style)

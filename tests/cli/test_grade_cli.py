@@ -184,7 +184,7 @@ def test_graded_copy(sheets, tmp_path, capsys):
 
 def test_output_may_not_replace_the_sheet(sheets, capsys):
     assert main(["grade", str(sheets["good"]), "-o", str(sheets["good"])]) == 2
-    assert "may not overwrite" in capsys.readouterr().err
+    assert "would overwrite the sheet" in capsys.readouterr().err
 
 
 def test_usage_errors(sheets, tmp_path, capsys):

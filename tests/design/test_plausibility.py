@@ -19,32 +19,35 @@ from tests.cli.test_bad_input import GOOD, TEMPLATES, _edit
 NO_LOAD = GOOD.split("\nload:")[0] + "\n"
 NO_TARGET = _edit("  targets:\n    f0: 13.56 MHz\n", "")
 
+# Values inside the physical ranges (inputs/model.py PHYSICAL_RANGES) but outside what a
+# tuned circuit plausibly holds; beyond the physical ranges a value is bad input
+# (tests/inputs/test_physical_ranges.py).
 CASES = [  # (case, job text, field at fault, fragment of the sentence)
-    ("10 MH coil", _edit("inductance: 10 uH", "inductance: 10 MH"),
+    ("10 H coil", _edit("inductance: 10 uH", "inductance: 10 H"),
      "inductor.inductance", "is above 1.00 H"),
     ("10 H from a bare number", _edit("inductance: 10 uH", "inductance: 10"),
      "inductor.inductance", "a bare number is in henries"),
-    ("8e-24 F computed", _edit("inductance: 10 uH", "inductance: 10 MH"),
+    ("1.4e-17 F computed", _edit("inductance: 10 uH", "inductance: 10 H"),
      "inductor.inductance", "the capacitance computed for f0 with this inductance"),
     ("1 F given", NO_TARGET.replace("  esr: 0.05 ohm", "  capacitance: 1 F\n  esr: 0.05 ohm"),
      "capacitor.capacitance", "is above 100 µF"),
     ("Q 0.00003 of a 1 F tank", NO_TARGET.replace("  esr: 0.05 ohm",
                                                  "  capacitance: 1 F\n  esr: 0.05 ohm"),
      "load.resistance", "overdamped"),
-    ("1e12 Hz", _edit("f0: 13.56 MHz", "f0: 1e12 Hz"), "circuit.targets.f0", "above 1.00 GHz"),
-    ("1 THz", _edit("f0: 13.56 MHz", "f0: 1 THz"), "circuit.targets.f0", "above 1.00 GHz"),
+    ("5e9 Hz", _edit("f0: 13.56 MHz", "f0: 5e9 Hz"), "circuit.targets.f0", "above 1.00 GHz"),
+    ("0.005 THz", _edit("f0: 13.56 MHz", "f0: 0.005 THz"), "circuit.targets.f0", "above 1.00 GHz"),
     ("1 Hz", _edit("f0: 13.56 MHz", "f0: 1 Hz"), "circuit.targets.f0", "below 1.00 kHz"),
     ("kilofarads for 1 Hz", _edit("f0: 13.56 MHz", "f0: 1 Hz"), "inductor.inductance",
      "2.53 kF, is above 100 µF"),
-    ("1 fH", _edit("inductance: 10 uH", "inductance: 1 fH"), "inductor.inductance",
+    ("100 pH", _edit("inductance: 10 uH", "inductance: 100 pH"), "inductor.inductance",
      "below 1.00 nH"),
     ("100 MHz bandwidth", NO_LOAD.replace("f0: 13.56 MHz", "f0: 13.56 MHz\n    bandwidth: 100 MHz"),
      "circuit.targets.bandwidth", "ask for a bandwidth of at most"),
     ("loaded Q 1e-11", NO_LOAD.replace("f0: 13.56 MHz", "f0: 13.56 MHz\n    loaded_q: 1e-11"),
      "circuit.targets.loaded_q", "at least 0.500"),
-    ("1e30 ohm source", _edit("resistance: 50 ohm\n  available", "resistance: 1e30 ohm\n  available"),
+    ("1e11 ohm source", _edit("resistance: 50 ohm\n  available", "resistance: 1e11 ohm\n  available"),
      "load.resistance", "the resistances in the loop swamp the reactance"),
-    ("megavolts", _edit("available_power: 1 W", "available_power: 100 MW"),
+    ("megavolts", _edit("available_power: 1 W", "available_power: 5 MW"),
      "source.available_power", "above 30.0 kV"),
 ]
 

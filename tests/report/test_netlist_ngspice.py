@@ -72,3 +72,15 @@ def test_a_detuned_netlist_disagrees(tmp_path):
                           cwd=tmp_path, timeout=120, stdin=subprocess.DEVNULL)
     f_peak = float(re.search(r"^f_peak\s*=\s*(\S+)", done.stdout, re.M)[1])
     assert abs(f_peak / results["f_peak_hz"] - 1) > 1e-3
+
+
+def test_netlist_never_overwrites_its_job(tmp_path):
+    """`netlist JOB -o JOB` is refused (exit 2, the job named), the job left as it was."""
+    job = tmp_path / "j.yaml"
+    job.write_text((templates_folder() / "series.yaml").read_text(encoding="utf-8"),
+                   encoding="utf-8")
+    before = job.read_bytes()
+    done = subprocess.run([sys.executable, "-m", "sheetgen", "netlist", str(job), "-o", str(job)],
+                          capture_output=True, text=True, cwd=tmp_path, timeout=120)
+    assert done.returncode == 2 and "j.yaml" in done.stderr and "Traceback" not in done.stderr
+    assert job.read_bytes() == before
