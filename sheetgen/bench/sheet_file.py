@@ -107,10 +107,12 @@ def _attached_stream(reader, name: str):
     return None
 
 
-def all_attachments(reader) -> list[tuple[str, bytes]]:
-    """Every attached file as (name, bytes), in the order of the name tree."""
+def all_attachments(reader, path: str = "the sheet") -> list[tuple[str, bytes]]:
+    """Every attached file as (name, bytes), in the order of the name tree, each held to
+    the attachment cap like the job and results (_bounded_data)."""
     names = reader.trailer["/Root"].get("/Names", {}).get("/EmbeddedFiles", {}).get("/Names", [])
-    return [(str(names[index]), names[index + 1].get_object()["/EF"]["/F"].get_object().get_data())
+    return [(str(names[index]), _bounded_data(names[index + 1].get_object()["/EF"]["/F"]
+                                              .get_object(), path, str(names[index])))
             for index in range(0, len(names) - 1, 2)]
 
 
