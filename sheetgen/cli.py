@@ -273,6 +273,7 @@ def _build_sheet(job_path: Path, output: Path | None, results_path: Path | None,
     inputs = [("the job file", job_path)] + ([("--style", style_path)] if style_path else [])
     refuse_overlaps(inputs, outputs)
     design = design_from_file(job_path, library_folder)
+    _notices(design)
     style = resolve_style(job_path, design.job, style_path, library_folder)
     from sheetgen.inputs.library import find_library_folder, library_files
     folder = find_library_folder(job_path, design.job.library, library_folder)

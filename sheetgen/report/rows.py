@@ -372,7 +372,8 @@ def duty_rows(design: Design) -> list[Row]:
         if d.kind == "source_resistance":
             label = f"{d.name}, {what} (the source's own)"
         figures = (f"{quantity_text(d.voltage_peak_v, 'V')} peak, "
-                   f"{quantity_text(d.current_rms_a, 'A')} rms, {quantity_text(d.power_w, 'W')}")
+                   f"{quantity_text(d.current_rms_a, 'A')} rms, "
+                   + ("ideal, lossless" if d.kind == "turns_ratio" else quantity_text(d.power_w, 'W')))
         w = worst[d.name]
         remark = ""
         if w != d and duties.open_load_f_hz is not None:

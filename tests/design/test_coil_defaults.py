@@ -44,10 +44,16 @@ def test_a_stated_q_spreads_by_the_common_practice_default(tmp_path):
 def test_the_job_overrides_the_q_spread(tmp_path):
     """inductor.q_tolerance: 0 % takes the stated Q as exact (and tolerance: 0 % the L,
     since the loss resistance X0/Q is fixed in ohms and bandwidth ≈ R/(2πL)): the bandwidth
-    window is then only what the bench adds (a few percent), far inside ±19 %."""
-    lim = _design(tmp_path, ", q_tolerance: 0 %, tolerance: 0 %").assessment.limits
-    assert lim.bandwidth_min_hz > 5.038e3 * 0.95, lim
-    assert lim.bandwidth_max_hz < 5.038e3 * 1.05, lim
+    window is then only what the bench adds around the test set-up's own bandwidth (its
+    probe and feed and their tolerances, a few percent), and less than a third as wide as
+    with the default ±20 % spread."""
+    exact = _design(tmp_path, ", q_tolerance: 0 %, tolerance: 0 %")
+    lim, bench_bw = exact.assessment.limits, exact.bench.resonance.bandwidth_hz
+    assert lim.bandwidth_min_hz > bench_bw * 0.95, lim
+    assert lim.bandwidth_max_hz < bench_bw * 1.05, lim
+    spread = _design(tmp_path).assessment.limits
+    assert (lim.bandwidth_max_hz - lim.bandwidth_min_hz
+            < (spread.bandwidth_max_hz - spread.bandwidth_min_hz) / 3)
 
 
 def test_a_bought_coil_with_no_tolerance_is_not_exact(tmp_path):

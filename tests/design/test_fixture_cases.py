@@ -163,8 +163,14 @@ def test_built_on_its_fixture_the_unit_meets_its_windows(tmp_path, case):
 def test_the_check_fails_without_the_probes_loading(tmp_path):
     """The comparison can fail: the 7 MHz trap built without the probe's 1 MΩ (the tank's
     own dynamic resistance is ~44 kΩ, so 1 MΩ widens it by ~4 %) has a bandwidth outside
-    its window."""
-    got = results_document(_design(tmp_path, "trap-7mhz"))
+    its window. The coil's Q is stated exact here (q_tolerance 0 %, tolerance 1 %), so that
+    the window is the set-up's and not the ±20 % default spread of a maker's Q."""
+    path = tmp_path / "trap-exact.yaml"
+    path.write_text(CASES["trap-7mhz"].replace(
+        "inductor: {form: given, inductance: 5 uH, q: 200}",
+        "inductor: {form: given, inductance: 5 uH, q: 200, q_tolerance: 0 %, tolerance: 1 %}"),
+        encoding="utf-8")
+    got = results_document(design_from_file(path))
     bench = as_built_bench(got)
     body = "\n".join(line for line in bench.body.splitlines() if not line.startswith("rprobe"))
     measured = spice.measure_bench(spice.BenchCircuit(

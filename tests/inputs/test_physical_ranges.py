@@ -65,15 +65,15 @@ def test_a_steinmetz_exponent_beyond_5_is_bad_input(tmp_path, capsys):
     library.mkdir()
     (library / "cores.yaml").write_bytes((root / "shared" / "cores.yaml").read_bytes())
     materials = (root / "shared" / "materials.yaml").read_text(encoding="utf-8")
-    assert "steinmetz: {k: 63, alpha: 1.2, beta: 2.0}" in materials
+    assert "steinmetz: {k: 70, alpha: 1.2, beta: 2.0}" in materials
     (library / "materials.yaml").write_text(materials.replace(
-        "steinmetz: {k: 63, alpha: 1.2, beta: 2.0}", "steinmetz: {k: 63, alpha: 1e12, beta: 2.0}"),
+        "steinmetz: {k: 70, alpha: 1.2, beta: 2.0}", "steinmetz: {k: 70, alpha: 1e12, beta: 2.0}"),
         encoding="utf-8")
     job = _write(tmp_path, (root / "templates" / "toroid.yaml").read_text(encoding="utf-8"))
     code, lines = _run(capsys, "check", job, "--library", library)
     assert code == 2
     assert any(line.startswith(f"{library / 'materials.yaml'}:") and
-               'materials.iron-powder-mu10.steinmetz.alpha: "1e12" must be at most 5.00'
+               'materials.iron-powder-mu14.steinmetz.alpha: "1e12" must be at most 5.00'
                in line for line in lines), lines
 
 

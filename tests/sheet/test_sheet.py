@@ -117,6 +117,9 @@ def shown(path: str, key: str, value, results: dict) -> str | None:
                 else format_quantity(value, row["unit"], 4))
     if re.fullmatch(r"parts\[\d+\]\.worst_case\.condition", path):
         return None
+    power = re.fullmatch(r"parts\[(\d+)\]\.(worst_case\.)?power_w", path)
+    if power and results["parts"][int(power[1])]["kind"] == "turns_ratio":
+        return None  # an ideal turns ratio: printed as lossless
     if re.fullmatch(r"ratings\[\d+\]\.(rating|derating|unit)", path):
         return None  # the derated (allowed) value is printed, with the unit
     if re.fullmatch(r"(cautions|checks)\[\d+\]\.(code|level)", path):
