@@ -17,7 +17,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Literal
 
 import numpy as np
@@ -75,7 +75,11 @@ def evaluate(network: Network, f_hz, quantity: Quantity = response_quantity,
 def _power_and_slopes(network: Network, quantity: Quantity, u: np.ndarray, order: int):
     """|H|², d|H|²/du and (order 2) d²|H|²/du² at f = e^u, one frequency per trial."""
     f = np.exp(u)
-    h, h1, h2 = quantity(solve(network, f, derivatives=order, per_trial=True))
+    return _slopes(*quantity(solve(network, f, derivatives=order, per_trial=True)), f, order)
+
+
+def _slopes(h, h1, h2, f, order: int):
+    """|H|² and its u-derivatives (u = ln f) from H and its ω-derivatives."""
     omega = 2.0 * np.pi * f
     power = np.abs(h) ** 2
     s = np.real(np.conj(h) * h1)  # ½ d|H|²/dω
@@ -87,6 +91,68 @@ def _power_and_slopes(network: Network, quantity: Quantity, u: np.ndarray, order
     return power, slope, curvature
 
 
+def _functional(network: Network, quantity: Quantity):
+    """(c, d) with the quantity = c·x + d per unit drive, x the MNA unknowns; None where
+    the quantity is not such a fixed combination (e.g. a capacitor's current)."""
+    ix = network.index
+    c = np.zeros(ix.size)
+
+    def across(part) -> np.ndarray:
+        for node, sign in ((part.a, 1.0), (part.b, -1.0)):
+            if node in ix.nodes:
+                c[ix.nodes[node]] += sign
+        return c
+
+    if quantity is response_quantity:
+        wanted = network.response
+        part = network.part(wanted.part)
+        if wanted.kind == "voltage":
+            return across(part), 0.0
+        if part.name in ix.branches:
+            c[ix.branches[part.name]] = 1.0
+            return c, 0.0
+        return None
+    if quantity is load_voltage_quantity:
+        return across(network.part(network.load)), 0.0
+    if quantity is s11_quantity and network.source.node in ix.nodes:
+        c[ix.nodes[network.source.node]] = 2.0
+        return c, -1.0
+    return None
+
+
+class _Evaluator:
+    """The quantity of every trial at per-trial frequencies, for a root finder that asks
+    for some trials at a time: through the pole–residue form where it holds
+    (engine/network_poles.py: a sum over poles), else by solving those trials' networks."""
+
+    def __init__(self, network: Network, quantity: Quantity, shape: tuple[int, ...],
+                 check_hz: float):
+        from sheetgen.engine.network_poles import pole_residue
+        self.network, self.quantity, self.shape = network, quantity, shape
+        self.trials = _Trials(network, shape)
+        functional = _functional(network, quantity)
+        form = None if functional is None else pole_residue(network, *functional, check_hz)
+        if form is not None:
+            m = form.poles.shape[-1]
+            form = type(form)(np.broadcast_to(form.poles, shape + (m,)),
+                              np.broadcast_to(form.residues, shape + (m,)),
+                              np.broadcast_to(form.direct, shape))
+        self.form = form
+
+    def slopes(self, index, u, order: int):
+        f = np.exp(u)
+        if self.form is not None:
+            return _slopes(*self.form.take(index).at(f, order), f, order)
+        return _slopes(*self.quantity(solve(self.trials.take(index), f, derivatives=order,
+                                            per_trial=True)), f, order)
+
+    def grid(self, f_hz: np.ndarray) -> np.ndarray:
+        """|H| over a grid per trial (f_hz of shape trials + (points,))."""
+        if self.form is not None:
+            return np.abs(self.form.at(f_hz)[0])
+        return np.abs(self.quantity(solve(_expanded(self.network), f_hz, per_trial=True))[0])
+
+
 @dataclass(frozen=True)
 class Extremum:
     """The frequency of an extremum of |H| per trial, and |H| there (NaN where none)."""
@@ -94,6 +160,7 @@ class Extremum:
     f_hz: np.ndarray
     magnitude: np.ndarray
     curvature: np.ndarray  # d²|H|²/du² there (u = ln f)
+    evaluator: _Evaluator | None = field(default=None, repr=False, compare=False)
 
 
 def extremum(network: Network, low_hz, high_hz, *, kind: Literal["max", "min"] = "max",
@@ -110,25 +177,25 @@ def extremum(network: Network, low_hz, high_hz, *, kind: Literal["max", "min"] =
     high_u = np.broadcast_to(np.log(np.asarray(high_hz, dtype=float)), value_shape)
     steps = np.linspace(0.0, 1.0, points)
     grid_u = low_u[..., None] + (high_u - low_u)[..., None] * steps
-    # every trial's own grid: the grid axis last, the part values broadcast against it
-    grid = np.abs(quantity(solve(_expanded(network), np.exp(grid_u), per_trial=True))[0])
+    check_hz = float(np.exp(np.median(0.5 * (low_u + high_u))))
+    evaluator = _Evaluator(network, quantity, value_shape, check_hz)
+    grid = evaluator.grid(np.exp(grid_u))  # every trial's own grid, the grid axis last
     best = np.argmax(grid, axis=-1) if kind == "max" else np.argmin(grid, axis=-1)
     inside = (best > 0) & (best < points - 1)
     lo = np.take_along_axis(grid_u, np.clip(best - 1, 0, points - 1)[..., None], -1)[..., 0]
     hi = np.take_along_axis(grid_u, np.clip(best + 1, 0, points - 1)[..., None], -1)[..., 0]
     guess = np.take_along_axis(grid_u, best[..., None], -1)[..., 0]
 
-    trials = _Trials(network, value_shape)
-
     def slope(index, u):
-        _, first, second = _power_and_slopes(trials.take(index), quantity, u, 2)
+        _, first, second = evaluator.slopes(index, u, 2)
         return first, second
 
     u = safe_newton_active(slope, lo, hi, guess)
-    power, _, curvature = _power_and_slopes(network, quantity, u, 2)
+    power, _, curvature = evaluator.slopes(np.arange(u.size), u.ravel(), 2)
+    power, curvature = power.reshape(u.shape), curvature.reshape(u.shape)
     nan = np.nan
     return Extremum(np.where(inside, np.exp(u), nan), np.where(inside, np.sqrt(power), nan),
-                    np.where(inside, curvature, nan))
+                    np.where(inside, curvature, nan), evaluator)
 
 
 def _trial_shape(network: Network, *arrays) -> tuple[int, ...]:
@@ -212,11 +279,16 @@ def half_power_points(network: Network, peak: Extremum,
         offset = np.sqrt(peak.magnitude ** 2 / np.abs(peak.curvature))
     offset = np.clip(np.nan_to_num(offset, nan=0.1, posinf=0.1), 1e-12, _FARTHEST_LN)
 
-    trials = _Trials(network, np.shape(u_peak))
+    evaluator = peak.evaluator
+    if (evaluator is None or evaluator.network is not network or evaluator.quantity is not quantity
+            or evaluator.shape != np.shape(u_peak)):
+        finite = np.isfinite(u_peak)
+        check_hz = float(np.exp(np.median(u_peak[finite]))) if np.any(finite) else 1.0
+        evaluator = _Evaluator(network, quantity, np.shape(u_peak), check_hz)
     flat_target = np.ravel(target)
 
     def excess(index, u):
-        power, slope, _ = _power_and_slopes(trials.take(index), quantity, u, 1)
+        power, slope, _ = evaluator.slopes(index, u, 1)
         return flat_target[index] - power, -slope
 
     def side(sign: float) -> np.ndarray:
