@@ -46,6 +46,15 @@ def load_voltage_quantity(solution: Solution):
                  for k in range(3))
 
 
+def s21_quantity(solution: Solution):
+    """Transmission into the load, S21 = 2·V_load·√(Rs/RL) per volt of EMF (power waves,
+    Solution.s21), and its ω-derivatives (the same constant times V_load's)."""
+    network = solution.network
+    scale = 2.0 * np.sqrt(network.source.resistance_ohm
+                          / network.part(network.load).resistance_ohm)
+    return tuple(None if v is None else scale * v for v in load_voltage_quantity(solution))
+
+
 def s11_quantity(solution: Solution):
     """Reflection at the source port, Γ = (Z − R0)/(Z + R0), and its ω-derivatives.
 
@@ -114,6 +123,12 @@ def _functional(network: Network, quantity: Quantity):
         return None
     if quantity is load_voltage_quantity:
         return across(network.part(network.load)), 0.0
+    if quantity is s21_quantity:
+        load = network.part(network.load)
+        scale = 2.0 * np.sqrt(network.source.resistance_ohm / load.resistance_ohm)
+        if np.ndim(scale):
+            return None  # a per-trial constant: not one fixed functional
+        return scale * across(load), 0.0
     if quantity is s11_quantity and network.source.node in ix.nodes:
         c[ix.nodes[network.source.node]] = 2.0
         return c, -1.0
@@ -336,6 +351,12 @@ def band_extremes(network: Network, low_hz, high_hz, quantity: Quantity = respon
     maximum = np.fmax(top.magnitude, ends.max(axis=0))
     minimum = np.fmin(bottom.magnitude, ends.min(axis=0))
     return BandExtremes(np.asarray(low_hz), np.asarray(high_hz), maximum, minimum)
+
+
+def loss_db(network: Network, f_hz, per_trial: bool = False) -> np.ndarray:
+    """Insertion loss (attenuation) at f_hz, −20·log10|S21|: at f0, at named frequencies
+    (an image, an IF, a harmonic) or over a grid."""
+    return -decibels(evaluate(network, f_hz, s21_quantity, per_trial=per_trial))
 
 
 def decibels(magnitude) -> np.ndarray:

@@ -34,7 +34,9 @@ from sheetgen.engine.network_features import (
     extremum,
     half_power_points,
     load_voltage_quantity,
+    loss_db,
     s11_quantity,
+    s21_quantity,
 )
 from sheetgen.engine.part_duty import part_duties
 from tests.support import assert_close
@@ -258,3 +260,34 @@ def test_bad_networks_are_refused():
     with pytest.raises(ValueError, match="not a coil"):
         Network((Resistor("R1", "a", "0", 1.0), MutualCoupling("K1", "R1", "R1", 0.5)),
                 Source("a"), Response("voltage", "R1"))
+
+
+@pytest.mark.parametrize("r", [1.0, 10.0, 150.0])
+def test_insertion_loss_of_a_series_resistor(r):
+    """IL = 20·log10((R + 2Z0)/(2Z0)) for a series R between Z0 ports (the voltage divider
+    into a matched load, by hand), and S21 through the s21 quantity equals Solution.s21."""
+    z0 = 50.0
+    parts = (Resistor("RS", "in", "out", r), Resistor("RL", "out", "0", z0))
+    network = Network(parts, Source("in", "voltage", z0), Response("voltage", "RL"), "RL")
+    assert_close(float(loss_db(network, 1e6)), 20 * math.log10((r + 2 * z0) / (2 * z0)),
+                 rel=1e-12, what="insertion loss")
+    solution = solve(network, 1e6)
+    assert_close(abs(complex(s21_quantity(solution)[0])), abs(complex(solution.s21())),
+                 rel=1e-15, what="S21 two ways")
+
+
+def test_attenuation_of_a_notch_and_its_unequal_ports():
+    """A trap in a line between unequal ports (Rs 50 Ω, RL 200 Ω): far from the notch the
+    line is a plain mismatch (at 10 Hz the coil is its 1 mΩ loss and 0.13 mΩ of reactance),
+    |S21| = 2√(Rs·RL)/(Rs + RL + r) = 200/250.001 (power waves, by hand);
+    at the notch the loss is large (a lossless tank blocks)."""
+    l, c = 2e-6, 250e-12
+    parts = (Coil("L1", "in", "out", l, 1e-3), Capacitor("C1", "in", "out", c),
+             Resistor("RL", "out", "0", 200.0))
+    network = Network(parts, Source("in", "voltage", 50.0), Response("voltage", "RL"), "RL")
+    assert_close(float(loss_db(network, 10.0)), -20 * math.log10(200 / 250.001), rel=1e-5,
+                 what="loss far below the notch")
+    f0 = 1 / (2 * math.pi * math.sqrt(l * c))
+    notch = extremum(network, f0 / 3, f0 * 3, kind="min", quantity=s21_quantity)
+    assert float(-20 * np.log10(notch.magnitude)) > 60.0
+    assert_close(float(notch.f_hz), f0, rel=1e-6, what="notch at Thomson's f0")
