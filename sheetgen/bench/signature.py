@@ -37,6 +37,18 @@ SIGNING_REASON = "released build-and-test sheet (sheetgen build --sign)"
 FORM_FILLING = "form filled in after signing"
 
 
+def _load_pyhanko() -> None:
+    """Import pyHanko once, quietly: importing its signers touches cryptography's DSA
+    support, which recent cryptography releases mark deprecated with a warning (a third
+    party's notice about a key type sheetgen never uses)."""
+    import warnings
+    with warnings.catch_warnings():
+        warnings.filterwarnings("ignore", message=".*DSA is deprecated.*")
+        import pyhanko.sign  # noqa: F401
+        import pyhanko.sign.validation  # noqa: F401
+        import pyhanko_certvalidator  # noqa: F401
+
+
 @dataclass(frozen=True)
 class SignatureCheck:
     """The signature of a sheet as checked: `signer` is the certificate's subject,
@@ -85,6 +97,7 @@ def _quiet_pyhanko():
 def load_signer(path: Path):
     """The key and certificate in the PKCS#12 file at `path` (passphrase from the
     environment variable SHEETGEN_SIGN_PASSPHRASE; none when it is unset)."""
+    _load_pyhanko()
     from pyhanko.sign import signers
     passphrase = os.environ.get(PASSPHRASE_ENV)
     if not Path(path).is_file():
@@ -105,6 +118,7 @@ def load_signer(path: Path):
 
 def sign_pdf(pdf: bytes, signer) -> bytes:
     """`pdf` with a certifying signature appended as an incremental update."""
+    _load_pyhanko()
     from pyhanko.pdf_utils.incremental_writer import IncrementalPdfFileWriter
     from pyhanko.sign import signers
     from pyhanko.sign.fields import MDPPerm
@@ -133,6 +147,7 @@ def sign_pdf(pdf: bytes, signer) -> bytes:
 
 def load_trust_roots(paths: list[Path]) -> list:
     """The certificates in the files at `paths` (PEM or DER), each an InputError if not one."""
+    _load_pyhanko()
     from pyhanko.keys import load_certs_from_pemder
     roots = []
     for path in paths:
@@ -202,6 +217,7 @@ def check_signature(path: str, data: bytes, trust_roots: list | None) -> Signatu
     """Check every signature of the sheet `data`; InputError when one is broken, covers
     less than the file with more than form filling after it, or (with `trust_roots`) does
     not chain to a root."""
+    _load_pyhanko()
     from pyhanko.pdf_utils.reader import PdfFileReader
     from pyhanko.sign.validation import validate_pdf_signature
     from pyhanko.sign.validation.status import SignatureCoverageLevel
