@@ -93,6 +93,12 @@ class TestStep:
     settings: tuple[tuple[str, str], ...] = ()
     records: tuple[str, ...] = ()
     key: str = ""  # which step of the plan it is (e.g. "connect"), for the sheet's layout
+    derivation: tuple[tuple[str, str], ...] = ()  # why the settings are so (design record)
+
+    @property
+    def all_settings(self) -> tuple[tuple[str, str], ...]:
+        """What the bench sets, then why (the design record's rows)."""
+        return self.settings + self.derivation
 
 
 @dataclass(frozen=True)
@@ -587,6 +593,24 @@ def _trim_step(design: Design, repeat_from: int, repeat_to: int) -> tuple[str, s
                               f"from step {repeat_from}.")
 
 
+# Settings rows that say why a setting is so, rather than what to set: the design record
+# prints them, the bench's steps leave them out.
+DERIVATION_LABELS = frozenset({"Why this setting", "Highest voltage at this level",
+                               "Generator stands for", "Receiver stands for",
+                               "The circuit sees", "Fixture resistors",
+                               "Effect on the windows", "Highest part voltage at this level"})
+
+
+def _bench_and_derivation(settings: tuple) -> tuple[tuple, tuple]:
+    """A step's settings split into what the bench sets and why (see DERIVATION_LABELS);
+    "Cautions for this test" goes to the bench only when a caution applies."""
+    def why(label: str, value: str) -> bool:
+        return label in DERIVATION_LABELS or (label == "Cautions for this test"
+                                              and value.startswith("none apply"))
+    return (tuple(row for row in settings if not why(*row)),
+            tuple(row for row in settings if why(*row)))
+
+
 def procedure(design: Design) -> Procedure:
     """The numbered bench test of `design`, with its instrument settings and record."""
     r = design.bench.resonance
@@ -672,8 +696,10 @@ def procedure(design: Design) -> Procedure:
     as_left = (("measured.f0_hz", "measured.f_low_hz", "measured.f_high_hz",
                 "measured.bandwidth_hz", "measured.q_loaded") if trimmer else ())
     steps = tuple(TestStep(number[key], tune_title if key == "tune" else title,
-                           tune_text if key == "tune" else text, settings,
-                           as_left if key == "tune" else records, key)
+                           tune_text if key == "tune" else text,
+                           _bench_and_derivation(settings)[0],
+                           as_left if key == "tune" else records, key,
+                           _bench_and_derivation(settings)[1])
                   for key, title, text, settings, records in plan)
     return Procedure(sweep, design.bench, steps, record_rows(design),
                      full_power_steps(design, hazards), fixture_names(design))

@@ -171,7 +171,7 @@ def test_an_ideal_current_source_is_fed_through_a_small_coupling_capacitor(tmp_p
     assert_close(source.capacitance_f, nearest, rel=1e-9)
     assert_close(d.bench.circuit.source_capacitance_f, nearest, rel=1e-12)
     assert d.bench.circuit.source_resistance_ohm == 50.0
-    settings = dict(next(s for s in procedure(d).steps if s.key == "connect").settings)
+    settings = dict(next(s for s in procedure(d).steps if s.key == "connect").all_settings)
     assert settings["Generator hookup"].startswith("C3 33 pF C0G"), settings["Generator hookup"]
 
 
@@ -198,7 +198,7 @@ def test_a_parallel_load_is_a_resistor_into_the_receiver(tmp_path):
     fixture = res["test_record"]["fixture"]
     assert_close(fixture["circuit"]["load_resistance_ohm"], port.resistor_ohm + 50, rel=1e-12)
     settings = dict(next(s for s in procedure(d).steps
-                         if s.title == "Connect the test set-up").settings)
+                         if s.title == "Connect the test set-up").all_settings)
     from sheetgen.quantities import format_quantity
     assert (f"R4 {format_quantity(port.resistor_ohm, 'Ω', 3)} ± 1.00 % (IEC 60063 E96)"
             in settings["Receiver hookup"]), "numbered on after the unit's R1 and R2"
@@ -209,7 +209,7 @@ def test_the_lcr_level_drives_a_small_flux_in_a_ring_core(tmp_path):
     results' turns and the core's Ae."""
     d, res = _design(tmp_path, "demo")
     coil = next(s for s in procedure(d).steps if s.title == "Measure the coil")
-    settings = dict(coil.settings)
+    settings = dict(coil.all_settings)
     f = 1e6
     assert settings["LCR meter frequency"] == "1.00 MHz"
     ae = d.coil.result.effective.ae_m2
