@@ -6,6 +6,8 @@ conventions on top of it (4 figures on the sheet, ± tolerances, signed margins,
 
 from __future__ import annotations
 
+import math
+
 from sheetgen.quantities import format_number, format_quantity
 
 SHEET_DIGITS = 4  # significant figures of a computed value on the sheet and the summary
@@ -19,6 +21,27 @@ def quantity_text(value_si: float, unit: str, digits: int = SHEET_DIGITS) -> str
 def range_text(low_si: float, high_si: float, unit: str, digits: int = SHEET_DIGITS) -> str:
     """A window as written on the sheet: '3.540 MHz to 3.560 MHz'."""
     return f"{quantity_text(low_si, unit, digits)} to {quantity_text(high_si, unit, digits)}"
+
+
+PART_WINDOW_DIGITS = 4  # significant figures of a part's window as printed
+
+
+def printed_part_window(window: tuple[float, float] | None) -> tuple[float, float] | None:
+    """A part's window (its tolerance and the meter's accuracy) with each edge rounded
+    inward to PART_WINDOW_DIGITS figures, so the window printed (in the record and the
+    limits table alike) and the window graded are the same numbers."""
+    if window is None:
+        return None
+    low, high = window
+    return (_round_to_figures(low, PART_WINDOW_DIGITS, up=True),
+            _round_to_figures(high, PART_WINDOW_DIGITS, up=False))
+
+
+def _round_to_figures(value: float, digits: int, up: bool) -> float:
+    """`value` rounded up (or down) to `digits` significant figures."""
+    step = 10.0 ** (math.floor(math.log10(abs(value))) - digits + 1)
+    units = value / step
+    return float(f"{(math.ceil(units - 1e-9) if up else math.floor(units + 1e-9)) * step:.{digits}g}")
 
 
 def signed(value: float, decimals: int) -> str:

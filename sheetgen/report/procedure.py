@@ -34,6 +34,7 @@ from sheetgen.report.cautions import design_cautions, kilovolt_distances, names_
 from sheetgen.report.formatting import (
     percent,
     percent_change,
+    printed_part_window,
     quantity_text,
     range_text,
     signed,
@@ -187,8 +188,10 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
     }
     broad = broad_peak(design)
     windows = {
-        "inductance": _printed_window(a.inductance_window, a.inductance_tolerance),
-        "capacitance": _printed_window(a.capacitance_window, a.capacitor_tolerance),
+        "inductance": (printed_part_window(a.inductance_window)
+                       if a.inductance_tolerance else None),
+        "capacitance": (printed_part_window(a.capacitance_window)
+                        if a.capacitor_tolerance else None),
         "f0": ((lim.f_centre_min_hz, lim.f_centre_max_hz) if broad
                else (lim.f_peak_min_hz, lim.f_peak_max_hz)),
         "f_low": (lim.f_low_min_hz, lim.f_low_max_hz),
@@ -215,29 +218,6 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
                               m.field.replace("measured.", "as_found.")
                               if tuned and m.key in TUNED_KEYS else None, low, high))
     return tuple(rows)
-
-
-PART_WINDOW_DIGITS = 4  # significant figures of a part's window as printed
-
-
-def _printed_window(window: tuple[float, float] | None,
-                    fraction: float | None) -> tuple[float, float] | None:
-    """A part's window (its tolerance and the meter's accuracy, from the assessment), each
-    edge rounded inward to the printed figures, so the window printed and the window
-    graded are the same numbers."""
-    if not fraction or window is None:
-        return None
-    low, high = window
-    return _round_to_figures(low, PART_WINDOW_DIGITS, up=True), \
-        _round_to_figures(high, PART_WINDOW_DIGITS, up=False)
-
-
-def _round_to_figures(value: float, digits: int, up: bool) -> float:
-    """`value` rounded up (or down) to `digits` significant figures."""
-    import math
-    step = 10.0 ** (math.floor(math.log10(abs(value))) - digits + 1)
-    units = value / step
-    return float(f"{(math.ceil(units - 1e-9) if up else math.floor(units + 1e-9)) * step:.{digits}g}")
 
 
 def _tolerance(window: tuple[float, float] | None, fraction: float | None, unit: str) -> str:
@@ -461,7 +441,7 @@ def _lcr_settings(frequency_hz: float, note: str) -> tuple[tuple[str, str], ...]
     """An LCR meter's settings: frequency, test level and what that level puts on the part."""
     return (("LCR meter frequency", quantity_text(frequency_hz, "Hz", 3)),
             ("LCR meter test level", f"{quantity_text(LCR_TEST_LEVEL_RMS_V, 'V', 2)} rms "
-             "(the meter's usual level; any lower level will do)"),
+             "or lower"),
             ("Highest voltage at this level",
              f"{quantity_text(LCR_TEST_LEVEL_RMS_V * math.sqrt(2.0), 'V', 2)} peak: "
              "no caution applies"),
@@ -495,7 +475,9 @@ def _coil_level_note(design: Design, frequency_hz: float) -> str:
     """Why the coil is measured where it is, and, on a ring core, the flux the meter's level
     drives (Faraday: B̂ = √2·V/(ωNAe)), far inside the material's limit."""
     coil = design.coil
-    why = "below f0 and well below the coil's self-resonance (the coil section's rule)"
+    why = ("the meter's highest test frequency at or below f0"
+           + (" and a tenth of the coil's self-resonance"
+              if coil is not None and coil.result.srf_hz else ""))
     if coil is None or coil.form != "toroid":
         return why
     from sheetgen.engine.magnetics import peak_flux_density_t
@@ -625,7 +607,7 @@ def procedure(design: Design) -> Procedure:
                       "the frequencies and the bandwidth do not depend on the level.")
     coil = design.coil
     measure_at = measuring_frequency_hz(r.f0_hz, coil.result.srf_hz if coil else None)
-    wound = " (after winding it as the coil section says)" if coil is not None else ""
+    wound = " (after winding it as the winding section says)" if coil is not None else ""
     trimmer = choice.trimmer_setting_f is not None
     names = design.designators
     fixed = " + ".join(names.fixed_capacitors)

@@ -15,6 +15,7 @@ from sheetgen.report.formatting import (
     condition_text,
     percent,
     plural,
+    printed_part_window,
     quantity_text,
     range_text,
     signed,
@@ -383,6 +384,12 @@ def duty_rows(design: Design) -> list[Row]:
     return rows
 
 
+def _inward(window: tuple[float, float], unit: str) -> str:
+    """How a part's printed window comes from the computed one (the test record's too)."""
+    return (f"computed {range_text(*window, unit)}, each edge rounded inward to the "
+            "figures printed")
+
+
 def limits_rows(design: Design) -> list[Row]:
     """The test windows, each beside its nominal value, and how they were set."""
     a = design.assessment
@@ -535,11 +542,15 @@ def _bench_rows(design: Design) -> list[Row]:
         check = coil_check(design)
         meter = ("the analyser" if check is not None and check.method == "analyser"
                  else "the LCR meter")
-        rows.append(Row("Inductance window", range_text(*a.inductance_window, "H"),
-                        f"as {meter} reads {design.designators.coil}"))
+        rows.append(Row("Inductance window",
+                        range_text(*printed_part_window(a.inductance_window), "H"),
+                        f"as {meter} reads {design.designators.coil}; "
+                        + _inward(a.inductance_window, "H")))
     if a.capacitance_window is not None:
-        rows.append(Row("Capacitance window", range_text(*a.capacitance_window, "F"),
-                        "as the LCR meter reads the fixed part(s)"))
+        rows.append(Row("Capacitance window",
+                        range_text(*printed_part_window(a.capacitance_window), "F"),
+                        "as the LCR meter reads the fixed part(s); "
+                        + _inward(a.capacitance_window, "F")))
     if a.untrimmed_f0_min_hz is not None:
         state = ("TRIMMING REQUIRED: wider than the bandwidth" if a.must_trim
                  else "within the bandwidth")

@@ -31,7 +31,7 @@ from sheetgen.design.records import Design
 from sheetgen.report.advice import rating_advice
 from sheetgen.report.cautions import DEFERRAL, design_cautions
 from sheetgen.report.formatting import quantity_text
-from sheetgen.report.parts import PART_COLUMNS, PartRow, part_rows
+from sheetgen.report.parts import NO_DATA, PART_COLUMNS, PartRow, part_rows
 from sheetgen.report.procedure import (
     OVERALL_VERDICT,
     RECORD_TEXT_FIELDS,
@@ -95,8 +95,8 @@ def make_kit(width: float, plan: Procedure) -> Kit:
         procedure=plan,
         body=ParagraphStyle("body", fontSize=9, leading=12, spaceAfter=4, **base),
         small=ParagraphStyle("small", fontSize=8, leading=10, **base),
-        cell=ParagraphStyle("cell", fontSize=8.5, leading=10.5, **base),
-        cell_bold=ParagraphStyle("cell_bold", fontSize=8.5, leading=10.5,
+        cell=ParagraphStyle("cell", fontSize=8, leading=9.8, **base),
+        cell_bold=ParagraphStyle("cell_bold", fontSize=8, leading=9.8,
                                  **{**base, "fontName": fonts.BOLD}),
         heading=ParagraphStyle("heading", fontSize=11.5, leading=14, spaceBefore=10,
                                spaceAfter=5, keepWithNext=1, **{**base, "fontName": fonts.BOLD}),
@@ -150,7 +150,7 @@ def rows_table(rows: list[Row], kit: Kit, heads=("Quantity", "Value", "Remark"))
 
 def parts_table(rows: list[PartRow], kit: Kit) -> Table:
     """The parts list, one row a part; long notes wrap, many parts continue on a new page."""
-    fractions = (0.07, 0.11, 0.11, 0.11, 0.11, 0.18, 0.05, 0.26)
+    fractions = (0.07, 0.09, 0.11, 0.11, 0.09, 0.21, 0.05, 0.27)
     data = [[para(h, kit.cell_bold) for h in PART_COLUMNS]]
     for row in rows:
         data.append([para(row.designator, kit.cell_bold), para(row.part, kit.cell),
@@ -235,8 +235,17 @@ def _coverage(design: Design) -> str:
 
 
 def parts_section(design: Design, kit: Kit) -> SectionContent:
-    """The parts list, then the cutting list of a coil sheetgen designs."""
-    flowables: list = [parts_table(part_rows(design), kit)]
+    """The parts to fit (those not fitted, the rest of the system, in one line below), then
+    the cutting list of a coil sheetgen designs."""
+    rows = part_rows(design)
+    fitted = [row for row in rows if row.quantity != NO_DATA]
+    flowables: list = [parts_table(fitted, kit)]
+    absent = [row for row in rows if row.quantity == NO_DATA]
+    if absent:
+        flowables.append(para(
+            "Not fitted, the rest of the system (the test set-up of the procedure stands in "
+            "for them): " + "; ".join(f"{row.designator} {row.value} {row.part.lower()}"
+                                      for row in absent) + ".", kit.caption))
     cuts = cutting_list(design)
     if cuts:
         data = [[para(h, kit.cell_bold) for h in ("Cut", "Wire", "Length", "Made of")]]
@@ -331,12 +340,15 @@ def _numbered(number: int, title: str, text: str, kit: Kit) -> Paragraph:
 
 def setup_section(design: Design, kit: Kit) -> SectionContent | None:
     """Why the procedure's settings are what they are: the rows the bench does not need."""
-    rows = [Row(f"Step {step.number}: {label}", value, "")
+    rows = [(f"Step {step.number}: {label}", value)
             for step in kit.procedure.steps for label, value in step.derivation]
     if not rows:
         return None
-    return SectionContent("Test set-up: how the settings were derived",
-                          [_settings_table(tuple((r.label, r.value) for r in rows), kit)])
+    data = [[para(h, kit.cell_bold) for h in ("Step and setting", "Why, and what follows")]]
+    data += [[para(label, kit.cell), para(value, kit.cell)] for label, value in rows]
+    table = Table(data, colWidths=[kit.width * 0.3, kit.width * 0.7], repeatRows=1)
+    table.setStyle(TableStyle(_grid_style()))
+    return SectionContent("Test set-up: how the settings were derived", [table])
 
 
 def procedure_section(design: Design, kit: Kit) -> SectionContent:
@@ -367,21 +379,31 @@ def _step_blocks(step, kit: Kit, drawings: tuple = ()) -> list:
             + [[_Indent(extra, 18), Spacer(1, 6)] for extra in extras[1:]])
 
 
+SHORT_SETTING = 40  # characters: a value this short shares its row with another setting
+
+
 def _settings_table(settings: tuple[tuple[str, str], ...], kit: Kit) -> Table:
-    """A step's settings: what to set, and to what (short values keep a narrow column)."""
-    long_values = any(len(value) > 40 for _, value in settings)
-    if not long_values and len(settings) > 1:  # short values: two settings a row
-        half = (len(settings) + 1) // 2
-        pairs = list(settings[:half]), list(settings[half:]) + [("", "")]
-        data = [[para(a, kit.cell), para(b, kit.cell_bold), para(c, kit.cell),
-                 para(d, kit.cell_bold)] for (a, b), (c, d) in zip(*pairs)]
-        widths = (0.25, 0.22, 0.25, 0.22)
-    else:
-        widths = (0.34, 0.60) if long_values else (0.42, 0.30)
+    """A step's settings: what to set, and to what. Short values go two to a row; a long
+    value takes a row of its own."""
+    short = [row for row in settings if len(row[1]) <= SHORT_SETTING]
+    long = [row for row in settings if len(row[1]) > SHORT_SETTING]
+    if len(short) < 2:  # nothing to pair: label and value, one setting a row
+        widths = (0.34, 0.60) if long else (0.42, 0.30)
         data = [[para(label, kit.cell), para(value, kit.cell_bold)]
                 for label, value in settings]
-    table = Table(data, colWidths=[kit.width * w for w in widths], hAlign="LEFT")
-    table.setStyle(TableStyle(_grid_style(header=False)))
+        table = Table(data, colWidths=[kit.width * w for w in widths], hAlign="LEFT")
+        table.setStyle(TableStyle(_grid_style(header=False)))
+        return table
+    half = (len(short) + 1) // 2
+    left, right = short[:half], short[half:] + [("", "")] * (2 * half - len(short))
+    data = [[para(a, kit.cell), para(b, kit.cell_bold), para(c, kit.cell),
+             para(d, kit.cell_bold)] for (a, b), (c, d) in zip(left, right)]
+    spans = [("SPAN", (1, len(data) + i), (3, len(data) + i)) for i in range(len(long))]
+    data += [[para(label, kit.cell), para(value, kit.cell_bold), "", ""]
+             for label, value in long]
+    table = Table(data, colWidths=[kit.width * w for w in (0.25, 0.22, 0.25, 0.22)],
+                  hAlign="LEFT")
+    table.setStyle(TableStyle(_grid_style(header=False) + spans))
     return table
 
 
@@ -513,7 +535,7 @@ def with_heading(heading: Paragraph, items: list) -> list:
     return out
 
 
-TABLE_ROWS_KEPT = 3  # rows a split leaves at least on each page (besides a repeated header)
+TABLE_ROWS_KEPT = 2  # rows a split leaves at least on each page (besides a repeated header)
 
 
 def _splittable(table: Table) -> Table:
