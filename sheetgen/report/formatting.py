@@ -23,6 +23,22 @@ def range_text(low_si: float, high_si: float, unit: str, digits: int = SHEET_DIG
     return f"{quantity_text(low_si, unit, digits)} to {quantity_text(high_si, unit, digits)}"
 
 
+def resolved_text(value_si: float, resolution_si: float, unit: str) -> str:
+    """A measured value to the resolution the bench reads it at, no finer: the last digit
+    printed is the resolution's leading digit (3.544 MHz at 1 kHz, 12.86 MHz at 10 kHz)."""
+    if (value_si is None or not math.isfinite(value_si) or value_si == 0
+            or not resolution_si or not math.isfinite(resolution_si) or resolution_si <= 0):
+        return quantity_text(value_si, unit)  # "—" for a value that is not a number
+    digits = math.floor(math.log10(abs(value_si))) - math.floor(math.log10(resolution_si)) + 1
+    return quantity_text(value_si, unit, max(digits, 1))
+
+
+def resolved_range_text(low_si: float, high_si: float, resolution_si: float, unit: str) -> str:
+    """A window to the bench's resolution (see resolved_text)."""
+    return (f"{resolved_text(low_si, resolution_si, unit)} to "
+            f"{resolved_text(high_si, resolution_si, unit)}")
+
+
 PART_WINDOW_DIGITS = 4  # significant figures of a part's window as printed
 
 

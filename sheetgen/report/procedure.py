@@ -37,6 +37,8 @@ from sheetgen.report.formatting import (
     printed_part_window,
     quantity_text,
     range_text,
+    resolved_range_text,
+    resolved_text,
     signed,
     tolerance_text,
 )
@@ -167,6 +169,13 @@ def broad_peak(design: Design) -> bool:
     return r.q_loaded is not None and r.q_loaded < BROAD_PEAK_Q and r.f_low_hz is not None
 
 
+def bench_f0_hz(design: Design) -> float:
+    """The f0 the bench records: the response maximum, or for a broad peak the midpoint of
+    the −3 dB points (BROAD_PEAK_Q)."""
+    r = design.bench.resonance
+    return 0.5 * (r.f_low_hz + r.f_high_hz) if broad_peak(design) else r.f_peak_hz
+
+
 def record_rows(design: Design) -> tuple[RecordRow, ...]:
     """The record's measurements, the values this design expects and the pass windows.
 
@@ -176,17 +185,17 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
     """
     r, c, a = design.bench.resonance, design.circuit, design.assessment
     lim = a.limits
+    step = lim.resolution_hz
+    broad = broad_peak(design)
     expected = {
         "inductance": quantity_text(c.inductance_h, "H"),
         "capacitance": quantity_text(design.capacitor_choice.fixed_f, "F"),
-        "f0": quantity_text(0.5 * (r.f_low_hz + r.f_high_hz) if broad_peak(design)
-                            else r.f_peak_hz, "Hz"),
-        "f_low": quantity_text(r.f_low_hz, "Hz"),
-        "f_high": quantity_text(r.f_high_hz, "Hz"),
-        "bandwidth": quantity_text(r.bandwidth_hz, "Hz"),
+        "f0": resolved_text(bench_f0_hz(design), step, "Hz"),
+        "f_low": resolved_text(r.f_low_hz, step, "Hz"),
+        "f_high": resolved_text(r.f_high_hz, step, "Hz"),
+        "bandwidth": resolved_text(r.bandwidth_hz, step, "Hz"),
         "q_loaded": format_number(r.q_loaded, 4),
     }
-    broad = broad_peak(design)
     windows = {
         "inductance": (printed_part_window(a.inductance_window)
                        if a.inductance_tolerance else None),
@@ -202,11 +211,11 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
     limits = {
         "inductance": _tolerance(windows["inductance"], a.inductance_tolerance, "H"),
         "capacitance": _tolerance(windows["capacitance"], a.capacitor_tolerance, "F"),
-        "f0": range_text(*windows["f0"], 'Hz', 6) + (" (centre of the −3 dB points)"
-                                                      if broad else ""),
-        "f_low": range_text(lim.f_low_min_hz, lim.f_low_max_hz, 'Hz', 6),
-        "f_high": range_text(lim.f_high_min_hz, lim.f_high_max_hz, 'Hz', 6),
-        "bandwidth": range_text(lim.bandwidth_min_hz, lim.bandwidth_max_hz, 'Hz'),
+        "f0": resolved_range_text(*windows["f0"], step, "Hz") + (
+            " (centre of the −3 dB points)" if broad else ""),
+        "f_low": resolved_range_text(*windows["f_low"], step, "Hz"),
+        "f_high": resolved_range_text(*windows["f_high"], step, "Hz"),
+        "bandwidth": resolved_range_text(*windows["bandwidth"], step, "Hz"),
         "q_loaded": f"{format_number(lim.q_loaded_min, 4)} to {format_number(lim.q_loaded_max, 4)}",
     }
     tuned = design.capacitor_choice.trimmer_setting_f is not None
@@ -448,10 +457,24 @@ def _lcr_settings(frequency_hz: float, note: str) -> tuple[tuple[str, str], ...]
             ("Why this setting", note))
 
 
-def _coil_step(design: Design, coil_name: str, wound: str, measure_at: float) -> tuple:
+def _sentence(text: str) -> str:
+    """`text` with its first letter capital, the rest as written (units keep their case)."""
+    return text[:1].upper() + text[1:]
+
+
+def _expected_text(row: RecordRow) -> str:
+    """A step's expected value and pass window, the very figures of the test record."""
+    if row.limits == NO_WINDOW:
+        return f"expected {row.expected}"
+    return f"expected {row.expected}, pass {row.limits}"
+
+
+def _coil_step(design: Design, coil_name: str, wound: str, measure_at: float,
+               expected: str) -> tuple:
     """The coil's measuring step: an LCR meter, or for a coil of too little reactance at
-    the meter's frequencies an analyser near the frequency of use (report/winding.py)."""
-    expected = f"Expected {quantity_text(design.circuit.inductance_h, 'H')}."
+    the meter's frequencies an analyser near the frequency of use (report/winding.py);
+    `expected`: the record's expected value and window."""
+    expected = _sentence(expected) + "."
     check = coil_check(design)
     if check is None or check.method == "lcr":
         return ("coil", "Measure the coil",
@@ -560,19 +583,33 @@ def full_power_steps(design: Design, hazards) -> tuple[TestStep, ...]:
 
 
 def _trim_step(design: Design, repeat_from: int, repeat_to: int) -> tuple[str, str]:
-    """The tuning step's title and text; it sends the technician back to the measuring steps."""
+    """The tuning step's title and text; it sends the technician back to the measuring steps.
+
+    What to tune for is what step `repeat_from` records: the response maximum, or for a
+    broad peak the midpoint of the −3 dB points. Without a trimmer, f0 = 1/(2π√(LC)) scales
+    the whole capacitance across the coil, strays included, by (f measured / f wanted)²;
+    the fixed part is that less the strays."""
     choice = design.capacitor_choice
+    aim = resolved_text(bench_f0_hz(design), design.assessment.limits.resolution_hz, "Hz")
+    target = (f"the midpoint of the −3 dB points at {aim}" if broad_peak(design)
+              else f"the response maximum at {aim}")
     if choice.trimmer_setting_f is not None:
         trimmer = design.job.capacitor.trimmer
-        return "Tune", (f"Adjust the trimmer {design.designators.trimmer} for the response "
-                        f"maximum at {quantity_text(design.bench.resonance.f_peak_hz, 'Hz')} (expected "
-                        f"setting {quantity_text(choice.trimmer_setting_f, 'F')} of its "
-                        f"{range_text(trimmer.minimum, trimmer.maximum, 'F', 3)}), then repeat "
-                        f"steps {repeat_from} and {repeat_to}, recording the values as left "
-                        "in the measured column.")
-    return "Trim if needed", ("If the maximum is off frequency, change the capacitance to C × "
-                              "(f measured / f wanted)² (from f0 = 1/(2π√(LC))) and repeat "
-                              f"from step {repeat_from}.")
+        return "Tune", (f"Adjust the trimmer {design.designators.trimmer} for {target} "
+                        f"(expected setting {quantity_text(choice.trimmer_setting_f, 'F')} of "
+                        f"its {range_text(trimmer.minimum, trimmer.maximum, 'F', 3)}), then "
+                        f"repeat steps {repeat_from} and {repeat_to}, recording the values as "
+                        "left in the measured column.")
+    across = choice.across
+    strays = across.total_f if across is not None and not across.added else 0.0
+    if strays:
+        fixed, stray = (quantity_text(choice.fixed_f, "F"), quantity_text(strays, "F"))
+        change = (f"change the fixed part to ({fixed} + {stray}) × (f measured / f wanted)² "
+                  f"− {stray} (the {stray} of strays across it is part of what scales)")
+    else:
+        change = ("change the fixed part to its value × (f measured / f wanted)²")
+    return "Trim if needed", (f"If {target.split(' at ')[0]} is off frequency, {change} "
+                              f"(from f0 = 1/(2π√(LC))), and repeat from step {repeat_from}.")
 
 
 # Settings rows that say why a setting is so, rather than what to set: the design record
@@ -613,17 +650,20 @@ def procedure(design: Design) -> Procedure:
     fixed = " + ".join(names.fixed_capacitors)
     first_reading = "as_found" if trimmer else "measured"  # trimmed: measured, tuned, measured
     coil_name = names.coil
+    record = record_rows(design)
+    expect = {row.measurement.key: _expected_text(row) for row in record}
     # (key, title, text, settings, records); numbered from this list, so a step that
     # refers to another names it by its key.
     plan: list[tuple[str, str, str, tuple, tuple]] = [
         ("parts", "Check the parts",
          "Check every part against the parts list: value, tolerance, dielectric or "
          "material, and rating where the list gives one.", (), ()),
-        _coil_step(design, coil_name, wound, measure_at),
+        _coil_step(design, coil_name, wound, measure_at, expect["inductance"]),
         ("capacitance", "Measure the capacitance",
-         f"Measure {fixed} together as they will be fitted"
+         (f"Measure {fixed} together as they will be fitted"
+          if len(names.fixed_capacitors) > 1 else f"Measure {fixed} as it will be fitted")
          + (", without the trimmer" if trimmer else "")
-         + f". Expected {quantity_text(choice.fixed_f, 'F')}.",
+         + f". {_sentence(expect['capacitance'])}.",
          _lcr_settings(capacitor_measuring_frequency_hz(choice.fixed_f),
                        "IEC 60384-1's measuring frequency for this value (from memory)"),
          ("measured.capacitance_f",)),
@@ -650,20 +690,19 @@ def procedure(design: Design) -> Procedure:
          ), ()),
         ("maximum", "Find the response maximum",
          "Sweep and find the maximum of the response; record its frequency"
-         + (" in the as-found column" if trimmer else "") + ". Expected "
-         f"{quantity_text(r.f_peak_hz, 'Hz')}; the test record gives the pass window."
+         + (" in the as-found column" if trimmer else "") + f". {_sentence(expect['f0'])}."
          if not broad_peak(design) else
          f"Sweep and find the maximum of the response. This peak is broad (loaded Q "
          f"{format_number(r.q_loaded, 3)}, below {BROAD_PEAK_Q:g}): its top is too flat to read, "
          "so record as f0 the midpoint of the two −3 dB points of the next step, "
-         f"(f low + f high)/2, expected {quantity_text(0.5 * (r.f_low_hz + r.f_high_hz), 'Hz')}"
-         "; the test record gives its window.",
+         f"(f low + f high)/2. {_sentence(expect['f0'])}.",
          (), (f"{first_reading}.f0_hz",)),
         ("half_power", "Find the half-power points",
          f"Find the frequencies either side where the response is {-HALF_POWER_DB:.1f} dB "
          f"below the maximum; record both, their difference (the bandwidth) and f0 divided "
-         f"by the bandwidth (the loaded Q). Expected {quantity_text(r.f_low_hz, 'Hz')} and "
-         f"{quantity_text(r.f_high_hz, 'Hz')}.", (),
+         f"by the bandwidth (the loaded Q). Lower point: {expect['f_low']}; upper point: "
+         f"{expect['f_high']}; bandwidth: {expect['bandwidth']}; loaded Q: "
+         f"{expect['q_loaded']}.", (),
          tuple(f"{first_reading}.{name}" for name in ("f_low_hz", "f_high_hz", "bandwidth_hz",
                                                  "q_loaded"))),
         ("tune", "", "", (), ()),
@@ -683,5 +722,5 @@ def procedure(design: Design) -> Procedure:
                            as_left if key == "tune" else records, key,
                            _bench_and_derivation(settings)[1])
                   for key, title, text, settings, records in plan)
-    return Procedure(sweep, design.bench, steps, record_rows(design),
+    return Procedure(sweep, design.bench, steps, record,
                      full_power_steps(design, hazards), fixture_names(design))

@@ -428,7 +428,7 @@ def record_section(design: Design, kit: Kit) -> SectionContent:
     data.append([para("Overall", kit.cell_bold), para("every value in its window", kit.cell),
                  "", *([""] if tuned else []), "",
                  *[RadioChoice(OVERALL_VERDICT, c, f"overall: {c}") for c in VERDICT_CHOICES]])
-    fractions = ((0.21, 0.12, 0.24, 0.13, 0.13, 0.085, 0.085) if tuned else
+    fractions = ((0.19, 0.11, 0.23, 0.11, 0.19, 0.085, 0.085) if tuned else
                  (0.24, 0.12, 0.26, 0.22, 0.08, 0.08))
     table = Table(data, colWidths=[kit.width * f for f in fractions], repeatRows=1)
     verdict_column = len(heads) - 2
