@@ -34,6 +34,7 @@ from sheetgen.quantities import (
     parse_quantity,
     shortened,
 )
+from sheetgen.report.formatting import resolved_range_text
 from sheetgen.report.procedure import OVERALL_VERDICT, RECORD_TEXT_FIELDS
 
 from .sheet_file import SheetFile
@@ -131,6 +132,7 @@ class Grading:
     consistency: tuple[Inconsistency, ...] = ()
     resolution_hz: float | None = None  # a frequency reading's resolution used for them
     ticked_overall: str = ""  # the technician's overall tick: "pass", "fail" or ""
+    window_resolution_hz: float | None = None  # the resolution the sheet prints windows to
 
     @property
     def disagreements(self) -> tuple[str, ...]:
@@ -265,7 +267,8 @@ def grade_sheet(sheet: SheetFile, features: SweepFeatures | None = None,
                    verdict=verdict, source=sweep_path or "form", problems=tuple(problems),
                    signature=sheet.signature, consistency=tuple(findings),
                    resolution_hz=resolution,
-                   ticked_overall=_tick(sheet.fields.get(OVERALL_VERDICT, "")))
+                   ticked_overall=_tick(sheet.fields.get(OVERALL_VERDICT, "")),
+                   window_resolution_hz=_limit(sheet.results, "resolution_hz"))
 
 
 def _tick(state: str) -> str:
@@ -274,15 +277,20 @@ def _tick(state: str) -> str:
     return state if state in (PASS, FAIL) else ""
 
 
+def _limit(results: dict, key: str) -> float | None:
+    """A positive number from the sheet's limits, or None."""
+    limits = results.get("limits") if isinstance(results, dict) else None
+    value = limits.get(key) if isinstance(limits, dict) else None
+    if isinstance(value, (int, float)) and not isinstance(value, bool) and value > 0:
+        return float(value)
+    return None
+
+
 def reading_resolution_hz(results: dict) -> float | None:
     """How finely the bench reads a frequency: the sheet's sweep step (limits.sweep_step_hz),
     else the windows' resolution (limits.resolution_hz); None when the sheet states neither."""
-    limits = results.get("limits") if isinstance(results, dict) else None
-    for key in ("sweep_step_hz", "resolution_hz"):
-        value = (limits or {}).get(key) if isinstance(limits, dict) else None
-        if isinstance(value, (int, float)) and not isinstance(value, bool) and value > 0:
-            return float(value)
-    return None
+    step = _limit(results, "sweep_step_hz")
+    return step if step is not None else _limit(results, "resolution_hz")
 
 
 def consistency(values: list[GradedValue], step_hz: float | None,
@@ -373,10 +381,13 @@ def _grade_one(sheet: SheetFile, row: dict, field: str, as_found: bool,
                        form_verdict=form_verdict), problem
 
 
-def window_text(value: GradedValue) -> str:
-    """The window as the sheet prints it (6 figures for frequencies, 4 otherwise)."""
+def window_text(value: GradedValue, resolution_hz: float | None = None) -> str:
+    """The window as the sheet prints it: frequencies to the windows' resolution (a sheet
+    that does not state it: 6 figures), other values to 4 figures."""
     if value.minimum is None and value.maximum is None:
         return "—"
+    if value.unit == "Hz" and resolution_hz and None not in (value.minimum, value.maximum):
+        return resolved_range_text(value.minimum, value.maximum, resolution_hz, "Hz")
     digits = 6 if value.unit == "Hz" and value.quantity != "bandwidth_hz" else 4
     if value.unit:
         return (f"{format_quantity(value.minimum, value.unit, digits)} to "
@@ -426,7 +437,8 @@ def grading_table(grading: Grading) -> str:
     rows = [("Quantity", "Window", "Measured", "Verdict", "Ticked")]
     for v in grading.values:
         ticked = v.ticked + (" (differs)" if v.tick_disagrees else "") if v.ticked else ""
-        rows.append((value_name(v), "—" if v.as_found else window_text(v),
+        rows.append((value_name(v), "—" if v.as_found
+                     else window_text(v, grading.window_resolution_hz),
                      shortened(v.typed) or "—", verdict_text(v), ticked))
     widths = [max(len(r[k]) for r in rows) for k in range(5)]
     lines = [f"{grading.sheet_id} rev {grading.revision}  {grading.title}".rstrip(),

@@ -109,10 +109,12 @@ def sweep_report(grading: Grading, sweep: MeasuredSweep, features: SweepFeatures
     rows = [[p("Quantity"), p("Window"), p("Measured"), p("Verdict")]]
     for v in grading.values:
         rows.append([p(verdict_row_name(v)),
-                     p("—" if v.as_found else window_text(v)), p(v.typed or "—"),
+                     p("—" if v.as_found else window_text(v, grading.window_resolution_hz)),
+                     p(v.typed or "—"),
                      p(verdict_text(v))])
         if v.form_typed:
-            rows.append([p(f"{v.label}, typed in the form"), p(window_text(v)),
+            rows.append([p(f"{v.label}, typed in the form"),
+                         p(window_text(v, grading.window_resolution_hz)),
                          p(v.form_typed), p(f"{v.form_verdict} (not used: the sweep's is)")])
     rows.append([p("Overall"), p("every value in its window"), p(""),
                  p(grading.verdict)])

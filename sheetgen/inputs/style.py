@@ -26,9 +26,12 @@ from sheetgen.inputs.reader import compose_located, field_position, read_yaml_te
 PAGE_SIZES = ("A4", "Letter")
 # Every section the sheet can draw, in the default order. The identity (title block on
 # every page) is not a section: it is always there.
-SectionName = Literal["checks", "cautions", "notes", "schematic", "parts", "values", "coil",
-                      "performance", "limits", "stress", "ratings", "response", "procedure",
-                      "record", "rework", "history"]
+# `design_record` is not a section but where part two, the design record, starts: on a new
+# page, with its own running header (the sections before it are part one, for the bench).
+SectionName = Literal["checks", "cautions", "notes", "schematic", "parts", "winding",
+                      "procedure", "record", "rework", "design_record", "history", "values",
+                      "coil", "performance", "limits", "setup", "stress", "ratings",
+                      "response"]
 SECTION_NAMES: tuple[str, ...] = typing.get_args(SectionName)
 DEFAULT_STYLE_NAME = "style-default"
 MAX_STYLE_BYTES = 100_000

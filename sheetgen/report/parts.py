@@ -158,7 +158,7 @@ def _coil_row(design: Design) -> PartRow:
                    notes=f"{plural(built.turns, 'turn')}{where}; coil Q "
                          f"{format_number(coil.q_used, 4)} at f0 "
                          f"({'estimated' if coil.q_source == 'estimate' else 'from the job'}); "
-                         "wind it as the coil section shows")
+                         "wind it as the winding section shows")
 
 
 def _fixed_capacitor_rating(design: Design) -> str:

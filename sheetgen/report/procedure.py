@@ -34,8 +34,11 @@ from sheetgen.report.cautions import design_cautions, kilovolt_distances, names_
 from sheetgen.report.formatting import (
     percent,
     percent_change,
+    printed_part_window,
     quantity_text,
     range_text,
+    resolved_range_text,
+    resolved_text,
     signed,
     tolerance_text,
 )
@@ -93,6 +96,12 @@ class TestStep:
     settings: tuple[tuple[str, str], ...] = ()
     records: tuple[str, ...] = ()
     key: str = ""  # which step of the plan it is (e.g. "connect"), for the sheet's layout
+    derivation: tuple[tuple[str, str], ...] = ()  # why the settings are so (design record)
+
+    @property
+    def all_settings(self) -> tuple[tuple[str, str], ...]:
+        """What the bench sets, then why (the design record's rows)."""
+        return self.settings + self.derivation
 
 
 @dataclass(frozen=True)
@@ -160,6 +169,13 @@ def broad_peak(design: Design) -> bool:
     return r.q_loaded is not None and r.q_loaded < BROAD_PEAK_Q and r.f_low_hz is not None
 
 
+def bench_f0_hz(design: Design) -> float:
+    """The f0 the bench records: the response maximum, or for a broad peak the midpoint of
+    the −3 dB points (BROAD_PEAK_Q)."""
+    r = design.bench.resonance
+    return 0.5 * (r.f_low_hz + r.f_high_hz) if broad_peak(design) else r.f_peak_hz
+
+
 def record_rows(design: Design) -> tuple[RecordRow, ...]:
     """The record's measurements, the values this design expects and the pass windows.
 
@@ -169,20 +185,22 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
     """
     r, c, a = design.bench.resonance, design.circuit, design.assessment
     lim = a.limits
+    step = lim.resolution_hz
+    broad = broad_peak(design)
     expected = {
         "inductance": quantity_text(c.inductance_h, "H"),
         "capacitance": quantity_text(design.capacitor_choice.fixed_f, "F"),
-        "f0": quantity_text(0.5 * (r.f_low_hz + r.f_high_hz) if broad_peak(design)
-                            else r.f_peak_hz, "Hz"),
-        "f_low": quantity_text(r.f_low_hz, "Hz"),
-        "f_high": quantity_text(r.f_high_hz, "Hz"),
-        "bandwidth": quantity_text(r.bandwidth_hz, "Hz"),
+        "f0": resolved_text(bench_f0_hz(design), step, "Hz"),
+        "f_low": resolved_text(r.f_low_hz, step, "Hz"),
+        "f_high": resolved_text(r.f_high_hz, step, "Hz"),
+        "bandwidth": resolved_text(r.bandwidth_hz, step, "Hz"),
         "q_loaded": format_number(r.q_loaded, 4),
     }
-    broad = broad_peak(design)
     windows = {
-        "inductance": _printed_window(a.inductance_window, a.inductance_tolerance),
-        "capacitance": _printed_window(a.capacitance_window, a.capacitor_tolerance),
+        "inductance": (printed_part_window(a.inductance_window)
+                       if a.inductance_tolerance else None),
+        "capacitance": (printed_part_window(a.capacitance_window)
+                        if a.capacitor_tolerance else None),
         "f0": ((lim.f_centre_min_hz, lim.f_centre_max_hz) if broad
                else (lim.f_peak_min_hz, lim.f_peak_max_hz)),
         "f_low": (lim.f_low_min_hz, lim.f_low_max_hz),
@@ -193,11 +211,11 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
     limits = {
         "inductance": _tolerance(windows["inductance"], a.inductance_tolerance, "H"),
         "capacitance": _tolerance(windows["capacitance"], a.capacitor_tolerance, "F"),
-        "f0": range_text(*windows["f0"], 'Hz', 6) + (" (centre of the −3 dB points)"
-                                                      if broad else ""),
-        "f_low": range_text(lim.f_low_min_hz, lim.f_low_max_hz, 'Hz', 6),
-        "f_high": range_text(lim.f_high_min_hz, lim.f_high_max_hz, 'Hz', 6),
-        "bandwidth": range_text(lim.bandwidth_min_hz, lim.bandwidth_max_hz, 'Hz'),
+        "f0": resolved_range_text(*windows["f0"], step, "Hz") + (
+            " (centre of the −3 dB points)" if broad else ""),
+        "f_low": resolved_range_text(*windows["f_low"], step, "Hz"),
+        "f_high": resolved_range_text(*windows["f_high"], step, "Hz"),
+        "bandwidth": resolved_range_text(*windows["bandwidth"], step, "Hz"),
         "q_loaded": f"{format_number(lim.q_loaded_min, 4)} to {format_number(lim.q_loaded_max, 4)}",
     }
     tuned = design.capacitor_choice.trimmer_setting_f is not None
@@ -209,29 +227,6 @@ def record_rows(design: Design) -> tuple[RecordRow, ...]:
                               m.field.replace("measured.", "as_found.")
                               if tuned and m.key in TUNED_KEYS else None, low, high))
     return tuple(rows)
-
-
-PART_WINDOW_DIGITS = 4  # significant figures of a part's window as printed
-
-
-def _printed_window(window: tuple[float, float] | None,
-                    fraction: float | None) -> tuple[float, float] | None:
-    """A part's window (its tolerance and the meter's accuracy, from the assessment), each
-    edge rounded inward to the printed figures, so the window printed and the window
-    graded are the same numbers."""
-    if not fraction or window is None:
-        return None
-    low, high = window
-    return _round_to_figures(low, PART_WINDOW_DIGITS, up=True), \
-        _round_to_figures(high, PART_WINDOW_DIGITS, up=False)
-
-
-def _round_to_figures(value: float, digits: int, up: bool) -> float:
-    """`value` rounded up (or down) to `digits` significant figures."""
-    import math
-    step = 10.0 ** (math.floor(math.log10(abs(value))) - digits + 1)
-    units = value / step
-    return float(f"{(math.ceil(units - 1e-9) if up else math.floor(units + 1e-9)) * step:.{digits}g}")
 
 
 def _tolerance(window: tuple[float, float] | None, fraction: float | None, unit: str) -> str:
@@ -455,17 +450,31 @@ def _lcr_settings(frequency_hz: float, note: str) -> tuple[tuple[str, str], ...]
     """An LCR meter's settings: frequency, test level and what that level puts on the part."""
     return (("LCR meter frequency", quantity_text(frequency_hz, "Hz", 3)),
             ("LCR meter test level", f"{quantity_text(LCR_TEST_LEVEL_RMS_V, 'V', 2)} rms "
-             "(the meter's usual level; any lower level will do)"),
+             "or lower"),
             ("Highest voltage at this level",
              f"{quantity_text(LCR_TEST_LEVEL_RMS_V * math.sqrt(2.0), 'V', 2)} peak: "
              "no caution applies"),
             ("Why this setting", note))
 
 
-def _coil_step(design: Design, coil_name: str, wound: str, measure_at: float) -> tuple:
+def _sentence(text: str) -> str:
+    """`text` with its first letter capital, the rest as written (units keep their case)."""
+    return text[:1].upper() + text[1:]
+
+
+def _expected_text(row: RecordRow) -> str:
+    """A step's expected value and pass window, the very figures of the test record."""
+    if row.limits == NO_WINDOW:
+        return f"expected {row.expected}"
+    return f"expected {row.expected}, pass {row.limits}"
+
+
+def _coil_step(design: Design, coil_name: str, wound: str, measure_at: float,
+               expected: str) -> tuple:
     """The coil's measuring step: an LCR meter, or for a coil of too little reactance at
-    the meter's frequencies an analyser near the frequency of use (report/winding.py)."""
-    expected = f"Expected {quantity_text(design.circuit.inductance_h, 'H')}."
+    the meter's frequencies an analyser near the frequency of use (report/winding.py);
+    `expected`: the record's expected value and window."""
+    expected = _sentence(expected) + "."
     check = coil_check(design)
     if check is None or check.method == "lcr":
         return ("coil", "Measure the coil",
@@ -489,7 +498,9 @@ def _coil_level_note(design: Design, frequency_hz: float) -> str:
     """Why the coil is measured where it is, and, on a ring core, the flux the meter's level
     drives (Faraday: B̂ = √2·V/(ωNAe)), far inside the material's limit."""
     coil = design.coil
-    why = "below f0 and well below the coil's self-resonance (the coil section's rule)"
+    why = ("the meter's highest test frequency at or below f0"
+           + (" and a tenth of the coil's self-resonance"
+              if coil is not None and coil.result.srf_hz else ""))
     if coil is None or coil.form != "toroid":
         return why
     from sheetgen.engine.magnetics import peak_flux_density_t
@@ -572,19 +583,51 @@ def full_power_steps(design: Design, hazards) -> tuple[TestStep, ...]:
 
 
 def _trim_step(design: Design, repeat_from: int, repeat_to: int) -> tuple[str, str]:
-    """The tuning step's title and text; it sends the technician back to the measuring steps."""
+    """The tuning step's title and text; it sends the technician back to the measuring steps.
+
+    What to tune for is what step `repeat_from` records: the response maximum, or for a
+    broad peak the midpoint of the −3 dB points. Without a trimmer, f0 = 1/(2π√(LC)) scales
+    the whole capacitance across the coil, strays included, by (f measured / f wanted)²;
+    the fixed part is that less the strays."""
     choice = design.capacitor_choice
+    aim = resolved_text(bench_f0_hz(design), design.assessment.limits.resolution_hz, "Hz")
+    target = (f"the midpoint of the −3 dB points at {aim}" if broad_peak(design)
+              else f"the response maximum at {aim}")
     if choice.trimmer_setting_f is not None:
         trimmer = design.job.capacitor.trimmer
-        return "Tune", (f"Adjust the trimmer {design.designators.trimmer} for the response "
-                        f"maximum at {quantity_text(design.bench.resonance.f_peak_hz, 'Hz')} (expected "
-                        f"setting {quantity_text(choice.trimmer_setting_f, 'F')} of its "
-                        f"{range_text(trimmer.minimum, trimmer.maximum, 'F', 3)}), then repeat "
-                        f"steps {repeat_from} and {repeat_to}, recording the values as left "
-                        "in the measured column.")
-    return "Trim if needed", ("If the maximum is off frequency, change the capacitance to C × "
-                              "(f measured / f wanted)² (from f0 = 1/(2π√(LC))) and repeat "
-                              f"from step {repeat_from}.")
+        return "Tune", (f"Adjust the trimmer {design.designators.trimmer} for {target} "
+                        f"(expected setting {quantity_text(choice.trimmer_setting_f, 'F')} of "
+                        f"its {range_text(trimmer.minimum, trimmer.maximum, 'F', 3)}), then "
+                        f"repeat steps {repeat_from} and {repeat_to}, recording the values as "
+                        "left in the measured column.")
+    across = choice.across
+    strays = across.total_f if across is not None and not across.added else 0.0
+    if strays:
+        fixed, stray = (quantity_text(choice.fixed_f, "F"), quantity_text(strays, "F"))
+        change = (f"change the fixed part to ({fixed} + {stray}) × (f measured / f wanted)² "
+                  f"− {stray} (the {stray} of strays across it is part of what scales)")
+    else:
+        change = ("change the fixed part to its value × (f measured / f wanted)²")
+    return "Trim if needed", (f"If {target.split(' at ')[0]} is off frequency, {change} "
+                              f"(from f0 = 1/(2π√(LC))), and repeat from step {repeat_from}.")
+
+
+# Settings rows that say why a setting is so, rather than what to set: the design record
+# prints them, the bench's steps leave them out.
+DERIVATION_LABELS = frozenset({"Why this setting", "Highest voltage at this level",
+                               "Generator stands for", "Receiver stands for",
+                               "The circuit sees", "Fixture resistors",
+                               "Effect on the windows", "Highest part voltage at this level"})
+
+
+def _bench_and_derivation(settings: tuple) -> tuple[tuple, tuple]:
+    """A step's settings split into what the bench sets and why (see DERIVATION_LABELS);
+    "Cautions for this test" goes to the bench only when a caution applies."""
+    def why(label: str, value: str) -> bool:
+        return label in DERIVATION_LABELS or (label == "Cautions for this test"
+                                              and value.startswith("none apply"))
+    return (tuple(row for row in settings if not why(*row)),
+            tuple(row for row in settings if why(*row)))
 
 
 def procedure(design: Design) -> Procedure:
@@ -601,23 +644,26 @@ def procedure(design: Design) -> Procedure:
                       "the frequencies and the bandwidth do not depend on the level.")
     coil = design.coil
     measure_at = measuring_frequency_hz(r.f0_hz, coil.result.srf_hz if coil else None)
-    wound = " (after winding it as the coil section says)" if coil is not None else ""
+    wound = " (after winding it as the winding section says)" if coil is not None else ""
     trimmer = choice.trimmer_setting_f is not None
     names = design.designators
     fixed = " + ".join(names.fixed_capacitors)
     first_reading = "as_found" if trimmer else "measured"  # trimmed: measured, tuned, measured
     coil_name = names.coil
+    record = record_rows(design)
+    expect = {row.measurement.key: _expected_text(row) for row in record}
     # (key, title, text, settings, records); numbered from this list, so a step that
     # refers to another names it by its key.
     plan: list[tuple[str, str, str, tuple, tuple]] = [
         ("parts", "Check the parts",
          "Check every part against the parts list: value, tolerance, dielectric or "
          "material, and rating where the list gives one.", (), ()),
-        _coil_step(design, coil_name, wound, measure_at),
+        _coil_step(design, coil_name, wound, measure_at, expect["inductance"]),
         ("capacitance", "Measure the capacitance",
-         f"Measure {fixed} together as they will be fitted"
+         (f"Measure {fixed} together as they will be fitted"
+          if len(names.fixed_capacitors) > 1 else f"Measure {fixed} as it will be fitted")
          + (", without the trimmer" if trimmer else "")
-         + f". Expected {quantity_text(choice.fixed_f, 'F')}.",
+         + f". {_sentence(expect['capacitance'])}.",
          _lcr_settings(capacitor_measuring_frequency_hz(choice.fixed_f),
                        "IEC 60384-1's measuring frequency for this value (from memory)"),
          ("measured.capacitance_f",)),
@@ -644,20 +690,19 @@ def procedure(design: Design) -> Procedure:
          ), ()),
         ("maximum", "Find the response maximum",
          "Sweep and find the maximum of the response; record its frequency"
-         + (" in the as-found column" if trimmer else "") + ". Expected "
-         f"{quantity_text(r.f_peak_hz, 'Hz')}; the test record gives the pass window."
+         + (" in the as-found column" if trimmer else "") + f". {_sentence(expect['f0'])}."
          if not broad_peak(design) else
          f"Sweep and find the maximum of the response. This peak is broad (loaded Q "
          f"{format_number(r.q_loaded, 3)}, below {BROAD_PEAK_Q:g}): its top is too flat to read, "
          "so record as f0 the midpoint of the two −3 dB points of the next step, "
-         f"(f low + f high)/2, expected {quantity_text(0.5 * (r.f_low_hz + r.f_high_hz), 'Hz')}"
-         "; the test record gives its window.",
+         f"(f low + f high)/2. {_sentence(expect['f0'])}.",
          (), (f"{first_reading}.f0_hz",)),
         ("half_power", "Find the half-power points",
          f"Find the frequencies either side where the response is {-HALF_POWER_DB:.1f} dB "
          f"below the maximum; record both, their difference (the bandwidth) and f0 divided "
-         f"by the bandwidth (the loaded Q). Expected {quantity_text(r.f_low_hz, 'Hz')} and "
-         f"{quantity_text(r.f_high_hz, 'Hz')}.", (),
+         f"by the bandwidth (the loaded Q). Lower point: {expect['f_low']}; upper point: "
+         f"{expect['f_high']}; bandwidth: {expect['bandwidth']}; loaded Q: "
+         f"{expect['q_loaded']}.", (),
          tuple(f"{first_reading}.{name}" for name in ("f_low_hz", "f_high_hz", "bandwidth_hz",
                                                  "q_loaded"))),
         ("tune", "", "", (), ()),
@@ -672,8 +717,10 @@ def procedure(design: Design) -> Procedure:
     as_left = (("measured.f0_hz", "measured.f_low_hz", "measured.f_high_hz",
                 "measured.bandwidth_hz", "measured.q_loaded") if trimmer else ())
     steps = tuple(TestStep(number[key], tune_title if key == "tune" else title,
-                           tune_text if key == "tune" else text, settings,
-                           as_left if key == "tune" else records, key)
+                           tune_text if key == "tune" else text,
+                           _bench_and_derivation(settings)[0],
+                           as_left if key == "tune" else records, key,
+                           _bench_and_derivation(settings)[1])
                   for key, title, text, settings, records in plan)
-    return Procedure(sweep, design.bench, steps, record_rows(design),
+    return Procedure(sweep, design.bench, steps, record,
                      full_power_steps(design, hazards), fixture_names(design))

@@ -84,9 +84,11 @@ def rework_rows(design: Design) -> tuple[Rework, ...]:
     rows = [
         Rework("inductance", f"Inductance of {names.coil}",
                f"{wound}a wrong core or wire, or the meter's test leads included",
-               "recount the turns (each pass through the centre is one); check the core's "
-               "or former's dimensions against the parts list; measure again with the meter's "
-               "leads nulled." if coil is not None else
+               ("recount the turns (each pass through the centre is one); check the core's "
+                "dimensions against the parts list" if coil.form == "toroid" else
+                "recount the turns (each full turn round the former is one); check the "
+                "winding length and the former's diameter against the winding section")
+               + "; measure again with the meter's leads nulled." if coil is not None else
                "measure again with the meter's leads nulled; replace a coil outside its "
                "tolerance."),
         Rework("capacitance", "Capacitance of the fixed part(s)",

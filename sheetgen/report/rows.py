@@ -15,8 +15,11 @@ from sheetgen.report.formatting import (
     condition_text,
     percent,
     plural,
+    printed_part_window,
     quantity_text,
     range_text,
+    resolved_range_text,
+    resolved_text,
     signed,
     stress_text,
     tolerance_text,
@@ -384,27 +387,33 @@ def duty_rows(design: Design) -> list[Row]:
     return rows
 
 
+def _inward(window: tuple[float, float], unit: str) -> str:
+    """How a part's printed window comes from the computed one (the test record's too)."""
+    return (f"computed {range_text(*window, unit)}, each edge rounded inward to the "
+            "figures printed")
+
+
 def limits_rows(design: Design) -> list[Row]:
     """The test windows, each beside its nominal value, and how they were set."""
     a = design.assessment
     lim, r = a.limits, design.resonance
     rows = [Row("Units tested", "trimmed to the f0 target at 25 °C")] if a.tuned else []
+    b, step = design.bench.resonance, lim.resolution_hz  # the windows are the bench's
+
+    def window(low: float, high: float, nominal: float) -> tuple[str, str]:
+        return (resolved_range_text(low, high, step, "Hz"),
+                f"nominal {resolved_text(nominal, step, 'Hz')}")
     rows += [
-        Row("f0 window", range_text(lim.f0_min_hz, lim.f0_max_hz, 'Hz', 6),
-            f"nominal {quantity_text(r.f0_hz, 'Hz', 6)}"),
-        Row("Peak frequency window",
-            range_text(lim.f_peak_min_hz, lim.f_peak_max_hz, 'Hz', 6),
-            f"nominal {quantity_text(r.f_peak_hz, 'Hz', 6)}"),
-        Row("Bandwidth window", f"{quantity_text(lim.bandwidth_min_hz, 'Hz')} to "
-            f"{quantity_text(lim.bandwidth_max_hz, 'Hz')}", f"nominal {quantity_text(r.bandwidth_hz, 'Hz')}"),
+        Row("f0 window", *window(lim.f0_min_hz, lim.f0_max_hz, b.f0_hz)),
+        Row("Peak frequency window", *window(lim.f_peak_min_hz, lim.f_peak_max_hz, b.f_peak_hz)),
+        Row("Bandwidth window", *window(lim.bandwidth_min_hz, lim.bandwidth_max_hz,
+                                        b.bandwidth_hz)),
         Row("Loaded Q window", f"{format_number(lim.q_loaded_min, 4)} to "
-            f"{format_number(lim.q_loaded_max, 4)}", f"nominal {format_number(r.q_loaded, 4)}"),
-        Row("Lower half-power point window",
-            range_text(lim.f_low_min_hz, lim.f_low_max_hz, 'Hz', 6),
-            f"nominal {quantity_text(r.f_low_hz, 'Hz', 6)}"),
-        Row("Upper half-power point window",
-            range_text(lim.f_high_min_hz, lim.f_high_max_hz, 'Hz', 6),
-            f"nominal {quantity_text(r.f_high_hz, 'Hz', 6)}"),
+            f"{format_number(lim.q_loaded_max, 4)}", f"nominal {format_number(b.q_loaded, 4)}"),
+        Row("Lower half-power point window", *window(lim.f_low_min_hz, lim.f_low_max_hz,
+                                                     b.f_low_hz)),
+        Row("Upper half-power point window", *window(lim.f_high_min_hz, lim.f_high_max_hz,
+                                                     b.f_high_hz)),
         Row("Unloaded Q window", f"{format_number(lim.q_unloaded_min, 4)} to "
             f"{format_number(lim.q_unloaded_max, 4)}",
             f"nominal {format_number(r.q_unloaded, 4)}; X0/(rL + rC)"),
@@ -510,6 +519,7 @@ def _bench_rows(design: Design) -> list[Row]:
     whether the unit must be trimmed, and the figures over the operating range."""
     a = design.assessment
     lim = a.limits
+    b, step = design.bench.resonance, lim.resolution_hz
     rows = []
     if lim.allowance is not None:
         al = lim.allowance
@@ -530,17 +540,24 @@ def _bench_rows(design: Design) -> list[Row]:
                         "resistors (± 1 %) and 50 Ω ports (test.port_tolerance); procedure "
                         "step 5"))
     rows.append(Row("Centre frequency window",
-                    range_text(lim.f_centre_min_hz, lim.f_centre_max_hz, "Hz", 6),
-                    "midpoint of the −3 dB points; for broad peaks"))
+                    resolved_range_text(lim.f_centre_min_hz, lim.f_centre_max_hz, step, "Hz"),
+                    "midpoint of the −3 dB points"
+                    + (f", nominal {resolved_text(0.5 * (b.f_low_hz + b.f_high_hz), step, 'Hz')}"
+                       if None not in (b.f_low_hz, b.f_high_hz) else "")
+                    + "; for broad peaks"))
     if a.inductance_window is not None:
         check = coil_check(design)
         meter = ("the analyser" if check is not None and check.method == "analyser"
                  else "the LCR meter")
-        rows.append(Row("Inductance window", range_text(*a.inductance_window, "H"),
-                        f"as {meter} reads {design.designators.coil}"))
+        rows.append(Row("Inductance window",
+                        range_text(*printed_part_window(a.inductance_window), "H"),
+                        f"as {meter} reads {design.designators.coil}; "
+                        + _inward(a.inductance_window, "H")))
     if a.capacitance_window is not None:
-        rows.append(Row("Capacitance window", range_text(*a.capacitance_window, "F"),
-                        "as the LCR meter reads the fixed part(s)"))
+        rows.append(Row("Capacitance window",
+                        range_text(*printed_part_window(a.capacitance_window), "F"),
+                        "as the LCR meter reads the fixed part(s); "
+                        + _inward(a.capacitance_window, "F")))
     if a.untrimmed_f0_min_hz is not None:
         state = ("TRIMMING REQUIRED: wider than the bandwidth" if a.must_trim
                  else "within the bandwidth")

@@ -205,10 +205,12 @@ def coil_finish_text(design: Design) -> str:
     case = ("" if design.worst is None or design.worst.condition == "as driven"
             else f" {condition_text(design.worst.condition)}")
     if (hottest_c is not None and hottest_c > WAX_MAX_SURFACE_C) or power_w > WAX_MAX_POWER_W:
-        heat = (f"up to {format_quantity(hottest_c, '°C', 3)} at its surface{case}"
+        heat = (f"up to {format_quantity(hottest_c, '°C', 3)} at its surface{case} (a "
+                f"{format_quantity(design.job.variation.temperature.maximum, '°C', 3)} ambient "
+                f"and {format_quantity(rise, 'K', 2)} of its own heat)"
                 if hottest_c is not None else
                 f"{format_quantity(power_w, 'W', 3)} of heat{case or ' at the design drive'}")
-        return (f"{design.designators.coil} makes {heat}: do not use wax. Secure the turns "
+        return (f"{design.designators.coil} reaches {heat}: do not use wax. Secure the turns "
                 "with a low-loss RF varnish rated for at least that temperature (or with "
                 "PTFE cord ties and no coating), and let it cure before measuring.")
     return ("Secure the turns with a low-loss RF coil varnish or wax (not a general-purpose "

@@ -26,7 +26,15 @@ from reportlab.lib.pagesizes import A4, letter
 from reportlab.lib.units import mm
 from reportlab.lib.utils import simpleSplit
 from reportlab.pdfgen.canvas import Canvas
-from reportlab.platypus import BaseDocTemplate, Frame, PageTemplate, Spacer
+from reportlab.platypus import (
+    BaseDocTemplate,
+    Flowable,
+    Frame,
+    NextPageTemplate,
+    PageBreak,
+    PageTemplate,
+    Spacer,
+)
 
 from sheetgen import __version__
 from sheetgen.design.records import Design
@@ -56,6 +64,10 @@ LEGIBLE_FLOOR = 5.5  # pt: the smallest text the page frame prints
 LEADING = 1.18  # line pitch of the page frame's text, in font sizes
 TOO_LONG = f"is too long to print whole in its cell of the title block, even at {LEGIBLE_FLOOR} pt"
 PAGE_TOTAL_FORM = "sheetgenPageTotal"
+PART_PAGES_FORM = "sheetgenPartPages"  # the cover's page ranges of the two parts
+# The running header of each part (the style's `design_record` entry starts part two).
+BUILD_PART, RECORD_PART = "Build and test", "Design record"
+RECORD_MARKER = "design_record"
 ATTACHMENTS = (("job.yaml", "application/x-yaml", "the job file this sheet was made from"),
                ("results.json", "application/json", "the computed results (sheetgen.results/1)"),
                ("library.yaml", "application/x-yaml", "the parts-library entries the design "
@@ -261,8 +273,9 @@ def _draw_box(canvas: Canvas, box: TextBox, text: str) -> None:
 
 
 def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size,
-                     attached: str = "job.yaml, results.json") -> None:
-    """Header (organisation, logo) and the title block with signature lines."""
+                     attached: str = "job.yaml, results.json", part: str = "") -> None:
+    """Header (organisation, logo, the part the page belongs to) and the title block with
+    signature lines."""
     page_w, page_h = page_size
     left, width = MARGIN, page_w - 2 * MARGIN
     canvas.saveState()
@@ -275,8 +288,9 @@ def _draw_page_frame(canvas: Canvas, identity: _Identity, page_size,
     for key, text in _frame_texts(identity).items():
         if text:
             _draw_box(canvas, boxes[key], text)
-    canvas.setFont(fonts.REGULAR, 7)
-    canvas.drawRightString(left + width, top - 19.5, "build-and-test sheet")
+    canvas.setFont(fonts.BOLD if part == RECORD_PART else fonts.REGULAR, 7)
+    canvas.drawRightString(left + width, top - 19.5, "build-and-test sheet"
+                           + (f" \u00b7 {part}" if part else ""))
     canvas.setStrokeColor(colors.black)
     canvas.setLineWidth(0.8)
     canvas.line(left, top - HEADER_HEIGHT + 2, left + width, top - HEADER_HEIGHT + 2)
@@ -344,6 +358,12 @@ def _canvas_class(attachments: list[tuple[str, bytes, str, str]], document_id: b
             self.setFont(fonts.BOLD, 9)
             self.drawString(0, 0, str(total))
             self.endForm()
+            record_page = getattr(self, "design_record_page", None)
+            if record_page is not None:
+                self.beginForm(PART_PAGES_FORM)
+                self.setFont(fonts.BOLD, 8.5)
+                self.drawString(0, 0, part_pages_text(record_page, total))
+                self.endForm()
             specs = _embed_files(self._doc, attachments, pdf_date)
             info = self._doc.info
             own = {INFO_SHEET_ID: archive.sheet_id, INFO_REVISION: archive.revision,
@@ -416,6 +436,35 @@ def _sheet_moment(text: str) -> _dt.datetime:
     return _dt.datetime(day.year, day.month, day.day)
 
 
+def part_pages_text(record_page: int, total: int) -> str:
+    """The cover's line saying which pages each part takes (part one prints alone)."""
+    build = "page 1" if record_page == 2 else f"pages 1\u2013{record_page - 1}"
+    record = (f"page {record_page}" if record_page == total
+              else f"pages {record_page}\u2013{total}")
+    return (f"{BUILD_PART}: {build} (print these for the bench); "
+            f"{RECORD_PART.lower()}: {record}")
+
+
+class _PartPages(Flowable):
+    """The cover's line of page ranges (a form filled in when the document closes)."""
+
+    def wrap(self, available_width, available_height):
+        return available_width, 12.0
+
+    def draw(self):
+        self.canv.doForm(PART_PAGES_FORM)
+
+
+class _RecordStarts(Flowable):
+    """Notes on the canvas the page on which the design record starts; draws nothing."""
+
+    def wrap(self, available_width, available_height):
+        return 0.0, 0.0
+
+    def draw(self):
+        self.canv.design_record_page = self.canv.getPageNumber()
+
+
 @contextmanager
 def reportlab_defaults_in_dejavu():
     """reportlab's table cells and drawings select its default font (Helvetica, never
@@ -457,12 +506,25 @@ def _render(design: Design, job_text: str, results_text: str, job_dir: Path | No
     page_w, page_h = page_size
     frame_bottom = MARGIN + BLOCK_HEIGHT + GAP
     frame_top = page_h - MARGIN - HEADER_HEIGHT - 2
-    frame = Frame(MARGIN, frame_bottom, page_w - 2 * MARGIN, frame_top - frame_bottom,
-                  leftPadding=0, rightPadding=0, topPadding=0, bottomPadding=0, id="body")
+    def body_frame() -> Frame:
+        return Frame(MARGIN, frame_bottom, page_w - 2 * MARGIN, frame_top - frame_bottom,
+                     leftPadding=0, rightPadding=0, topPadding=0, bottomPadding=0, id="body")
+    frame = body_frame()
     kit = make_kit(frame.width, procedure(design))
-    story: list = [para(sheet.title, kit.title), para(headline(design), kit.small), Spacer(1, 4)]
+    two_parts = RECORD_MARKER in style.sections
+    story: list = [para(sheet.title, kit.title), para(headline(design), kit.small)]
+    story += [Spacer(1, 2), _PartPages()] if two_parts else []
+    story.append(Spacer(1, 4))
     number = 0
     for name in style.sections:
+        if name == RECORD_MARKER:
+            story += [NextPageTemplate("record"), PageBreak(), _RecordStarts(),
+                      para(RECORD_PART, kit.title),
+                      para("For the engineer who checks and signs the design: the values as "
+                           "analysed, how the test windows were derived, stresses, ratings "
+                           "and plots. Nothing in it is needed at the bench.", kit.small),
+                      Spacer(1, 4)]
+            continue
         content = SECTIONS[name](design, kit)
         if content is None:
             continue
@@ -491,7 +553,10 @@ def _render(design: Design, job_text: str, results_text: str, job_dir: Path | No
         creator=f"sheetgen {__version__}", lang="en", initialFontName=fonts.REGULAR,
         leftMargin=MARGIN, rightMargin=MARGIN, topMargin=MARGIN, bottomMargin=MARGIN)
     doc.addPageTemplates([PageTemplate(
-        "sheet", [frame], pagesize=page_size,
-        onPage=lambda canvas, _doc: _draw_page_frame(canvas, identity, page_size, attached))])
+        template, [body_frame()], pagesize=page_size,
+        onPage=lambda canvas, _doc, part=part: _draw_page_frame(canvas, identity, page_size,
+                                                              attached, part))
+        for template, part in (("sheet", BUILD_PART if two_parts else ""),
+                               ("record", RECORD_PART))])
     doc.build(story, canvasmaker=_canvas_class(attachments, digest.digest()[:16], archive))
     return buffer.getvalue()

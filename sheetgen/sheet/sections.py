@@ -31,7 +31,7 @@ from sheetgen.design.records import Design
 from sheetgen.report.advice import rating_advice
 from sheetgen.report.cautions import DEFERRAL, design_cautions
 from sheetgen.report.formatting import quantity_text
-from sheetgen.report.parts import PART_COLUMNS, PartRow, part_rows
+from sheetgen.report.parts import NO_DATA, PART_COLUMNS, PartRow, part_rows
 from sheetgen.report.procedure import (
     OVERALL_VERDICT,
     RECORD_TEXT_FIELDS,
@@ -95,8 +95,8 @@ def make_kit(width: float, plan: Procedure) -> Kit:
         procedure=plan,
         body=ParagraphStyle("body", fontSize=9, leading=12, spaceAfter=4, **base),
         small=ParagraphStyle("small", fontSize=8, leading=10, **base),
-        cell=ParagraphStyle("cell", fontSize=8.5, leading=10.5, **base),
-        cell_bold=ParagraphStyle("cell_bold", fontSize=8.5, leading=10.5,
+        cell=ParagraphStyle("cell", fontSize=8, leading=9.8, **base),
+        cell_bold=ParagraphStyle("cell_bold", fontSize=8, leading=9.8,
                                  **{**base, "fontName": fonts.BOLD}),
         heading=ParagraphStyle("heading", fontSize=11.5, leading=14, spaceBefore=10,
                                spaceAfter=5, keepWithNext=1, **{**base, "fontName": fonts.BOLD}),
@@ -150,7 +150,7 @@ def rows_table(rows: list[Row], kit: Kit, heads=("Quantity", "Value", "Remark"))
 
 def parts_table(rows: list[PartRow], kit: Kit) -> Table:
     """The parts list, one row a part; long notes wrap, many parts continue on a new page."""
-    fractions = (0.07, 0.11, 0.11, 0.11, 0.11, 0.18, 0.05, 0.26)
+    fractions = (0.07, 0.09, 0.11, 0.11, 0.09, 0.21, 0.05, 0.27)
     data = [[para(h, kit.cell_bold) for h in PART_COLUMNS]]
     for row in rows:
         data.append([para(row.designator, kit.cell_bold), para(row.part, kit.cell),
@@ -235,26 +235,17 @@ def _coverage(design: Design) -> str:
 
 
 def parts_section(design: Design, kit: Kit) -> SectionContent:
-    return SectionContent("Parts list", [parts_table(part_rows(design), kit)])
-
-
-def values_section(design: Design, kit: Kit) -> SectionContent:
-    return SectionContent("Circuit values as analysed",
-                          [rows_table(component_rows(design), kit)])
-
-
-def coil_section(design: Design, kit: Kit) -> SectionContent | None:
-    rows = coil_rows(design)
-    if not rows:
-        return None
-    flowables: list = [rows_table(rows, kit)]
-    steps = winding_steps(design)
-    view = winding_view_of(design)
-    if view is not None:
-        flowables.append([para("Winding", kit.subheading), winding_drawing(view, kit.width),
-                          para(_winding_caption(view), kit.caption)])
-    elif steps:
-        flowables.append(para("Winding", kit.subheading))
+    """The parts to fit (those not fitted, the rest of the system, in one line below), then
+    the cutting list of a coil sheetgen designs."""
+    rows = part_rows(design)
+    fitted = [row for row in rows if row.quantity != NO_DATA]
+    flowables: list = [parts_table(fitted, kit)]
+    absent = [row for row in rows if row.quantity == NO_DATA]
+    if absent:
+        flowables.append(para(
+            "Not fitted, the rest of the system (the test set-up of the procedure stands in "
+            "for them): " + "; ".join(f"{row.designator} {row.value} {row.part.lower()}"
+                                      for row in absent) + ".", kit.caption))
     cuts = cutting_list(design)
     if cuts:
         data = [[para(h, kit.cell_bold) for h in ("Cut", "Wire", "Length", "Made of")]]
@@ -263,14 +254,41 @@ def coil_section(design: Design, kit: Kit) -> SectionContent | None:
                  for c in cuts]
         table = Table(data, colWidths=[kit.width * f for f in (0.16, 0.3, 0.12, 0.42)])
         table.setStyle(TableStyle(_grid_style()))
-        flowables.append([para("Cutting list", kit.subheading), table, Spacer(1, 4)])
+        flowables.append([para("Cutting list", kit.subheading), table])
+    return SectionContent("Parts list", flowables)
+
+
+def values_section(design: Design, kit: Kit) -> SectionContent:
+    return SectionContent("Circuit values as analysed",
+                          [rows_table(component_rows(design), kit)])
+
+
+def winding_section(design: Design, kit: Kit) -> SectionContent | None:
+    """How to wind the coil sheetgen designed, ending with its inductance check."""
+    steps = winding_steps(design)
+    if not steps:
+        return None
+    flowables: list = []
+    view = winding_view_of(design)
+    if view is not None:
+        flowables.append([winding_drawing(view, kit.width), para(_winding_caption(view),
+                                                                  kit.caption)])
     flowables += [_numbered(step.number, "", step.text, kit) for step in steps]
+    return SectionContent("Winding", flowables)
+
+
+def coil_section(design: Design, kit: Kit) -> SectionContent | None:
+    """The designed coil's data and its estimated Q (how to wind it is part one's)."""
+    rows = coil_rows(design)
+    if not rows:
+        return None
+    flowables: list = [rows_table(rows, kit)]
     drawing = coil_q_drawing(design, kit.width)
     if drawing is not None:
         flowables.append([
             drawing, para("The coil's estimated Q against frequency (a logarithmic scale); "
                         "dashed: f0.", kit.caption)])
-    return SectionContent("Coil", flowables)
+    return SectionContent("Coil data", flowables)
 
 
 def _winding_caption(view) -> str:
@@ -320,41 +338,72 @@ def _numbered(number: int, title: str, text: str, kit: Kit) -> Paragraph:
     return Paragraph(lead + escape(text), kit.step, bulletText=f"{number}.")
 
 
+def setup_section(design: Design, kit: Kit) -> SectionContent | None:
+    """Why the procedure's settings are what they are: the rows the bench does not need."""
+    rows = [(f"Step {step.number}: {label}", value)
+            for step in kit.procedure.steps for label, value in step.derivation]
+    if not rows:
+        return None
+    data = [[para(h, kit.cell_bold) for h in ("Step and setting", "Why, and what follows")]]
+    data += [[para(label, kit.cell), para(value, kit.cell)] for label, value in rows]
+    table = Table(data, colWidths=[kit.width * 0.3, kit.width * 0.7], repeatRows=1)
+    table.setStyle(TableStyle(_grid_style()))
+    return SectionContent("Test set-up: how the settings were derived", [table])
+
+
 def procedure_section(design: Design, kit: Kit) -> SectionContent:
     plan = kit.procedure
-    flowables: list = [CondPageBreak(200)]  # start the steps where a few of them fit
+    flowables: list = []
     for step in plan.steps:
         drawn = ()
         if step.key == "connect":
             drawn = (setup_drawing(setup_of(plan, design.designators, design.job.sheet.id),
                                    kit.width - 18),)
-        flowables.append(_step_block(step, kit, drawn))
+        flowables += _step_blocks(step, kit, drawn)
     if plan.full_power:
         flowables.append(para("Optional full-power run — the cautions of this sheet apply",
                               kit.heading))
-        flowables += [_step_block(step, kit) for step in plan.full_power]
+        for step in plan.full_power:
+            flowables += _step_blocks(step, kit)
     return SectionContent("Test procedure", flowables)
 
 
-def _step_block(step, kit: Kit, drawings: tuple = ()):
-    """A numbered step, then its settings table and any drawings, kept together."""
+def _step_blocks(step, kit: Kit, drawings: tuple = ()) -> list:
+    """A numbered step kept together with its settings table, then each drawing kept
+    together on its own (so a drawing that does not fit moves on alone)."""
     paragraph = _numbered(step.number, step.title, step.text, kit)
     extras = ([_settings_table(step.settings, kit)] if step.settings else []) + list(drawings)
     if not extras:
-        return paragraph
-    block = [paragraph]
-    for extra in extras:
-        block += [_Indent(extra, 18), Spacer(1, 6)]
-    return block
+        return [paragraph]
+    return ([[paragraph, _Indent(extras[0], 18), Spacer(1, 6)]]
+            + [[_Indent(extra, 18), Spacer(1, 6)] for extra in extras[1:]])
+
+
+SHORT_SETTING = 40  # characters: a value this short shares its row with another setting
 
 
 def _settings_table(settings: tuple[tuple[str, str], ...], kit: Kit) -> Table:
-    """A step's settings: what to set, and to what (short values keep a narrow column)."""
-    long_values = any(len(value) > 40 for _, value in settings)
-    widths = (0.34, 0.60) if long_values else (0.42, 0.30)
-    data = [[para(label, kit.cell), para(value, kit.cell_bold)] for label, value in settings]
-    table = Table(data, colWidths=[kit.width * w for w in widths], hAlign="LEFT")
-    table.setStyle(TableStyle(_grid_style(header=False)))
+    """A step's settings: what to set, and to what. Short values go two to a row; a long
+    value takes a row of its own."""
+    short = [row for row in settings if len(row[1]) <= SHORT_SETTING]
+    long = [row for row in settings if len(row[1]) > SHORT_SETTING]
+    if len(short) < 2:  # nothing to pair: label and value, one setting a row
+        widths = (0.34, 0.60) if long else (0.42, 0.30)
+        data = [[para(label, kit.cell), para(value, kit.cell_bold)]
+                for label, value in settings]
+        table = Table(data, colWidths=[kit.width * w for w in widths], hAlign="LEFT")
+        table.setStyle(TableStyle(_grid_style(header=False)))
+        return table
+    half = (len(short) + 1) // 2
+    left, right = short[:half], short[half:] + [("", "")] * (2 * half - len(short))
+    data = [[para(a, kit.cell), para(b, kit.cell_bold), para(c, kit.cell),
+             para(d, kit.cell_bold)] for (a, b), (c, d) in zip(left, right)]
+    spans = [("SPAN", (1, len(data) + i), (3, len(data) + i)) for i in range(len(long))]
+    data += [[para(label, kit.cell), para(value, kit.cell_bold), "", ""]
+             for label, value in long]
+    table = Table(data, colWidths=[kit.width * w for w in (0.25, 0.22, 0.25, 0.22)],
+                  hAlign="LEFT")
+    table.setStyle(TableStyle(_grid_style(header=False) + spans))
     return table
 
 
@@ -379,25 +428,29 @@ def record_section(design: Design, kit: Kit) -> SectionContent:
     data.append([para("Overall", kit.cell_bold), para("every value in its window", kit.cell),
                  "", *([""] if tuned else []), "",
                  *[RadioChoice(OVERALL_VERDICT, c, f"overall: {c}") for c in VERDICT_CHOICES]])
-    fractions = ((0.21, 0.12, 0.18, 0.14, 0.15, 0.10, 0.10) if tuned else
-                 (0.25, 0.13, 0.20, 0.22, 0.10, 0.10))
+    fractions = ((0.19, 0.11, 0.23, 0.11, 0.19, 0.085, 0.085) if tuned else
+                 (0.24, 0.12, 0.26, 0.22, 0.08, 0.08))
     table = Table(data, colWidths=[kit.width * f for f in fractions], repeatRows=1)
     verdict_column = len(heads) - 2
     table.setStyle(TableStyle(_grid_style() + [
         ("VALIGN", (0, 1), (-1, -1), "MIDDLE"),
         ("SPAN", (verdict_column, 0), (verdict_column + 1, 0))]))
-    people = [[para(RECORD_TEXT_LABELS[name], kit.cell_bold),
-               TextField(name, RECORD_TEXT_LABELS[name],
-                         height=34 if name in ("record.remarks", "record.instruments") else 15,
-                         multiline=name in ("record.remarks", "record.instruments"),
-                         max_length=2000)]
-              for name in RECORD_TEXT_FIELDS]
-    signature = [[para("Technician's signature", kit.cell_bold), ""]]
-    sign = Table(people + signature, colWidths=[kit.width * 0.36, kit.width * 0.64],
-                 rowHeights=[None] * len(people) + [26])
-    sign.setStyle(TableStyle(_grid_style(header=False) + [("VALIGN", (0, 0), (-1, -1),
-                                                          "MIDDLE")]))
-    return SectionContent("Test record", [[table, Spacer(1, 8), sign]])
+    wide = ("record.instruments", "record.remarks")  # a whole row each, several lines
+    short = [[para(RECORD_TEXT_LABELS[name], kit.cell_bold),
+              TextField(name, RECORD_TEXT_LABELS[name], height=15, max_length=2000)]
+             for name in RECORD_TEXT_FIELDS if name not in wide]
+    short.append([para("Technician's signature", kit.cell_bold), ""])
+    people = [a + b for a, b in zip(short[0::2], short[1::2])]
+    spans = [("SPAN", (1, len(people) + i), (3, len(people) + i)) for i in range(len(wide))]
+    people += [[para(RECORD_TEXT_LABELS[name], kit.cell_bold),
+                TextField(name, RECORD_TEXT_LABELS[name], height=28, multiline=True,
+                          max_length=2000), "", ""] for name in wide]
+    sign = Table(people, colWidths=[kit.width * f for f in (0.22, 0.28, 0.22, 0.28)],
+                 rowHeights=[None] * (len(people) - len(wide) - 1) + [24]
+                 + [None] * len(wide))
+    sign.setStyle(TableStyle(_grid_style(header=False) + spans
+                             + [("VALIGN", (0, 0), (-1, -1), "MIDDLE")]))
+    return SectionContent("Test record", [table, [Spacer(1, 8), sign]])
 
 
 def rework_section(design: Design, kit: Kit) -> SectionContent:
@@ -444,6 +497,8 @@ SECTIONS: dict[str, Callable[[Design, Kit], SectionContent | None]] = {
     "parts": parts_section,
     "values": values_section,
     "coil": coil_section,
+    "winding": winding_section,
+    "setup": setup_section,
     "performance": performance_section,
     "limits": limits_section,
     "stress": stress_section,
@@ -480,7 +535,7 @@ def with_heading(heading: Paragraph, items: list) -> list:
     return out
 
 
-TABLE_ROWS_KEPT = 3  # rows a split leaves at least on each page (besides a repeated header)
+TABLE_ROWS_KEPT = 2  # rows a split leaves at least on each page (besides a repeated header)
 
 
 def _splittable(table: Table) -> Table:

@@ -30,9 +30,10 @@ pytestmark = pytest.mark.pdf
 def demo(tmp_path_factory):
     pdf = build_sheet(tmp_path_factory.mktemp("reading"), "demo")
     windows = printed_windows(pdf)
-    assert windows["measured.f_low_hz"] == ("7.00900", "7.04300", "MHz")
-    assert windows["measured.f_high_hz"] == ("7.15900", "7.19300", "MHz")
-    assert windows["measured.bandwidth_hz"] == ("136.0", "163.0", "kHz")
+    # printed to the windows' 1 kHz resolution, no finer (issue 21)
+    assert windows["measured.f_low_hz"] == ("7.009", "7.043", "MHz")
+    assert windows["measured.f_high_hz"] == ("7.159", "7.193", "MHz")
+    assert windows["measured.bandwidth_hz"] == ("136", "163", "kHz")
     assert windows["measured.q_loaded"] == ("43.60", "52.10", "")
     return pdf
 

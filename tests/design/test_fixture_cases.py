@@ -129,7 +129,7 @@ def test_tank_145mhz_chip_feed_and_probe(tmp_path):
     chip = abs((1j * w * 1e-9 + 1960 / (1 + 1j * w * 1960 * 0.05e-12)) / 1960 - 1)
     assert chip < 0.10
     assert bench.receiver.hookup.kind == "probe"
-    settings = dict(next(s for s in procedure(d).steps if s.key == "connect").settings)
+    settings = dict(next(s for s in procedure(d).steps if s.key == "connect").all_settings)
     assert settings["Generator hookup"].startswith("R2 1.96 kΩ")
     assert "0603 chip" in settings["Generator hookup"]
     assert "active probe" in settings["Receiver hookup"]
@@ -144,7 +144,7 @@ def test_a_receiver_below_its_noise_floor_is_said_so(tmp_path):
                     encoding="utf-8")
     d = design_from_file(path)
     assert not d.bench.readable
-    settings = dict(next(s for s in procedure(d).steps if s.key == "connect").settings)
+    settings = dict(next(s for s in procedure(d).steps if s.key == "connect").all_settings)
     assert "less than the 20 dB needed" in settings["Receiver reading"]
 
 
@@ -205,6 +205,6 @@ def test_a_resistor_with_no_alternative_is_not_called_a_resistor(tmp_path):
     d = design_from_file(path)
     assert 1 / (2 * math.pi * d.resonance.f_peak_hz * 0.05e-12) < 25e3
     assert not d.bench.receiver_effect.negligible
-    settings = dict(next(s for s in procedure(d).steps if s.key == "connect").settings)
+    settings = dict(next(s for s in procedure(d).steps if s.key == "connect").all_settings)
     assert "more than allowed" in settings["Fixture resistors"]
     assert "so each is a resistor" not in settings["Fixture resistors"]

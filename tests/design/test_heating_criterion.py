@@ -8,6 +8,7 @@ ASTM B258 AWG 14, 1.628 mm (from memory); 4 A/mm² for enamelled windings in fre
 """
 
 import math
+from pathlib import Path
 
 from sheetgen.design.pipeline import design_from_file
 from tests.support import assert_close
@@ -88,3 +89,15 @@ def test_the_coil_finish_stands_the_worst_case(tmp_path):
     assert 15.0 + d.coil.result.temperature_rise_k < 50.0 < 15.0 + d.coil_at_worst.temperature_rise_k
     text = coil_finish_text(d)
     assert "do not use wax" in text and "with the load open" in text
+
+
+def test_the_finish_says_where_the_heat_comes_from():
+    """The demo's coil warms by millikelvins; its 50 °C is the job's hottest ambient
+    (templates/demo.yaml). The finish text must not say the coil "makes" 50 °C: it names
+    the ambient and the coil's own rise, which add up to the surface figure."""
+    from sheetgen.report.winding import coil_finish_text
+    d = design_from_file(Path(__file__).resolve().parents[2] / "templates" / "demo.yaml",
+                         Path(__file__).resolve().parents[2] / "shared")
+    text = coil_finish_text(d)
+    assert "makes" not in text
+    assert "a 50.0 °C ambient" in text and "mK of its own heat" in text, text

@@ -19,7 +19,6 @@ import pytest
 from sheetgen.design.pipeline import design_from_file
 from sheetgen.engine import bench
 from sheetgen.engine.bench import HALF_POWER_DB, dbm_from_emf, nice_at_least, nice_at_most
-from sheetgen.report.formatting import range_text
 from sheetgen.report.procedure import form_field_names, procedure
 from sheetgen.report.results import results_document
 from tests.support import assert_close
@@ -171,7 +170,7 @@ def test_an_ideal_current_source_is_fed_through_a_small_coupling_capacitor(tmp_p
     assert_close(source.capacitance_f, nearest, rel=1e-9)
     assert_close(d.bench.circuit.source_capacitance_f, nearest, rel=1e-12)
     assert d.bench.circuit.source_resistance_ohm == 50.0
-    settings = dict(next(s for s in procedure(d).steps if s.key == "connect").settings)
+    settings = dict(next(s for s in procedure(d).steps if s.key == "connect").all_settings)
     assert settings["Generator hookup"].startswith("C3 33 pF C0G"), settings["Generator hookup"]
 
 
@@ -198,7 +197,7 @@ def test_a_parallel_load_is_a_resistor_into_the_receiver(tmp_path):
     fixture = res["test_record"]["fixture"]
     assert_close(fixture["circuit"]["load_resistance_ohm"], port.resistor_ohm + 50, rel=1e-12)
     settings = dict(next(s for s in procedure(d).steps
-                         if s.title == "Connect the test set-up").settings)
+                         if s.title == "Connect the test set-up").all_settings)
     from sheetgen.quantities import format_quantity
     assert (f"R4 {format_quantity(port.resistor_ohm, 'Ω', 3)} ± 1.00 % (IEC 60063 E96)"
             in settings["Receiver hookup"]), "numbered on after the unit's R1 and R2"
@@ -209,7 +208,7 @@ def test_the_lcr_level_drives_a_small_flux_in_a_ring_core(tmp_path):
     results' turns and the core's Ae."""
     d, res = _design(tmp_path, "demo")
     coil = next(s for s in procedure(d).steps if s.title == "Measure the coil")
-    settings = dict(coil.settings)
+    settings = dict(coil.all_settings)
     f = 1e6
     assert settings["LCR meter frequency"] == "1.00 MHz"
     ae = d.coil.result.effective.ae_m2
@@ -265,8 +264,14 @@ def test_steps_are_numbered_and_name_the_settings(tmp_path):
     assert recorded == value_fields, "every value field is filled by a step, and no other"
     windows = {row.measurement.key: row.limits for row in plan.record}
     lim = res["limits"]
-    assert windows["f0"] == (f"{format_quantity(lim['f_peak_min_hz'], 'Hz', 6)} to "
-                             f"{format_quantity(lim['f_peak_max_hz'], 'Hz', 6)}")
+    # Printed to the bench's resolution, no finer: the windows are rounded outward to
+    # 1 kHz (limits.resolution_hz), so 7.088 MHz shows its kHz digit and nothing after it
+    # (hand-worked: log10 7.088e6 → 6, log10 1e3 → 3: 6 − 3 + 1 = 4 figures).
+    assert lim["resolution_hz"] == 1e3
+    assert windows["f0"] == (f"{format_quantity(lim['f_peak_min_hz'], 'Hz', 4)} to "
+                             f"{format_quantity(lim['f_peak_max_hz'], 'Hz', 4)}")
+    low, high = (float(text.split()[0]) * 1e6 for text in windows["f0"].split(" to "))
+    assert (low, high) == (lim["f_peak_min_hz"], lim["f_peak_max_hz"]), "nothing lost"
 
 
 def test_a_trimmed_unit_is_recorded_as_found_and_as_left(tmp_path):
@@ -323,11 +328,83 @@ def test_broad_peaks_are_read_at_the_centre_of_the_half_power_points(name, broad
     steps = {s.title: s.text for s in procedure(d).steps}
     rows = {row.measurement.key: row for row in procedure(d).record}
     lim = d.assessment.limits
+    tuning = steps.get("Tune") or steps["Trim if needed"]
     if broad:
         assert d.resonance.q_loaded < 20
         assert "midpoint of the two −3 dB points" in steps["Find the response maximum"]
-        assert rows["f0"].limits.startswith(
-            range_text(lim.f_centre_min_hz, lim.f_centre_max_hz, "Hz", 6))
+        assert rows["f0"].limits.startswith(_at_resolution(
+            lim.f_centre_min_hz, lim.f_centre_max_hz, lim.resolution_hz))
+        # the tuning step aims at what step 7 records, not at a maximum too flat to read
+        assert "midpoint of the −3 dB points" in tuning and "maximum" not in tuning
     else:
         assert "midpoint" not in steps["Find the response maximum"]
-        assert rows["f0"].limits == range_text(lim.f_peak_min_hz, lim.f_peak_max_hz, "Hz", 6)
+        assert rows["f0"].limits == _at_resolution(lim.f_peak_min_hz, lim.f_peak_max_hz,
+                                                   lim.resolution_hz)
+        assert "response maximum" in tuning
+
+
+def _at_resolution(low: float, high: float, resolution: float) -> str:
+    """A window printed so its last figure is the resolution's (hand rule: figures =
+    ⌊log10 value⌋ − ⌊log10 resolution⌋ + 1)."""
+    import math
+
+    from sheetgen.quantities import format_quantity
+
+    def text(value: float) -> str:
+        digits = math.floor(math.log10(value)) - math.floor(math.log10(resolution)) + 1
+        return format_quantity(value, "Hz", digits)
+    return f"{text(low)} to {text(high)}"
+
+
+@pytest.mark.parametrize("name", ["series", "parallel", "toroid", "solenoid", "power-tank",
+                                  "demo"])
+def test_the_record_and_the_limits_table_print_the_same_figures(name):
+    """One value, one wording: the test record's expected values and pass windows are the
+    very strings the design record's limits table prints (before, the table printed the
+    computed part windows, 4.094 µH to 4.617 µH, and the record those rounded inward,
+    4.095 µH to 4.616 µH; and the nominal f0 to six figures beside a record of four)."""
+    from sheetgen.report.rows import limits_rows
+    d = design_from_file(TEMPLATES / f"{name}.yaml", SHARED)
+    table = {row.label: row for row in limits_rows(d)}
+    record = {row.measurement.key: row for row in procedure(d).record}
+    broad = d.bench.resonance.q_loaded < 20
+    f0_row = table["Centre frequency window" if broad else "Peak frequency window"]
+    assert record["f0"].limits.startswith(f0_row.value)
+    assert f"nominal {record['f0'].expected}" in f0_row.remark
+    for key, label in (("f_low", "Lower half-power point window"),
+                       ("f_high", "Upper half-power point window"),
+                       ("bandwidth", "Bandwidth window")):
+        assert record[key].limits == table[label].value, key
+        assert table[label].remark == f"nominal {record[key].expected}", key
+    assert record["q_loaded"].limits == table["Loaded Q window"].value
+    assert table["Loaded Q window"].remark == f"nominal {record['q_loaded'].expected}"
+    for key, label in (("inductance", "Inductance window"),
+                       ("capacitance", "Capacitance window")):
+        if label in table:
+            assert record[key].limits.startswith(table[label].value + " ("), key
+
+
+def test_one_capacitor_is_not_measured_together():
+    """"Together" is for several fixed parts (the toroid starter's C1 + C2); the series
+    starter fits C1 alone. The LCR step states its frequency rule itself: a bought coil's
+    sheet has no coil section to point at."""
+    texts = {}
+    for name in ("series", "toroid"):
+        d = design_from_file(TEMPLATES / f"{name}.yaml", SHARED)
+        steps = {s.key: s for s in procedure(d).steps}
+        texts[name] = steps["capacitance"].text
+        why = dict(steps["coil"].all_settings).get("Why this setting", "")
+        assert "coil section" not in why and "at or below f0" in why, why
+    assert "Measure C1 as it will be fitted" in texts["series"]
+    assert "together" not in texts["series"]
+    assert "Measure C1 + C2 together" in texts["toroid"]
+
+
+def test_trimming_scales_the_whole_capacitance_with_its_strays():
+    """f0 = 1/(2π√(LC)) scales the whole capacitance across the coil, strays included:
+    on the series starter (C1 12 pF, 2 pF of strays) a reading 1 % high needs
+    (12 + 2) × 1.01² − 2 = 12.28 pF, not 12 × 1.01² = 12.24 pF (hand-worked)."""
+    d = design_from_file(TEMPLATES / "series.yaml", SHARED)
+    trim = next(s for s in procedure(d).steps if s.key == "tune")
+    assert trim.title == "Trim if needed"
+    assert "(12.00 pF + 2.000 pF) × (f measured / f wanted)² − 2.000 pF" in trim.text

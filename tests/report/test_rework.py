@@ -48,3 +48,16 @@ def test_every_record_value_has_a_disposition_and_a_stop_rule():
     assert [r.key for r in rework_rows(design)] == ["inductance", "capacitance", "f0",
                                                     "bandwidth"]
     assert "return the unit to engineering" in RETURN_TO_ENGINEERING
+
+
+def test_the_turn_count_rule_fits_the_coil_form():
+    """A ring core's turn is a pass through its hole; a solenoid's is a full turn round the
+    former, which has no centre to pass through (before, the solenoid starter printed the
+    ring-core rule)."""
+    for name, own, other in (("toroid", "each pass through the centre is one",
+                              "round the former"),
+                             ("solenoid", "each full turn round the former is one",
+                              "pass through the centre")):
+        design = design_from_file(ROOT / "templates" / f"{name}.yaml", ROOT / "shared")
+        inductance = next(r for r in rework_rows(design) if r.key == "inductance")
+        assert own in inductance.actions and other not in inductance.actions, name

@@ -10,6 +10,7 @@ qpdf and pypdf. Page sizes: ISO 216 (A4) and ANSI/ASME Y14.1 (Letter).
 from __future__ import annotations
 
 import io
+import math
 import os
 import re
 import subprocess
@@ -148,8 +149,9 @@ def shown(path: str, key: str, value, results: dict) -> str | None:
         entry = results["test_record"]["values"][int(record.group(1))]
         if not entry["unit"]:
             return format_number(value, 4)
-        digits = 6 if entry["unit"] == "Hz" and entry["quantity"] != "bandwidth_hz" else 4
-        return format_quantity(value, entry["unit"], digits)
+        if entry["unit"] == "Hz":
+            return _at_resolution(value, results)
+        return format_quantity(value, entry["unit"], 4)
     if path == "inductor.core_loss_resistance_ohm" and results["inductor"]["form"] != "toroid":
         return None  # an air-core coil has no core loss to print
     if key == "ae_m2":
@@ -167,7 +169,9 @@ def shown(path: str, key: str, value, results: dict) -> str | None:
     if re.fullmatch(r"limits\.(bench_)?temperature_(min|max)_c|"
                     r"limits\.over_temperature\.temperature_(min|max)_c", path):
         return f"{value:g}"
-    if re.fullmatch(r"limits\.(f_centre|untrimmed_f0)_(min|max)_hz|"
+    if re.fullmatch(r"limits\.f_centre_(min|max)_hz", path):
+        return _at_resolution(value, results)
+    if re.fullmatch(r"limits\.untrimmed_f0_(min|max)_hz|"
                     r"limits\.over_temperature\.(f0|f_peak)_(min|max)_hz", path):
         return format_quantity(value, "Hz", 6)
     if re.fullmatch(r"limits\.over_temperature\.q_loaded_(min|max)", path):
@@ -186,8 +190,9 @@ def shown(path: str, key: str, value, results: dict) -> str | None:
         return None if results["limits"]["trimmer_covers"] else f"{value * 100:.1f} %"
     if path in ("limits.f0_min_hz", "limits.f0_max_hz", "limits.f_peak_min_hz",
                 "limits.f_peak_max_hz", "limits.f_low_min_hz", "limits.f_low_max_hz",
-                "limits.f_high_min_hz", "limits.f_high_max_hz"):
-        return format_quantity(value, "Hz", 6)
+                "limits.f_high_min_hz", "limits.f_high_max_hz", "limits.bandwidth_min_hz",
+                "limits.bandwidth_max_hz"):
+        return _at_resolution(value, results)
     if path in ("limits.q_loaded_min", "limits.q_loaded_max", "limits.q_unloaded_min",
                 "limits.q_unloaded_max"):
         return format_number(value, 4)
@@ -251,6 +256,8 @@ def _fixture_text(path: str, key: str, value, results: dict):
         return format_quantity(value, "F", 3)
     if path == "test_record.fixture.circuit.capacitance_f":
         return format_quantity(value, "F", 4)
+    if path == "test_record.fixture.resonance.bandwidth_hz":
+        return _at_resolution(value, results)  # the record's expected bandwidth
     if path == "test_record.fixture.resonance.f_peak_hz":
         q = results["test_record"]["fixture"]["resonance"]["q_loaded"]
         trimmed = results["components"]["capacitor_build"]["trimmer_setting_f"] is not None
@@ -259,6 +266,14 @@ def _fixture_text(path: str, key: str, value, results: dict):
         return format_number(value, 4)
     unit = {"ohm": "Ω", "hz": "Hz", "v": "V"}[key.rsplit("_", 1)[1]]
     return format_quantity(value, unit, 4)
+
+
+def _at_resolution(value: float, results: dict) -> str:
+    """A bench frequency printed to the windows' resolution, no finer (hand rule: figures =
+    ⌊log10 value⌋ − ⌊log10 resolution⌋ + 1; 3.544 MHz at 1 kHz)."""
+    resolution = results["limits"]["resolution_hz"]
+    digits = math.floor(math.log10(value)) - math.floor(math.log10(resolution)) + 1
+    return format_quantity(value, "Hz", max(digits, 1))
 
 
 def expected_strings(results: dict) -> list[tuple[str, str]]:
