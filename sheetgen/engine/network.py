@@ -139,20 +139,9 @@ class Network:
                       for p in self.parts)
         return Network(parts, self.source, self.response, self.load)
 
-    def replaced(self, *parts: Part) -> Network:
-        """A copy with the parts of the same names replaced by these."""
-        by_name = {p.name: p for p in parts}
-        return Network(tuple(by_name.get(p.name, p) for p in self.parts), self.source,
-                       self.response, self.load)
-
 
 _MAIN_VALUE = {Resistor: "resistance_ohm", Capacitor: "capacitance_f", Coil: "inductance_h",
                MutualCoupling: "k", TurnsRatio: "ratio"}
-
-
-def main_value(part: Part):
-    """The value that names the part: R, C, L, k or the turns ratio."""
-    return getattr(part, _MAIN_VALUE[type(part)])
 
 
 def _with_main_value(part: Part, value) -> Part:
@@ -219,7 +208,7 @@ def _terminals(part: Part) -> tuple[str, ...]:
     return part.a, part.b
 
 
-def _value_shape(network: Network) -> tuple[int, ...]:
+def value_shape(network: Network) -> tuple[int, ...]:
     """The broadcast shape of every part value (the trials' shape; () for one circuit)."""
     shapes = [np.shape(v) for part in network.parts for v in _values(part)]
     if network.source.resistance_ohm is not None:
@@ -251,7 +240,7 @@ class Stamps:
 def stamps(network: Network) -> Stamps:
     """The MNA matrices of the network (stamping rules of Ho, Ruehli & Brennan, 1975)."""
     ix = network.index
-    shape = _value_shape(network)
+    shape = value_shape(network)
     n = ix.size
     a0 = np.zeros(shape + (n, n))
     a1 = np.zeros(shape + (n, n))

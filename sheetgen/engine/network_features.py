@@ -22,7 +22,7 @@ from typing import Literal
 
 import numpy as np
 
-from sheetgen.engine.network import Network, Solution, solve
+from sheetgen.engine.network import Network, Solution, solve, value_shape
 from sheetgen.engine.roots import safe_newton_active
 
 # A quantity: (value, d/dω, d²/dω²) of a complex function of the solution (derivatives None
@@ -79,12 +79,6 @@ def evaluate(network: Network, f_hz, quantity: Quantity = response_quantity,
              per_trial: bool = False) -> np.ndarray:
     """The complex quantity at f_hz (a grid shared by the trials, or one per trial)."""
     return quantity(solve(network, f_hz, per_trial=per_trial))[0]
-
-
-def _power_and_slopes(network: Network, quantity: Quantity, u: np.ndarray, order: int):
-    """|H|², d|H|²/du and (order 2) d²|H|²/du² at f = e^u, one frequency per trial."""
-    f = np.exp(u)
-    return _slopes(*quantity(solve(network, f, derivatives=order, per_trial=True)), f, order)
 
 
 def _slopes(h, h1, h2, f, order: int):
@@ -214,8 +208,7 @@ def extremum(network: Network, low_hz, high_hz, *, kind: Literal["max", "min"] =
 
 
 def _trial_shape(network: Network, *arrays) -> tuple[int, ...]:
-    from sheetgen.engine.network import _value_shape
-    return np.broadcast_shapes(_value_shape(network), *(np.shape(a) for a in arrays))
+    return np.broadcast_shapes(value_shape(network), *(np.shape(a) for a in arrays))
 
 
 def _expanded(network: Network) -> Network:
